@@ -1,0 +1,68 @@
+"""The ``fieldlog`` command line: one subcommand per module in :mod:`fieldlog.commands`.
+
+stdout carries data, stderr carries diagnostics. Exit codes: 0 ok, 1 a problem was found
+(a late job is not a problem; a broken log is), 2 bad input. A mistake a user can make is one
+line on stderr, never a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+from collections.abc import Sequence
+from datetime import date
+
+from fieldlog import __version__
+from fieldlog.errors import FieldlogError
+
+COMMANDS = ("schedule", "lookahead", "record", "report", "verify", "sync", "sites", "open", "demo")
+"""Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
+
+EXIT_OK, EXIT_PROBLEM, EXIT_BAD_INPUT = 0, 1, 2
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that exits 2 with one line (its default, kept explicit for the contract)."""
+
+    def error(self, message: str) -> None:  # type: ignore[override]
+        self.exit(EXIT_BAD_INPUT, f"fieldlog: {message} (see 'fieldlog {self._sub()} --help')\n")
+
+    def _sub(self) -> str:
+        return self.prog.split(" ", 1)[1] if " " in self.prog else ""
+
+
+def iso_date(text: str) -> date:
+    """argparse type for YYYY-MM-DD dates."""
+    try:
+        return date.fromisoformat(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"'{text}' is not a date like 2026-03-02") from None
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The full parser with every subcommand registered."""
+    parser = _Parser(prog="fieldlog", description=__doc__.splitlines()[0])
+    parser.add_argument("--version", action="version", version=f"fieldlog {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+    for name in COMMANDS:
+        module = importlib.import_module(f"fieldlog.commands.{name}")
+        module.add_parser(sub)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit code."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    try:
+        return int(args.run(args))
+    except FieldlogError as exc:
+        print(f"fieldlog: {exc.message}", file=sys.stderr)
+        return exc.exit_code
+    except KeyboardInterrupt:
+        print("fieldlog: interrupted", file=sys.stderr)
+        return 130
+    except BrokenPipeError:
+        return EXIT_OK

@@ -1,0 +1,135 @@
+"""Print a schedule: a float list a foreman can read, JSON for other tools, CSV for the office.
+
+Text is sorted by total float (critical and late first), then early start, then id, so the
+activities that decide the finish are at the top. Bytes are deterministic: the same schedule
+prints the same file on every platform (``\\n`` line ends).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from datetime import date
+
+from fieldlog.progress import Status
+from fieldlog.schedule_result import ActivityResult, ScheduleResult
+
+FORMATS = ("text", "json", "csv")
+
+CSV_COLUMNS = (
+    "id", "name", "status", "early_start", "early_finish", "late_start", "late_finish",
+    "total_float", "free_float", "critical", "actual_start", "actual_finish", "remaining",
+)
+
+
+def render_schedule(result: ScheduleResult, fmt: str) -> str:
+    """The schedule in ``fmt`` (one of :data:`FORMATS`)."""
+    if fmt == "json":
+        return json.dumps(schedule_json(result), indent=2) + "\n"
+    if fmt == "csv":
+        return _csv(result)
+    return _text(result)
+
+
+def _iso(d: date | None) -> str | None:
+    return d.isoformat() if d else None
+
+
+def activity_json(r: ActivityResult) -> dict:
+    """One activity as the JSON contract has it (ISO dates, null where none)."""
+    return {
+        "id": r.id, "name": r.name, "status": r.status.value,
+        "early_start": _iso(r.early_start), "early_finish": _iso(r.early_finish),
+        "late_start": _iso(r.late_start), "late_finish": _iso(r.late_finish),
+        "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
+        "actual_start": _iso(r.actual_start), "actual_finish": _iso(r.actual_finish),
+        "remaining": r.remaining,
+        "driving_path": r.on_driving_path, "driven_by": r.driven_by,
+        "calendar": r.calendar, "overdue_update": r.overdue,
+    }
+
+
+def schedule_json(result: ScheduleResult) -> dict:
+    """The ``fieldlog schedule --format json`` document."""
+    return {
+        "site": result.site.name, "revision": result.site.revision,
+        "as_of": result.as_of.isoformat(), "data_date": result.data_date.isoformat(),
+        "finish": result.finish.isoformat(),
+        "finish_by": _iso(result.site.finish_by),
+        "finish_float": result.finish_float,
+        "driving_path": list(result.driving_path),
+        "out_of_sequence": [o.describe() for o in result.out_of_sequence],
+        "activities": [activity_json(r) for r in result.activities],
+    }
+
+
+def _csv(result: ScheduleResult) -> str:
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(CSV_COLUMNS)
+    for r in result.activities:
+        row = activity_json(r)
+        w.writerow(["" if row[c] is None else row[c] for c in CSV_COLUMNS])
+    return buf.getvalue()
+
+
+def sort_key(r: ActivityResult) -> tuple:
+    """Float list order: open work by float then start; finished work last."""
+    if r.status is Status.FINISHED:
+        return (1, 0, r.actual_finish or date.min, r.id)
+    return (0, r.total_float, r.early_start or date.min, r.id)
+
+
+_MARK = {Status.FINISHED: "done", Status.IN_PROGRESS: "on", Status.NOT_STARTED: ""}
+
+
+def _text(result: ScheduleResult) -> str:
+    site = result.site
+    lines = [
+        f"{site.name} - schedule revision {site.revision}",
+        f"Status as of end of {result.as_of:%a %d %b %Y}; data date {result.data_date:%a %d %b %Y}",
+        _finish_line(result),
+        "",
+        f"{'':2}{'ID':<10} {'Activity':<30} {'State':<5} {'Start':<9} {'Finish':<9} "
+        f"{'Late fin':<9} {'TF':>4} {'FF':>3} {'Rem':>3}",
+        "-" * 92,
+    ]
+    for r in sorted(result.activities, key=sort_key):
+        flag = "!!" if r.late else ("* " if r.critical else ("> " if r.on_driving_path else "  "))
+        start = r.actual_start if r.status is not Status.NOT_STARTED else r.early_start
+        lines.append(
+            f"{flag}{r.id:<10.10} {r.name:<30.30} {_MARK[r.status]:<5} {_d(start):<9} "
+            f"{_d(r.actual_finish or r.early_finish):<9} {_d(r.late_finish):<9} "
+            f"{_n(r.total_float):>4} {_n(r.free_float):>3} {r.remaining:>3}"
+        )
+    lines += [
+        "",
+        "!! late (negative float)   * critical   > on the driving path   "
+        "TF/FF total/free float, Rem remaining (working days)",
+    ]
+    for o in result.out_of_sequence:
+        lines.append(f"Out of sequence: {o.describe()}")
+    if result.paths_differ:
+        lines.append("Note: with several calendars the driving path and the lowest-float "
+                     "activities differ; both are marked.")
+    return "\n".join(line.rstrip() for line in lines) + "\n"
+
+
+def _finish_line(result: ScheduleResult) -> str:
+    text = f"Forecast finish {result.finish:%a %d %b %Y}"
+    if result.site.finish_by is not None and result.finish_float is not None:
+        ff = result.finish_float
+        state = "on time" if ff >= 0 else "LATE"
+        text += (f"; required {result.site.finish_by:%a %d %b %Y}: {state}, "
+                 f"{abs(ff)} working day{'s' if abs(ff) != 1 else ''} "
+                 f"{'to spare' if ff >= 0 else 'behind'}")
+    return text
+
+
+def _d(d: date | None) -> str:
+    return d.strftime("%d %b %y") if d else ""
+
+
+def _n(v: int | None) -> str:
+    return "" if v is None else str(v)

@@ -1,0 +1,62 @@
+"""A site folder brought to life: the site, its journal, and the schedule as of a day.
+
+This is the one place that reads files and wires the pure core together, so that the CLI and
+the app ask the same question the same way: "what does this site look like as of day D?"
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from datetime import date, timedelta
+from pathlib import Path
+
+from fieldlog.cpm import compute_schedule
+from fieldlog.journal import Journal, Replay, read_journal, replay
+from fieldlog.model import Site
+from fieldlog.readiness import holds
+from fieldlog.schedule_result import ScheduleResult
+from fieldlog.site_files import load_site
+
+
+@dataclass(frozen=True)
+class SiteState:
+    """A site as of the end of ``as_of``: its files, journal replay and schedule."""
+
+    folder: Path
+    site: Site
+    journal: Journal
+    replay: Replay
+    schedule: ScheduleResult
+
+    @property
+    def as_of(self) -> date:
+        """The status date (end of day)."""
+        return self.schedule.as_of
+
+
+def default_status_date(site: Site, journal: Journal) -> date:
+    """The last day with log entries, or the day before the site start when there are none."""
+    return journal.last_day or site.start - timedelta(days=1)
+
+
+def load_state(folder: Path | str, as_of: date | None = None) -> SiteState:
+    """Load ``folder`` and schedule it as of ``as_of`` (default: :func:`default_status_date`).
+
+    Raises:
+        SiteError: the site files are wrong.
+        JournalError: the log cannot be read.
+    """
+    folder = Path(folder)
+    site = load_site(folder)
+    journal = read_journal(folder)
+    return state_for(folder, site, journal, as_of)
+
+
+def state_for(folder: Path, site: Site, journal: Journal, as_of: date | None = None) -> SiteState:
+    """Schedule an already-loaded site and journal as of ``as_of``."""
+    status = as_of or default_status_date(site, journal)
+    rp = replay(site, journal.entries, status)
+    result = compute_schedule(
+        site, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
+    )
+    return SiteState(folder=folder, site=site, journal=journal, replay=rp, schedule=result)
