@@ -70,8 +70,17 @@ def _csv(result: ScheduleResult) -> str:
     w.writerow(CSV_COLUMNS)
     for r in result.activities:
         row = activity_json(r)
-        w.writerow(["" if row[c] is None else row[c] for c in CSV_COLUMNS])
+        w.writerow([_csv_cell(row[c]) for c in CSV_COLUMNS])
     return buf.getvalue()
+
+
+def _csv_cell(value: object) -> object:
+    """Spreadsheet-friendly cell: empty for none, lowercase true/false for flags."""
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    return value
 
 
 def sort_key(r: ActivityResult) -> tuple:
@@ -86,34 +95,38 @@ _MARK = {Status.FINISHED: "done", Status.IN_PROGRESS: "on", Status.NOT_STARTED: 
 
 def _text(result: ScheduleResult) -> str:
     site = result.site
+    idw = max([10, *(len(r.id) for r in result.activities)])
+    head = (f"{'':2}{'ID':<{idw}} {'Activity':<30} {'State':<5} {'Start':<9} {'Finish':<9} "
+            f"{'Late fin':<9} {'TF':>4} {'FF':>3} {'Rem':>3}")
     lines = [
         f"{site.name} - schedule revision {site.revision}",
         f"Status as of end of {result.as_of:%a %d %b %Y}; data date {result.data_date:%a %d %b %Y}",
         _finish_line(result),
         "",
-        f"{'':2}{'ID':<10} {'Activity':<30} {'State':<5} {'Start':<9} {'Finish':<9} "
-        f"{'Late fin':<9} {'TF':>4} {'FF':>3} {'Rem':>3}",
-        "-" * 92,
+        head,
+        "-" * len(head),
     ]
     for r in sorted(result.activities, key=sort_key):
-        flag = "!!" if r.late else ("* " if r.critical else ("> " if r.on_driving_path else "  "))
+        flag = ("!" if r.late else "*" if r.critical else " ") + (">" if r.on_driving_path else " ")
         start = r.actual_start if r.status is not Status.NOT_STARTED else r.early_start
         lines.append(
-            f"{flag}{r.id:<10.10} {r.name:<30.30} {_MARK[r.status]:<5} {_d(start):<9} "
+            f"{flag}{r.id:<{idw}} {_clip(r.name, 30):<30} {_MARK[r.status]:<5} {_d(start):<9} "
             f"{_d(r.actual_finish or r.early_finish):<9} {_d(r.late_finish):<9} "
             f"{_n(r.total_float):>4} {_n(r.free_float):>3} {r.remaining:>3}"
         )
     lines += [
         "",
-        "!! late (negative float)   * critical   > on the driving path   "
+        "! late (negative float)  * critical  > on the driving path  "
         "TF/FF total/free float, Rem remaining (working days)",
     ]
     for o in result.out_of_sequence:
         lines.append(f"Out of sequence: {o.describe()}")
-    if result.paths_differ:
-        lines.append("Note: with several calendars the driving path and the lowest-float "
-                     "activities differ; both are marked.")
     return "\n".join(line.rstrip() for line in lines) + "\n"
+
+
+def _clip(text: str, width: int) -> str:
+    """``text`` cut to ``width`` with a visible '~' where it was cut."""
+    return text if len(text) <= width else text[: width - 1] + "~"
 
 
 def _finish_line(result: ScheduleResult) -> str:

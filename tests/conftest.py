@@ -1,0 +1,29 @@
+"""Fixtures shared by every test: no test touches the real home folder or the user's colours."""
+
+from __future__ import annotations
+
+import shutil
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+SAMPLE_SITE = ROOT / "sample_sites" / "kestrel-yard"
+
+
+@pytest.fixture(autouse=True)
+def _isolated_home(tmp_path_factory: pytest.TempPathFactory, monkeypatch: pytest.MonkeyPatch):
+    """Device ids and app state go to a fresh folder, never the real user data folder."""
+    home = tmp_path_factory.mktemp("fieldlog-home")
+    monkeypatch.setenv("FIELDLOG_HOME", str(home))
+    # NO_COLOR changes Textual's rendering and breaks snapshots (libraries.md 1.2).
+    monkeypatch.delenv("NO_COLOR", raising=False)
+    return home
+
+
+@pytest.fixture
+def sample_site(tmp_path: Path) -> Path:
+    """A scratch copy of the sample site, safe to write to."""
+    target = tmp_path / "kestrel-yard"
+    shutil.copytree(SAMPLE_SITE, target)
+    return target
