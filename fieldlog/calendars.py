@@ -21,6 +21,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from datetime import date, timedelta
+from functools import cached_property, lru_cache
 
 from fieldlog.errors import CalendarError
 from fieldlog.model import CalendarSpec
@@ -65,6 +66,11 @@ class WorkCalendar:
             raise HorizonExceeded(self.name)
         return self.work[point]
 
+    @cached_property
+    def dates(self) -> tuple[date, ...]:
+        """``dates[p]`` is :meth:`day` of ``p``, built once: the engine labels every activity."""
+        return tuple(map(date.fromordinal, self.work))
+
     # -- questions a foreman asks ----------------------------------------------------------------
 
     def is_working(self, day: date) -> bool:
@@ -86,9 +92,12 @@ class WorkCalendar:
         return self.day(self.pos(day) + n)
 
     def count(self, begin: date, end: date) -> int:
-        """Working days in ``[begin, end)``; negative when ``end < begin``.
+        """Working days in ``[begin, end)``; minus those in ``[end, begin)`` when reversed.
 
-        Matches ``numpy.busday_count(begin, end)``.
+        It is the difference of points, so "how many working days late" comes out right when a
+        required date falls on a non-working day. Matches ``numpy.busday_count(begin, end)`` for
+        ``begin <= end`` (numpy counts ``(end, begin]`` when reversed, which differs when an
+        end falls on a non-working day).
         """
         return self.pos(end) - self.pos(begin)
 
@@ -143,10 +152,11 @@ def public_holidays(region: str, first_year: int, last_year: int) -> set[date]:
     """
     import holidays  # lazy: 0.1 s import, needed only by calendars that ask for it
 
-    country, _, subdiv = region.partition("-")
+    # ISO 3166 codes are upper case; accept "us-tx" as written by hand.
+    country, _, subdiv = region.strip().upper().partition("-")
     try:
         table = holidays.country_holidays(
-            country.upper(), subdiv=subdiv or None, years=range(first_year, last_year + 1),
+            country, subdiv=subdiv or None, years=range(first_year, last_year + 1),
             expand=False,
         )
     except (NotImplementedError, KeyError) as exc:
@@ -166,6 +176,14 @@ def build_calendars(
     """Build every calendar of a site over the same range, with lost days applied."""
     lost_days = lost_days or {}
     return {
-        name: build_calendar(spec, origin, end, lost_days.get(name, ()))
+        name: _calendar_for(spec, origin, end, frozenset(lost_days.get(name, ())))
         for name, spec in specs.items()
     }
+
+
+@lru_cache(maxsize=64)
+def _calendar_for(spec: CalendarSpec, origin: date, end: date,
+                  extra_closed: frozenset[date]) -> WorkCalendar:
+    """:func:`build_calendar`, remembered: a calendar is a value, and the app recomputes the
+    same site after every entry (the public-holiday lookup alone takes milliseconds)."""
+    return build_calendar(spec, origin, end, extra_closed)

@@ -6,8 +6,8 @@ depend on these plain values only, never on the passes themselves.
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field, fields
 from datetime import date, timedelta
 from types import MappingProxyType
 
@@ -50,6 +50,22 @@ class ActivityResult:
     start not before, readiness, actual dates."""
     overdue: bool
     """The planned count-down ran out and no finish was recorded."""
+    after_work: bool = False
+    """A milestone that marks the end of the work driving it: its date is the last day of that
+    work, and its point (see :mod:`fieldlog.calendars`) is the next working day's start.
+    False for other milestones (dated on the day they fall at the start of) and for work."""
+
+    @classmethod
+    def from_fields(cls, values: dict[str, object]) -> ActivityResult:
+        """Build from a dict holding every field by name, skipping ``__init__``.
+
+        The engine builds one result per activity on every recompute; the generated frozen
+        ``__init__`` sets each of the 21 fields through ``object.__setattr__`` and costs about
+        twice as much. Only for callers that pass every field (checked in tests).
+        """
+        result = object.__new__(cls)
+        result.__dict__.update(values)
+        return result
 
     @property
     def is_open(self) -> bool:
@@ -60,6 +76,9 @@ class ActivityResult:
     def late(self) -> bool:
         """Negative total float: the job slips unless this activity catches up."""
         return self.total_float is not None and self.total_float < 0
+
+
+_FIELD_NAMES = tuple(f.name for f in fields(ActivityResult))
 
 
 @dataclass(frozen=True)
@@ -112,77 +131,51 @@ class ScheduleResult:
     @classmethod
     def assemble(cls, *, site: Site, as_of: date, finish: date,
                  results: Sequence[ActivityResult], calendars: Mapping[str, WorkCalendar],
-                 out_of_sequence: tuple[OutOfSequence, ...]) -> ScheduleResult:
-        """Mark the critical activities and trace the driving path, then freeze."""
-        open_floats = [r.total_float for r in results if r.total_float is not None]
-        threshold = max(0, min(open_floats)) if open_floats else 0
-        by_id = {r.id: r for r in results}
-        path = _driving_path(results, by_id, finish)
-        on_path = set(path)
-        marked = []
-        for r in results:
-            crit = r.total_float is not None and r.total_float <= threshold
-            if crit or r.id in on_path:
-                r = _replace(r, critical=crit, on_driving_path=r.id in on_path)
-            marked.append(r)
-        by_id = {r.id: r for r in marked}
+                 out_of_sequence: tuple[OutOfSequence, ...],
+                 driving_path: tuple[str, ...]) -> ScheduleResult:
+        """Freeze results that are already marked critical / on the driving path."""
         finish_float = None
         if site.finish_by is not None:
             c = calendars[site.calendar]
             finish_float = c.count(finish + timedelta(days=1), site.finish_by + timedelta(days=1))
         return cls(
             site=site, as_of=as_of, finish=finish, finish_float=finish_float,
-            activities=tuple(marked), driving_path=tuple(path),
-            lowest_float=tuple(r.id for r in marked if r.critical),
+            activities=tuple(results), driving_path=driving_path,
+            lowest_float=tuple(r.id for r in results if r.critical),
             out_of_sequence=out_of_sequence, calendars=MappingProxyType(dict(calendars)),
-            by_id=MappingProxyType(by_id),
+            by_id=MappingProxyType({r.id: r for r in results}),
         )
 
 
-def _replace(r: ActivityResult, **changes: object) -> ActivityResult:
-    from dataclasses import replace
+def critical_threshold(total_floats: Iterable[int]) -> int:
+    """Critical means total float <= this: max(0, lowest total float of open work).
 
-    return replace(r, **changes)
-
-
-def _driving_path(results: Sequence[ActivityResult], by_id: Mapping[str, ActivityResult],
-                  finish: date) -> list[str]:
-    """Walk driving links back from the open activity that finishes last."""
-    ends = [r for r in results if r.is_open and r.early_finish == finish]
-    if not ends:
-        return []
-    # Of several activities ending on the finish day prefer the one with the least float.
-    end = min(ends, key=lambda r: (r.total_float if r.total_float is not None else 0))
-    path = [end.id]
-    seen = {end.id}
-    current = end
-    while current.driving is not None:
-        pred = by_id[current.driving.pred]
-        if pred.id in seen:
-            break
-        path.append(pred.id)
-        seen.add(pred.id)
-        if not pred.is_open:
-            break
-        current = pred
-    path.reverse()
-    return path
+    With a required finish later than the forecast every float is positive, and the activities
+    with the lowest float are the critical ones; otherwise zero or negative float is critical.
+    """
+    return max(0, min(total_floats, default=0))
 
 
 def find_out_of_sequence(site: Site, progress: Sequence[Progress],
                          override: bool) -> tuple[OutOfSequence, ...]:
     """Links whose successor has moved on while the predecessor has not (as of the status date).
 
-    Definitions follow the GAO Schedule Assessment Guide's page on out-of-sequence logic:
-    started before an FS predecessor finished, started before an SS predecessor started,
-    finished before an FF predecessor finished (and, by the same reading, before an SF
-    predecessor started).
+    ``progress`` is in the order of ``site.activities``. Definitions follow the GAO Schedule
+    Assessment Guide's page on out-of-sequence logic: started before an FS predecessor
+    finished, started before an SS predecessor started, finished before an FF predecessor
+    finished (and, by the same reading, before an SF predecessor started).
     """
-    index = {a.id: k for k, a in enumerate(site.activities)}
+    moved = {a.id: p for a, p in zip(site.activities, progress, strict=True)
+             if p.actual_start or p.actual_finish}
+    if not moved:
+        return ()
     treatment = "progress override" if override else "retained logic"
     found = []
     for link in site.links:
-        p, s = progress[index[link.pred]], progress[index[link.succ]]
+        s = moved.get(link.succ)
+        if s is None:
+            continue
+        p = moved.get(link.pred, _NOTHING)
         kind = None
         if link.type is LinkType.FS and s.actual_start and not p.actual_finish:
             kind = "started before predecessor finished"
@@ -195,3 +188,6 @@ def find_out_of_sequence(site: Site, progress: Sequence[Progress],
         if kind:
             found.append(OutOfSequence(link, kind, treatment))
     return tuple(found)
+
+
+_NOTHING = Progress()

@@ -10,8 +10,10 @@ from __future__ import annotations
 
 import re
 import tomllib
+from collections.abc import Callable
 from dataclasses import dataclass
 from datetime import date, datetime
+from functools import cached_property, lru_cache, partial
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -40,6 +42,11 @@ _ACTIVITY_KEYS = {
 }
 _LINK_KEYS = {"from", "to", "type", "lag"}
 _ID_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,31}$")
+_ID_LINE = re.compile(r"""^\s*id\s*=\s*["']([^"']*)["']""")
+
+Line = int | Callable[[], int | None] | None
+"""A line number, or a callable that finds it: lines are looked up only when an error is
+raised, so a valid 10,000-activity file is never searched line by line."""
 
 
 @dataclass(frozen=True)
@@ -58,11 +65,45 @@ class TomlFile:
 
     def line_of_id(self, activity_id: str, nth: int = 0) -> int | None:
         """Line of the ``nth`` ``id = "<activity_id>"`` in the file."""
-        return self.line_of(rf'^\s*id\s*=\s*["\']{re.escape(activity_id)}["\']', nth)
+        hits = self._id_lines.get(activity_id, ())
+        return hits[nth] if nth < len(hits) else None
 
-    def error(self, problem: str, *, line: int | None = None, activity: str | None = None,
+    def key_line(self, key: str, near: Line) -> int | None:
+        """Line of ``key = ...`` in the table that holds line ``near`` (else ``near`` itself).
+
+        Used for errors inside one ``[[activity]]`` or ``[[link]]``: the same key appears in
+        many tables, and the one that is wrong is the one near that table's first line.
+        """
+        start = near() if callable(near) else near
+        if start is None:
+            return None
+        lines = self.text.splitlines()
+        rx = re.compile(rf"^\s*{re.escape(key)}\s*=")
+        header = min(start, len(lines)) - 1
+        while header > 0 and not lines[header].lstrip().startswith("["):
+            header -= 1  # back to the table's header
+        for k in range(header + 1, len(lines)):
+            if lines[k].lstrip().startswith("["):
+                break  # the next table
+            if rx.match(lines[k]):
+                return k + 1
+        return start
+
+    @cached_property
+    def _id_lines(self) -> dict[str, list[int]]:
+        """Every ``id = "..."`` line, by id: one pass over the text, at the first question."""
+        out: dict[str, list[int]] = {}
+        for number, line in enumerate(self.text.splitlines(), 1):
+            m = _ID_LINE.match(line)
+            if m:
+                out.setdefault(m[1], []).append(number)
+        return out
+
+    def error(self, problem: str, *, line: Line = None, activity: str | None = None,
               fix: str | None = None) -> SiteError:
-        """A :class:`SiteError` located in this file."""
+        """A :class:`SiteError` located in this file (``line`` may be a finder, see Line)."""
+        if callable(line):
+            line = line()
         return SiteError(problem, file=self.path, line=line, activity=activity, fix=fix)
 
 
@@ -72,8 +113,12 @@ def read_toml(path: Path) -> TomlFile:
     Raises:
         SiteError: the file is missing, not UTF-8, or not valid TOML (with its line).
     """
+    return parse_toml(path, _read_bytes(path))
+
+
+def _read_bytes(path: Path) -> bytes:
     try:
-        raw = path.read_bytes()
+        return path.read_bytes()
     except FileNotFoundError:
         raise SiteError(
             f"{path.name} is missing", file=path,
@@ -81,6 +126,10 @@ def read_toml(path: Path) -> TomlFile:
         ) from None
     except OSError as exc:
         raise SiteError(f"cannot read {path.name}: {exc.strerror}", file=path) from exc
+
+
+def parse_toml(path: Path, raw: bytes) -> TomlFile:
+    """Parse the bytes ``raw`` read from ``path`` (see :func:`read_toml`)."""
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
@@ -114,9 +163,22 @@ def load_site(folder: Path | str) -> Site:
     if not folder.is_dir():
         raise SiteError("not a site folder", file=folder,
                         fix=f"give the folder that holds {SITE_FILE} and {SCHEDULE_FILE}")
-    site_file = read_toml(folder / SITE_FILE)
-    schedule_file = read_toml(folder / SCHEDULE_FILE)
-    return build_site(site_file, schedule_file)
+    site_raw = _read_bytes(folder / SITE_FILE)
+    schedule_raw = _read_bytes(folder / SCHEDULE_FILE)
+    return _load_bytes(folder, site_raw, schedule_raw)
+
+
+@lru_cache(maxsize=4)
+def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
+    """Parse and validate, remembered by the files' content.
+
+    Parsing dominates loading (tomllib takes about 0.4 s for a 10,000-activity schedule, the
+    checks and the schedule itself a fraction of that), and the app reloads the folder after
+    every sync. The same bytes give the same immutable Site, which also keeps the engine's
+    cached network; any change to either file is a new key. Errors are never cached.
+    """
+    return build_site(parse_toml(folder / SITE_FILE, site_raw),
+                      parse_toml(folder / SCHEDULE_FILE, schedule_raw))
 
 
 def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
@@ -249,11 +311,11 @@ def _schedule(
             )
         nth = seen.get(aid, 0)
         seen[aid] = nth + 1
-        line = f.line_of_id(aid, nth)
+        line = partial(f.line_of_id, aid, nth)
         if nth:
             raise f.error(f"duplicate activity id '{aid}'", line=line, activity=aid,
                           fix="give every activity its own id")
-        _no_unknown(f, row, _ACTIVITY_KEYS, f"activity '{aid}'", line=line)
+        _no_unknown(f, row, _ACTIVITY_KEYS, f"activity '{aid}'", line=line, activity=aid)
         name = row.get("name")
         if not isinstance(name, str) or not name.strip():
             raise f.error(f"activity '{aid}' has no name", line=line, activity=aid,
@@ -285,8 +347,10 @@ def _schedule(
         where = f"activity '{aid}'"
         activities.append(Activity(
             id=aid, name=name.strip(), duration=duration, calendar=cal,
-            start_not_before=_date(f, row, "start_not_before", where, line=line),
-            finish_not_after=_date(f, row, "finish_not_after", where, line=line),
+            start_not_before=_date(f, row, "start_not_before", where, activity=aid,
+                                   line=partial(f.key_line, "start_not_before", line)),
+            finish_not_after=_date(f, row, "finish_not_after", where, activity=aid,
+                                   line=partial(f.key_line, "finish_not_after", line)),
             crew=MappingProxyType(dict(crew)),
         ))
         after = row.get("after", [])
@@ -312,7 +376,7 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
         raise f.error("links must be [[link]] tables")
     out = []
     for n, row in enumerate(rows):
-        line = f.line_of(r"^\s*\[\[link\]\]", n)
+        line = partial(f.line_of, r"^\s*\[\[link\]\]", n)
         _no_unknown(f, row, _LINK_KEYS, "[[link]]", line=line)
         pred, succ = row.get("from"), row.get("to")
         for key, value in (("from", pred), ("to", succ)):
@@ -349,12 +413,14 @@ def _table(f: TomlFile, data: dict[str, Any], key: str, *, required: bool = Fals
 
 
 def _no_unknown(f: TomlFile, table: dict[str, Any], allowed: set[str], where: str,
-                *, line: int | None = None) -> None:
+                *, line: Line = None, activity: str | None = None) -> None:
+    """Refuse keys not in ``allowed``; ``line`` is the table's first line, when known."""
     for key in table:
         if key not in allowed:
             raise f.error(
-                f"unknown key '{key}' in {where}",
-                line=f.line_of(rf"^\s*{re.escape(key)}\s*=") or line,
+                f"unknown key '{key}' in {where}", activity=activity,
+                line=(f.key_line(key, line) if line is not None
+                      else f.line_of(rf"^\s*{re.escape(key)}\s*=")),
                 fix=f"check the spelling; allowed keys: {', '.join(sorted(allowed))}",
             )
 
@@ -367,16 +433,18 @@ def _string(f: TomlFile, table: dict[str, Any], key: str, where: str) -> str:
 
 
 def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: bool = False,
-          line: int | None = None) -> date | None:
+          line: Line = None, activity: str | None = None) -> date | None:
     value = table.get(key)
     if value is None:
         if required:
             raise f.error(f"{where} needs {key} (a date like 2026-03-02)", line=line)
         return None
-    return _as_date(f, value, f"{where} {key}", line=line or f.line_of(rf"^\s*{key}\s*="))
+    return _as_date(f, value, f"{where} {key}", activity=activity,
+                    line=line or partial(f.line_of, rf"^\s*{key}\s*="))
 
 
-def _as_date(f: TomlFile, value: Any, what: str, *, line: int | None = None) -> date:
+def _as_date(f: TomlFile, value: Any, what: str, *, line: Line = None,
+             activity: str | None = None) -> date:
     if isinstance(value, datetime):
         return value.date()
     if isinstance(value, date):
@@ -386,6 +454,6 @@ def _as_date(f: TomlFile, value: Any, what: str, *, line: int | None = None) -> 
             return date.fromisoformat(value.strip())
         except ValueError:
             pass
-    raise f.error(f"{what} {value!r} is not a date",
+    raise f.error(f"{what} {value!r} is not a date", activity=activity,
                   line=line or f.line_of(re.escape(str(value))),
                   fix="write dates as YYYY-MM-DD, e.g. 2026-03-02")
