@@ -1,19 +1,119 @@
-"""`fieldlog record`: not built yet."""
+"""``fieldlog record SITE KIND ...``: add one entry to the field journal, as the app does.
+
+One form per entry kind, built from the kinds' field lists so the command line and the app
+can never disagree::
+
+    fieldlog record SITE started FND-020 --on 2026-09-18
+    fieldlog record SITE remaining FND-020 3 --on 2026-09-18
+    fieldlog record SITE weather --conditions rain --high 12 --low 6 --precip-mm 14 --stopped
+    fieldlog record SITE lost-day --cause weather --activities EXC-010,EXC-020
+    fieldlog record SITE need STL-010 "anchor bolt layout rev C" --kind drawings
+    fieldlog record SITE correct site-laptop-1.42 --reason "wrong day" --on 2026-09-17
+
+The new entry's id goes to stdout. A refused entry is one line on stderr and exit code 2;
+nothing is written then.
+"""
 
 from __future__ import annotations
 
 import argparse
-import sys
+from datetime import date
+
+from fieldlog.cli import iso_date
+from fieldlog.errors import EntryRefused
+from fieldlog.journal import KINDS, record_entry
+from fieldlog.journal.entries import FieldSpec
+from fieldlog.site_files import load_site
+
+VERBS = {
+    "started": ("started", "an activity started (its actual start)"),
+    "finished": ("finished", "an activity finished (its actual finish)"),
+    "remaining": ("remaining", "working days an open activity still needs after the day"),
+    "percent": ("percent", "physical percent complete (kept apart from remaining days)"),
+    "weather": ("weather", "the day's weather and whether it stopped work"),
+    "crew": ("crew", "a crew on site: trade, company, headcount, hours"),
+    "lost-day": ("lost-time", "time lost and why; a whole day becomes a non-working day"),
+    "need": ("need", "a readiness item an activity needs before it can start"),
+    "cleared": ("cleared", "a readiness item dealt with"),
+    "delivery": ("delivery", "a delivery received"),
+    "inspection": ("inspection", "an inspection or test"),
+    "visitor": ("visitor", "a visitor to site"),
+    "instruction": ("instruction", "an instruction received, verbal or written"),
+    "incident": ("incident", "an incident (injury, damage, near miss)"),
+    "safety": ("safety", "a safety observation"),
+    "note": ("note", "a free note"),
+    "correct": ("correction", "supersede an earlier entry (nothing is ever edited)"),
+}
+"""Command-line verb -> (entry kind, help)."""
+
+_HIDDEN = {("lost-time", "whole_day"), ("correction", "corrects"), ("correction", "supersedes")}
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
-    """Register `fieldlog record`."""
-    p = sub.add_parser("record", help="(not built yet)")
-    p.add_argument("rest", nargs="*")
-    p.set_defaults(run=run)
+    """Register ``fieldlog record`` and one sub-form per entry kind."""
+    p = sub.add_parser("record", help="add an entry to the field log (what the app does)",
+                       description=__doc__.splitlines()[0].split(": ", 1)[1])
+    p.add_argument("site", help="the site folder")
+    forms = p.add_subparsers(dest="verb", metavar="KIND", parser_class=type(p))
+    forms.required = True
+    for verb, (kind, help_) in VERBS.items():
+        aliases = ["lost-time"] if verb == "lost-day" else []
+        f = forms.add_parser(verb, aliases=aliases, help=help_, description=help_)
+        if kind == "correction":
+            f.add_argument("f_supersedes", metavar="ENTRY-ID", help="the entry to supersede")
+        for spec in KINDS[kind]:
+            if (kind, spec.name) not in _HIDDEN:
+                _add_field(f, spec)
+        if kind == "correction":
+            f.add_argument("--set", dest="changes", action="append", default=[],
+                           metavar="FIELD=VALUE",
+                           help="a corrected value, e.g. --set days=4 (repeat for more)")
+        f.add_argument("--on", type=iso_date, metavar="DATE", dest="on",
+                       help="the day this describes (default: today; for a correction, the "
+                       "corrected entry's day)")
+        f.add_argument("--today", type=iso_date, metavar="DATE",
+                       help="today's date (default: the computer's date)")
+        f.add_argument("--author", metavar="NAME", help="who records it")
+        f.set_defaults(run=run, kind=kind)
+
+
+def _add_field(parser: argparse.ArgumentParser, spec: FieldSpec) -> None:
+    dest = "f_" + spec.name
+    label = spec.name.upper().replace("_", "-")
+    if spec.type == "activity" and spec.cli == "positional":
+        label = "ID"
+    if spec.cli == "positional":
+        parser.add_argument(dest, metavar=label, help=spec.help)
+        return
+    flag = spec.cli or "--" + spec.name.replace("_", "-")
+    if spec.type == "bool":
+        parser.add_argument(flag, dest=dest, action="store_true", default=None, help=spec.help)
+    elif spec.type == "date":
+        parser.add_argument(flag, dest=dest, type=iso_date, metavar="DATE", help=spec.help)
+    elif spec.type == "choice":
+        parser.add_argument(flag, dest=dest, choices=spec.choices, required=spec.required,
+                            help=spec.help)
+    else:
+        parser.add_argument(flag, dest=dest, metavar=label, required=spec.required,
+                            help=spec.help)
 
 
 def run(args: argparse.Namespace) -> int:
-    """Not built yet."""
-    print("fieldlog: 'record' is not built yet", file=sys.stderr)
-    return 2
+    """Record the entry and print its id on stdout."""
+    today = args.today or date.today()  # the one place the real date is read
+    kind = args.kind
+    fields = {k[2:]: v for k, v in vars(args).items() if k.startswith("f_") and v is not None}
+    if kind == "lost-time":
+        fields["whole_day"] = "hours" not in fields
+    if kind == "correction":
+        for change in args.changes:
+            key, sep, value = change.partition("=")
+            if not sep or not key.strip():
+                raise EntryRefused(f"--set {change!r} is not FIELD=VALUE",
+                                   fix="e.g. --set days=4")
+            fields[key.strip().replace("-", "_")] = value
+    site = load_site(args.site)
+    entry = record_entry(args.site, site, kind, args.on, fields, today=today,
+                         author=args.author, site_name=args.site)
+    print(entry.id)
+    return 0

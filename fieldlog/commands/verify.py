@@ -1,19 +1,54 @@
-"""`fieldlog verify`: not built yet."""
+"""``fieldlog verify SITE``: is the field log exactly as fieldlog wrote it, and consistent?
+
+Prints every integrity finding (an edited, removed, reordered or misfiled entry, a file that
+is not a journal file) with its file and entry id, then every contradiction the log holds
+(finish before start, two devices disagreeing on a start, progress on an activity the schedule
+no longer has ...), which are fixed by recording a correction, and every sync conflict copy. Exit code 1 when anything is
+found, 0 when the log is clean.
+"""
 
 from __future__ import annotations
 
 import argparse
-import sys
+from datetime import date
+
+from fieldlog.journal import read_journal, replay
+from fieldlog.site_files import load_site
+from fieldlog.sync.conflicts import list_conflicts
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
-    """Register `fieldlog verify`."""
-    p = sub.add_parser("verify", help="(not built yet)")
-    p.add_argument("rest", nargs="*")
+    """Register ``fieldlog verify``."""
+    p = sub.add_parser("verify", help="check the field log is intact (exit 1 if not)",
+                       description=__doc__.splitlines()[0].split(": ", 1)[1])
+    p.add_argument("site", help="the site folder")
     p.set_defaults(run=run)
 
 
 def run(args: argparse.Namespace) -> int:
-    """Not built yet."""
-    print("fieldlog: 'verify' is not built yet", file=sys.stderr)
-    return 2
+    """Print findings and contradictions on stdout; 1 when there are any."""
+    journal = read_journal(args.site)
+    findings = journal.findings
+    for f in findings:
+        print(f)
+    site = load_site(args.site)
+    rp = replay(site, journal.entries, date.max)
+    contradictions = [p for p in rp.problems if not p.integrity]
+    if contradictions:
+        print("Contradictions in the log (record a correction to settle each):")
+        for p in contradictions:
+            print(f"  {p.message}")
+    conflicts = list_conflicts(args.site)
+    if conflicts:
+        print("Sync conflicts (two versions of one journal file are kept side by side):")
+        for c in conflicts:
+            print(f"  {c.describe()}")
+    n_entries = len(journal.entries)
+    if findings or contradictions or conflicts:
+        print(f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
+              f"{len(conflicts)} sync conflict(s) in {len(journal.files)} file(s), "
+              f"{n_entries} entries")
+        return 1
+    print(f"log intact: {len(journal.files)} file(s), {n_entries} entries, chains unbroken, "
+          "no contradictions")
+    return 0

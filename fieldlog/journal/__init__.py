@@ -1,57 +1,92 @@
-"""The field journal: append-only daily log files in the site's ``log/`` folder.
+"""The field journal: the append-only, tamper-evident daily log in a site's ``log/`` folder.
 
-STUB: the journal issue replaces this with the real store, entries, verify and replay.
-The names below are the contract the rest of fieldlog codes against.
+A daily log is a legal record: when a delay is disputed months later, what the foreman wrote
+that evening is the evidence. So the journal never loses an entry, is never rewritten, and can
+show what was known on any past day.
+
+Storage (:mod:`~fieldlog.journal.names`, :mod:`~fieldlog.journal.store`)
+    One TOML file per day per device, ``log/YYYY-MM-DD_<device>.toml``, holding ``[[entry]]``
+    tables for the entries describing that day. Written only by fieldlog, only by appending,
+    each write atomic (temp file in the same folder, fsync, replace) under a per-device lock.
+
+Entries (:mod:`~fieldlog.journal.entries`, :mod:`~fieldlog.journal.fields`)
+    Every entry has ``id`` (``<device>.<seq>``), ``seq`` (the device's running number),
+    ``kind``, ``day`` (the day it describes), ``written`` (UTC), ``author``, ``device``, its
+    kind's fields, and ``prev``/``hash`` (:mod:`~fieldlog.journal.chain`).
+
+Integrity (:mod:`~fieldlog.journal.filecheck`, :mod:`~fieldlog.journal.verify`)
+    :func:`verify` lists every edited, removed, reordered or misfiled entry and every stray
+    file; :func:`check_journal_bytes` refuses a single file (for sync, before it lands).
+
+Replay (:mod:`~fieldlog.journal.replay`, :mod:`~fieldlog.journal.corrections`)
+    :func:`replay` folds the entries up to a status date into per-activity progress, lost days
+    per calendar, open readiness items and problems (contradictions, never dropped; a problem
+    with ``integrity=True`` comes from a damaged file). ``Replay.effective`` lists the entries
+    that count once corrections are applied, ``Replay.current`` maps a corrected entry's id to
+    the entry standing for it now, ``Replay.evidence`` gives the entries behind each
+    activity's progress.
+
+Device (:mod:`~fieldlog.journal.device`)
+    :func:`device_id` is this machine's id, kept in ``$FIELDLOG_HOME`` or the user data folder.
+
+Recording (:mod:`~fieldlog.journal.record`): how the app adds an entry
+    Call :func:`record_entry`; it is exactly what ``fieldlog record`` does::
+
+        from fieldlog.journal import record_entry, EntryRefused
+
+        try:
+            entry = record_entry(folder, site, "remaining", day, {"activity": "FND-020",
+                                 "days": 3}, today=today, author="J. Foreman")
+        except EntryRefused as exc:      # bad input: show exc.message; nothing was written
+            ...
+        except JournalError as exc:      # disk full, read-only stick: show exc.message
+            ...
+
+    ``kind`` and its fields are listed in :data:`KINDS` (each :class:`FieldSpec` has a name,
+    type, whether it is required, choices and a help line, enough to build a form). The day
+    defaults to ``today``; pass ``today`` as the real date read once at the top of the app.
+    A correction is ``record_entry(folder, site, "correction", None, {"supersedes": ID,
+    "reason": "...", "days": 4})`` (replacement values) or ``{"supersedes": ID, "reason":
+    "...", "withdraw": True}``; pass a ``day`` to move the corrected entry to another day.
 """
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field
-from datetime import date
-from pathlib import Path
+from fieldlog.errors import EntryRefused, JournalError
+from fieldlog.journal.device import device_id, fieldlog_home
+from fieldlog.journal.entries import (
+    INSPECTION_RESULTS,
+    INSTRUCTION_FORMS,
+    KINDS,
+    LOST_TIME_CAUSES,
+    Entry,
+    FieldSpec,
+)
+from fieldlog.journal.filecheck import Finding, check_journal_bytes
+from fieldlog.journal.reader import Journal, read_journal
+from fieldlog.journal.record import record_entry
+from fieldlog.journal.replay import ActivityEntries, Problem, Replay, replay
+from fieldlog.journal.verify import verify
 
-from fieldlog.model import Site
-from fieldlog.progress import Progress
-from fieldlog.readiness import OpenItem
-
-
-@dataclass(frozen=True)
-class Problem:
-    """A contradiction found while replaying (never dropped: both entries are named)."""
-
-    message: str
-    entry_ids: tuple[str, ...] = ()
-
-
-@dataclass(frozen=True)
-class Replay:
-    """Everything the journal says as of the end of a status date."""
-
-    progress: Mapping[str, Progress] = field(default_factory=dict)
-    lost_days: Mapping[str, frozenset[date]] = field(default_factory=dict)
-    """Per calendar name, days lost on site (non-working days for that calendar)."""
-    readiness: tuple[OpenItem, ...] = ()
-    problems: tuple[Problem, ...] = ()
-
-
-@dataclass(frozen=True)
-class Journal:
-    """Every entry read from a site's log folder, in replay order."""
-
-    entries: tuple = ()
-
-    @property
-    def last_day(self) -> date | None:
-        """The latest day any entry describes."""
-        return None
-
-
-def read_journal(folder: Path) -> Journal:
-    """Read every journal file of the site folder ``folder``."""
-    return Journal()
-
-
-def replay(site: Site, entries: Sequence, status_date: date) -> Replay:
-    """Fold entries dated on or before ``status_date`` into progress and lost days."""
-    return Replay()
+__all__ = [
+    "INSPECTION_RESULTS",
+    "INSTRUCTION_FORMS",
+    "KINDS",
+    "LOST_TIME_CAUSES",
+    "ActivityEntries",
+    "Entry",
+    "EntryRefused",
+    "FieldSpec",
+    "Finding",
+    "Journal",
+    "JournalError",
+    "Problem",
+    "Replay",
+    "check_journal_bytes",
+    "device_id",
+    "fieldlog_home",
+    "read_journal",
+    "record_entry",
+    "replay",
+    "verify",
+]

@@ -1,0 +1,105 @@
+"""This machine's device id: which laptop or tablet wrote an entry.
+
+The id is made once and kept outside every site folder, in fieldlog's own data folder
+(``$FIELDLOG_HOME`` when set, otherwise the user data folder of the platform: ``%LOCALAPPDATA%``
+on Windows, ``~/Library/Application Support`` on macOS, ``$XDG_DATA_HOME`` or
+``~/.local/share`` elsewhere). Keeping it there means copying a site folder to another machine
+never makes two machines write under one id, and each device only ever writes files named with
+its own id, so devices never contend for a file.
+
+The id is the machine's host name made safe (``a-z``, ``0-9``, ``-``), cut short, plus six
+random hex digits so that two laptops both called "site-office" still differ. It is stored in
+``device.toml`` next to an optional default ``author``.
+"""
+
+from __future__ import annotations
+
+import getpass
+import os
+import re
+import secrets
+import socket
+import sys
+import tomllib
+from pathlib import Path
+
+import tomli_w
+
+from fieldlog.errors import JournalError
+from fieldlog.journal.names import valid_device
+from fieldlog.journal.store import atomic_write, device_lock, read_bytes
+
+HOME_ENV = "FIELDLOG_HOME"
+DEVICE_FILE = "device.toml"
+
+
+def fieldlog_home() -> Path:
+    """fieldlog's own data folder (not a site folder); created when first needed."""
+    env = os.environ.get(HOME_ENV)
+    if env:
+        return Path(env)
+    if sys.platform == "win32":
+        base = Path(os.environ.get("LOCALAPPDATA") or Path.home() / "AppData" / "Local")
+    elif sys.platform == "darwin":
+        base = Path.home() / "Library" / "Application Support"
+    else:
+        base = Path(os.environ.get("XDG_DATA_HOME") or Path.home() / ".local" / "share")
+    return base / "fieldlog"
+
+
+def _settings(home: Path) -> dict:
+    raw = read_bytes(home / DEVICE_FILE)
+    if not raw:
+        return {}
+    try:
+        return tomllib.loads(raw.decode("utf-8-sig"))
+    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
+        raise JournalError(f"cannot read the device settings: {exc}", file=home / DEVICE_FILE,
+                           fix="delete the file; a new device id will be made") from exc
+
+
+def device_id(home: Path | None = None) -> str:
+    """This machine's device id, made and saved on first use.
+
+    Raises:
+        JournalError: the data folder cannot be written, or holds an invalid id.
+    """
+    home = home or fieldlog_home()
+    found = _settings(home).get("device")
+    if found is not None:
+        return _checked(found, home)
+    try:
+        home.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise JournalError(f"cannot create fieldlog's data folder: {exc.strerror}", file=home,
+                           fix=f"set {HOME_ENV} to a folder you can write") from exc
+    with device_lock(home, "device-settings"):
+        settings = _settings(home)  # another process may have made it meanwhile
+        if "device" not in settings:
+            settings["device"] = new_device_id(socket.gethostname())
+            atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
+    return _checked(settings["device"], home)
+
+
+def _checked(device: object, home: Path) -> str:
+    if not isinstance(device, str) or not valid_device(device):
+        raise JournalError(f"device id {device!r} is not valid", file=home / DEVICE_FILE,
+                           fix="use 6-24 characters of a-z, 0-9 and '-', or delete the line")
+    return device
+
+
+def new_device_id(hostname: str) -> str:
+    """A fresh id from a host name: ``"Site Office #2"`` -> ``"site-office-2-3fa9c1"``."""
+    slug = re.sub(r"[^a-z0-9]+", "-", hostname.lower()).strip("-")[:17].strip("-")
+    return f"{slug or 'device'}-{secrets.token_hex(3)}"
+
+
+def default_author(home: Path | None = None) -> str:
+    """The ``author`` in device.toml, else the login name of whoever runs fieldlog."""
+    found = _settings(home or fieldlog_home()).get("author")
+    if isinstance(found, str) and found.strip():
+        return found.strip()
+    try:
+        return getpass.getuser()
+    except (KeyError, OSError):  # no login name in this environment (some containers)
+        return "unknown"

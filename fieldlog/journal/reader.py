@@ -1,0 +1,165 @@
+"""Reading a site's whole journal: every file of every device, in replay order.
+
+Reading never stops at a damaged file and never hides one either: entries that can be read are
+returned, and everything wrong (a file that is not TOML, an edited entry, a stray file) comes
+back as :class:`~fieldlog.journal.filecheck.Finding` values on the journal, which ``verify``
+prints and which replay turns into problems, so every screen and report shows them.
+"""
+
+from __future__ import annotations
+
+from collections import OrderedDict
+from collections.abc import Iterable
+from dataclasses import dataclass, field
+from datetime import date
+from pathlib import Path
+
+from fieldlog.errors import JournalError
+from fieldlog.journal.entries import Entry
+from fieldlog.journal.filecheck import FileCheck, Finding, check_bytes
+from fieldlog.journal.names import LOG_DIR, is_working_file
+
+
+class EntryList(tuple):
+    """A tuple of entries that also carries what could not be read from the files.
+
+    ``Journal.entries`` is one of these, so code that passes only the entries on (to
+    :func:`fieldlog.journal.replay`) still passes the findings with them.
+    """
+
+    findings: tuple[Finding, ...] = ()
+
+    def __new__(cls, entries: Iterable[Entry] = (), findings: Iterable[Finding] = ()):
+        obj = super().__new__(cls, entries)
+        obj.findings = tuple(findings)
+        return obj
+
+
+@dataclass(frozen=True)
+class Journal:
+    """Every entry read from a site's log folder, in replay order."""
+
+    entries: EntryList = field(default_factory=EntryList)
+    files: tuple[str, ...] = ()
+    """Journal file names found, sorted."""
+
+    @property
+    def findings(self) -> tuple[Finding, ...]:
+        """What is wrong with the files (empty for a sound journal)."""
+        return self.entries.findings
+
+    @property
+    def last_day(self) -> date | None:
+        """The latest day any entry describes."""
+        return max((e.day for e in self.entries), default=None)
+
+    def by_id(self, entry_id: str) -> Entry | None:
+        """The entry with this id, or None."""
+        for e in self.entries:
+            if e.id == entry_id:
+                return e
+        return None
+
+
+def log_folder(folder: Path | str) -> Path:
+    """The ``log/`` folder of a site folder."""
+    return Path(folder) / LOG_DIR
+
+
+def scan(folder: Path | str) -> list[FileCheck]:
+    """Check every file in the site's ``log/`` folder (fieldlog's working files excepted)."""
+    log = log_folder(folder)
+    if not log.exists():
+        return []
+    if not log.is_dir():
+        raise JournalError("'log' is not a folder", file=log,
+                           fix="rename that file; fieldlog keeps the field log in log/")
+    checks = []
+    for path in sorted(log.iterdir(), key=lambda p: p.name):
+        if is_working_file(path.name):
+            continue
+        if not path.is_file():
+            checks.append(FileCheck(path.name, (), (Finding(
+                path.name, "", "bad name", "a folder inside log/; only journal files belong "
+                "there"),)))
+            continue
+        try:
+            data = path.read_bytes()
+        except OSError as exc:
+            raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc
+        checks.append(checked(path.name, data))
+    return checks
+
+
+_CACHE: OrderedDict[tuple[str, bytes], FileCheck] = OrderedDict()
+_CACHE_SIZE = 4096
+
+
+def checked(name: str, data: bytes) -> FileCheck:
+    """:func:`check_bytes`, remembered per name and exact content.
+
+    Checking is a pure function of the name and the bytes, so a file whose bytes have not
+    changed need not be parsed again: the app, which re-reads the log after every entry,
+    then parses nothing it has seen (the writer remembers what it appended, see
+    :func:`remember`).
+    """
+    key = (name, data)
+    found = _CACHE.get(key)
+    if found is None:
+        found = remember(name, data, check_bytes(name, data))
+    else:
+        _CACHE.move_to_end(key)
+    return found
+
+
+def remember(name: str, data: bytes, check: FileCheck) -> FileCheck:
+    """Store the check of ``data`` (the writer calls it with old check + the new entry)."""
+    _CACHE[(name, data)] = check
+    while len(_CACHE) > _CACHE_SIZE:
+        _CACHE.popitem(last=False)
+    return check
+
+
+def forget_checks() -> None:
+    """Empty the cache (benchmarks measure a cold read with it)."""
+    _CACHE.clear()
+
+
+def read_journal(folder: Path | str) -> Journal:
+    """Read every journal file of the site folder ``folder``.
+
+    Raises:
+        JournalError: the log folder or one of its files cannot be read at all (permissions);
+            damaged content is reported as findings instead.
+    """
+    checks = scan(folder)
+    entries = [e for c in checks for e in c.entries]
+    entries.sort(key=Entry.sort_key)
+    findings = [f for c in checks for f in c.findings]
+    findings += cross_file_findings(entries)
+    files = tuple(c.name for c in checks if c.entries)
+    return Journal(EntryList(entries, findings), files)
+
+
+def cross_file_findings(entries: Iterable[Entry]) -> list[Finding]:
+    """Checks across files: an id used twice, or a device's sequence with a hole in it.
+
+    Every device numbers its entries 1, 2, 3 ... across all its files, so a missing number
+    means an entry was removed, even when it was the last one of its file.
+    """
+    out: list[Finding] = []
+    by_device: dict[str, dict[int, Entry]] = {}
+    for e in entries:
+        seqs = by_device.setdefault(e.device, {})
+        if e.seq in seqs and seqs[e.seq].file != e.file:
+            out.append(Finding(e.file, e.id, "duplicate id",
+                               f"the same id is also in {seqs[e.seq].file}"))
+        seqs.setdefault(e.seq, e)
+    for device, seqs in sorted(by_device.items()):
+        for n in range(1, max(seqs)):
+            if n not in seqs:
+                after = seqs[min(s for s in seqs if s > n)]
+                out.append(Finding("", f"{device}.{n}", "removed",
+                                   f"it is in no file, yet {after.id} (in {after.file}) was "
+                                   "written after it"))
+    return out

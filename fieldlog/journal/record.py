@@ -1,0 +1,226 @@
+"""Adding one entry to the journal: the single way the command line and the app both write.
+
+:func:`record_entry` checks the entry completely (field shapes, then the schedule and the log)
+*before* anything touches the disk, then appends it under the device lock with an atomic
+replace. So a refused entry leaves no trace, and an accepted one is either wholly there or not
+at all, whatever happens to the process or the disk.
+"""
+
+from __future__ import annotations
+
+import re
+import tomllib
+from collections.abc import Callable, Mapping
+from dataclasses import replace
+from datetime import UTC, date, datetime
+from pathlib import Path
+from types import MappingProxyType
+from typing import Any
+
+import tomli_w
+
+from fieldlog.errors import JournalError
+from fieldlog.journal.chain import entry_hash
+from fieldlog.journal.device import default_author, device_id
+from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
+from fieldlog.journal.filecheck import FileCheck
+from fieldlog.journal.names import SUFFIX, file_name
+from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
+from fieldlog.journal.replay import correction_base, replay
+from fieldlog.journal.rules import check_day, check_entry, refuse
+from fieldlog.journal.store import (
+    atomic_write,
+    device_lock,
+    read_bytes,
+    remove_stale_temps,
+    write_error,
+)
+from fieldlog.model import Site
+
+Clock = Callable[[], datetime]
+
+FILE_HEADER = (
+    b"# fieldlog field journal: written only by fieldlog, by appending. Do not edit:\n"
+    b"# 'fieldlog verify SITE' detects any changed, removed or reordered entry.\n"
+)
+_SEQ_RE = re.compile(rb"(?m)^seq = (\d+)\r?$")
+_FAR_FUTURE = date.max
+
+
+def utc_now() -> datetime:
+    """The wall clock, in UTC: the one place the journal reads it (the ``written`` stamp)."""
+    return datetime.now(UTC)
+
+
+def record_entry(
+    folder: Path | str,
+    site: Site,
+    kind: str,
+    day: date | None,
+    fields: Mapping[str, Any],
+    *,
+    today: date,
+    author: str | None = None,
+    device: str | None = None,
+    clock: Clock = utc_now,
+    home: Path | None = None,
+    site_name: str | None = None,
+) -> Entry:
+    """Check an entry against the schedule and the log, then append it to the journal.
+
+    Args:
+        folder: the site folder (its ``log/`` is created when missing).
+        site: the site as loaded from ``folder`` (its schedule is what ids are checked against).
+        kind: one of :data:`fieldlog.journal.entries.KINDS`.
+        day: the day the entry describes (for ``started``/``finished``: the actual date).
+            None means ``today``; for a correction, the day of the entry corrected.
+        fields: the kind's fields; text from a command line is parsed (``"3"``, ``"A,B"``).
+            A correction takes ``supersedes``, ``reason``, optionally ``withdraw=True``, and
+            any fields of the corrected kind as replacement values.
+        today: the real date, read once by the caller; later days are refused.
+        author: who records it (default: device.toml's author, else the login name).
+        device: device id (default: this machine's, see :mod:`fieldlog.journal.device`).
+        clock: gives the ``written`` time; tests and the sample generator pass a fixed one.
+        home: fieldlog's data folder (default ``$FIELDLOG_HOME`` or the user data folder).
+        site_name: how the user named the site folder, for the fixes in error messages.
+
+    Returns:
+        The entry as written, with its id.
+
+    Raises:
+        EntryRefused: the entry is wrong; nothing was written.
+        JournalError: the log cannot be written (full or read-only disk, a damaged day file,
+            another writer holding the lock too long); the log is as it was.
+    """
+    folder = Path(folder)
+    site_name = site_name or str(folder)
+    if kind not in KINDS:
+        raise refuse(f"unknown entry kind '{kind}'", fix=f"use one of: {', '.join(KINDS)}")
+    fields = {k: v for k, v in fields.items()
+              if v is not None and not (isinstance(v, list | tuple) and not v)}
+    if kind != "correction":
+        day = day or today
+        check_day(day, today)
+        clean = _shape(kind, fields)
+    device = device or device_id(home)
+    author = _author(author or default_author(home))
+    log = log_folder(folder)
+    try:
+        log.mkdir(exist_ok=True)
+    except OSError as exc:
+        raise write_error(log, exc, "create the log folder") from exc
+    with device_lock(log, device):
+        journal = read_journal(folder)
+        if kind == "correction":
+            day, clean = _correction(site, journal, day, fields, today, site_name)
+        else:
+            view = replay(site, journal.entries, _FAR_FUTURE)
+            check_entry(site, view, kind, day, clean, site_name)
+        return _append(log, journal, device, kind, day, clean, author, clock)
+
+
+def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
+    try:
+        return check_fields(kind, fields)
+    except FieldProblem as exc:
+        raise refuse(f"{kind}: {exc}") from None
+
+
+def _author(author: str) -> str:
+    author = author.strip()
+    if not author or len(author) > 100 or any(ord(c) < 32 for c in author):
+        raise refuse(f"author {author!r} is not a usable name", fix="give --author NAME")
+    return author
+
+
+def _correction(site: Site, journal: Journal, day: date | None, fields: Mapping[str, Any],
+                today: date, site_name: str) -> tuple[date, dict[str, Any]]:
+    """Check a correction and the entry it would leave; returns its day and fields."""
+    target_id = str(fields.get("supersedes", ""))
+    target = journal.by_id(target_id)
+    if target is None:
+        raise refuse(f"there is no entry {target_id or '(none given)'} in the log",
+                     fix="give the id printed when the entry was recorded (see the daily "
+                     "report)")
+    view = replay(site, journal.entries, _FAR_FUTURE)
+    if target.id in view.superseded:
+        later = view.superseded[target.id]
+        raise refuse(f"entry {target.id} was already corrected by {later.id}",
+                     fix=f"correct {later.id} instead")
+    base, chain = correction_base(journal.entries, target)
+    changes = {k: v for k, v in fields.items() if k not in CORRECTION_OWN}
+    withdraw = bool(fields.get("withdraw"))
+    if withdraw and (changes or (day is not None and day != target.day)):
+        raise refuse("a withdrawal carries no new values", fix="leave out --withdraw, or the "
+                     "new values")
+    day = day or target.day
+    check_day(day, today)
+    if not withdraw and not changes and day == target.day:
+        raise refuse("nothing to correct",
+                     fix="give the right day (--on DATE), new values (--set FIELD=VALUE) or "
+                     "--withdraw if the entry was recorded in error")
+    clean = _shape("correction", {**fields, "corrects": base.kind})
+    if not withdraw:
+        merged = {**base.fields, **{k: v for k, v in clean.items() if k not in CORRECTION_OWN}}
+        rest = [e for e in journal.entries if e.id not in chain]
+        check_entry(site, replay(site, rest, _FAR_FUTURE), base.kind, day, merged, site_name)
+    return day, clean
+
+
+def _next_seq(log: Path, journal: Journal, device: str) -> int:
+    """One more than the highest entry number this device has written in ``log``.
+
+    Taken from the entries read, and from the raw text of any of the device's files that
+    could not be read as entries, so a damaged file still counts.
+    """
+    highest = max((e.seq for e in journal.entries if e.device == device), default=0)
+    damaged = {f.file for f in journal.findings if f.problem in ("not TOML", "bad entry")}
+    for name in damaged:
+        if name.endswith(f"_{device}{SUFFIX}"):
+            for m in _SEQ_RE.finditer(read_bytes(log / name)):
+                highest = max(highest, int(m[1]))
+    return highest + 1
+
+
+def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
+            fields: dict[str, Any], author: str, clock: Clock) -> Entry:
+    name = file_name(day, device)
+    path = log / name
+    remove_stale_temps(log, name)
+    old = read_bytes(path)
+    prev, count = "", 0
+    check = FileCheck(name)
+    if old:
+        check = checked(name, old)  # already parsed by read_journal: a cache hit
+        broken = [f for f in check.findings if f.problem in ("not TOML", "bad name", "bad entry")]
+        if broken:
+            raise JournalError(
+                f"the day file is damaged ({broken[0]}); nothing was written", file=path,
+                fix="run 'fieldlog verify'; move the damaged file out of log/ to record that "
+                "day again",
+            )
+        count = len(check.entries)
+        if check.entries:
+            prev = max(check.entries, key=lambda e: e.seq).hash
+    seq = _next_seq(log, journal, device)
+    written = clock().astimezone(UTC).replace(microsecond=0)
+    entry = Entry(id=f"{device}.{seq}", seq=seq, kind=kind, day=day, written=written,
+                  author=author, device=device, fields=MappingProxyType(dict(fields)),
+                  prev=prev)
+    body = entry.stored()
+    body["hash"] = entry_hash(body)
+    block = b"[[entry]]\n" + tomli_w.dumps(body).encode("utf-8")
+    # A new file opens with a warning comment; entries are kept one blank line apart.
+    sep = FILE_HEADER + b"\n" if not old else (b"\n" if old.endswith(b"\n") else b"\n\n")
+    # The old bytes are a sound journal file and end with a newline (added by `sep` if not),
+    # so appending a self-contained [[entry]] table cannot change how they parse: reading the
+    # new block back on its own proves the whole new file reads back as intended.
+    rows = tomllib.loads(block.decode("utf-8"))["entry"]
+    if len(rows) != 1 or rows[0] != body or entry_hash(rows[0]) != body["hash"]:
+        raise JournalError("the new entry did not read back as written; nothing was written",
+                           file=path, fix="report this as a fieldlog bug, with the entry")
+    new = old + sep + block
+    atomic_write(path, new)
+    written_entry = replace(entry, hash=body["hash"], file=name, position=count)
+    remember(name, new, FileCheck(name, (*check.entries, written_entry), check.findings))
+    return written_entry

@@ -1,0 +1,143 @@
+"""Whether a new entry makes sense against the schedule and what the log already says.
+
+Field shapes are checked in :mod:`fieldlog.journal.entries`; here are the checks that need
+context: the activity exists, the day is not in the future, a finish is not before its start,
+an activity is not started twice, remaining days are not given for finished work, a readiness
+item being cleared was opened. Each refusal says what to do instead, usually which correction
+to record, because the log is never edited.
+"""
+
+from __future__ import annotations
+
+import difflib
+from collections.abc import Mapping
+from datetime import date
+from typing import Any
+
+from fieldlog.errors import EntryRefused
+from fieldlog.journal.entries import Entry
+from fieldlog.journal.replay import ActivityEntries, Replay
+from fieldlog.model import Site
+
+
+def refuse(problem: str, *, activity: str | None = None, fix: str | None = None) -> EntryRefused:
+    """An :class:`EntryRefused` (nothing has been written when it is raised)."""
+    return EntryRefused(problem, activity=activity, fix=fix)
+
+
+def check_day(day: date, today: date) -> None:
+    """A day in the future cannot have happened yet."""
+    if day > today:
+        raise refuse(f"{day} is after today ({today})",
+                     fix="record what happened on a day up to today")
+
+
+def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any],
+                site_name: str) -> None:
+    """Refuse an entry of ``kind`` for ``day`` that contradicts the schedule or the log.
+
+    Args:
+        site: the site as loaded now (its current schedule revision).
+        view: the log replayed over every day (without the entry being corrected, when the
+            new entry is a correction's replacement).
+        kind, day, fields: the new entry (fields already shape-checked).
+        site_name: how the site folder was named on the command line, for the fixes.
+
+    Raises:
+        EntryRefused: with the fix.
+    """
+    for aid in _activities(fields):
+        if not site.has_activity(aid):
+            close = difflib.get_close_matches(aid, [a.id for a in site.activities], n=3)
+            hint = f"did you mean {', '.join(close)}?" if close else \
+                f"see 'fieldlog schedule {site_name}' for the ids"
+            raise refuse(f"unknown activity '{aid}' (schedule revision {site.revision})",
+                         activity=aid, fix=hint)
+    for name in fields.get("calendars", ()):
+        if name not in site.calendars:
+            raise refuse(f"unknown calendar '{name}'",
+                         fix=f"use one of: {', '.join(site.calendars)}")
+    ev = view.evidence.get(fields.get("activity", ""), ActivityEntries())
+    correct = f"fieldlog record {site_name} correct ENTRY-ID --reason '...'"
+    if kind == "started":
+        _started(fields["activity"], day, ev, correct)
+    elif kind == "finished":
+        _finished(fields["activity"], day, ev, correct)
+    elif kind in ("remaining", "percent"):
+        _measure(kind, fields, day, ev)
+    elif kind == "need":
+        expected = fields.get("expected")
+        if expected is not None and expected < day:
+            raise refuse(f"expected date {expected} is before {day}, the day it is recorded "
+                         "for", activity=fields["activity"],
+                         fix="give the date it is now expected, or leave it out")
+    elif kind == "cleared":
+        _cleared(fields["item"], day, view)
+
+
+def _activities(fields: Mapping[str, Any]) -> list[str]:
+    out = [fields["activity"]] if fields.get("activity") else []
+    return out + list(fields.get("activities", ()))
+
+
+def _started(aid: str, day: date, ev: ActivityEntries, correct: str) -> None:
+    if ev.start is not None:
+        same = "already recorded" if ev.start.day == day else f"already started on {ev.start.day}"
+        raise refuse(f"{aid} {same} (entry {ev.start.id})", activity=aid,
+                     fix=f"to change it: {correct.replace('ENTRY-ID', ev.start.id)} --on DATE")
+    if ev.finish is not None and ev.finish.day < day:
+        raise refuse(f"{aid} cannot start on {day}: it finished on {ev.finish.day} "
+                     f"(entry {ev.finish.id})", activity=aid,
+                     fix="give the real start date, or correct the finish")
+    for measure in (ev.remaining, ev.percent):
+        if measure is not None and measure.day < day:
+            raise refuse(f"{aid} cannot start on {day}: progress was recorded for "
+                         f"{measure.day} (entry {measure.id})", activity=aid,
+                         fix="give the real start date, or correct that entry")
+
+
+def _finished(aid: str, day: date, ev: ActivityEntries, correct: str) -> None:
+    if ev.finish is not None:
+        same = "already recorded" if ev.finish.day == day else \
+            f"already finished on {ev.finish.day}"
+        raise refuse(f"{aid} {same} (entry {ev.finish.id})", activity=aid,
+                     fix=f"to change it: {correct.replace('ENTRY-ID', ev.finish.id)} --on DATE")
+    if ev.start is not None and day < ev.start.day:
+        raise refuse(f"{aid} cannot finish on {day}, before its start on {ev.start.day} "
+                     f"(entry {ev.start.id})", activity=aid,
+                     fix="give the real finish date, or correct the start")
+
+
+def _measure(kind: str, fields: Mapping[str, Any], day: date, ev: ActivityEntries) -> None:
+    aid = fields["activity"]
+    what = "remaining days" if kind == "remaining" else "percent complete"
+    if ev.start is None or ev.start.day > day:
+        raise refuse(f"{aid} has no actual start on or before {day}, so it has no {what}",
+                     activity=aid, fix="record 'started' first (it may be the same day)")
+    if ev.finish is not None and ev.finish.day <= day:
+        if kind == "percent" and fields["percent"] == 100:
+            return
+        raise refuse(f"{aid} finished on {ev.finish.day} (entry {ev.finish.id}); a finished "
+                     f"activity has no {what}", activity=aid,
+                     fix="if it is not finished after all, correct the finish entry")
+
+
+def _cleared(item: str, day: date, view: Replay) -> None:
+    need = _find(view.effective, view.current.get(item, item))
+    if need is None or need.kind != "need":
+        open_ids = ", ".join(i.entry_id for i in view.readiness) or "none"
+        raise refuse(f"{item} is not a readiness item in the log",
+                     fix=f"give the id of a 'need' entry (open now: {open_ids})")
+    if need.id in view.cleared:
+        raise refuse(f"readiness item {need.id} was already cleared "
+                     f"(entry {view.cleared[need.id].id})")
+    if day < need.day:
+        raise refuse(f"readiness item {need.id} was opened on {need.day}, after {day}",
+                     fix="give the day it was really cleared")
+
+
+def _find(entries: tuple[Entry, ...], entry_id: str) -> Entry | None:
+    for e in entries:
+        if e.id == entry_id:
+            return e
+    return None

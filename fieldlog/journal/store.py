@@ -1,0 +1,229 @@
+"""Writing journal files so that a crash, a full disk or a second writer can never damage them.
+
+Every write replaces the whole day file atomically: the new bytes (old bytes + the new entry)
+go to a temporary file in the same folder, are flushed and fsynced, and only then renamed over
+the old file (``os.replace``), and the folder itself is fsynced. A reader sees either the old
+file or the new one, never half of one. Killing the process at any moment leaves at most a
+``.~*.tmp`` file behind, which readers ignore and the next write of that device removes.
+
+Writers of one device in one site folder take a lock first (``log/.<device>.lock``; ``flock``
+on POSIX, ``msvcrt.locking`` on Windows), so two fieldlog processes on one laptop append one
+after the other and both land. Different devices never write the same file, so they need no
+lock between them, which matters on network shares and cloud folders where locks do not
+travel.
+
+On Windows a virus scanner, indexer or cloud client can hold the target open for a moment;
+the rename is retried a few times before giving up (see the library notes on ``os.replace``).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import errno
+import os
+import sys
+import tempfile
+import time
+from collections.abc import Iterator
+from pathlib import Path
+
+from fieldlog.errors import JournalError
+from fieldlog.journal.names import TEMP_SUFFIX, lock_name, temp_prefix
+
+LOCK_TIMEOUT = 15.0
+"""Seconds to wait for another fieldlog process writing the same log."""
+
+RETRY_REPLACE = sys.platform == "win32"
+"""Retry a rename refused because another program has the file open (Windows only)."""
+_REPLACE_TRIES = 10
+
+_REASONS = {
+    errno.ENOSPC: "the disk is full",
+    errno.EDQUOT: "the disk quota is used up",
+    errno.EROFS: "the folder is on a read-only disk",
+    errno.EACCES: "no permission to write there",
+    errno.EPERM: "no permission to write there",
+    errno.EIO: "the disk reported an input/output error",
+}
+
+
+def write_error(path: Path, exc: OSError, what: str = "write") -> JournalError:
+    """A :class:`JournalError` saying plainly why ``path`` could not be written."""
+    reason = _REASONS.get(exc.errno or 0, exc.strerror or str(exc))
+    fix = {
+        errno.ENOSPC: "free some space on the disk, then record the entry again",
+        errno.EROFS: "check the stick or share is not write-protected, then try again",
+        errno.EACCES: "check the folder's permissions, then try again",
+        errno.EPERM: "check the folder's permissions, then try again",
+    }.get(exc.errno or 0, "check the disk, then record the entry again")
+    return JournalError(f"cannot {what}: {reason}; the log was left as it was",
+                        file=path, fix=fix)
+
+
+@contextlib.contextmanager
+def device_lock(log_dir: Path, device: str, timeout: float = LOCK_TIMEOUT) -> Iterator[None]:
+    """Hold the lock that serialises writers of ``device`` in ``log_dir``.
+
+    Raises:
+        JournalError: the lock file cannot be created, or another writer held it too long.
+    """
+    path = log_dir / lock_name(device)
+    try:
+        fd = os.open(path, os.O_RDWR | os.O_CREAT, 0o666)
+    except OSError as exc:
+        raise write_error(path, exc, "lock the log for writing") from exc
+    try:
+        deadline = time.monotonic() + timeout
+        while not _try_lock(fd):
+            if time.monotonic() > deadline:
+                raise JournalError(
+                    "another fieldlog is still writing this log", file=path,
+                    fix="wait for it to finish, then record the entry again",
+                )
+            time.sleep(0.005)
+        try:
+            yield
+        finally:
+            _unlock(fd)
+    finally:
+        os.close(fd)
+
+
+def _try_lock(fd: int) -> bool:
+    if os.name == "nt":
+        import msvcrt
+
+        try:
+            msvcrt.locking(fd, msvcrt.LK_NBLCK, 1)
+        except OSError:
+            return False
+        return True
+    import fcntl
+
+    try:
+        fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+    except BlockingIOError:
+        return False
+    return True
+
+
+def _unlock(fd: int) -> None:
+    if os.name == "nt":
+        import msvcrt
+
+        os.lseek(fd, 0, os.SEEK_SET)
+        msvcrt.locking(fd, msvcrt.LK_UNLCK, 1)
+    else:
+        import fcntl
+
+        fcntl.flock(fd, fcntl.LOCK_UN)
+
+
+def remove_stale_temps(log_dir: Path, target: str) -> None:
+    """Delete temporary files an interrupted write of ``target`` left behind.
+
+    Call only while holding the device lock: then no other write of ``target`` is running.
+    """
+    prefix = temp_prefix(target)
+    for p in log_dir.iterdir():
+        if p.name.startswith(prefix) and p.name.endswith(TEMP_SUFFIX):
+            with contextlib.suppress(FileNotFoundError):
+                p.unlink()
+
+
+def atomic_write(path: Path, data: bytes) -> None:
+    """Replace ``path`` by ``data`` so that a reader only ever sees the old or new bytes.
+
+    Raises:
+        JournalError: the disk is full or read-only, or the file stayed locked; ``path`` is
+            then exactly as it was.
+    """
+    folder = path.parent
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=temp_prefix(path.name), suffix=TEMP_SUFFIX,
+                                   dir=folder)
+    except OSError as exc:
+        raise write_error(path, exc) from exc
+    try:
+        try:
+            _share_like_new_file(fd)
+            _write_all(fd, data)
+            _flush_to_disk(fd)
+        finally:
+            os.close(fd)
+        _replace(tmp, path)
+    except BaseException as exc:
+        with contextlib.suppress(FileNotFoundError):
+            os.unlink(tmp)
+        if isinstance(exc, OSError):
+            raise write_error(path, exc) from exc
+        raise
+    _fsync_dir(folder)
+
+
+def _share_like_new_file(fd: int) -> None:
+    """Give the temp file the permissions a newly created file gets (mkstemp makes it
+    private), so a log on a shared folder stays readable by the office."""
+    if not hasattr(os, "fchmod"):
+        return
+    mask = os.umask(0o022)
+    os.umask(mask)
+    os.fchmod(fd, 0o666 & ~mask)
+
+
+def _write_all(fd: int, data: bytes) -> None:
+    view = memoryview(data)
+    while view:
+        n = os.write(fd, view)
+        view = view[n:]
+
+
+def _flush_to_disk(fd: int) -> None:
+    if sys.platform == "darwin":
+        import fcntl
+
+        try:
+            fcntl.fcntl(fd, fcntl.F_FULLFSYNC)
+            return
+        except OSError:
+            pass  # not supported on this filesystem: plain fsync below
+    os.fsync(fd)
+
+
+def _replace(tmp: str, path: Path) -> None:
+    delay = 0.01
+    for attempt in range(_REPLACE_TRIES):
+        try:
+            os.replace(tmp, path)
+            return
+        except PermissionError:
+            if not RETRY_REPLACE or attempt == _REPLACE_TRIES - 1:
+                raise
+            time.sleep(delay)
+            delay = min(delay * 2, 1.0)
+
+
+def _fsync_dir(folder: Path) -> None:
+    """Make the rename itself durable (POSIX); Windows cannot open a folder this way."""
+    if os.name == "nt":
+        return
+    fd = os.open(folder, os.O_RDONLY | getattr(os, "O_DIRECTORY", 0))
+    try:
+        os.fsync(fd)
+    except OSError as exc:
+        # Some filesystems (certain FUSE and network mounts) refuse fsync on a folder; the
+        # file itself is already safely on disk, so only those refusals are tolerated.
+        if exc.errno not in (errno.EINVAL, errno.ENOTSUP, errno.EBADF):
+            raise write_error(folder, exc, "make the write durable") from exc
+    finally:
+        os.close(fd)
+
+
+def read_bytes(path: Path) -> bytes:
+    """The bytes of ``path``, or ``b""`` when it does not exist yet."""
+    try:
+        return path.read_bytes()
+    except FileNotFoundError:
+        return b""
+    except OSError as exc:
+        raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc

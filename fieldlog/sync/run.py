@@ -1,0 +1,208 @@
+"""One sync between a site folder and a target folder (the office share, a stick, a cloud folder).
+
+Steps, each safe to interrupt and repeat:
+
+1. check the two folders (the site must load; the target must exist);
+2. remove temporary files a sync that died long ago left behind;
+3. seed a target that has no site files yet;
+4. list both ``log/`` folders by content hash and plan what each side lacks;
+5. copy, each file through a checked temporary name, validating it as a journal first;
+6. keep both versions of every conflicting file;
+7. bring a newer office schedule revision into the site.
+
+Nothing is ever deleted or overwritten except a journal file by a longer copy that begins with
+exactly its bytes, and the site's schedule by a validated newer revision (the old one is kept).
+A second run right after the first finds nothing to do and writes nothing.
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Callable
+from dataclasses import dataclass
+from functools import partial
+from pathlib import Path
+
+from fieldlog.errors import JournalError, SyncError
+from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
+from fieldlog.sync.checks import JournalCheck, default_check
+from fieldlog.sync.conflicts import conflicts_folder, keep_aside
+from fieldlog.sync.plan import Conflict, Copy, Direction, LogPlan, plan_logs
+from fieldlog.sync.revision import HISTORY_DIR, bring_in_schedule, seed_target
+from fieldlog.sync.scan import (
+    CONFLICTS_DIR,
+    LOG_DIR,
+    MAX_FILE_BYTES,
+    LogFile,
+    Refusal,
+    scan_log,
+)
+from fieldlog.sync.summary import ConflictReport, SyncSummary
+from fieldlog.sync.transfer import (
+    STALE_AFTER_S,
+    LinkedFolder,
+    SourceChanged,
+    clean_stale_temps,
+    copy_verified,
+    fsync_folder,
+    sha256_file,
+)
+
+Progress = Callable[[int, int, int], None]
+"""``progress(files_done, files_total, bytes_done)``, called after each copied file."""
+
+
+@dataclass(frozen=True)
+class SyncOptions:
+    """How a sync runs; the defaults are what ``fieldlog sync`` uses."""
+
+    check: JournalCheck | None = None
+    """Journal validation for every file that lands; None = the journal's own check."""
+    max_bytes: int = MAX_FILE_BYTES
+    progress: Progress | None = None
+    now: float | None = None
+    """Wall-clock time (seconds since the epoch) for judging stale temporary files; None skips
+    that clean-up. Passed in, so the core never reads the clock."""
+    stale_after_s: float = STALE_AFTER_S
+
+
+def sync_site(site_folder: Path | str, target: Path | str,
+              options: SyncOptions | None = None) -> SyncSummary:
+    """Make the site and the target whole: journal files both ways, schedule revision in.
+
+    Raises:
+        SiteError: the site folder does not load (bad input, nothing was touched).
+        SyncError: the target is not usable, or a copy could not be written (interrupted:
+            both folders are still valid; run sync again).
+    """
+    opts = options or SyncOptions()
+    check = opts.check or default_check()
+    site_folder, target = Path(site_folder), Path(target)
+    site = load_site(site_folder)
+    _check_target(site_folder, target)
+    cleaned = _clean(site_folder, target, opts)
+    seeded = seed_target(site_folder, target)
+
+    ours, theirs = (scan_log(site_folder, "site", max_bytes=opts.max_bytes),
+                    scan_log(target, "target", max_bytes=opts.max_bytes))
+    plan = plan_logs(ours.files, theirs.files, _is_prefix)
+    refused = [*ours.refused, *theirs.refused]
+    done, skipped, copied_bytes = _copy_all(plan, site_folder, target, check, opts, refused)
+    conflicts = [_keep_both(c, site_folder, target, check, refused, skipped)
+                 for c in plan.conflicts]
+    for folder in {site_folder / LOG_DIR, target / LOG_DIR}:
+        if folder.is_dir():
+            fsync_folder(folder)
+
+    revision = bring_in_schedule(site_folder, target, site, max_bytes=opts.max_bytes)
+    return SyncSummary(
+        sent=tuple(c for c in done if c.direction is Direction.SEND),
+        received=tuple(c for c in done if c.direction is Direction.RECEIVE),
+        unchanged=plan.unchanged, seeded=seeded, revision=revision,
+        conflicts=tuple(conflicts), refused=tuple(refused), skipped=tuple(skipped),
+        cleaned=cleaned, bytes_copied=copied_bytes,
+    )
+
+
+def _check_target(site_folder: Path, target: Path) -> None:
+    """Refuse a target that does not exist, is the site itself, or holds many sites."""
+    if not target.is_dir():
+        raise SyncError("the target folder does not exist", file=target,
+                        fix="create it first (an empty folder is fine: sync fills it from the "
+                        "site) or check the drive letter / mount point")
+    if os.path.samefile(site_folder, target):
+        raise SyncError("the target is the site folder itself", file=target,
+                        fix="give the office's folder for this site")
+    has_site_files = any((target / n).exists() for n in (SITE_FILE, SCHEDULE_FILE))
+    if not has_site_files and any(
+        (p / SITE_FILE).is_file() for p in target.iterdir() if p.is_dir() and not p.is_symlink()
+    ):
+        raise SyncError("the target holds site folders, not one site's files", file=target,
+                        fix="give this site's own folder inside it, e.g. "
+                        f"{target / site_folder.name}")
+
+
+def _clean(site_folder: Path, target: Path, opts: SyncOptions) -> int:
+    """Remove stale temporary files in every folder sync writes to."""
+    if opts.now is None:
+        return 0
+    removed = 0
+    for side in (site_folder, target):
+        for folder in (side, side / LOG_DIR, conflicts_folder(side), side / HISTORY_DIR):
+            if not folder.is_symlink():
+                removed += clean_stale_temps(folder, opts.now, opts.stale_after_s)
+    return removed
+
+
+def _is_prefix(shorter: LogFile, longer: LogFile) -> bool:
+    """True when ``longer`` begins with exactly the bytes of ``shorter``."""
+    return sha256_file(longer.path, limit=shorter.size) == shorter.sha256
+
+
+def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalCheck,
+              opts: SyncOptions, refused: list[Refusal]) -> tuple[list[Copy], list[str], int]:
+    """Carry out every planned copy; returns (done, skipped names, bytes copied)."""
+    done: list[Copy] = []
+    skipped: list[str] = []
+    copied = 0
+    total = len(plan.copies)
+    unusable = {r.side for r in refused if r.path == LOG_DIR}  # a link or a file: reported
+    for n, copy in enumerate(plan.copies, 1):
+        to_site = copy.direction is Direction.RECEIVE
+        if ("site" if to_site else "target") in unusable:
+            continue
+        dest_log = (site_folder if to_site else target) / LOG_DIR
+        try:
+            copied += copy_verified(
+                copy.source.path, dest_log / copy.name, copy.source.sha256,
+                replaces_sha256=copy.replaces.sha256 if copy.replaces else None,
+                validate=partial(check, copy.name), make_folder=True,
+            )
+        except JournalError as exc:
+            refused.append(Refusal("target" if to_site else "site", f"{LOG_DIR}/{copy.name}",
+                                   _not_journal(copy.name, exc)))
+        except SourceChanged:
+            skipped.append(f"{LOG_DIR}/{copy.name}")
+        except LinkedFolder:
+            _refuse_link(refused, "site" if to_site else "target", LOG_DIR)
+        else:
+            done.append(copy)
+        if opts.progress is not None:
+            opts.progress(n, total, copied)
+    return done, skipped, copied
+
+
+def _keep_both(conflict: Conflict, site_folder: Path, target: Path, check: JournalCheck,
+               refused: list[Refusal], skipped: list[str]) -> ConflictReport:
+    """Save each side's version beside the other's; report where they went."""
+    kept: list[str] = []
+    pairs = ((conflict.target, site_folder, "site", "target"),
+             (conflict.site, target, "target", "site"))
+    for version, dest, dest_side, from_side in pairs:
+        if version is None:
+            continue
+        try:
+            rel, _ = keep_aside(version, dest, partial(check, version.name))
+        except JournalError as exc:
+            refused.append(Refusal(from_side, f"{LOG_DIR}/{version.name}",
+                                   _not_journal(version.name, exc)))
+        except SourceChanged:
+            skipped.append(f"{LOG_DIR}/{version.name}")
+        except LinkedFolder:
+            _refuse_link(refused, dest_side, CONFLICTS_DIR)
+        else:
+            kept.append(f"{dest_side} {rel} (the {from_side}'s version)")
+    return ConflictReport(conflict.name, conflict.reason, tuple(kept))
+
+
+def _not_journal(name: str, exc: JournalError) -> str:
+    """The refusal reason for a file the journal check rejected (without repeating its path)."""
+    problem = exc.problem.removeprefix(f"{LOG_DIR}/{name}: ").removeprefix(f"{LOG_DIR}/{name}, ")
+    return f"is not a valid journal file: {problem}"
+
+
+def _refuse_link(refused: list[Refusal], side: str, folder: str) -> None:
+    """Report once that ``folder`` on ``side`` is a link and nothing was written through it."""
+    refusal = Refusal(side, folder, "the folder is a link; links are not followed")
+    if refusal not in refused:
+        refused.append(refusal)
