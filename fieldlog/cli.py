@@ -26,10 +26,7 @@ class _Parser(argparse.ArgumentParser):
     """argparse that exits 2 with one line (its default, kept explicit for the contract)."""
 
     def error(self, message: str) -> None:  # type: ignore[override]
-        self.exit(EXIT_BAD_INPUT, f"fieldlog: {message} (see 'fieldlog {self._sub()} --help')\n")
-
-    def _sub(self) -> str:
-        return self.prog.split(" ", 1)[1] if " " in self.prog else ""
+        self.exit(EXIT_BAD_INPUT, f"fieldlog: {message} (see '{self.prog} --help')\n")
 
 
 def iso_date(text: str) -> date:
@@ -40,13 +37,17 @@ def iso_date(text: str) -> date:
         raise argparse.ArgumentTypeError(f"'{text}' is not a date like 2026-03-02") from None
 
 
-def build_parser() -> argparse.ArgumentParser:
-    """The full parser with every subcommand registered."""
-    parser = _Parser(prog="fieldlog", description=__doc__.splitlines()[0])
+def build_parser(only: str | None = None) -> argparse.ArgumentParser:
+    """The parser with every subcommand registered, or just ``only`` (faster start)."""
+    parser = _Parser(
+        prog="fieldlog",
+        description="End-of-shift site log, live critical-path float and a two-week lookahead "
+        "for construction foremen. A schedule is a plan, not a permit.",
+    )
     parser.add_argument("--version", action="version", version=f"fieldlog {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     sub.required = True
-    for name in COMMANDS:
+    for name in COMMANDS if only is None else (only,):
         module = importlib.import_module(f"fieldlog.commands.{name}")
         module.add_parser(sub)
     return parser
@@ -54,7 +55,10 @@ def build_parser() -> argparse.ArgumentParser:
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
-    parser = build_parser()
+    argv = sys.argv[1:] if argv is None else list(argv)
+    first = argv[0] if argv else None
+    # Importing only the chosen command's module keeps `fieldlog schedule` quick to start.
+    parser = build_parser(first if first in COMMANDS else None)
     args = parser.parse_args(argv)
     try:
         return int(args.run(args))

@@ -11,6 +11,7 @@ import csv
 import io
 import json
 from datetime import date
+from functools import lru_cache
 
 from fieldlog.progress import Status
 from fieldlog.schedule_result import ActivityResult, ScheduleResult
@@ -26,7 +27,7 @@ CSV_COLUMNS = (
 def render_schedule(result: ScheduleResult, fmt: str) -> str:
     """The schedule in ``fmt`` (one of :data:`FORMATS`)."""
     if fmt == "json":
-        return json.dumps(schedule_json(result), indent=2) + "\n"
+        return json_text(schedule_json(result))
     if fmt == "csv":
         return _csv(result)
     return _text(result)
@@ -62,6 +63,24 @@ def schedule_json(result: ScheduleResult) -> dict:
         "out_of_sequence": [o.describe() for o in result.out_of_sequence],
         "activities": [activity_json(r) for r in result.activities],
     }
+
+
+_ROW = json.JSONEncoder(separators=(",\n      ", ": "))
+
+
+def json_text(doc: dict) -> str:
+    """``json.dumps(doc, indent=2) + "\\n"``, byte for byte, but fast for 10,000 activities.
+
+    With ``indent`` set, ``json.dumps`` always takes the pure-Python encoder; the activity rows
+    (flat objects, the last key of ``doc``) are encoded here by the C encoder instead, with
+    separators that give the same layout. A test checks the bytes against ``json.dumps``.
+    """
+    rows = doc["activities"]
+    head = json.dumps({**doc, "activities": []}, indent=2)
+    if not rows:
+        return head + "\n"
+    body = _ROW.encode(rows)[2:-2].replace("},\n      {", "\n    },\n    {\n      ")
+    return head[: -len("[]\n}")] + "[\n    {\n      " + body + "\n    }\n  ]\n}\n"
 
 
 def _csv(result: ScheduleResult) -> str:
@@ -140,6 +159,7 @@ def _finish_line(result: ScheduleResult) -> str:
     return text
 
 
+@lru_cache(maxsize=4096)
 def _d(d: date | None) -> str:
     return d.strftime("%d %b %y") if d else ""
 

@@ -30,6 +30,7 @@ from fieldlog.model import (
     Site,
 )
 from fieldlog.network import topological_order
+from fieldlog.site_cache import cached_site
 
 SITE_FILE = "site.toml"
 SCHEDULE_FILE = "schedule.toml"
@@ -170,13 +171,22 @@ def load_site(folder: Path | str) -> Site:
 
 @lru_cache(maxsize=4)
 def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
-    """Parse and validate, remembered by the files' content.
+    """Parse and validate, remembered by the files' content, in this process and on disk.
 
     Parsing dominates loading (tomllib takes about 0.4 s for a 10,000-activity schedule, the
     checks and the schedule itself a fraction of that), and the app reloads the folder after
     every sync. The same bytes give the same immutable Site, which also keeps the engine's
     cached network; any change to either file is a new key. Errors are never cached.
+
+    Across processes (each ``fieldlog`` command is one), :mod:`fieldlog.site_cache` keeps the
+    validated Site in the user's cache folder, so only the first command after an office
+    revision pays for the parse.
     """
+    return cached_site(site_raw, schedule_raw, partial(
+        _parse_and_build, folder, site_raw, schedule_raw))
+
+
+def _parse_and_build(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
     return build_site(parse_toml(folder / SITE_FILE, site_raw),
                       parse_toml(folder / SCHEDULE_FILE, schedule_raw))
 

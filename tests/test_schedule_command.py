@@ -44,7 +44,7 @@ def test_json_contract(capsys: pytest.CaptureFixture[str]) -> None:
     assert doc["as_of"] == "2026-03-01" and doc["data_date"] == "2026-03-02"
     assert doc["finish"] == "2026-03-24" and doc["finish_float"] == 12
     for row in doc["activities"]:
-        assert CONTRACT_KEYS <= row.keys()
+        assert row.keys() >= CONTRACT_KEYS
     by_id = {row["id"]: row for row in doc["activities"]}
     # Hand-checked: the 7-day cure starts the Saturday after Friday's pour, and the frame
     # waits for the next weekday after the cure ends (FS lag 0 = next working day, common
@@ -73,3 +73,13 @@ def test_missing_folder_is_exit_2(capsys: pytest.CaptureFixture[str], tmp_path: 
     code, out, err = run(capsys, "schedule", str(tmp_path / "nowhere"))
     assert code == 2 and out == ""
     assert "not a site folder" in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("names", [[], ["a"], ["a", 'q"uote', "é\n"]])
+def test_fast_json_matches_json_dumps(names: list[str]) -> None:
+    """The fast JSON writer gives exactly the bytes of json.dumps(indent=2) (the reference)."""
+    from fieldlog.render_schedule import json_text
+
+    doc = {"as_of": "2026-03-01", "n": None, "nested": {"x": [1, 2]},
+           "activities": [{"id": n, "ok": True, "f": -1, "none": None, "x": 1.5} for n in names]}
+    assert json_text(doc) == json.dumps(doc, indent=2) + "\n"

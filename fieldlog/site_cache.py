@@ -1,0 +1,291 @@
+"""A persistent cache of validated sites, so a big schedule is parsed once, not on every command.
+
+Reading ``schedule.toml`` is most of the time of ``fieldlog schedule`` on a large job: tomllib
+takes about 0.6 s for 10,000 activities, while the CPM pass and the printing take a fraction
+of that. The office changes the schedule once per revision; the field runs commands many
+times a day. So the validated :class:`~fieldlog.model.Site` is kept, pickled, in the user's
+cache folder and found again by the content of the two files.
+
+Where: ``$FIELDLOG_HOME/cache`` when ``FIELDLOG_HOME`` is set, otherwise the platform's cache
+folder (``%LOCALAPPDATA%\\fieldlog\\cache`` on Windows, ``$XDG_CACHE_HOME/fieldlog`` or
+``~/.cache/fieldlog`` elsewhere). Never inside a site folder: site folders are synced to the
+office and copied to USB sticks, and a cache there would travel with them.
+
+Key: the sha256 of ``site.toml`` and ``schedule.toml`` bytes, fieldlog's version, the Python
+version and a digest of the code that shapes a Site (this module, ``site_files`` and
+``model``), so an upgrade or an edited validation rule never serves an old answer.
+
+Safety: each file is written to a temp file in the same folder and moved into place with
+``os.replace``, so a reader sees a whole file or none. Each file starts with a header holding
+its key and the sha256 of its payload; a file that is truncated, damaged, from another
+version, or does not unpickle to a Site is a miss: it is deleted and rebuilt. Only sites that
+passed validation are stored; errors are always raised again from the files. At most
+:data:`KEEP` files are kept (most recently used first).
+
+Pickle runs code from the file it reads. That is acceptable here: the folder belongs to the
+user who runs fieldlog, as their shell history and configuration do, and nothing is ever read
+from a site folder or a synced location.
+"""
+
+from __future__ import annotations
+
+import copyreg
+import dataclasses
+import functools
+import gc
+import hashlib
+import io
+import os
+import pickle
+import sys
+import tempfile
+import time
+import warnings
+from collections.abc import Callable
+from pathlib import Path
+from types import MappingProxyType
+from typing import Any
+
+from fieldlog import __version__
+from fieldlog.model import Site
+
+CACHE_SUBFOLDER = "cache"
+"""Sub-folder of ``$FIELDLOG_HOME`` that holds the cache."""
+
+KEEP = 8
+"""How many cached sites are kept; the least recently used go first."""
+
+FORMAT = 1
+"""Bump when the file layout below changes."""
+
+_MAGIC = b"fieldlog-site-cache\n"
+_PREFIX, _SUFFIX, _TEMP_SUFFIX = "site-", ".pickle", ".tmp"
+_STALE_TEMP_SECONDS = 3600.0
+_SHAPING_MODULES = ("site_cache.py", "site_files.py", "model.py")
+"""Source files whose code decides what a cached Site holds (all in this package)."""
+
+# What makes a cached file unreadable once its digest matched: a stream pickle refuses
+# (UnpicklingError, EOFError) or a class it names that is no longer there (AttributeError,
+# ImportError). Anything else is a real error and is raised.
+_UNREADABLE = (pickle.UnpicklingError, EOFError, AttributeError, ImportError)
+
+
+class SiteCacheWarning(UserWarning):
+    """The cache folder cannot be used; the site was loaded from its files as usual."""
+
+
+def cache_folder() -> Path:
+    """The folder that holds cached sites (not created here)."""
+    # Imported here: the journal package is not needed to find a folder, and importing it at
+    # module level would make site_files depend on the journal.
+    from fieldlog.journal.device import fieldlog_home
+
+    if os.environ.get(_home_env()):
+        return fieldlog_home() / CACHE_SUBFOLDER
+    if sys.platform == "win32":
+        base = Path(os.environ.get("LOCALAPPDATA") or Path.home() / "AppData" / "Local")
+        return base / "fieldlog" / "cache"
+    return Path(os.environ.get("XDG_CACHE_HOME") or Path.home() / ".cache") / "fieldlog"
+
+
+def cache_key(site_raw: bytes, schedule_raw: bytes) -> str | None:
+    """The cache key of the two files' bytes, or None when caching is off (see _code_digest)."""
+    code = _code_digest()
+    if code is None:
+        return None
+    h = hashlib.sha256()
+    # Lengths keep the two files apart: "ab" + "c" and "a" + "bc" must not share a key.
+    for part in (f"{FORMAT}|{__version__}|{sys.version}|{code}".encode(),
+                 len(site_raw).to_bytes(8, "big"), site_raw, schedule_raw):
+        h.update(part)
+    return h.hexdigest()
+
+
+def cached_site(site_raw: bytes, schedule_raw: bytes, build: Callable[[], Site]) -> Site:
+    """The Site for these bytes from the cache, else ``build()`` (stored when it succeeds).
+
+    ``build`` parses and validates; whatever it raises is raised unchanged and nothing is
+    stored. Problems with the cache folder itself (not writable, full) are reported with a
+    :class:`SiteCacheWarning` and never stop the command.
+    """
+    key = cache_key(site_raw, schedule_raw)
+    if key is None:
+        return build()
+    path = cache_folder() / f"{_PREFIX}{key}{_SUFFIX}"
+    site = read_entry(path, key)
+    if site is not None:
+        return site
+    site = build()
+    write_entry(path, key, site)
+    return site
+
+
+# --- reading ------------------------------------------------------------------------------
+
+
+def read_entry(path: Path, key: str) -> Site | None:
+    """The Site stored in ``path`` under ``key``; None (and the file deleted) when unusable."""
+    try:
+        data = path.read_bytes()
+    except (FileNotFoundError, NotADirectoryError):
+        return None  # not cached yet (a folder that cannot hold a cache is reported on write)
+    except OSError as exc:
+        _warn(f"cannot read the site cache {path}: {exc.strerror}")
+        return None
+    site = _decode(data, key)
+    if site is None:
+        _remove(path)
+        return None
+    try:
+        os.utime(path)  # most recently used: kept longest by _prune
+    except OSError as exc:  # FileNotFoundError too: another process pruned it meanwhile
+        _warn(f"cannot mark the site cache {path} as used: {exc.strerror}")
+    return site
+
+
+def _decode(data: bytes, key: str) -> Site | None:
+    """The Site in a cache file's bytes, or None when they are not a whole, matching entry."""
+    header = _MAGIC + key.encode("ascii") + b"\n"
+    digest_end = len(header) + 32
+    if not data.startswith(header) or len(data) < digest_end:
+        return None  # another format, version or key, or cut short in the header
+    payload = data[digest_end:]
+    if hashlib.sha256(payload).digest() != data[len(header):digest_end]:
+        return None  # truncated or damaged: a flipped digit must never become a duration
+    # Unpickling a tree of ~40,000 small immutable values creates no reference cycles, but
+    # every allocation counts towards the cycle collector, which then runs again and again
+    # over the growing tree (about 4x the unpickling time itself); it is paused meanwhile.
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        site = pickle.loads(payload)
+    except _UNREADABLE:
+        return None
+    finally:
+        if was_enabled:
+            gc.enable()
+    return site if type(site) is Site else None
+
+
+# --- writing ------------------------------------------------------------------------------
+
+
+def write_entry(path: Path, key: str, site: Site) -> None:
+    """Store ``site`` in ``path`` atomically, then keep only the :data:`KEEP` newest entries."""
+    payload = _pickle(site)
+    data = b"".join((_MAGIC, key.encode("ascii"), b"\n", hashlib.sha256(payload).digest(),
+                     payload))
+    folder = path.parent
+    temp: Path | None = None
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+        fd, name = tempfile.mkstemp(prefix=f".{_PREFIX}", suffix=_TEMP_SUFFIX, dir=folder)
+        temp = Path(name)
+        with os.fdopen(fd, "wb") as out:
+            out.write(data)
+        # No fsync: after a power cut the file may be empty or partial, which the payload
+        # digest turns into a miss; a cache need not survive, only never be wrong.
+        os.replace(temp, path)
+        temp = None
+    except OSError as exc:
+        _warn(f"cannot write the site cache in {folder}: {exc.strerror}; the site loads "
+              f"as usual, only slower (set {_home_env()} to a folder you can write)")
+        return
+    finally:
+        if temp is not None:
+            _remove(temp)
+    _prune(folder, keep=path)
+
+
+def _prune(folder: Path, keep: Path) -> None:
+    """Delete all but the :data:`KEEP` most recently used entries and old temp files."""
+    entries: list[tuple[float, Path]] = []
+    now = time.time()
+    try:
+        with os.scandir(folder) as it:
+            for item in it:
+                if item.name.startswith(_PREFIX) and item.name.endswith(_SUFFIX):
+                    entries.append((item.stat().st_mtime, Path(item.path)))
+                elif (item.name.startswith(f".{_PREFIX}") and item.name.endswith(_TEMP_SUFFIX)
+                      and now - item.stat().st_mtime > _STALE_TEMP_SECONDS):
+                    _remove(Path(item.path))  # left by a process that was killed mid-write
+    except FileNotFoundError:
+        return  # an entry vanished while listing: another process is pruning
+    except OSError as exc:
+        _warn(f"cannot tidy the site cache in {folder}: {exc.strerror}")
+        return
+    entries.sort(key=lambda e: (e[1] != keep, -e[0]))  # the new entry stays, then newest
+    for _, old in entries[KEEP:]:
+        _remove(old)
+
+
+def _remove(path: Path) -> None:
+    try:
+        path.unlink(missing_ok=True)
+    except OSError as exc:
+        _warn(f"cannot delete {path}: {exc.strerror}")
+
+
+# --- pickling -----------------------------------------------------------------------------
+
+
+_EMPTY: MappingProxyType[Any, Any] = MappingProxyType({})
+
+
+def frozen_mapping(items: dict[Any, Any] | None = None) -> MappingProxyType[Any, Any]:
+    """Rebuild a read-only mapping (pickle cannot name ``mappingproxy``); empty ones shared."""
+    return MappingProxyType(items) if items else _EMPTY
+
+
+def _reduce_mapping(m: MappingProxyType[Any, Any]) -> tuple[Any, ...]:
+    return (frozen_mapping, (dict(m),)) if m else (frozen_mapping, ())
+
+
+def _reduce_site(site: Site) -> tuple[Any, ...]:
+    # Only the declared fields: the engine keeps private caches on the value (its network),
+    # which are rebuilt on demand and must not be frozen into the file.
+    return (Site, tuple(getattr(site, f.name) for f in dataclasses.fields(Site)))
+
+
+_DISPATCH = copyreg.dispatch_table.copy()
+_DISPATCH[MappingProxyType] = _reduce_mapping
+_DISPATCH[Site] = _reduce_site
+
+
+def _pickle(site: Site) -> bytes:
+    buf = io.BytesIO()
+    pickler = pickle.Pickler(buf, protocol=pickle.HIGHEST_PROTOCOL)
+    pickler.dispatch_table = _DISPATCH
+    pickler.dump(site)
+    return buf.getvalue()
+
+
+# --- the code's fingerprint ---------------------------------------------------------------
+
+
+@functools.cache
+def _code_digest() -> str | None:
+    """sha256 of the modules that shape a Site; None turns caching off (source not readable).
+
+    An editable install changes code without changing ``__version__``; a Site pickled by
+    older code could lack a field the new code reads, or have passed a check that the new code
+    refuses. Reading three small files costs well under a millisecond.
+    """
+    here = Path(__file__).parent
+    h = hashlib.sha256()
+    try:
+        for name in _SHAPING_MODULES:
+            h.update((here / name).read_bytes())
+    except OSError:
+        return None  # running from a zip or a frozen build: no safe fingerprint, no cache
+    return h.hexdigest()
+
+
+def _home_env() -> str:
+    from fieldlog.journal.device import HOME_ENV
+
+    return HOME_ENV
+
+
+def _warn(message: str) -> None:
+    warnings.warn(message, SiteCacheWarning, stacklevel=3)
