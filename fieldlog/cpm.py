@@ -35,35 +35,52 @@ diagramming method's, e.g. Hendrickson, *Project Management for Construction*, s
   from the finish along driving links (the longest path). With several calendars the two can
   differ, and both are reported.
 
-The passes are written as flat loops over lists indexed by activity position (no per-activity
-objects until the results are built): a 10,000-activity site recomputes in a few tens of
-milliseconds (see tests/benchmarks/bench_cpm.py), so the app can recompute after every entry.
+How it is computed, so the app can recompute after every journal entry:
+
+* :mod:`fieldlog.cpm_network` turns the site into arrays once per site value: links sorted by
+  the *level* of their successor (the longest chain of links leading to it);
+* :mod:`fieldlog.cpm_calendars` stacks the calendars into tables, so moving a point to another
+  calendar is an array lookup;
+* this module fixes what dates and progress decide before the passes (:func:`_starting_point`),
+  then :mod:`fieldlog.cpm_passes` runs the forward and backward passes one level at a time with
+  numpy, and the summary (finish, critical set, driving path) is taken from the arrays;
+* :mod:`fieldlog.cpm_rows` builds the per-activity result rows only when they are read.
+
+A 10,000-activity site recomputes in about ten milliseconds, rows included in a few tens (see
+tests/benchmarks/bench_cpm.py). tests/reference_cpm.py keeps the earlier one-activity-at-a-time
+engine, and tests/test_cpm_differential.py checks that both agree on random sites.
 """
 
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
+from dataclasses import dataclass
 from datetime import date, timedelta
 
+import numpy as np
+
 from fieldlog.calendars import HorizonExceeded, WorkCalendar, build_calendars
-from fieldlog.model import LagCalendar, Link, LinkType, Site
-from fieldlog.network import topological_order
-from fieldlog.progress import NO_PROGRESS, Progress, Status, remaining_at
+from fieldlog.cpm_calendars import CalendarTables, calendar_tables
+from fieldlog.cpm_network import NetworkArrays, network_arrays
+from fieldlog.cpm_passes import Early, Start, backward, forward
+from fieldlog.cpm_rows import (
+    ACTUAL_DATES,
+    DATA_DATE,
+    READINESS,
+    SITE_START,
+    START_NOT_BEFORE,
+    Columns,
+)
+from fieldlog.model import LagCalendar, Site
+from fieldlog.progress import Progress, remaining_at
 from fieldlog.schedule_result import (
-    ActivityResult,
+    OUT_OF_SEQUENCE_KINDS,
+    OutOfSequence,
     ScheduleResult,
     critical_threshold,
-    find_out_of_sequence,
 )
 
-_FS, _SS, _FF, _SF = 0, 1, 2, 3
-# Bit 1 set: the link reads the predecessor's start (SS, SF); bit 2 set: it bounds the
-# successor's finish (FF, SF).
-_TYPE_CODE = {LinkType.FS: _FS, LinkType.SS: _SS, LinkType.FF: _FF, LinkType.SF: _SF}
 _DAY = timedelta(days=1)
-
-_Edge = tuple[int, int, int, Link, bool]
-"""(other activity's position, link type code, lag, link, both ends on the same calendar)."""
 
 
 def compute_schedule(
@@ -101,269 +118,195 @@ def compute_schedule(
 
 def _initial_range(site: Site, status: date, progress: Mapping[str, Progress],
                    holds: Mapping[str, date]) -> tuple[date, date]:
-    known = [site.start, status]
-    known += [d for d in (site.finish_by,) if d]
-    for p in progress.values():
-        known += [d for d in (p.actual_start, p.actual_finish) if d]
-    known += list(holds.values())
-    ahead = min(_network(site)[3] * 2, 365 * 6) + 400
-    return min(known) - timedelta(days=400), max(known) + timedelta(days=ahead)
-
-
-def _network(site: Site) -> tuple[list[int], list[list[_Edge]], list[list[_Edge]], int]:
-    """Topological order, predecessor and successor lists, and the total work in days.
-
-    Cached on the site value (it never changes), so recomputing after a journal entry does not
-    sort the network again.
+    """The first date range to build calendars over: every known date with a wide margin, and
+    room for all the work after them. :func:`compute_schedule` widens it when a pass leaves it.
     """
-    cached = site.__dict__.get("_cpm_network")
-    if cached is not None:
-        return cached
-    ids = [a.id for a in site.activities]
-    index = {aid: k for k, aid in enumerate(ids)}
-    order_ids, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in site.links))
-    assert cycle is None, "site_files refuses loops"
-    order = [index[a] for a in order_ids]
-    preds: list[list[_Edge]] = [[] for _ in ids]
-    succs: list[list[_Edge]] = [[] for _ in ids]
-    cal_of = [a.calendar for a in site.activities]
-    work = sum(a.duration for a in site.activities)
-    for lk in site.links:
-        i, j, t, lag = index[lk.pred], index[lk.succ], _TYPE_CODE[lk.type], lk.lag
-        same = cal_of[i] == cal_of[j]
-        preds[j].append((i, t, lag, lk, same))
-        succs[i].append((j, t, lag, lk, same))
-        if lag > 0:
-            work += lag
-    cached = (order, preds, succs, work)
-    object.__setattr__(site, "_cpm_network", cached)
-    return cached
+    known = [site.start, status, *holds.values()]
+    known += [d for d in (site.finish_by,) if d]
+    for field in ("actual_start", "actual_finish"):
+        days = [d for p in progress.values() if (d := getattr(p, field))]
+        known += [min(days), max(days)] if days else []
+    ahead = min(network_arrays(site).total_work * 2, 365 * 6) + 400
+    return min(known) - timedelta(days=400), max(known) + timedelta(days=ahead)
 
 
 def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
          holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
-    acts = site.activities
-    n = len(acts)
-    order, preds, succs, _ = _network(site)
-    cal = [calendars[a.calendar] for a in acts]
-    if progress:
-        prog = [progress.get(a.id, NO_PROGRESS) for a in acts]
-        status = [p.status for p in prog]
-    else:
-        prog = [NO_PROGRESS] * n
-        status = [Status.NOT_STARTED] * n
-    lag_on_succ = site.lag_calendar is LagCalendar.SUCCESSOR
-    override = site.progress_override
-    FIN, RUN = Status.FINISHED, Status.IN_PROGRESS
-
-    # Per calendar: the point that bounds every open activity, and what it is called.
-    after_status = status_date + _DAY
-    floor_pt: dict[WorkCalendar, tuple[int, str]] = {}
-    for c in calendars.values():
-        s, d = c.pos(site.start), c.pos(after_status)
-        floor_pt[c] = (s, "site start") if s >= d else (d, "data date")
-
-    dur = [a.duration for a in acts]  # planned, or remaining for work in progress
-    overdue = [False] * n
-    start_pt = [0] * n     # actual start point for started work (what SS/SF links see)
-    es = [0] * n
-    ef = [0] * n
-    driver: list[Link | str] = ["site start"] * n
-    # How a successor on another calendar reads this activity's start and finish points:
-    # True = "after the working day before the point", False = "at the point's day".
-    # Work: start at its first day, finish after its last day. Milestones: see module doc.
-    start_after = [False] * n
-    end_after = [True] * n
-
-    for j in order:
-        st, c = status[j], cal[j]
-        if st is FIN:
-            p = prog[j]
-            es[j] = start_pt[j] = c.pos(p.actual_start or p.actual_finish)
-            ef[j] = max(c.pos(p.actual_finish + _DAY), es[j])
-            dur[j] = ef[j] - es[j]
-            driver[j] = "actual dates"
-            continue
-        lo, why = floor_pt[c]
-        if st is RUN:
-            p = prog[j]
-            d, overdue[j] = remaining_at(p, dur[j], c, status_date)
-            dur[j] = d
-            start_pt[j] = c.pos(p.actual_start)
-            if why == "site start":
-                why = "data date"
-        else:
-            d = dur[j]
-            a = acts[j]
-            if a.start_not_before is not None:
-                b = c.pos(a.start_not_before)
-                if b > lo:
-                    lo, why = b, "start not before"
-            if holds:
-                when = holds.get(a.id)
-                if when is not None and c.pos(when) > lo:
-                    lo, why = c.pos(when), "readiness"
-        date_lo, lo_after = lo, False
-        for i, t, lag, link, same in preds[j]:
-            if st is RUN and (override or status[i] is FIN):
-                continue  # history: the link was met or broken before the status date
-            b = start_pt[i] if t & 1 else ef[i]
-            if same:
-                b += lag
-            else:
-                aft = start_after[i] if t & 1 else end_after[i]
-                if lag_on_succ:
-                    b = _move(b, cal[i], c, aft) + lag
-                else:
-                    b = _move(b + lag, cal[i], c, aft)
-            if t & 2:
-                b -= d
-            # A link that ties with a date still drives (the driving path goes through it).
-            if b > lo or (b == lo and type(why) is str):
-                lo, why = b, link
-                lo_after = start_after[i] if t & 1 else end_after[i]
-        es[j] = lo
-        ef[j] = lo + d
-        if st is not RUN:
-            start_pt[j] = lo
-        driver[j] = why
-        if d == 0:  # a milestone: the end of the work that drives it, or the start of its day
-            start_after[j] = end_after[j] = lo_after and lo > date_lo
+    net = network_arrays(site)
+    tables = calendar_tables(calendars, net.calendar_names)
+    fixed = _starting_point(site, net, tables, status_date, progress, holds)
+    start = fixed.start
+    options = {"override": site.progress_override,
+               "lag_on_successor": site.lag_calendar is LagCalendar.SUCCESSOR}
+    early = forward(net, tables, start, **options)
+    fin, dur, cal = start.finished, start.duration, net.calendar
+    is_open = ~fin
 
     # Last working day of every activity (a start milestone: its own day), as an ordinal.
-    last_ord = [0] * n
-    for k in range(n):
-        if status[k] is FIN:
-            last_ord[k] = prog[k].actual_finish.toordinal()
-            continue
-        work = cal[k].work
-        p = ef[k] - 1 if dur[k] or end_after[k] else es[k]
-        if p >= len(work):
-            raise HorizonExceeded(cal[k].name)
-        last_ord[k] = work[p]
-    finish_ord = max(last_ord, default=site.start.toordinal())
+    last = np.empty(net.size, dtype=np.int64)
+    point = np.where((dur != 0) | early.end_after, early.finish - 1, early.start)
+    last[is_open] = tables.ordinals(cal[is_open], point[is_open])
+    last[fin] = start.actual_finish[fin]
+    finish_ord = int(last.max()) if net.size else site.start.toordinal()
     finish = date.fromordinal(finish_ord)
-    target = site.finish_by or finish
-    proj_pt = {c: c.pos(target + _DAY) for c in calendars.values()}
-    early_pt = {c: c.pos(finish + _DAY) for c in calendars.values()}
 
-    ls = [0] * n
-    lf = [0] * n
-    free = [0] * n
-    for i in reversed(order):
-        st = status[i]
-        if st is FIN:
-            continue
-        a, ci, d = acts[i], cal[i], dur[i]
-        # A milestone at the start of its day is "on or before day X" one point earlier.
-        cut = 0 if end_after[i] else 1
-        late = proj_pt[ci] - cut
-        slack = early_pt[ci] - cut - ef[i]
-        if a.finish_not_after is not None:
-            fna = ci.pos(a.finish_not_after + _DAY) - cut
-            late = min(late, fna)
-            slack = min(slack, fna - ef[i])
-        for j, t, lag, _link, same in succs[i]:
-            sj = status[j]
-            if sj is FIN or (sj is RUN and override) or (t & 1 and st is RUN):
-                continue  # history, or a bound that came from the actual start
-            if t & 2:
-                q_late, q_early = lf[j] - lag, ef[j] - lag
-            else:
-                q_late, q_early = ls[j] - lag, es[j] - lag
-            if not same:
-                aft = start_after[i] if t & 1 else end_after[i]
-                if lag_on_succ:
-                    q_late = _move_back(q_late, cal[j], ci, aft)
-                    q_early = _move_back(q_early, cal[j], ci, aft)
-                else:
-                    q_late = _move_back(q_late + lag, cal[j], ci, aft) - lag
-                    q_early = _move_back(q_early + lag, cal[j], ci, aft) - lag
-            if t & 1:
-                q_late += d
-                q_early -= es[i]
-            else:
-                q_early -= ef[i]
-            if q_late < late:
-                late = q_late
-            if q_early < slack:
-                slack = q_early
-        lf[i] = late
-        ls[i] = late - d
-        free[i] = slack if slack > 0 else 0
-
-    # Criticality and the driving path, before any result object is built.
-    floats = [lf[k] - ef[k] for k in range(n) if status[k] is not FIN]
-    threshold = critical_threshold(floats)
-    path = _driving_path(order, status, last_ord, ef, lf, driver, finish_ord, acts)
-    on_path = set(path)
-
-    if min((ls[k] for k in range(n) if status[k] is not FIN), default=1) < 1:
+    latest, slack = _late_bounds(site, net, tables, early, is_open, finish)
+    late_finish, slack = backward(net, tables, start, early, latest, slack, **options)
+    late_start = late_finish - dur
+    total_float = late_finish - early.finish
+    threshold = critical_threshold(total_float[is_open].tolist())
+    critical = is_open & (total_float <= threshold)
+    path = _driving_path(site, net, fin, last, finish_ord, total_float, early.driver)
+    if is_open.any() and late_start[is_open].min() < 1:
         raise HorizonExceeded("late dates")  # negative float reaching before the range
-    results = []
-    make = ActivityResult.from_fields
-    for k, a in enumerate(acts):
-        p, st = prog[k], status[k]
-        if st is FIN:
-            results.append(make({
-                "id": a.id, "name": a.name, "calendar": a.calendar, "duration": a.duration,
-                "status": st, "early_start": p.actual_start or p.actual_finish,
-                "early_finish": p.actual_finish, "late_start": None, "late_finish": None,
-                "total_float": None, "free_float": None, "critical": False,
-                "on_driving_path": a.id in on_path, "actual_start": p.actual_start,
-                "actual_finish": p.actual_finish, "remaining": 0, "percent": p.percent,
-                "driving": None, "driven_by": "actual dates", "overdue": False,
-                "after_work": False,
-            }))
-            continue
-        d = dur[k]
-        days = cal[k].dates  # every index below was range-checked above (last_ord, proj_pt, ls)
-        if d:
-            e_start, e_finish = days[es[k]], days[ef[k] - 1]
-            l_start, l_finish = days[ls[k]], days[lf[k] - 1]
-        else:
-            shift = 1 if end_after[k] else 0
-            e_start = e_finish = days[es[k] - shift]
-            l_start = l_finish = days[ls[k] - shift]
-        drv = driver[k]
-        tf = lf[k] - ef[k]
-        is_link = type(drv) is not str
-        results.append(make({
-            "id": a.id, "name": a.name, "calendar": a.calendar, "duration": a.duration,
-            "status": st, "early_start": e_start, "early_finish": e_finish,
-            "late_start": l_start, "late_finish": l_finish, "total_float": tf,
-            "free_float": free[k], "critical": tf <= threshold,
-            "on_driving_path": a.id in on_path, "actual_start": p.actual_start,
-            "actual_finish": None, "remaining": d, "percent": p.percent,
-            "driving": drv if is_link else None, "driven_by": drv.pred if is_link else drv,
-            "overdue": overdue[k], "after_work": d == 0 and end_after[k],
-        }))
-    out_of_sequence = find_out_of_sequence(site, prog, override) if progress else ()
-    return ScheduleResult.assemble(
-        site=site, as_of=status_date, finish=finish, results=results, calendars=calendars,
-        out_of_sequence=out_of_sequence, driving_path=tuple(path),
+
+    on_path = np.zeros(net.size, dtype=bool)
+    on_path[[net.index[aid] for aid in path]] = True
+    columns = Columns(
+        site=site, net=net, tables=tables, progress=fixed.reported, finished=fin, remaining=dur,
+        early_start=early.start, early_finish=early.finish, late_start=late_start,
+        late_finish=late_finish, total_float=total_float, free_float=np.maximum(slack, 0),
+        critical=critical, on_driving_path=on_path,
+        driver=np.where(is_open, early.driver, -1), reason=fixed.reason, overdue=fixed.overdue,
+        end_after=early.end_after,
+    )
+    ids = net.ids
+    return ScheduleResult.deferred(
+        site=site, as_of=status_date, finish=finish, calendars=calendars,
+        driving_path=tuple(path),
+        lowest_float=tuple(ids[k] for k in np.flatnonzero(critical).tolist()),
+        out_of_sequence=_out_of_sequence(site, net, fin, fixed.started),
+        rows=columns.rows,
     )
 
 
-def _move(b: int, frm: WorkCalendar, to: WorkCalendar, after: bool) -> int:
-    """A bound at point ``b`` of calendar ``frm`` as a point of calendar ``to``.
+@dataclass(frozen=True, eq=False)
+class _Fixed:
+    """What dates and progress fix before the passes (arrays by activity position)."""
 
-    ``after``: the point stands for "after the working day before it" (a finish), otherwise
-    for "at its working day" (a start). The date it stands for is rolled forward onto ``to``.
+    start: Start
+    """The passes' input."""
+    reason: np.ndarray
+    """What sets the early start when no link does (code into ``cpm_rows.REASONS``)."""
+    overdue: np.ndarray
+    started: np.ndarray
+    """An actual start is recorded."""
+    reported: list[tuple[int, Progress]]
+    """(position, progress) of every activity the field reported on."""
+
+
+def _starting_point(site: Site, net: NetworkArrays, tables: CalendarTables, status_date: date,
+                    progress: Mapping[str, Progress], holds: Mapping[str, date]) -> _Fixed:
+    """What dates and progress fix before the passes.
+
+    Open work starts no earlier than the later of the site start and the data date (on its
+    calendar), and not before its start-not-before date or readiness hold. Finished work keeps
+    its actual dates; work in progress needs its remaining duration from the data date and
+    keeps its actual start for SS and SF links.
     """
-    return to.pos_ordinal(frm.day_ordinal(b - 1) + 1 if after else frm.day_ordinal(b))
+    n, cal, cals = net.size, net.calendar, tables.calendars
+    s = np.array([c.pos(site.start) for c in cals], dtype=np.int64)
+    d = np.array([c.pos(status_date + _DAY) for c in cals], dtype=np.int64)
+    floor = np.maximum(s, d)[cal]
+    reason = np.where(s >= d, SITE_START, DATA_DATE)[cal]
+    duration = net.duration.copy()
+    finished = np.zeros(n, dtype=bool)
+    in_progress = np.zeros(n, dtype=bool)
+    actual_start = np.zeros(n, dtype=np.int64)
+    actual_finish = np.zeros(n, dtype=np.int64)
+    overdue = np.zeros(n, dtype=bool)
+
+    reported: list[tuple[int, Progress]] = []
+    done: list[tuple[int, int, int]] = []  # position, first day, day after the last
+    going: list[tuple[int, int]] = []  # position, actual start
+    for aid, p in progress.items():
+        k = net.index.get(aid)
+        if k is None:
+            continue  # no longer in the schedule
+        reported.append((k, p))
+        if p.actual_finish is not None:
+            first = p.actual_start or p.actual_finish
+            done.append((k, first.toordinal(), p.actual_finish.toordinal() + 1))
+        elif p.actual_start is not None:
+            duration[k], overdue[k] = remaining_at(p, int(duration[k]), cals[cal[k]],
+                                                   status_date)
+            going.append((k, p.actual_start.toordinal()))
+    if done:
+        k, first, after = (np.array(v, dtype=np.int64) for v in zip(*done, strict=True))
+        es = tables.points(cal[k], first)
+        ef = np.maximum(tables.points(cal[k], after), es)
+        finished[k] = True
+        floor[k], duration[k], reason[k] = es, ef - es, ACTUAL_DATES
+        actual_finish[k] = after - 1
+    if going:
+        k, first = (np.array(v, dtype=np.int64) for v in zip(*going, strict=True))
+        in_progress[k] = True
+        actual_start[k] = tables.points(cal[k], first)
+        reason[k] = DATA_DATE  # the floor of remaining work is the data date, even if later
+
+    waiting = ~(finished | in_progress)
+    k = np.flatnonzero(waiting & (net.start_not_before > 0))
+    if k.size:
+        b = tables.points(cal[k], net.start_not_before[k])
+        later = b > floor[k]
+        floor[k[later]], reason[k[later]] = b[later], START_NOT_BEFORE
+    for aid, when in holds.items():
+        j = net.index.get(aid)
+        if j is not None and waiting[j]:
+            b = cals[cal[j]].pos(when)
+            if b > floor[j]:
+                floor[j], reason[j] = b, READINESS
+    start = Start(duration=duration, floor=floor, finished=finished, in_progress=in_progress,
+                  actual_start=actual_start, actual_finish=actual_finish)
+    started = in_progress.copy()
+    started[[k for k, p in reported if p.actual_start and p.actual_finish]] = True
+    return _Fixed(start, reason, overdue, started, reported)
 
 
-def _move_back(q: int, frm: WorkCalendar, to: WorkCalendar, after: bool) -> int:
-    """Inverse of :func:`_move`: the latest point of ``to`` that moves to ``<= q`` on ``frm``."""
-    if after:
-        return to.pos_ordinal(frm.day_ordinal(q))
-    return to.pos_ordinal(frm.day_ordinal(q) + 1) - 1
+def _late_bounds(site: Site, net: NetworkArrays, tables: CalendarTables, early: Early,
+                 is_open: np.ndarray, finish: date) -> tuple[np.ndarray, np.ndarray]:
+    """Latest finish and free slack each open activity gets from dates alone.
+
+    The backward pass starts at ``finish_by`` (or the forecast finish), tightened by finish
+    not after dates; free slack runs to the forecast finish. A milestone at the start of its
+    day is "on or before day X" one point earlier.
+    """
+    cal = net.calendar
+    target = site.finish_by or finish
+    end = np.array([c.pos(target + _DAY) for c in tables.calendars], dtype=np.int64)
+    forecast = np.array([c.pos(finish + _DAY) for c in tables.calendars], dtype=np.int64)
+    cut = (~early.end_after).astype(np.int64)
+    latest = end[cal] - cut
+    slack = forecast[cal] - cut - early.finish
+    k = np.flatnonzero(is_open & (net.finish_not_after > 0))
+    if k.size:
+        fna = tables.points(cal[k], net.finish_not_after[k] + 1) - cut[k]
+        latest[k] = np.minimum(latest[k], fna)
+        slack[k] = np.minimum(slack[k], fna - early.finish[k])
+    return latest, slack
 
 
-def _driving_path(order: list[int], status: list[Status], last_ord: list[int], ef: list[int],
-                  lf: list[int], driver: list[Link | str], finish_ord: int,
-                  acts: tuple) -> list[str]:
+def _out_of_sequence(site: Site, net: NetworkArrays, finished: np.ndarray,
+                     started: np.ndarray) -> tuple[OutOfSequence, ...]:
+    """Links whose successor moved on before the predecessor allowed, in file order.
+
+    See :data:`fieldlog.schedule_result.OUT_OF_SEQUENCE_KINDS`: the successor's side is its
+    finish for links that bound a finish (FF, SF), otherwise its start; the predecessor's side
+    is its start for links that read a start (SS, SF), otherwise its finish.
+    """
+    moved_on = np.where(net.bounds_finish, finished[net.succ], started[net.succ])
+    caught_up = np.where(net.reads_start, started[net.pred], finished[net.pred])
+    found = np.sort(net.link[moved_on & ~caught_up]).tolist()
+    if not found:
+        return ()
+    treatment = "progress override" if site.progress_override else "retained logic"
+    links = site.links
+    return tuple(OutOfSequence(links[k], OUT_OF_SEQUENCE_KINDS[links[k].type], treatment)
+                 for k in found)
+
+
+def _driving_path(site: Site, net: NetworkArrays, finished: np.ndarray, last: np.ndarray,
+                  finish_ord: int, total_float: np.ndarray, driver: np.ndarray) -> list[str]:
     """Walk driving links back from the open activity that finishes last.
 
     Of several open activities ending on the finish day the one with the least float is taken,
@@ -371,24 +314,19 @@ def _driving_path(order: list[int], status: list[Status], last_ord: list[int], e
     it). The walk stops at finished work or at an activity whose early start is set by a date
     rather than a link.
     """
-    best = None
-    for k in order:
-        if last_ord[k] == finish_ord and status[k] is not Status.FINISHED and (
-                best is None or lf[k] - ef[k] <= lf[best] - ef[best]):
-            best = k
-    if best is None:
+    ends = np.flatnonzero(~finished & (last == finish_ord))
+    if not ends.size:
         return []
-    index = {a.id: k for k, a in enumerate(acts)}
-    path = [acts[best].id]
-    seen = {best}
-    k = best
-    while isinstance(driver[k], Link):
-        k = index[driver[k].pred]
+    least = ends[total_float[ends] == total_float[ends].min()]
+    k = int(least[np.argmax(net.rank[least])] if least.size > 1 else least[0])
+    path, seen = [net.ids[k]], {k}
+    while driver[k] >= 0:
+        k = net.index[site.links[driver[k]].pred]
         if k in seen:
             break
-        path.append(acts[k].id)
+        path.append(net.ids[k])
         seen.add(k)
-        if status[k] is Status.FINISHED:
+        if finished[k]:
             break
     path.reverse()
     return path

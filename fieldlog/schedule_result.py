@@ -2,11 +2,15 @@
 
 Kept apart from :mod:`fieldlog.cpm` so that readers of results (lookahead, reports, the app)
 depend on these plain values only, never on the passes themselves.
+
+The engine builds a :class:`ScheduleResult` with :meth:`ScheduleResult.deferred`: the summary
+(finish, paths, flags) is ready at once, and the per-activity rows are built the first time
+``activities`` or ``by_id`` is read. To every reader it is the same frozen value.
 """
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Mapping, Sequence
+from collections.abc import Callable, Iterable, Mapping, Sequence
 from dataclasses import dataclass, field, fields
 from datetime import date, timedelta
 from types import MappingProxyType
@@ -99,7 +103,11 @@ class OutOfSequence:
 
 @dataclass(frozen=True)
 class ScheduleResult:
-    """The whole schedule as of ``as_of`` (end of day); the data date is the next day."""
+    """The whole schedule as of ``as_of`` (end of day); the data date is the next day.
+
+    ``activities`` and ``by_id`` of a result made by :meth:`deferred` are built on first read
+    (see :meth:`__getattr__`); everything else is set when the result is made.
+    """
 
     site: Site
     as_of: date
@@ -134,17 +142,53 @@ class ScheduleResult:
                  out_of_sequence: tuple[OutOfSequence, ...],
                  driving_path: tuple[str, ...]) -> ScheduleResult:
         """Freeze results that are already marked critical / on the driving path."""
-        finish_float = None
-        if site.finish_by is not None:
-            c = calendars[site.calendar]
-            finish_float = c.count(finish + timedelta(days=1), site.finish_by + timedelta(days=1))
         return cls(
-            site=site, as_of=as_of, finish=finish, finish_float=finish_float,
+            site=site, as_of=as_of, finish=finish,
+            finish_float=finish_float(site, finish, calendars),
             activities=tuple(results), driving_path=driving_path,
             lowest_float=tuple(r.id for r in results if r.critical),
             out_of_sequence=out_of_sequence, calendars=MappingProxyType(dict(calendars)),
             by_id=MappingProxyType({r.id: r for r in results}),
         )
+
+    @classmethod
+    def deferred(cls, *, site: Site, as_of: date, finish: date,
+                 calendars: Mapping[str, WorkCalendar], driving_path: tuple[str, ...],
+                 lowest_float: tuple[str, ...], out_of_sequence: tuple[OutOfSequence, ...],
+                 rows: Callable[[], Sequence[ActivityResult]]) -> ScheduleResult:
+        """A result whose rows ``rows()`` builds on first read of ``activities``/``by_id``.
+
+        For the engine: building 10,000 dated row objects costs as much as the passes, and
+        a caller that wants only the finish or the paths never pays for it.
+        """
+        result = object.__new__(cls)
+        result.__dict__.update(
+            site=site, as_of=as_of, finish=finish,
+            finish_float=finish_float(site, finish, calendars), driving_path=driving_path,
+            lowest_float=lowest_float, out_of_sequence=out_of_sequence,
+            calendars=MappingProxyType(dict(calendars)), _rows=rows,
+        )
+        return result
+
+    def __getattr__(self, name: str) -> object:
+        """Build the rows of a deferred result (reached only while they are not set yet)."""
+        build = self.__dict__.get("_rows")
+        if build is None or name not in ("activities", "by_id"):
+            raise AttributeError(f"'{type(self).__name__}' object has no attribute '{name}'")
+        rows = tuple(build())
+        # Two threads may both get here; they build equal rows and either set is fine.
+        object.__setattr__(self, "activities", rows)
+        object.__setattr__(self, "by_id", MappingProxyType({r.id: r for r in rows}))
+        self.__dict__.pop("_rows", None)  # the engine's arrays are no longer needed
+        return self.__dict__[name]
+
+
+def finish_float(site: Site, finish: date, calendars: Mapping[str, WorkCalendar]) -> int | None:
+    """Working days (default calendar) from the forecast finish to ``site.finish_by``."""
+    if site.finish_by is None:
+        return None
+    c = calendars[site.calendar]
+    return c.count(finish + timedelta(days=1), site.finish_by + timedelta(days=1))
 
 
 def critical_threshold(total_floats: Iterable[int]) -> int:
@@ -156,14 +200,26 @@ def critical_threshold(total_floats: Iterable[int]) -> int:
     return max(0, min(total_floats, default=0))
 
 
+OUT_OF_SEQUENCE_KINDS: Mapping[LinkType, str] = MappingProxyType({
+    LinkType.FS: "started before predecessor finished",
+    LinkType.SS: "started before predecessor started",
+    LinkType.FF: "finished before predecessor finished",
+    LinkType.SF: "finished before predecessor started",
+})
+"""How a link's successor moved on too early, by link type (the :attr:`OutOfSequence.kind`).
+
+Definitions follow the GAO Schedule Assessment Guide's page on out-of-sequence logic; the SF
+case is the same reading applied to start-to-finish. The successor side is its start for FS
+and SS, its finish for FF and SF; the predecessor side its finish for FS and FF, its start for
+SS and SF."""
+
+
 def find_out_of_sequence(site: Site, progress: Sequence[Progress],
                          override: bool) -> tuple[OutOfSequence, ...]:
     """Links whose successor has moved on while the predecessor has not (as of the status date).
 
-    ``progress`` is in the order of ``site.activities``. Definitions follow the GAO Schedule
-    Assessment Guide's page on out-of-sequence logic: started before an FS predecessor
-    finished, started before an SS predecessor started, finished before an FF predecessor
-    finished (and, by the same reading, before an SF predecessor started).
+    ``progress`` is in the order of ``site.activities``. See :data:`OUT_OF_SEQUENCE_KINDS`.
+    The engine finds the same links with arrays (``fieldlog.cpm``); tests compare the two.
     """
     moved = {a.id: p for a, p in zip(site.activities, progress, strict=True)
              if p.actual_start or p.actual_finish}
@@ -176,17 +232,12 @@ def find_out_of_sequence(site: Site, progress: Sequence[Progress],
         if s is None:
             continue
         p = moved.get(link.pred, _NOTHING)
-        kind = None
-        if link.type is LinkType.FS and s.actual_start and not p.actual_finish:
-            kind = "started before predecessor finished"
-        elif link.type is LinkType.SS and s.actual_start and not p.actual_start:
-            kind = "started before predecessor started"
-        elif link.type is LinkType.FF and s.actual_finish and not p.actual_finish:
-            kind = "finished before predecessor finished"
-        elif link.type is LinkType.SF and s.actual_finish and not p.actual_start:
-            kind = "finished before predecessor started"
-        if kind:
-            found.append(OutOfSequence(link, kind, treatment))
+        on_finish = link.type in (LinkType.FF, LinkType.SF)
+        from_start = link.type in (LinkType.SS, LinkType.SF)
+        moved_on = s.actual_finish if on_finish else s.actual_start
+        caught_up = p.actual_start if from_start else p.actual_finish
+        if moved_on and not caught_up:
+            found.append(OutOfSequence(link, OUT_OF_SEQUENCE_KINDS[link.type], treatment))
     return tuple(found)
 
 

@@ -32,6 +32,9 @@ from fieldlog.model import (
 from fieldlog.network import topological_order
 from fieldlog.site_cache import cached_site
 
+MAX_LAG = 3650
+"""Largest lag or lead accepted, in working days (about 14 years): beyond it is a typo."""
+
 SITE_FILE = "site.toml"
 SCHEDULE_FILE = "schedule.toml"
 
@@ -407,6 +410,9 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
         if not isinstance(lag, int) or isinstance(lag, bool):
             raise f.error(f"[[link]] {pred} -> {succ} lag must be whole working days",
                           line=line, activity=succ, fix="e.g. lag = 2, or lag = -1 for a lead")
+        if abs(lag) > MAX_LAG:
+            raise f.error(f"[[link]] {pred} -> {succ} lag {lag} is beyond {MAX_LAG} working days",
+                          line=line, activity=succ, fix="check the number; a lag is working days")
         out.append(Link(pred, succ, link_type, lag))
     return out
 

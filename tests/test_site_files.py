@@ -175,6 +175,14 @@ def test_bad_link_type(tmp_path):
     _assert_located(err, bad, "[[link]]", "CURE")
 
 
+def test_absurd_lag_is_refused(tmp_path):
+    """A lag of decades is a typo; refusing it keeps the calendars a sane size."""
+    bad = SCHEDULE.replace("lag = 0", "lag = 99999")
+    err = error_for(tmp_path, schedule=bad)
+    assert "lag 99999 is beyond 3650" in str(err)
+    _assert_located(err, bad, "[[link]]", "CURE")
+
+
 def test_dependency_loop_names_every_activity_in_order(tmp_path):
     bad = SCHEDULE.replace('name = "Excavate"', 'name = "Excavate"\nafter = ["CURE"]')
     with pytest.raises(DependencyLoopError) as info:

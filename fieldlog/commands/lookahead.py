@@ -1,19 +1,92 @@
-"""`fieldlog lookahead`: not built yet."""
+"""``fieldlog lookahead SITE``: what must, may and cannot run on each day of the next two weeks.
+
+The text sheet is for printing and handing out; ``--format json`` and ``csv`` list every
+unfinished activity for other tools and the office. The bytes written are exactly the
+renderer's (UTF-8, or plain ASCII with ``--ascii``; ``\\n`` line ends on every platform).
+"""
 
 from __future__ import annotations
 
 import argparse
 import sys
+from pathlib import Path
+
+from fieldlog.cli import EXIT_BAD_INPUT, EXIT_OK, iso_date
+from fieldlog.errors import FieldlogError
+from fieldlog.lookahead.build import DEFAULT_DAYS, build_lookahead
+from fieldlog.lookahead.render_data import render_csv, render_json
+from fieldlog.lookahead.render_text import WIDTHS, layout_for, render_text
+from fieldlog.workspace import load_state
+
+FORMATS = ("text", "json", "csv")
+MAX_DAYS = 62
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
-    """Register `fieldlog lookahead`."""
-    p = sub.add_parser("lookahead", help="(not built yet)")
-    p.add_argument("rest", nargs="*")
+    """Register ``fieldlog lookahead``."""
+    p = sub.add_parser(
+        "lookahead", help="the two-week lookahead: what must, may and cannot run each day",
+        description="For every day of the window: which activities MUST run (or the job "
+        "slips), which MAY run (they have float) and which CANNOT run yet, with the reasons, "
+        "the crew load and a levelling suggestion when a crew is over its headcount.")
+    p.add_argument("site", help="the site folder")
+    p.add_argument("--as-of", type=iso_date, metavar="DATE",
+                   help="status date, end of day (default: last day with log entries)")
+    p.add_argument("--from", dest="start", type=iso_date, metavar="DATE",
+                   help="first day shown (default: the data date, the day after --as-of)")
+    p.add_argument("--days", type=int, default=DEFAULT_DAYS, metavar="N",
+                   help=f"calendar days shown (default {DEFAULT_DAYS}, at most {MAX_DAYS})")
+    p.add_argument("--format", choices=FORMATS, default="text")
+    p.add_argument("--width", type=int, choices=WIDTHS, default=80,
+                   help="columns of the printed sheet (default 80)")
+    p.add_argument("--ascii", action="store_true", help="plain ASCII marks and names")
+    p.add_argument("--out", type=Path, metavar="FILE", help="write to FILE instead of stdout")
     p.set_defaults(run=run)
 
 
 def run(args: argparse.Namespace) -> int:
-    """Not built yet."""
-    print("fieldlog: 'lookahead' is not built yet", file=sys.stderr)
-    return 2
+    """Write the lookahead; readiness items to chase, out-of-sequence work and log problems
+    go to stderr."""
+    if not 1 <= args.days <= MAX_DAYS:
+        print(f"fieldlog: --days must be 1 to {MAX_DAYS}, got {args.days}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    if args.format == "text":
+        try:
+            layout_for(args.width, args.days)
+        except ValueError as exc:
+            print(f"fieldlog: {exc}; use --width 132 or fewer --days", file=sys.stderr)
+            return EXIT_BAD_INPUT
+    state = load_state(args.site, args.as_of)
+    la = build_lookahead(state.schedule, state.replay.readiness, args.start, args.days)
+    if args.format == "json":
+        text = render_json(la)
+    elif args.format == "csv":
+        text = render_csv(la)
+    else:
+        text = render_text(la, args.width, ascii_only=args.ascii)
+    data = text.encode("ascii" if args.ascii and args.format == "text" else "utf-8")
+    if args.out is not None:
+        _write(args.out, data)
+    else:
+        sys.stdout.flush()
+        sys.stdout.buffer.write(data)
+        sys.stdout.buffer.flush()
+    for row in la.rows:
+        for flag in row.not_ready:
+            print(f"fieldlog: not ready: {row.id} {flag}", file=sys.stderr)
+    for oos in state.schedule.out_of_sequence:
+        print(f"fieldlog: out of sequence: {oos.describe()}", file=sys.stderr)
+    for problem in state.replay.problems:
+        print(f"fieldlog: log: {problem.message}", file=sys.stderr)
+    return EXIT_OK
+
+
+def _write(path: Path, data: bytes) -> None:
+    """Write ``data`` to ``path`` whole: a temporary file beside it, then a rename."""
+    tmp = path.with_name(path.name + ".tmp")
+    try:
+        tmp.write_bytes(data)
+        tmp.replace(path)
+    except OSError as exc:
+        raise FieldlogError(f"cannot write {path}: {exc.strerror}", file=path,
+                            fix="check the folder exists and is writable") from exc

@@ -3,8 +3,8 @@
 Prints every integrity finding (an edited, removed, reordered or misfiled entry, a file that
 is not a journal file) with its file and entry id, then every contradiction the log holds
 (finish before start, two devices disagreeing on a start, progress on an activity the schedule
-no longer has ...), which are fixed by recording a correction, and every sync conflict copy. Exit code 1 when anything is
-found, 0 when the log is clean.
+no longer has ...), which are fixed by recording a correction, and every sync conflict copy.
+Exit code 1 when anything is found, 0 when the log is clean.
 """
 
 from __future__ import annotations

@@ -1,0 +1,286 @@
+"""The Textual app: five views over one site, and the write-then-recompute loop.
+
+Every action that records something follows the same path:
+
+1. the entry is appended to the journal at once, on the UI thread (a short, durable write; if
+   the journal refuses it, the form stays open with the reason and nothing is written);
+2. the schedule and lookahead are recomputed in a worker thread from the log on disk, so the
+   screen never freezes on a big site;
+3. the view on screen repaints from the new snapshot; hidden views repaint when shown.
+
+Snapshots carry a version taken when their computation *started*, so a slow, older recompute
+that finishes late can never paint over a newer one.
+"""
+
+from __future__ import annotations
+
+import importlib
+from collections.abc import Callable, Mapping
+from datetime import date, timedelta
+from pathlib import Path
+from typing import Any, ClassVar
+
+from textual.app import App
+from textual.screen import Screen
+from textual.timer import Timer
+from textual.worker import get_current_worker
+
+from fieldlog.app.commands import FieldlogCommands
+from fieldlog.app.forms import Form
+from fieldlog.app.history_rows import summarize
+from fieldlog.app.recording import record
+from fieldlog.app.screens.base import ViewScreen
+from fieldlog.app.screens.form import FormScreen
+from fieldlog.app.screens.help import HelpScreen
+from fieldlog.app.screens.today import TodayScreen
+from fieldlog.app.session import SiteSession, Snapshot
+from fieldlog.calendars import HorizonExceeded
+from fieldlog.errors import FieldlogError
+from fieldlog.journal.entries import Entry
+
+
+def lazy_screen(module: str, name: str) -> Callable[[], Screen]:
+    """A mode factory that imports its screen's module on first use (faster first screen)."""
+    def make() -> Screen:
+        return getattr(importlib.import_module(module), name)()
+
+    return make
+
+
+BUSY_NOTE_AFTER = 0.25
+"""Seconds before the status line says a recompute is running (a quick one shows nothing:
+no flicker, and no repaint competing with the recompute for the CPU)."""
+
+
+class FieldlogApp(App[None]):
+    """The end-of-shift app for one site folder.
+
+    Args:
+        session: the site, loaded (see :func:`make_app`).
+        notice: the first line of the status line (``fieldlog demo`` says which day it opened).
+    """
+
+    CSS_PATH = "app.tcss"
+    TITLE = "fieldlog"
+    MODES: ClassVar[dict[str, Any]] = {
+        "today": TodayScreen,
+        "lookahead": lazy_screen("fieldlog.app.screens.lookahead", "LookaheadScreen"),
+        "float": lazy_screen("fieldlog.app.screens.float_list", "FloatScreen"),
+        "journal": lazy_screen("fieldlog.app.screens.history", "JournalScreen"),
+        "sync": lazy_screen("fieldlog.app.screens.sync", "SyncScreen"),
+    }
+    """One mode per view. Only the end-of-shift view is imported at start; the others (with
+    the printing and sync code they pull in) load the first time they are shown."""
+    COMMANDS = App.COMMANDS | {FieldlogCommands}
+
+    def __init__(self, session: SiteSession, *, notice: str = "") -> None:
+        super().__init__()
+        if session.latest is None:
+            session.load()
+        assert session.latest is not None
+        self.session = session
+        self.snapshot: Snapshot = session.latest
+        self.status: tuple[str, bool] = (notice or opening_words(self.snapshot), False)
+        self._pending = ""
+        self._busy_note: Timer | None = None
+
+    def on_mount(self) -> None:
+        """Open on the end-of-shift view."""
+        self.switch_mode("today")
+
+    # -- status line ----------------------------------------------------------------------------
+
+    def set_status(self, text: str, *, problem: bool = False) -> None:
+        """Show ``text`` in the status line of the view on screen; the others show it when
+        they are shown again (:meth:`ViewScreen.repaint_if_stale`)."""
+        self.status = (text, problem)
+        for screen in self.screen_stack:
+            if isinstance(screen, ViewScreen) and screen.is_mounted:
+                screen.say(text, problem=problem)
+
+    # -- recording ------------------------------------------------------------------------------
+
+    def write(self, kind: str, fields: Mapping[str, Any], day: date | None = None) -> str | None:
+        """Append one entry now and start the recompute.
+
+        Returns:
+            None when written; otherwise the journal's reason for refusing it (also shown in
+            the status line). Nothing is written on a refusal.
+        """
+        try:
+            entry = record(self.session, kind, fields, day)
+        except FieldlogError as exc:
+            self.set_status(f"Not recorded: {exc.message}", problem=True)
+            return exc.message
+        self.recorded(entry)
+        return None
+
+    def recorded(self, entry: Entry) -> None:
+        """Say what was recorded and recompute."""
+        self._pending = f"recorded {summarize(entry)} ({entry.id})"
+        self.recompute()
+
+    def ask(self, form: Form, kind: str, *, fixed: Mapping[str, Any] | None = None,
+            day: date | None = None) -> None:
+        """Open ``form``; when it reads, append an entry of ``kind`` with the ``fixed`` fields."""
+        def submit(values: dict[str, Any]) -> str | None:
+            fields = {k: v for k, v in values.items() if v is not None}
+            fields.update(fixed or {})
+            return self.write(kind, fields, day)
+
+        self.push_screen(FormScreen(form, submit))
+
+    # -- recompute ------------------------------------------------------------------------------
+
+    def recompute(self, *, reload_site: bool = False, note: str = "") -> None:
+        """Recompute schedule and lookahead in a worker thread, then repaint.
+
+        Args:
+            reload_site: read site.toml and schedule.toml again too (after a sync, F5).
+            note: what the status line says before the finish change ("Sync done").
+        """
+        if note:
+            self._pending = note
+        self._cancel_busy_note()
+        self._busy_note = self.set_timer(BUSY_NOTE_AFTER, self._say_busy)
+        self.run_worker(lambda: self._compute(reload_site), thread=True, exclusive=True,
+                        group="recompute", name="recompute")
+
+    def _compute(self, reload_site: bool) -> None:
+        """Worker body, step 1: the schedule and the end-of-shift list, handed to the UI."""
+        worker = get_current_worker()
+        try:
+            if reload_site:
+                self.session.reread_site()
+            snap = self.session.recompute()
+        except FieldlogError as exc:
+            self.call_from_thread(self.set_status, f"Cannot recompute: {exc.message}",
+                                  problem=True)
+            return
+        if not worker.is_cancelled:
+            self.call_from_thread(self.show_snapshot, snap)
+
+    def _complete(self, snap: Snapshot) -> None:
+        """Worker body, step 2: the full lookahead for ``snap``."""
+        full = self.session.complete(snap)
+        if not get_current_worker().is_cancelled:
+            self.call_from_thread(self.show_snapshot, full)
+
+    def _start_lookahead(self, snap: Snapshot) -> None:
+        """Step 2 starts once step 1 is on screen, so the two never compete for the CPU."""
+        if snap.version == self.snapshot.version and self.snapshot.lookahead is None:
+            self.run_worker(lambda: self._complete(snap), thread=True, exclusive=True,
+                            group="lookahead", name="lookahead")
+
+    def show_snapshot(self, snap: Snapshot) -> None:
+        """Make ``snap`` current and repaint the views on screen (older snapshots are dropped).
+
+        A snapshot without its lookahead (step 1) repaints the views that do not need it, then
+        starts step 2; step 2 (same version, now with the lookahead) repaints the lookahead.
+        """
+        self._cancel_busy_note()
+        current = self.snapshot
+        if snap.version < current.version:
+            return
+        if snap.version == current.version:
+            if current.lookahead is not None or snap.lookahead is None:
+                return
+            self.snapshot = snap
+            for screen in self.screen_stack:
+                if isinstance(screen, ViewScreen):
+                    screen.repaint_if_stale()
+            return
+        if snap.lookahead is None:
+            self.call_after_refresh(self._start_lookahead, snap)
+        old, self.snapshot = self.snapshot, snap
+        change = finish_change(old, snap)
+        if self._pending:
+            self.status = (f"{change} · {self._pending}", False)
+            self._pending = ""
+        else:
+            self.status = (f"{change} · read again from disk", False)
+        for screen in self.screen_stack:
+            if isinstance(screen, ViewScreen):
+                screen.repaint_if_stale()
+
+    def _say_busy(self) -> None:
+        """A recompute is taking a while: say so (quick ones never show this)."""
+        self._busy_note = None
+        self.set_status(f"Recomputing · {self._pending}" if self._pending else "Recomputing")
+
+    def _cancel_busy_note(self) -> None:
+        if self._busy_note is not None:
+            self._busy_note.stop()
+            self._busy_note = None
+
+    # -- overlays and palette -------------------------------------------------------------------
+
+    def action_help(self) -> None:
+        """Open the help overlay (once)."""
+        if not isinstance(self.screen, HelpScreen):
+            self.push_screen(HelpScreen())
+
+    async def run_key(self, key_id: str) -> None:
+        """Run the action of a keymap entry from the palette: switch view, then act."""
+        from fieldlog.app.keymap import key
+
+        k = key(key_id)
+        if k.area in self.MODES and self.current_mode != k.area:
+            await self.switch_mode(k.area)
+        await self.screen.run_action(k.action)
+
+
+def opening_words(snap: Snapshot) -> str:
+    """The first status line: the log's size, its last day, and where help is."""
+    journal = snap.state.journal
+    n = len(journal.entries)
+    last = journal.last_day
+    text = f"{n} log entr{'y' if n == 1 else 'ies'}"
+    if last is not None:
+        text += f", last day logged {last:%a %d %b %Y}"
+    problems = len(snap.state.replay.problems)
+    if problems:
+        text += f" · {problems} log problem{'s' if problems != 1 else ''}: see 4 Journal"
+    return text + " · ? lists every key"
+
+
+def finish_change(old: Snapshot, new: Snapshot) -> str:
+    """How the forecast finish moved between two snapshots, in working days, in words.
+
+    The change comes first because it is what the foreman wants to know after an entry, and
+    the status line is cut at the right edge on a narrow screen.
+    """
+    a, b = old.state.schedule.finish, new.state.schedule.finish
+    if a == b:
+        return f"Finish unchanged, {b:%a %d %b}"
+    schedule = new.state.schedule
+    cal = schedule.calendars[schedule.site.calendar]
+    try:
+        n = cal.count(min(a, b) + timedelta(days=1), max(a, b) + timedelta(days=1))
+    except HorizonExceeded:  # the old finish lies outside the new calendar's range
+        n = abs((b - a).days)
+        unit = "calendar day"
+    else:
+        unit = "working day"
+    way = "later" if b > a else "earlier"
+    return f"Finish {n} {unit}{'s' if n != 1 else ''} {way}, {b:%a %d %b} (was {a:%a %d %b})"
+
+
+def make_app(site_folder: Path | str, today: date, *, session: SiteSession | None = None,
+             notice: str = "") -> FieldlogApp:
+    """The app for ``site_folder`` as of the end of ``today``; shared by the CLI and the tests.
+
+    Args:
+        site_folder: the site folder.
+        today: the shift being recorded.
+        session: an already loaded session (``fieldlog open`` loads first, to fail before the
+            terminal is taken over).
+        notice: first status line.
+
+    Raises:
+        FieldlogError: the site cannot be loaded (only when no session is given).
+    """
+    if session is None:
+        session = SiteSession(site_folder, today)
+        session.load()
+    return FieldlogApp(session, notice=notice)

@@ -1,0 +1,1 @@
+"""The views (one Textual mode each) and the overlays (forms, pickers, help)."""

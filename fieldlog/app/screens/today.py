@@ -1,0 +1,286 @@
+"""Today: the end-of-shift view. The day's activities first, one key per fact, then the day.
+
+Top: the activities running or ready today (:mod:`fieldlog.app.shift`), with what tomorrow
+asks of each (MUST / may, from the lookahead), float, days left and forecast finish. One key
+records a fact about the selected activity; day facts (weather, crews, lost time, visits,
+incidents) have their own keys. Bottom: what is already recorded for today and the readiness
+items still open, so the foreman sees what is missing before leaving.
+
+Every key writes the journal at once: there is nothing to save.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Mapping
+from typing import ClassVar
+
+from rich.text import Text
+from textual import on
+from textual.binding import BindingType
+from textual.containers import VerticalScroll
+from textual.widget import Widget
+from textual.widgets import Static
+
+from fieldlog.app.history_rows import summarize
+from fieldlog.app.keymap import key
+from fieldlog.app.recording import KIND_TITLES, PICK_INCIDENT, PICK_VISIT, entry_form
+from fieldlog.app.screens.base import ViewScreen, bindings
+from fieldlog.app.screens.pick import PickScreen
+from fieldlog.app.session import Snapshot
+from fieldlog.app.shift import ShiftRow
+from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
+from fieldlog.lookahead import Cell
+from fieldlog.schedule_result import ActivityResult
+
+COLUMNS = (
+    Column("flag", "", 2), Column("id", "ID", 8), Column("name", "Activity", 20),
+    Column("state", "Now", 8), Column("tomorrow", "Tmrw", 6), Column("float", "TF", 4, True),
+    Column("left", "Left", 7), Column("finish", "Finish", 6),
+)
+"""The activity list's columns; the name takes whatever width is left."""
+
+ACTIVITY_KEYS = tuple(key(f"today.{name}") for name in (
+    "started", "finished", "remaining", "percent", "note", "readiness"))
+"""The keys about one activity, offered as a menu when a row is picked by Enter or a tap."""
+
+PROGRESS_KINDS = frozenset({"started", "finished", "remaining", "percent"})
+"""Entry kinds shown in the activity list rather than in the day panel."""
+
+TOMORROW_WORDS: Mapping[Cell, str] = {
+    Cell.MUST: "MUST", Cell.MAY: "may", Cell.CANNOT: "cannot", Cell.OFF: "off",
+}
+
+
+def flag(r: ActivityResult) -> str:
+    """The same marks as the printed float list: ``!!`` late, ``*`` critical, ``>`` driving."""
+    if r.late:
+        return "!!"
+    if r.critical and r.is_open:
+        return "*"
+    return ">" if r.on_driving_path and r.is_open else ""
+
+
+def left_text(r: ActivityResult) -> str:
+    """Days left (and percent built when known): ``"4 d 40%"``."""
+    if not r.is_open:
+        return "done"
+    text = f"{r.remaining} d"
+    if r.percent is not None:
+        text += f" {r.percent:g}%"
+    return text
+
+
+def float_text(r: ActivityResult) -> str:
+    """Total float with its sign, blank for finished work."""
+    if r.total_float is None:
+        return ""
+    return f"{r.total_float:+d}" if r.total_float else "0"
+
+
+class TodayScreen(ViewScreen):
+    """The end-of-shift view."""
+
+    AUTO_FOCUS = "#shift-table"
+    VIEW = "today"
+    BINDINGS: ClassVar[list[BindingType]] = bindings("today")
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.rows: list[ShiftRow] = []
+
+    def compose_body(self) -> Iterable[Widget]:
+        """Heading, activity list, day panel."""
+        yield Static(id="today-head", classes="view-head")
+        yield RowList(id="shift-table")
+        with VerticalScroll(id="day-panel"):
+            yield Static(id="day-record")
+
+    def paint(self, snap: Snapshot) -> None:
+        """Fill the list (keeping the selected activity) and the day panel."""
+        table = self.query_one("#shift-table", RowList)
+        self.rows = list(snap.shift)
+        id_width = max([len(row.id) for row in self.rows] + [4])
+        columns = [Column(c.key, c.heading, id_width) if c.key == "id" else c for c in COLUMNS]
+        columns = fit_columns(columns, self.size.width - 2, "name")
+        lines = []
+        must = 0
+        for row in self.rows:
+            r = row.result
+            cell = snap.tomorrow.get(r.id)
+            must += cell is Cell.MUST
+            finish = r.actual_finish or r.early_finish
+            lines.append((r.id, (
+                flag(r), r.id, r.name, row.state,
+                TOMORROW_WORDS[cell] if cell is not None else "", float_text(r), left_text(r),
+                f"{finish:%d %b}" if finish else "",
+            )))
+        # The cursor keeps its place in the list, not its activity: after "finished" the row
+        # moves to the bottom and the next activity slides under the cursor, ready for a key.
+        table.set_rows(columns, lines)
+        n = len(self.rows)
+        head = (f"{snap.today:%a %d %b %Y}: {n} activit{'y' if n == 1 else 'ies'} running or "
+                f"ready · {must} MUST run tomorrow")
+        if not self.rows:
+            head = f"{snap.today:%a %d %b %Y}: nothing running or ready to start"
+        self.query_one("#today-head", Static).update(Text(head))
+        self.query_one("#day-record", Static).update(day_text(snap))
+
+    # -- selection ------------------------------------------------------------------------------
+
+    def selected_id(self) -> str | None:
+        """Id of the activity under the cursor, or None when the list is empty."""
+        return self.query_one("#shift-table", RowList).current
+
+    def selected(self) -> ActivityResult | None:
+        """The selected activity, or None (and a hint in the status line)."""
+        aid = self.selected_id()
+        if aid is None:
+            self.say("No activity is selected: the list is empty", problem=True)
+            return None
+        return self.fieldlog.snapshot.state.schedule.by_id[aid]
+
+    @on(RowList.Picked, "#shift-table")
+    def _picked(self, event: RowList.Picked) -> None:
+        """Enter, a click or a tap on an activity: offer its actions (no keyboard needed)."""
+        event.stop()
+        r = self.fieldlog.snapshot.state.schedule.by_id.get(event.key)
+        if r is None:
+            return
+        options = [(k.action, f"{k.label} (key {k.shown_key})") for k in ACTIVITY_KEYS]
+
+        def chosen(action: str | None) -> None:
+            if action is not None:
+                self.call_later(self.run_action, action)
+
+        self.app.push_screen(PickScreen(f"{r.id} {r.name}", options,
+                                        intro="What happened today?"), chosen)
+
+    # -- activity keys --------------------------------------------------------------------------
+
+    def action_started(self) -> None:
+        """The selected activity started today."""
+        r = self.selected()
+        if r is not None:
+            self.fieldlog.write("started", {"activity": r.id})
+
+    def action_finished(self) -> None:
+        """The selected activity finished today."""
+        r = self.selected()
+        if r is not None:
+            self.fieldlog.write("finished", {"activity": r.id})
+
+    def action_remaining(self) -> None:
+        """Ask for the working days the selected activity still needs after today."""
+        r = self.selected()
+        if r is not None:
+            intro = f"{r.id} {r.name}: working days still needed after today"
+            self.fieldlog.ask(entry_form("remaining", intro=intro, fixed={"activity": r.id},
+                                         defaults={"days": r.remaining or None}),
+                              "remaining", fixed={"activity": r.id})
+
+    def action_percent(self) -> None:
+        """Ask for the selected activity's physical percent complete."""
+        r = self.selected()
+        if r is not None:
+            intro = f"{r.id} {r.name}: how much is built (does not change the days left)"
+            self.fieldlog.ask(entry_form("percent", intro=intro, fixed={"activity": r.id},
+                                         defaults={"percent": r.percent}),
+                              "percent", fixed={"activity": r.id})
+
+    def action_note(self) -> None:
+        """A note, about the selected activity when there is one."""
+        aid = self.selected_id()
+        self.fieldlog.ask(entry_form("note", defaults={"activity": aid},
+                                     intro="Clear the activity to make it a note on the day"),
+                          "note")
+
+    def action_readiness(self) -> None:
+        """Open a need for the selected activity, or clear one of its open needs."""
+        r = self.selected()
+        if r is None:
+            return
+        items = [i for i in self.fieldlog.snapshot.state.replay.readiness if i.activity == r.id]
+        options = [("need", f"It needs something before it can start ({r.id})")]
+        options += [(f"clear:{i.entry_id}", f"Cleared: {i.what}") for i in items if i.entry_id]
+
+        def picked(choice: str | None) -> None:
+            if choice == "need":
+                intro = f"{r.id} {r.name}: what it needs, and when it is expected"
+                self.fieldlog.ask(entry_form("need", intro=intro, fixed={"activity": r.id}),
+                                  "need", fixed={"activity": r.id})
+            elif choice is not None:
+                item = choice.split(":", 1)[1]
+                self.fieldlog.ask(entry_form("cleared", intro=f"{r.id}: how it was cleared"),
+                                  "cleared", fixed={"item": item})
+
+        self.app.push_screen(PickScreen("Readiness", options, intro=f"{r.id} {r.name}"), picked)
+
+    # -- day keys -------------------------------------------------------------------------------
+
+    def action_weather(self) -> None:
+        """Today's weather."""
+        self.fieldlog.ask(entry_form("weather", defaults={"unit": "C"}), "weather")
+
+    def action_crews(self) -> None:
+        """A crew on site today (one entry per crew)."""
+        crews = ", ".join(self.fieldlog.snapshot.site.crews) or "concrete, steel fixers"
+        aid = self.selected_id()
+        self.fieldlog.ask(entry_form("crew", intro="One crew per entry; c again for the next",
+                                     hints={"trade": f"e.g. {crews}"},
+                                     defaults={"activities": aid}), "crew")
+
+    def action_lost(self) -> None:
+        """Time lost today and why; a whole lost day moves the forecast."""
+        self.fieldlog.ask(entry_form(
+            "lost-time", defaults={"cause": "weather"},
+            intro="A whole lost day is a non-working day: the forecast moves"), "lost-time")
+
+    def action_visit(self) -> None:
+        """A delivery, inspection, visitor, instruction or note."""
+        self._pick_then_ask("What came or was said today?", PICK_VISIT)
+
+    def action_incident(self) -> None:
+        """An incident or a safety observation."""
+        self._pick_then_ask("What happened?", PICK_INCIDENT)
+
+    def _pick_then_ask(self, title: str, kinds: tuple[str, ...]) -> None:
+        aid = self.selected_id()
+
+        def picked(kind: str | None) -> None:
+            if kind is not None:
+                defaults = {"activity": aid} if kind != "visitor" else {}
+                self.fieldlog.ask(entry_form(kind, defaults=defaults), kind)
+
+        options = [(k, KIND_TITLES[k]) for k in kinds]
+        self.app.push_screen(PickScreen(title, options), picked)
+
+
+def day_text(snap: Snapshot) -> Text:
+    """The day panel: what is recorded for today, then the readiness items to chase."""
+    today = snap.today
+    day_entries = [e for e in snap.state.replay.effective
+                   if e.day == today and e.kind not in PROGRESS_KINDS]
+    text = Text()
+    text.append(f"Recorded for {today:%a %d %b}", style="bold")
+    kinds = {e.kind for e in day_entries}
+    missing = [w for k, w in (("weather", "weather (w)"), ("crew", "crews (c)"))
+               if k not in kinds]
+    if missing:
+        text.append(f"  · not yet: {', '.join(missing)}")
+    text.append("\n")
+    if not day_entries:
+        text.append("  nothing yet for the day\n")
+    for e in day_entries:
+        text.append(f"  {summarize(e)}\n")
+    items = snap.state.replay.readiness
+    if items:
+        text.append("Open readiness items\n", style="bold")
+        for item in items:
+            when = f"expected {item.expected:%a %d %b}" if item.expected else "no expected date"
+            flag_text = item.flag(snap.state.as_of)
+            mark = "!! " if flag_text else "   "
+            text.append(f"{mark}{item.activity} needs {item.what} ({item.kind}), {when}\n")
+    problems = snap.state.replay.problems
+    if problems:
+        text.append(f"Log problems: {len(problems)} (see 4 Journal)\n", style="bold")
+    return text

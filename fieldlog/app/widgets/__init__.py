@@ -1,0 +1,1 @@
+"""Widgets shared by the views: the one-line bars and the fast row list."""

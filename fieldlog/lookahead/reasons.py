@@ -1,0 +1,156 @@
+"""Reasons in a foreman's words: why a day is MAY or CANNOT, and what to chase.
+
+Every MAY and CANNOT cell of the lookahead points at one of these sentences. They name what
+someone can act on: the predecessor to push ("waiting on EXC-010 (Excavate footings) to
+finish"), the readiness item to chase ("needs rebar shop drawings, expected ..."), the float
+there is to play with, or the late finish not to run past.
+"""
+
+from __future__ import annotations
+
+from collections import defaultdict
+from collections.abc import Sequence
+from datetime import date
+
+from fieldlog.lookahead.classify import Why
+from fieldlog.model import Link, LinkType, Site
+from fieldlog.progress import Status
+from fieldlog.readiness import OpenItem
+from fieldlog.schedule_result import ActivityResult, ScheduleResult
+
+WEEKDAYS = ("Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun")
+MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+"""English names spelled out here, not taken from the machine's locale: the sheet's bytes must
+not depend on where it is printed."""
+
+
+_DATE_TEXT: dict[date, str] = {}
+
+
+def date_text(d: date) -> str:
+    """A date as printed on the sheet and in reasons, e.g. ``Tue 10 Mar 2026``."""
+    text = _DATE_TEXT.get(d)
+    if text is None:
+        text = f"{WEEKDAYS[d.weekday()]} {d.day:02d} {MONTHS[d.month - 1]} {d.year}"
+        if len(_DATE_TEXT) < 100_000:  # a few centuries of days: bounded, never evicted
+            _DATE_TEXT[d] = text
+    return text
+
+
+def days_text(n: int) -> str:
+    """``1 working day`` / ``3 working days``."""
+    return f"{n} working day{'' if n == 1 else 's'}"
+
+
+_LINK_VERB = {
+    LinkType.FS: "to finish",
+    LinkType.SS: "to start",
+    LinkType.FF: "to finish (it may not finish before)",
+    LinkType.SF: "to start (it may not finish before)",
+}
+
+
+class ReasonWriter:
+    """Writes the reasons for the activities of one schedule.
+
+    Args:
+        result: the schedule the lookahead is built from.
+        readiness: readiness items still open at its status date.
+    """
+
+    def __init__(self, result: ScheduleResult, readiness: Sequence[OpenItem]) -> None:
+        self._result = result
+        self._site: Site = result.site
+        self._as_of = result.as_of
+        self._items: dict[str, list[OpenItem]] = defaultdict(list)
+        for item in readiness:
+            self._items[item.activity].append(item)
+        self._past = f"already past: the status date is the end of {date_text(result.as_of)}"
+        self._by_kind = {
+            Why.PAST: lambda r: self._past,
+            Why.WAITING: self._waiting,
+            Why.FLOAT: self._float,
+            Why.AFTER_LATE_FINISH: self._after_late_finish,
+            Why.LATE: self._late,
+        }
+
+    @property
+    def has_items(self) -> frozenset[str]:
+        """Ids of the activities with open readiness items."""
+        return frozenset(self._items)
+
+    def text(self, r: ActivityResult, why: Why) -> str:
+        """The sentence for one reason kind of activity ``r`` (empty for :data:`Why.NONE`)."""
+        say = self._by_kind.get(why)
+        return say(r) if say is not None else ""
+
+    def readiness(self, r: ActivityResult) -> tuple[tuple[str, ...], tuple[str, ...]]:
+        """Notes on the activity's open readiness items, and the ones flagged as not ready.
+
+        Returns:
+            ``(notes, flags)``: a note for each open item whose date is still ahead (it holds
+            the activity back), and a flag for each item with no date or a date that has passed.
+        """
+        items = self._items.get(r.id)
+        if not items:
+            return (), ()
+        notes, flags = [], []
+        for item in sorted(items, key=lambda i: (i.expected or date.max, i.what)):
+            flag = item.flag(self._as_of)
+            if flag is not None:
+                flags.append(flag)
+            else:
+                assert item.expected is not None
+                notes.append(f"needs {item.what}, expected {date_text(item.expected)}")
+        return tuple(notes), tuple(flags)
+
+    # -- the sentences --------------------------------------------------------------------------
+
+    def _waiting(self, r: ActivityResult) -> str:
+        earliest = f"earliest start {date_text(r.early_start)}"
+        link = r.driving
+        if link is not None:
+            return f"{self._link_text(link)}; {earliest}"
+        what = r.driven_by
+        if what == "readiness":
+            items = [i for i in self._items.get(r.id, ()) if i.holds_until(self._as_of)]
+            if items:
+                item = max(items, key=lambda i: (i.expected, i.what))
+                return (f"needs {item.what}, expected {date_text(item.expected)}; "
+                        f"{earliest}")
+            return f"held back by an open readiness item; {earliest}"
+        if what == "start not before":
+            snb = self._site.activity(r.id).start_not_before
+            if snb is not None:
+                return f"not to start before {date_text(snb)} (date in the schedule); {earliest}"
+        if what == "site start":
+            return f"the site starts {date_text(self._site.start)}; {earliest}"
+        return earliest
+
+    def _after_late_finish(self, r: ActivityResult) -> str:
+        return f"to be finished by its late finish {date_text(r.late_finish)}"
+
+    def _late(self, r: ActivityResult) -> str:
+        assert r.total_float is not None and r.late_finish is not None
+        return (f"late: {days_text(-r.total_float)} behind; every day it can run up to "
+                f"{date_text(r.early_finish)} must be worked (late finish was "
+                f"{date_text(r.late_finish)})")
+
+    def _link_text(self, link: Link) -> str:
+        pred = self._result.by_id.get(link.pred)
+        name = f" ({pred.name})" if pred is not None else ""
+        text = f"waiting on {link.pred}{name} {_LINK_VERB[link.type]}"
+        if link.lag > 0:
+            text += f" + {days_text(link.lag)}"
+        elif link.lag < 0:
+            text += f" less a {days_text(-link.lag)} lead"
+        return text
+
+    def _float(self, r: ActivityResult) -> str:
+        tf = r.total_float
+        assert tf is not None and r.late_finish is not None
+        text = f"{days_text(tf)} of float"
+        if r.status is Status.IN_PROGRESS:
+            return f"{text}: the remaining {days_text(r.remaining)} must finish by " \
+                   f"{date_text(r.late_finish)}"
+        return f"{text}: start by {date_text(r.late_start)}, finish by {date_text(r.late_finish)}"

@@ -1,0 +1,134 @@
+"""The lookahead as data: JSON for other tools, CSV for the office's spreadsheets.
+
+JSON (the contract in DESIGN.md section 4, extended, never broken)::
+
+    {"from": "2026-03-09", "days": ["2026-03-09", ...],
+     "activities": [{"id", "name", "cells": ["must" | "may" | "cannot" | "off", one per day],
+                     "reasons": [...], "late": bool, "total_float", ...}],
+     "crews": [{"crew", "available", "must": [...], "most": [...], ...}], ...}
+
+``activities`` lists every unfinished activity. ``cell_reasons`` gives, per day, the index in
+``reasons`` of the sentence that explains that cell (null for MUST days of on-time work and for
+days off).
+
+CSV has one row per activity and day with that day's class and reason. Both outputs are
+deterministic: the same lookahead gives the same bytes (``\\n`` line ends).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from datetime import date
+
+from fieldlog.lookahead.build import ActivityRow, Lookahead
+from fieldlog.lookahead.crew_load import CrewLoad
+from fieldlog.lookahead.levelling import Levelling
+
+CSV_COLUMNS = (
+    "day", "id", "name", "cell", "reason", "total_float", "late", "not_ready", "early_start",
+    "late_finish",
+)
+
+
+def _iso(d: date | None) -> str | None:
+    return d.isoformat() if d else None
+
+
+def activity_json(row: ActivityRow) -> dict:
+    """One activity of the lookahead as JSON."""
+    return {
+        "id": row.id, "name": row.name, "status": row.status.value, "calendar": row.calendar,
+        "cells": [c.value for c in row.cells], "reasons": list(row.reasons),
+        "cell_reasons": list(row.why), "late": row.late, "total_float": row.total_float,
+        "free_float": row.free_float, "critical": row.critical, "remaining": row.remaining,
+        "early_start": _iso(row.early_start), "early_finish": _iso(row.early_finish),
+        "late_start": _iso(row.late_start), "late_finish": _iso(row.late_finish),
+        "not_ready": list(row.not_ready), "crew": dict(row.crew),
+    }
+
+
+def crew_json(load: CrewLoad, days: tuple[date, ...]) -> dict:
+    """One crew's load as JSON, with the days it is over its headcount."""
+    return {
+        "crew": load.crew, "available": load.available,
+        "must": list(load.must), "most": list(load.most), "early_start": list(load.early),
+        "levelled": list(load.levelled) if load.levelled is not None else None,
+        "over_days_must": _over_days(days, load.over(load.must)),
+        "over_days_early_start": _over_days(days, load.over(load.early)),
+    }
+
+
+def _over_days(days: tuple[date, ...], over: tuple[bool, ...]) -> list[str]:
+    return [d.isoformat() for d, o in zip(days, over, strict=True) if o]
+
+
+def levelling_json(lev: Levelling | None) -> dict | None:
+    """The levelling suggestion as JSON (None when no crew was over its headcount)."""
+    if lev is None:
+        return None
+    return {
+        "method": lev.method, "crews": list(lev.crews), "passes": lev.passes,
+        "sum_of_squares_before": lev.sum_of_squares_before,
+        "sum_of_squares_after": lev.sum_of_squares_after,
+        "moves": [{"id": m.activity, "name": m.name, "early_start": _iso(m.early_start),
+                   "start": _iso(m.start), "finish": _iso(m.finish),
+                   "float_used": m.float_used, "crew": dict(m.crew)} for m in lev.moves],
+    }
+
+
+def lookahead_json(la: Lookahead) -> dict:
+    """The ``fieldlog lookahead --format json`` document."""
+    return {
+        "site": la.site, "revision": la.revision, "as_of": la.as_of.isoformat(),
+        "data_date": la.data_date.isoformat(), "from": la.days[0].isoformat(),
+        "to": la.days[-1].isoformat(), "days": [d.isoformat() for d in la.days],
+        "finish": la.finish.isoformat(), "finish_by": _iso(la.finish_by),
+        "finish_float": la.finish_float,
+        "activities": [activity_json(row) for row in la.rows],
+        "finished": [{"id": f.id, "name": f.name, "actual_start": _iso(f.actual_start),
+                      "actual_finish": _iso(f.actual_finish)} for f in la.finished],
+        "crews": [crew_json(load, la.days) for load in la.crews],
+        "levelling": levelling_json(la.levelling),
+    }
+
+
+def render_json(la: Lookahead) -> str:
+    """JSON text ending in a newline: one top-level key per line, one activity per line.
+
+    A line per activity keeps a 10,000-activity file quick to write (the compact encoder is
+    the fast one) and still easy to read and to diff.
+    """
+    doc = lookahead_json(la)
+    parts = []
+    for key, value in doc.items():
+        name = json.dumps(key)
+        if isinstance(value, list) and value and isinstance(value[0], dict):
+            items = ",\n".join("    " + _compact(v) for v in value)
+            parts.append(f"  {name}: [\n{items}\n  ]")
+        else:
+            parts.append(f"  {name}: {_compact(value)}")
+    return "{\n" + ",\n".join(parts) + "\n}\n"
+
+
+def _compact(value: object) -> str:
+    return json.dumps(value, ensure_ascii=False, separators=(", ", ": "))
+
+
+def render_csv(la: Lookahead) -> str:
+    """CSV text: a header, then one row per activity and day."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(CSV_COLUMNS)
+    days = [d.isoformat() for d in la.days]
+    for row in la.rows:
+        late = "yes" if row.late else "no"
+        not_ready = "; ".join(row.not_ready)
+        es, lf = row.early_start.isoformat(), row.late_finish.isoformat()
+        reasons = row.reasons
+        w.writerows(
+            (day, row.id, row.name, cell.value, reasons[k] if k is not None else "",
+             row.total_float, late, not_ready, es, lf)
+            for day, cell, k in zip(days, row.cells, row.why, strict=True))
+    return buf.getvalue()
