@@ -258,3 +258,58 @@ def test_cli_schedules_a_good_folder(tmp_path):
     proc = run_cli("schedule", str(write(tmp_path / "site")), "--format", "json")
     assert proc.returncode == 0, proc.stderr
     assert '"id": "CURE"' in proc.stdout and "Traceback" not in proc.stderr
+
+
+# Every bad input the foundation issue lists, through the real command line (in-process, so
+# the whole table costs milliseconds): exit code 2, one line on stderr naming the file, the
+# activity where there is one, and what is wrong; nothing on stdout; no traceback.
+_DUP = SCHEDULE.replace('id = "POUR"', 'id = "EXC"')
+BAD_INPUTS = [
+    # (case, site text or None to omit, schedule text or None to omit, file, words)
+    ("toml syntax", SITE, SCHEDULE.replace("revision = 3", "revision = = 3"),
+     "schedule.toml", "TOML syntax error"),
+    ("missing site.toml", None, SCHEDULE, "site.toml", "site.toml is missing"),
+    ("missing schedule.toml", SITE, None, "schedule.toml", "schedule.toml is missing"),
+    ("duplicate id", SITE, _DUP, "schedule.toml", "duplicate activity id 'EXC'"),
+    ("unknown id in after", SITE, SCHEDULE.replace('after = ["EXC"]', 'after = ["EXX"]'),
+     "schedule.toml", "unknown activity 'EXX'"),
+    ("unknown id in link", SITE, SCHEDULE.replace('to = "CURE"', 'to = "CURING"'),
+     "schedule.toml", "'CURING'"),
+    ("unknown calendar", SITE, SCHEDULE.replace('calendar = "allweek"', 'calendar = "7day"'),
+     "schedule.toml", "unknown calendar '7day'"),
+    ("unknown crew", SITE, SCHEDULE.replace("groundworks = 3", "steelfixers = 3"),
+     "schedule.toml", "unknown crew 'steelfixers'"),
+    ("negative duration", SITE, SCHEDULE.replace("duration = 3", "duration = -3"),
+     "schedule.toml", "negative duration"),
+    ("bad link type", SITE, SCHEDULE.replace('type = "FS"', 'type = "XS"'),
+     "schedule.toml", "unknown type 'XS'"),
+    ("dependency loop", SITE,
+     SCHEDULE.replace('name = "Excavate"', 'name = "Excavate"\nafter = ["CURE"]'),
+     "schedule.toml", "dependency loop: EXC -> POUR -> CURE -> EXC"),
+    ("not a date", SITE.replace("start = 2026-03-02", 'start = "next Monday"'), SCHEDULE,
+     "site.toml", "'next Monday' is not a date"),
+    ("impossible date", SITE.replace("start = 2026-03-02", "start = 2026-02-30"), SCHEDULE,
+     "site.toml", "TOML syntax error"),
+]
+
+
+@pytest.mark.parametrize("case, site, schedule, file, words", BAD_INPUTS,
+                         ids=[row[0] for row in BAD_INPUTS])
+def test_every_bad_input_exits_2_with_one_clear_line(tmp_path, capsys, case, site, schedule,
+                                                     file, words):
+    from fieldlog.cli import main
+
+    folder = tmp_path / "site"
+    folder.mkdir()
+    if site is not None:
+        (folder / "site.toml").write_text(site, encoding="utf-8")
+    if schedule is not None:
+        (folder / "schedule.toml").write_text(schedule, encoding="utf-8")
+    code = main(["schedule", str(folder)])
+    out, err = capsys.readouterr()
+    assert code == 2, case
+    assert out == ""
+    assert len(err.strip().splitlines()) == 1 and err.startswith("fieldlog: ")
+    assert "Traceback" not in err
+    assert file in err and words in err
+    assert "Fix: " in err  # every message says what to do
