@@ -16,7 +16,6 @@ from pathlib import Path
 
 from fieldlog.errors import SyncError
 from fieldlog.sync import SyncOptions, sync_site
-from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.state import SyncRecord, save_record
 from fieldlog.sync.summary import render_json, render_text
 
@@ -65,14 +64,8 @@ def run(args: argparse.Namespace) -> int:
     if summary.has_problems:
         print(f"fieldlog: sync: {len(summary.conflicts)} conflicts, {len(summary.refused)} "
               "refused files; see the summary", file=sys.stderr)
-    record = SyncRecord(
-        site=str(site.resolve()), target=str(target.resolve()),
-        when=datetime.now().astimezone().replace(microsecond=0),
-        sent=len(summary.sent), received=len(summary.received),
-        conflicts=len(summary.conflicts), refused=len(summary.refused),
-        revision=summary.revision.target_revision
-        if summary.revision.status is RevisionStatus.BROUGHT_IN else summary.revision.site_revision,
-    )
+    record = SyncRecord.of(site, target, summary,
+                           datetime.now().astimezone().replace(microsecond=0))
     try:
         save_record(record)
     except SyncError as exc:  # the sync itself is complete; only the receipt is missing

@@ -18,6 +18,8 @@ import tomli_w
 
 from fieldlog.errors import SyncError
 from fieldlog.journal.device import fieldlog_home
+from fieldlog.sync.revision import RevisionStatus
+from fieldlog.sync.summary import SyncSummary
 from fieldlog.sync.transfer import write_atomic
 
 RECORDS_DIR = "sync"
@@ -36,6 +38,18 @@ class SyncRecord:
     refused: int
     revision: int
     """The site's schedule revision after the sync."""
+
+    @classmethod
+    def of(cls, site: Path, target: Path, summary: SyncSummary, when: datetime) -> SyncRecord:
+        """The record of a finished sync (``fieldlog sync`` and the app both save this)."""
+        brought = summary.revision.status is RevisionStatus.BROUGHT_IN
+        return cls(
+            site=str(site.resolve()), target=str(target.resolve()), when=when,
+            sent=len(summary.sent), received=len(summary.received),
+            conflicts=len(summary.conflicts), refused=len(summary.refused),
+            revision=summary.revision.target_revision if brought
+            else summary.revision.site_revision,
+        )
 
 
 def record_path(home: Path, site_folder: Path) -> Path:

@@ -25,7 +25,6 @@ from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
 from fieldlog.errors import FieldlogError
 from fieldlog.sync import SyncOptions, SyncSummary, list_conflicts, sync_site
-from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.state import SyncRecord, last_sync, save_record
 from fieldlog.sync.summary import render_text
 
@@ -37,17 +36,6 @@ def last_sync_words(record: SyncRecord | None) -> str:
     return (f"Last sync {record.when:%a %d %b %Y %H:%M} with {record.target}: sent "
             f"{record.sent}, received {record.received}, conflicts {record.conflicts}, refused "
             f"{record.refused}; schedule revision {record.revision}")
-
-
-def record_of(site: Path, target: Path, summary: SyncSummary, when: datetime) -> SyncRecord:
-    """The last-sync record for a finished sync (what ``fieldlog sync`` saves too)."""
-    brought = summary.revision.status is RevisionStatus.BROUGHT_IN
-    return SyncRecord(
-        site=str(site.resolve()), target=str(target.resolve()), when=when,
-        sent=len(summary.sent), received=len(summary.received),
-        conflicts=len(summary.conflicts), refused=len(summary.refused),
-        revision=summary.revision.target_revision if brought else summary.revision.site_revision,
-    )
 
 
 class SyncScreen(ViewScreen):
@@ -128,8 +116,8 @@ class SyncScreen(ViewScreen):
             return
         problem = ""
         try:
-            save_record(record_of(folder, target, summary,
-                                  datetime.now().astimezone().replace(microsecond=0)))
+            save_record(SyncRecord.of(folder, target, summary,
+                                      datetime.now().astimezone().replace(microsecond=0)))
         except FieldlogError as exc:  # the sync is complete; only the receipt is missing
             problem = f" (last-sync record not saved: {exc.message})"
         app.call_from_thread(self._synced, summary, problem)
