@@ -73,7 +73,7 @@ def note(text: str, activity: str | None = None) -> tuple:
 LOG: dict[date, list[tuple]] = {
     d(7): [
         weather("dry, sunny spells", 19, 9, 0, "light westerly"),
-        started("KEY-000"), finished("KEY-000"),
+        finished("KEY-000"),
         started("SITE-010"), started("SITE-020"),
         crew("groundworks", GW, 6, 51, "SITE-010"),
         crew("fencing", FENCE, 3, 25.5, "SITE-020"),

@@ -310,3 +310,15 @@ def test_the_sample_journal_is_what_the_generator_writes(tmp_path):
     assert make_sample_log.write(copy) > 90
     assert log_bytes(copy) == log_bytes(sample)
     assert verify(sample) == []
+
+
+def test_a_milestone_is_reached_not_started(sample_site):
+    """A milestone has no duration: 'started' is refused with the command that records it."""
+    site = load_site(sample_site)
+    assert site.activity("KEY-900").is_milestone
+    before = sorted((sample_site / "log").glob("*.toml"))
+    with pytest.raises(EntryRefused, match="is a milestone") as info:
+        record_entry(sample_site, site, "started", date(2026, 9, 25), {"activity": "KEY-900"},
+                     today=date(2026, 9, 25))
+    assert "finished KEY-900 --on 2026-09-25" in info.value.message
+    assert sorted((sample_site / "log").glob("*.toml")) == before

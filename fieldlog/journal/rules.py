@@ -60,6 +60,12 @@ def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[
     ev = view.evidence.get(fields.get("activity", ""), ActivityEntries())
     correct = f"fieldlog record {site_name} correct ENTRY-ID --reason '...'"
     if kind == "started":
+        if site.activity(fields["activity"]).is_milestone:
+            aid = fields["activity"]
+            raise refuse(f"{aid} is a milestone (no duration), so it does not start and run",
+                         activity=aid,
+                         fix=f"record it reached with: fieldlog record {site_name} finished "
+                         f"{aid} --on {day}")
         _started(fields["activity"], day, ev, correct)
     elif kind == "finished":
         _finished(fields["activity"], day, ev, correct)
