@@ -220,17 +220,17 @@ def _starting_point(site: Site, net: NetworkArrays, tables: CalendarTables, stat
     done: list[tuple[int, int, int]] = []  # position, first day, day after the last
     going: list[tuple[int, int]] = []  # position, actual start
     for aid, p in progress.items():
-        k = net.index.get(aid)
-        if k is None:
+        at = net.index.get(aid)
+        if at is None:
             continue  # no longer in the schedule
-        reported.append((k, p))
+        reported.append((at, p))
         if p.actual_finish is not None:
-            first = p.actual_start or p.actual_finish
-            done.append((k, first.toordinal(), p.actual_finish.toordinal() + 1))
+            first_day = p.actual_start or p.actual_finish
+            done.append((at, first_day.toordinal(), p.actual_finish.toordinal() + 1))
         elif p.actual_start is not None:
-            duration[k], overdue[k] = remaining_at(p, int(duration[k]), cals[cal[k]],
-                                                   status_date)
-            going.append((k, p.actual_start.toordinal()))
+            duration[at], overdue[at] = remaining_at(p, int(duration[at]), cals[cal[at]],
+                                                     status_date)
+            going.append((at, p.actual_start.toordinal()))
     if done:
         k, first, after = (np.array(v, dtype=np.int64) for v in zip(*done, strict=True))
         es = tables.points(cal[k], first)

@@ -16,7 +16,7 @@ order, ``\\n`` line ends, so the same log always prints the same bytes.
 from __future__ import annotations
 
 import textwrap
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from datetime import date
 
 from fieldlog.journal import Entry
@@ -286,7 +286,7 @@ def _describe(e: Entry, state: SiteState) -> str:
     f = e.fields
     act = f"{f['activity']} {_name(state, f['activity'])}: " if f.get("activity") else ""
     acts = f" Activities: {', '.join(f['activities'])}." if f.get("activities") else ""
-    bits: Iterable[str]
+    bits: Iterable[str | None]  # an optional field not given is None, left out below
     if e.kind == "delivery":
         bits = (f["what"], f.get("quantity"), f.get("supplier") and f"from {f['supplier']}")
     elif e.kind == "inspection":
@@ -308,7 +308,7 @@ def _describe(e: Entry, state: SiteState) -> str:
     return act + _stop("; ".join(b for b in bits if b)) + note + acts + f" [{e.id}]"
 
 
-def _corrections(p: _Page, raw: list[Entry], superseded: dict) -> None:
+def _corrections(p: _Page, raw: list[Entry], superseded: Mapping[str, Entry]) -> None:
     p.heading("Corrections")
     items = [e for e in raw if e.kind == "correction"]
     later = sorted({c.id: c for e in raw if e.id in superseded

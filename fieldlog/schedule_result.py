@@ -34,8 +34,11 @@ class ActivityResult:
     calendar: str
     duration: int
     status: Status
-    early_start: date | None
-    early_finish: date | None
+    early_start: date
+    """Forecast first day (of the remaining work, for work in progress); the actual start of
+    finished work (its actual finish when no start was recorded)."""
+    early_finish: date
+    """Forecast last day; the actual finish of finished work."""
     late_start: date | None
     late_finish: date | None
     total_float: int | None

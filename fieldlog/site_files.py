@@ -16,7 +16,7 @@ from datetime import date, datetime
 from functools import cached_property, lru_cache, partial
 from pathlib import Path
 from types import MappingProxyType
-from typing import Any
+from typing import Any, Literal, overload
 
 from fieldlog.errors import DependencyLoopError, SiteError
 from fieldlog.model import (
@@ -448,8 +448,16 @@ def _string(f: TomlFile, table: dict[str, Any], key: str, where: str) -> str:
     return value.strip()
 
 
+@overload
+def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: Literal[True],
+          line: Line = None, activity: str | None = None) -> date: ...
+@overload
+def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *,
+          required: Literal[False] = False, line: Line = None,
+          activity: str | None = None) -> date | None: ...
 def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: bool = False,
           line: Line = None, activity: str | None = None) -> date | None:
+    """The date at ``key``; None when it is absent, unless ``required`` (then it refuses)."""
     value = table.get(key)
     if value is None:
         if required:

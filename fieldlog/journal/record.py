@@ -114,6 +114,7 @@ def record_entry(
         if kind == "correction":
             day, clean = _correction(site, journal, day, fields, today, site_name)
         else:
+            assert day is not None  # set to ``day or today`` above for every other kind
             view = replay(site, journal.entries, _FAR_FUTURE)
             check_entry(site, view, kind, day, clean, site_name)
         return _append(log, journal, device, kind, day, clean, author, clock)

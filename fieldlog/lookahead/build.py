@@ -163,9 +163,11 @@ def build_lookahead(
             if r.actual_finish is not None and r.actual_finish >= first:
                 finished.append(FinishedRow(r.id, r.name, r.actual_start, r.actual_finish))
             continue
-        tf = r.total_float
-        pattern = cache.get(r.calendar, r.early_start, r.early_finish, r.late_start,
-                            r.late_finish, tf < 0)
+        tf, late_start, late_finish = r.total_float, r.late_start, r.late_finish
+        # Only finished work (skipped above) has no late dates and no float.
+        assert tf is not None and late_start is not None and late_finish is not None
+        pattern = cache.get(r.calendar, r.early_start, r.early_finish, late_start,
+                            late_finish, tf < 0)
         kinds = pattern.kinds
         reasons = [text(r, kind) for kind in kinds]
         if tf < 0 and Why.LATE not in kinds:
@@ -182,7 +184,7 @@ def build_lookahead(
         crew = crews[r.id]
         rows.append(ActivityRow.from_fields(
             r.id, r.name, r.status, r.calendar, r.remaining, r.early_start, r.early_finish,
-            r.late_start, r.late_finish, tf, r.free_float, r.critical, pattern.cells,
+            late_start, late_finish, tf, r.free_float, r.critical, pattern.cells,
             tuple(reasons), pattern.index, flags, crew,
         ))
         if crew and pattern.active:

@@ -82,15 +82,26 @@ class Levelling:
 
 
 class OpenWork(Protocol):
-    """What levelling reads of an open activity (an ``ActivityResult`` or a lookahead row)."""
+    """What levelling reads of an open activity (an ``ActivityResult`` or a lookahead row).
 
-    id: str
-    status: Status
-    calendar: str
-    remaining: int
-    early_start: date
-    early_finish: date
-    total_float: int | None
+    Read-only, as both are frozen. The float is optional because an ``ActivityResult`` also
+    stands for finished work, which has none; open work always has one.
+    """
+
+    @property
+    def id(self) -> str: ...
+    @property
+    def status(self) -> Status: ...
+    @property
+    def calendar(self) -> str: ...
+    @property
+    def remaining(self) -> int: ...
+    @property
+    def early_start(self) -> date: ...
+    @property
+    def early_finish(self) -> date: ...
+    @property
+    def total_float(self) -> int | None: ...
 
 
 def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str],
@@ -129,6 +140,7 @@ def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str
     after_window = window_end + timedelta(days=1)
     limit: dict[str, int] = {}  # the latest start each movable activity may be given
     for r in open_by_start:
+        assert r.total_float is not None  # open work always has a float
         if r.early_start > window_end:
             break
         if (r.status is Status.NOT_STARTED and r.remaining > 0 and r.total_float > 0
@@ -227,7 +239,7 @@ class _CrewsOf:
 
 
 def _helpers(seeds: list[str], net: Network, latest, limit: dict[str, int],
-             crews_of: Mapping[str, Mapping[str, int]]) -> list[str]:
+             crews_of: _CrewsOf) -> list[str]:
     """Crew-less work not started, downstream of the seeds, that the seeds can push.
 
     Only those can be in a seed's way; everything else stays on its early dates and is

@@ -116,6 +116,7 @@ class ReasonWriter:
             items = [i for i in self._items.get(r.id, ()) if i.holds_until(self._as_of)]
             if items:
                 item = max(items, key=lambda i: (i.expected, i.what))
+                assert item.expected is not None  # only an item with a date holds work back
                 return (f"needs {item.what}, expected {date_text(item.expected)}; "
                         f"{earliest}")
             return f"held back by an open readiness item; {earliest}"
@@ -128,6 +129,7 @@ class ReasonWriter:
         return earliest
 
     def _after_late_finish(self, r: ActivityResult) -> str:
+        assert r.late_finish is not None  # open work, which always has late dates
         return f"to be finished by its late finish {date_text(r.late_finish)}"
 
     def _late(self, r: ActivityResult) -> str:
@@ -148,7 +150,7 @@ class ReasonWriter:
 
     def _float(self, r: ActivityResult) -> str:
         tf = r.total_float
-        assert tf is not None and r.late_finish is not None
+        assert tf is not None and r.late_start is not None and r.late_finish is not None
         text = f"{days_text(tf)} of float"
         if r.status is Status.IN_PROGRESS:
             return f"{text}: the remaining {days_text(r.remaining)} must finish by " \

@@ -42,13 +42,17 @@ class SyncRecord:
     @classmethod
     def of(cls, site: Path, target: Path, summary: SyncSummary, when: datetime) -> SyncRecord:
         """The record of a finished sync (``fieldlog sync`` and the app both save this)."""
-        brought = summary.revision.status is RevisionStatus.BROUGHT_IN
+        change = summary.revision
+        revision = change.site_revision
+        if change.status is RevisionStatus.BROUGHT_IN:
+            # A revision is brought in only after its file was read, so its number is known.
+            assert change.target_revision is not None
+            revision = change.target_revision
         return cls(
             site=str(site.resolve()), target=str(target.resolve()), when=when,
             sent=len(summary.sent), received=len(summary.received),
             conflicts=len(summary.conflicts), refused=len(summary.refused),
-            revision=summary.revision.target_revision if brought
-            else summary.revision.site_revision,
+            revision=revision,
         )
 
 

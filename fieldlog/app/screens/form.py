@@ -8,7 +8,7 @@ whole form reads. The form only collects values: the caller writes the entry.
 from __future__ import annotations
 
 from collections.abc import Callable
-from typing import Any, ClassVar
+from typing import Any, ClassVar, Literal
 
 from rich.text import Text
 from textual import on
@@ -38,6 +38,10 @@ def yes_no(value: bool) -> str:
 
 Submit = Callable[[dict[str, Any]], "str | None"]
 """Called with the read values; returns None when the entry was written, else why not."""
+
+_InputType = Literal["integer", "number", "text"]
+"""What Textual's ``Input(type=...)`` accepts (its own alias lives in a private module)."""
+_INPUT_TYPE: dict[str, _InputType] = {WHOLE: "integer", NUMBER: "number"}
 
 
 class FormScreen(ModalScreen[dict[str, Any] | None]):
@@ -89,7 +93,7 @@ class FormScreen(ModalScreen[dict[str, Any] | None]):
                 else Select.NULL, allow_blank=not f.required or f.default is None,
                 prompt=f.placeholder or "choose", id=wid, compact=True,
             )
-        input_type = {WHOLE: "integer", NUMBER: "number"}.get(f.kind, "text")
+        input_type = _INPUT_TYPE.get(f.kind, "text")
         placeholder = f.placeholder or ("YYYY-MM-DD" if f.kind == DAY else "")
         return Input(initial_text(f), placeholder=placeholder, type=input_type, id=wid,
                      compact=True, select_on_focus=False)

@@ -11,6 +11,7 @@
 from __future__ import annotations
 
 from datetime import date
+from typing import TYPE_CHECKING, cast
 
 from rich.text import Text
 from textual import events
@@ -20,6 +21,9 @@ from textual.widgets import Static
 
 from fieldlog.app.keymap import VIEWS
 from fieldlog.schedule_result import ScheduleResult
+
+if TYPE_CHECKING:
+    from fieldlog.app.app import FieldlogApp
 
 
 def finish_words(schedule: ScheduleResult) -> str:
@@ -79,7 +83,7 @@ class HelpTab(Static):
     def on_click(self, event: events.Click) -> None:
         """Open the help overlay."""
         event.stop()
-        self.app.action_help()
+        cast("FieldlogApp", self.app).action_help()  # Textual types ``app`` as the base App
 
 
 class ViewStrip(Horizontal):
