@@ -61,7 +61,9 @@ FORMAT = 1
 _MAGIC = b"fieldlog-site-cache\n"
 _PREFIX, _SUFFIX, _TEMP_SUFFIX = "site-", ".pickle", ".tmp"
 _STALE_TEMP_SECONDS = 3600.0
-_SHAPING_MODULES = ("site_cache.py", "site_files.py", "model.py")
+_SHAPING_MODULES = (
+    "site_cache.py", "site_files.py", "site_schema.py", "toml_file.py", "model.py",
+)
 """Source files whose code decides what a cached Site holds (all in this package)."""
 
 # What makes a cached file unreadable once its digest matched: a stream pickle refuses
