@@ -21,6 +21,7 @@ from datetime import date
 
 from fieldlog.journal import Entry
 from fieldlog.progress import Status
+from fieldlog.words import working_days
 from fieldlog.workspace import SiteState
 
 WIDTH = 80
@@ -199,7 +200,7 @@ def _work(p: _Page, todays: list[Entry], state: SiteState) -> None:
         extra = ""
         if e.kind == "remaining":
             n = e.fields["days"]
-            extra = f": {n} working day{'s' if n != 1 else ''} left"
+            extra = f": {working_days(n)} left"
         elif e.kind == "percent":
             extra = f": {_n(e.fields['percent'])}% physically complete"
         p.wrap(f"{labels[e.kind]:<10} {aid} {_name(state, aid)}{extra} [{e.id}]", 2, 11)
@@ -239,7 +240,7 @@ def _schedule(p: _Page, state: SiteState) -> None:
     if state.site.finish_by is not None and sched.finish_float is not None:
         ff = sched.finish_float
         text += (f"; required {_d(state.site.finish_by)}: "
-                 + (f"{ff} working days to spare" if ff >= 0 else f"LATE by {-ff} working days"))
+                 + (f"{working_days(ff)} to spare" if ff >= 0 else f"LATE by {working_days(-ff)}"))
     p.wrap(text + ".", 2, 4)
     driving = [sched.by_id[a] for a in sched.driving_path if sched.by_id[a].is_open][:3]
     if driving:

@@ -15,6 +15,7 @@ from functools import lru_cache
 
 from fieldlog.progress import Status
 from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.words import working_days
 
 FORMATS = ("text", "json", "csv")
 
@@ -154,8 +155,7 @@ def _finish_line(result: ScheduleResult) -> str:
         ff = result.finish_float
         state = "on time" if ff >= 0 else "LATE"
         text += (f"; required {result.site.finish_by:%a %d %b %Y}: {state}, "
-                 f"{abs(ff)} working day{'s' if abs(ff) != 1 else ''} "
-                 f"{'to spare' if ff >= 0 else 'behind'}")
+                 f"{working_days(abs(ff))} {'to spare' if ff >= 0 else 'behind'}")
     return text
 
 

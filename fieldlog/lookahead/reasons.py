@@ -17,6 +17,7 @@ from fieldlog.model import Link, LinkType, Site
 from fieldlog.progress import Status
 from fieldlog.readiness import OpenItem
 from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.words import working_days
 
 WEEKDAYS = ("Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun")
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
@@ -35,11 +36,6 @@ def date_text(d: date) -> str:
         if len(_DATE_TEXT) < 100_000:  # a few centuries of days: bounded, never evicted
             _DATE_TEXT[d] = text
     return text
-
-
-def days_text(n: int) -> str:
-    """``1 working day`` / ``3 working days``."""
-    return f"{n} working day{'' if n == 1 else 's'}"
 
 
 _LINK_VERB = {
@@ -134,7 +130,7 @@ class ReasonWriter:
 
     def _late(self, r: ActivityResult) -> str:
         assert r.total_float is not None and r.late_finish is not None
-        return (f"late: {days_text(-r.total_float)} behind; every day it can run up to "
+        return (f"late: {working_days(-r.total_float)} behind; every day it can run up to "
                 f"{date_text(r.early_finish)} must be worked (late finish was "
                 f"{date_text(r.late_finish)})")
 
@@ -143,16 +139,16 @@ class ReasonWriter:
         name = f" ({pred.name})" if pred is not None else ""
         text = f"waiting on {link.pred}{name} {_LINK_VERB[link.type]}"
         if link.lag > 0:
-            text += f" + {days_text(link.lag)}"
+            text += f" + {working_days(link.lag)}"
         elif link.lag < 0:
-            text += f" less a {days_text(-link.lag)} lead"
+            text += f" less a {working_days(-link.lag)} lead"
         return text
 
     def _float(self, r: ActivityResult) -> str:
         tf = r.total_float
         assert tf is not None and r.late_start is not None and r.late_finish is not None
-        text = f"{days_text(tf)} of float"
+        text = f"{working_days(tf)} of float"
         if r.status is Status.IN_PROGRESS:
-            return f"{text}: the remaining {days_text(r.remaining)} must finish by " \
+            return f"{text}: the remaining {working_days(r.remaining)} must finish by " \
                    f"{date_text(r.late_finish)}"
         return f"{text}: start by {date_text(r.late_start)}, finish by {date_text(r.late_finish)}"

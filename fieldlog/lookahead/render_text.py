@@ -22,7 +22,7 @@ from dataclasses import dataclass
 
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
-from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, days_text
+from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
 from fieldlog.lookahead.text_fit import abbreviate, fit, right, to_ascii, width, wrap
 
 WIDTHS = (80, 132)
@@ -188,7 +188,7 @@ class _Sheet:
         state = "on time" if ff >= 0 else "LATE"
         spare = "to spare" if ff >= 0 else "behind"
         return (f"{text}; required {date_text(la.finish_by)}: {state}, "
-                f"{days_text(abs(ff))} {spare}")
+                f"{working_days(abs(ff))} {spare}")
 
     def _footer(self, page: int, pages: int) -> list[str]:
         g, w = self.g, self.lay.cell_w
@@ -291,7 +291,7 @@ class _Sheet:
         for m in lev.moves:
             block += self._wrap(
                 f"start {m.activity} ({m.name}) {date_text(m.start)} instead of "
-                f"{date_text(m.early_start)}, using {days_text(m.float_used)} of its float",
+                f"{date_text(m.early_start)}, using {working_days(m.float_used)} of its float",
                 "    ", "  - ")
         peaks = []
         for load in self.la.crews:
