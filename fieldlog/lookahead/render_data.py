@@ -123,7 +123,7 @@ def render_csv(la: Lookahead) -> str:
     w.writerow(CSV_COLUMNS)
     days = [d.isoformat() for d in la.days]
     for row in la.rows:
-        late = "yes" if row.late else "no"
+        late = "true" if row.late else "false"  # as in the schedule CSV
         not_ready = "; ".join(row.not_ready)
         es, lf = row.early_start.isoformat(), row.late_finish.isoformat()
         reasons = row.reasons
