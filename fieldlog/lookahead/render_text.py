@@ -24,6 +24,7 @@ from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
 from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
 from fieldlog.lookahead.text_fit import abbreviate, fit, right, to_ascii, width, wrap
+from fieldlog.progress import Status
 
 WIDTHS = (80, 132)
 PAGE_LINES = 60
@@ -194,7 +195,7 @@ class _Sheet:
         g, w = self.g, self.lay.cell_w
         legend = (f"{g.must * w} must run, or the job slips", f"{g.may * w} may run (has float)",
                   f"{self._cell(Cell.CANNOT).strip()} cannot run", "blank: not a working day",
-                  "! late (negative float)", "? readiness item to chase",
+                  "! late (negative float)", "? readiness item to chase", "~ already running",
                   "TF total float, working days", "crew: people per day, ! over")
         lines = ["", *_pack(legend, self.lay.width), *self._wrap(CAUTION)]
         left = self.t(f"{self.la.site}, revision {self.la.revision}, "
@@ -246,7 +247,8 @@ class _Sheet:
 
     def _row(self, row: ActivityRow) -> str:
         lay = self.lay
-        flags = ("!" if row.late else " ") + ("?" if row.not_ready else " ")
+        running = row.status is Status.IN_PROGRESS
+        flags = ("!" if row.late else " ") + ("?" if row.not_ready else "~" if running else " ")
         left = (flags + fit(self.t(row.id), lay.id_w, self.g.cut) + " "
                 + abbreviate(self.t(row.name), lay.name_w, self.g.cut) + " "
                 + _number(row.total_float, lay.tf_w))
