@@ -107,7 +107,7 @@ def sort_key(r: ActivityResult) -> tuple:
     """Float list order: open work by float then start; finished work last."""
     if r.status is Status.FINISHED:
         return (1, 0, r.actual_finish or date.min, r.id)
-    return (0, r.total_float, r.early_start or date.min, r.id)
+    return (0, r.total_float, r.early_start, r.id)
 
 
 _MARK = {Status.FINISHED: "done", Status.IN_PROGRESS: "on", Status.NOT_STARTED: ""}

@@ -68,7 +68,7 @@ def _passes(r: ActivityResult, kind: str, horizon: date) -> bool:
     if kind == "near":
         return not r.critical and tf is not None and 0 < tf <= NEAR_CRITICAL_DAYS
     # fortnight
-    return r.early_start is not None and r.early_start <= horizon
+    return r.early_start <= horizon
 
 
 def driver_text(schedule: ScheduleResult, r: ActivityResult) -> str:

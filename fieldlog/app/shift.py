@@ -61,7 +61,7 @@ def _row(r: ActivityResult, today: date, data_date: date) -> ShiftRow | None:
         if r.actual_start == today:
             return ShiftRow(r, RUNNING, "started")
         return ShiftRow(r, RUNNING, "overdue" if r.overdue else "running")
-    if r.early_start is not None and r.early_start <= data_date:
+    if r.early_start <= data_date:
         return ShiftRow(r, READY, "ready")
     return None
 
