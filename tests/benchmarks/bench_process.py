@@ -29,27 +29,11 @@ import time
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
+from bench_cpm import REFERENCE_PROCESS  # noqa: E402  (the same reference as bench_cpm)
 from synthetic import synthetic_site, write_site_folder  # noqa: E402
 
 REPEATS = 5
 
-REFERENCE_PROCESS = """
-import sys, tomllib, networkx as nx
-folder = sys.argv[1]
-with open(folder + "/site.toml", "rb") as f:
-    tomllib.load(f)
-with open(folder + "/schedule.toml", "rb") as f:
-    data = tomllib.load(f)
-g = nx.DiGraph()
-dur = {a["id"]: a["duration"] for a in data["activity"]}
-for a in data["activity"]:
-    g.add_edge(a["id"], "END", weight=a["duration"])
-    for p in a.get("after", []):
-        g.add_edge(p, a["id"], weight=dur[p])
-for lk in data.get("link", []):
-    g.add_edge(lk["from"], lk["to"], weight=dur[lk["from"]] + lk.get("lag", 0))
-print(nx.dag_longest_path_length(g))
-"""
 
 
 def timed(cmd: list[str], home: Path) -> tuple[float, bytes]:
