@@ -19,6 +19,7 @@ from datetime import date
 import pytest
 from test_journal_helpers import DEVICE, ROOT, log_bytes, make_site, rec
 
+from fieldlog import durable
 from fieldlog.errors import JournalError
 from fieldlog.journal import read_journal, store, verify
 
@@ -92,7 +93,7 @@ def test_a_locked_target_is_retried(site, monkeypatch):
             raise PermissionError(errno.EACCES, "in use by another process")
         return real(src, dst)
 
-    monkeypatch.setattr(store, "RETRY_REPLACE", True)
+    monkeypatch.setattr(durable, "RETRY_REPLACE", True)
     monkeypatch.setattr(os, "replace", flaky)
     rec(site, "note", date(2026, 9, 8), text="after")
     monkeypatch.undo()

@@ -27,15 +27,13 @@ import time
 from collections.abc import Iterator
 from pathlib import Path
 
+from fieldlog.durable import flush_to_disk, fsync_folder, replace_with_retry, write_all
 from fieldlog.errors import JournalError
 from fieldlog.journal.names import TEMP_SUFFIX, lock_name, temp_prefix
 
 LOCK_TIMEOUT = 15.0
 """Seconds to wait for another fieldlog process writing the same log."""
 
-RETRY_REPLACE = sys.platform == "win32"
-"""Retry a rename refused because another program has the file open (Windows only)."""
-_REPLACE_TRIES = 10
 
 _REASONS = {
     errno.ENOSPC: "the disk is full",
@@ -149,18 +147,21 @@ def atomic_write(path: Path, data: bytes) -> None:
     try:
         try:
             _share_like_new_file(fd)
-            _write_all(fd, data)
-            _flush_to_disk(fd)
+            write_all(fd, data)
+            flush_to_disk(fd)
         finally:
             os.close(fd)
-        _replace(tmp, path)
+        replace_with_retry(tmp, path)
     except BaseException as exc:
         with contextlib.suppress(FileNotFoundError):
             os.unlink(tmp)
         if isinstance(exc, OSError):
             raise write_error(path, exc) from exc
         raise
-    _fsync_dir(folder)
+    try:
+        fsync_folder(folder)
+    except OSError as exc:
+        raise write_error(folder, exc, "make the write durable") from exc
 
 
 def _share_like_new_file(fd: int) -> None:
@@ -171,54 +172,6 @@ def _share_like_new_file(fd: int) -> None:
     mask = os.umask(0o022)
     os.umask(mask)
     os.fchmod(fd, 0o666 & ~mask)
-
-
-def _write_all(fd: int, data: bytes) -> None:
-    view = memoryview(data)
-    while view:
-        n = os.write(fd, view)
-        view = view[n:]
-
-
-def _flush_to_disk(fd: int) -> None:
-    if sys.platform == "darwin":
-        import fcntl
-
-        try:
-            fcntl.fcntl(fd, fcntl.F_FULLFSYNC)
-            return
-        except OSError:
-            pass  # not supported on this filesystem: plain fsync below
-    os.fsync(fd)
-
-
-def _replace(tmp: str, path: Path) -> None:
-    delay = 0.01
-    for attempt in range(_REPLACE_TRIES):
-        try:
-            os.replace(tmp, path)
-            return
-        except PermissionError:
-            if not RETRY_REPLACE or attempt == _REPLACE_TRIES - 1:
-                raise
-            time.sleep(delay)
-            delay = min(delay * 2, 1.0)
-
-
-def _fsync_dir(folder: Path) -> None:
-    """Make the rename itself durable (POSIX); Windows cannot open a folder this way."""
-    if os.name == "nt":
-        return
-    fd = os.open(folder, os.O_RDONLY | getattr(os, "O_DIRECTORY", 0))
-    try:
-        os.fsync(fd)
-    except OSError as exc:
-        # Some filesystems (certain FUSE and network mounts) refuse fsync on a folder; the
-        # file itself is already safely on disk, so only those refusals are tolerated.
-        if exc.errno not in (errno.EINVAL, errno.ENOTSUP, errno.EBADF):
-            raise write_error(folder, exc, "make the write durable") from exc
-    finally:
-        os.close(fd)
 
 
 def read_bytes(path: Path) -> bytes:

@@ -17,12 +17,12 @@ import contextlib
 import errno
 import hashlib
 import os
-import sys
-import time
 from collections.abc import Callable
 from pathlib import Path
 from typing import BinaryIO
 
+from fieldlog import durable
+from fieldlog.durable import flush_to_disk, replace_with_retry
 from fieldlog.errors import SyncError
 
 TEMP_PREFIX = ".fieldlog-sync-"
@@ -34,7 +34,6 @@ Younger ones are left alone: another device may be copying into the same office 
 """
 
 _CHUNK = 1 << 20
-_WINDOWS_RETRIES = (0.01, 0.03, 0.1, 0.2, 0.4, 0.8)
 
 
 class LinkedFolder(Exception):
@@ -165,7 +164,7 @@ def write_temp(folder: Path, data: bytes, expected_sha256: str) -> Path:
         with tmp.open("xb") as f:
             _write_all(f, data)
             f.flush()
-            _fsync(f.fileno())
+            flush_to_disk(f.fileno())
         if sha256_file(tmp) != expected_sha256:
             raise SyncError(
                 "the copy did not read back identically", file=tmp,
@@ -197,37 +196,32 @@ def replace(tmp: Path, dest: Path) -> None:
     Raises:
         SyncError: the rename failed for good.
     """
-    delays = _WINDOWS_RETRIES if os.name == "nt" else ()
-    for attempt in range(len(delays) + 1):
-        try:
-            os.replace(tmp, dest)
-            return
-        except PermissionError as exc:
-            if attempt < len(delays):
-                time.sleep(delays[attempt])
-                continue
-            raise SyncError(f"cannot rename into place: {exc.strerror}", file=dest,
-                            fix="close programs that have the file open, then run sync again",
-                            ) from exc
-        except OSError as exc:
-            raise SyncError(f"cannot rename into place: {exc.strerror or exc}", file=dest,
-                            fix="check the folder, then run sync again") from exc
+    try:
+        replace_with_retry(tmp, dest)
+    except PermissionError as exc:
+        raise SyncError(f"cannot rename into place: {exc.strerror}", file=dest,
+                        fix="close programs that have the file open, then run sync again",
+                        ) from exc
+    except OSError as exc:
+        raise SyncError(f"cannot rename into place: {exc.strerror or exc}", file=dest,
+                        fix="check the folder, then run sync again") from exc
 
 
 def fsync_folder(folder: Path) -> None:
     """Make renames in ``folder`` durable where the platform allows it (not on Windows).
 
-    Some file systems refuse fsync on a folder (EINVAL); the renames are then as durable as
-    that file system makes them, and the next sync's hash comparison repairs a lost one.
+    File systems that refuse fsync on a folder leave the renames as durable as they make them;
+    the next sync's hash comparison repairs a lost one.
+
+    Raises:
+        SyncError: the folder could not be flushed for another reason (a removed stick).
     """
-    if os.name == "nt":
-        return
-    fd = os.open(folder, os.O_RDONLY | getattr(os, "O_DIRECTORY", 0))
     try:
-        with contextlib.suppress(OSError):  # EINVAL on file systems without folder fsync
-            os.fsync(fd)
-    finally:
-        os.close(fd)
+        durable.fsync_folder(folder)
+    except OSError as exc:
+        raise SyncError(f"cannot flush the folder: {exc.strerror or exc}", file=folder,
+                        fix="check the stick or share is still there, then run sync again",
+                        ) from exc
 
 
 def clean_stale_temps(folder: Path, now: float, older_than_s: float = STALE_AFTER_S) -> int:
@@ -272,19 +266,6 @@ def _check_destination(dest: Path, replaces_sha256: str | None) -> None:
             raise SourceChanged(f"{dest} appeared while syncing")
     elif not dest.is_file() or sha256_file(dest) != replaces_sha256:
         raise SourceChanged(f"{dest} changed while syncing")
-
-
-def _fsync(fd: int) -> None:
-    """Flush to the device; macOS needs F_FULLFSYNC to get past the drive cache."""
-    if sys.platform == "darwin":
-        import fcntl
-
-        try:
-            fcntl.fcntl(fd, fcntl.F_FULLFSYNC)
-            return
-        except OSError:
-            pass  # not supported on this file system: plain fsync below
-    os.fsync(fd)
 
 
 def remove_quietly(tmp: Path) -> None:

@@ -1,0 +1,74 @@
+"""Durable file writes, shared by the journal and sync: the bytes reach the device, the rename
+is retried while another program holds the file, and the rename itself is made durable.
+
+These raise plain ``OSError``; the journal and sync turn it into their own error with the
+file and the fix, because what to tell the user differs (a log entry vs. a copy to a stick).
+"""
+
+from __future__ import annotations
+
+import errno
+import os
+import sys
+import time
+from pathlib import Path
+
+RETRY_REPLACE = sys.platform == "win32"
+"""Retry a rename refused because another program has the file open (Windows: virus
+scanners, search indexers and sync clients do this for a moment)."""
+REPLACE_TRIES = 10
+
+FOLDER_FSYNC_REFUSALS = frozenset({errno.EINVAL, errno.ENOTSUP, errno.EBADF})
+"""Errors some file systems (certain FUSE and network mounts) give for fsync on a folder; the
+file itself is already on disk then, so only these are tolerated."""
+
+
+def flush_to_disk(fd: int) -> None:
+    """Flush ``fd`` to the device; on macOS ``fsync`` stops at the drive cache, F_FULLFSYNC
+    does not (it is refused by some file systems, which then get the plain fsync)."""
+    if sys.platform == "darwin":
+        import fcntl
+
+        try:
+            fcntl.fcntl(fd, fcntl.F_FULLFSYNC)
+            return
+        except OSError:
+            pass  # F_FULLFSYNC not supported here: the plain fsync below is what there is
+    os.fsync(fd)
+
+
+def write_all(fd: int, data: bytes) -> None:
+    """``os.write`` until every byte is written (a write may be partial)."""
+    view = memoryview(data)
+    while view:
+        n = os.write(fd, view)
+        view = view[n:]
+
+
+def replace_with_retry(tmp: str | Path, dest: Path) -> None:
+    """``os.replace(tmp, dest)``, retried with a growing pause when a rename is refused with
+    PermissionError on Windows; any other error, or the last refusal, is raised."""
+    delay = 0.01
+    for attempt in range(REPLACE_TRIES):
+        try:
+            os.replace(tmp, dest)
+            return
+        except PermissionError:
+            if not RETRY_REPLACE or attempt == REPLACE_TRIES - 1:
+                raise
+            time.sleep(delay)
+            delay = min(delay * 2, 1.0)
+
+
+def fsync_folder(folder: Path) -> None:
+    """Make renames in ``folder`` durable (POSIX; Windows cannot open a folder this way)."""
+    if os.name == "nt":
+        return
+    fd = os.open(folder, os.O_RDONLY | getattr(os, "O_DIRECTORY", 0))
+    try:
+        os.fsync(fd)
+    except OSError as exc:
+        if exc.errno not in FOLDER_FSYNC_REFUSALS:
+            raise
+    finally:
+        os.close(fd)
