@@ -8,7 +8,8 @@ or two calendars with holidays, lags on either calendar, work finished and in pr
 logic and progress override, start-not-before, finish-not-after, readiness holds, a required
 finish that may be missed) using numpy's busday functions for the calendars, and counts the
 schedules each activity runs in on each day. Milestones take no working time and are checked
-apart (``test_lookahead_facts.py``). """
+apart (``test_lookahead_facts.py``).
+"""
 
 from __future__ import annotations
 
