@@ -1,6 +1,6 @@
 """The lookahead as data: JSON for other tools, CSV for the office's spreadsheets.
 
-JSON (the contract in DESIGN.md section 4, extended, never broken)::
+JSON (the contract in DEVELOPERS.md, Contracts, extended, never broken)::
 
     {"from": "2026-03-09", "days": ["2026-03-09", ...],
      "activities": [{"id", "name", "cells": ["must" | "may" | "cannot" | "off", one per day],
