@@ -91,14 +91,16 @@ def render_daily_report(state: SiteState, day: date) -> str:
     _work(p, todays, state)
     _schedule(p, state)
     _readiness(p, todays, state, day)
-    for kind, title in (("delivery", "Deliveries"), ("inspection", "Inspections and tests"),
+    for kind, title in (("plant", "Plant and equipment"), ("delivery", "Deliveries"),
+                        ("inspection", "Inspections and tests"),
                         ("visitor", "Visitors"), ("instruction", "Instructions received"),
                         ("incident", "Incidents"), ("safety", "Safety observations"),
                         ("note", "Notes")):
         p.heading(title)
         items = [e for e in todays if e.kind == kind]
         for e in items:
-            p.wrap(_describe(e, state), 2, 4)
+            for k, line in enumerate(_describe(e, state).split("\n")):
+                p.wrap(line, 2 if k == 0 else 6, 4 if k == 0 else 0)  # a note's lines kept
         if not items:
             p.none()
     _corrections(p, raw, rp.superseded)
@@ -294,7 +296,16 @@ def _describe(e: Entry, state: SiteState) -> str:
         bits = (f["what"], f"result: {f['result']}", f.get("inspector") and
                 f"by {f['inspector']}", f.get("reference") and f"ref. {f['reference']}")
     elif e.kind == "visitor":
-        bits = (f["name"], f.get("company"), f.get("purpose"))
+        t_in, t_out = f.get("time_in"), f.get("time_out")
+        bits = (f["name"], f.get("company"), f.get("purpose"),
+                f"in {t_in:%H:%M}" if t_in else None, f"out {t_out:%H:%M}" if t_out else None)
+    elif e.kind == "plant":
+        bits = (f"{f['count']} x {f['what']}" if f.get("count") else f["what"],
+                f.get("supplier") and f"from {f['supplier']}",
+                f"{_n(f['hours_worked'])} h worked" if "hours_worked" in f else None,
+                ("BROKE DOWN" + (f", {_n(f['hours_down'])} h out of use"
+                                 if "hours_down" in f else "")) if f.get("broken_down")
+                else None)
     elif e.kind == "instruction":
         bits = (f"{f['form'].upper()} from {f['given_by']}", f.get("reference") and
                 f"ref. {f['reference']}", f"\"{f['text']}\"")

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import re
 import tomllib
-from datetime import date
+from datetime import date, time
 
 import pytest
 from hypothesis import HealthCheck, given, settings
@@ -158,7 +158,11 @@ def test_every_kind_can_be_recorded_and_read_back(folder):
         "need": {"activity": "CON-010", "what": "pump", "category": "equipment"},
         "delivery": {"what": "rebar", "quantity": "4 t", "supplier": "Hollin Steel (invented)"},
         "inspection": {"what": "formation", "result": "passed", "inspector": "engineer"},
-        "visitor": {"name": "A. Client", "purpose": "progress walk"},
+        "visitor": {"name": "A. Client", "purpose": "progress walk", "time_in": "09:15",
+                    "time_out": "11:40"},
+        "plant": {"what": "13 t excavator", "count": 1, "hours_worked": 5, "broken_down": True,
+                  "hours_down": 3, "supplier": "Brack Plant Hire (invented)",
+                  "activity": "EXC-010", "note": "hydraulic hose split"},
         "instruction": {"text": "hold the pour", "given_by": "resident engineer",
                         "form": "verbal", "reference": "none yet"},
         "incident": {"text": "cut hand", "injury": True, "reported_to": "site manager"},
@@ -173,7 +177,34 @@ def test_every_kind_can_be_recorded_and_read_back(folder):
     assert [e.kind for e in entries] == list(samples)
     assert entries[0].fields["unit"] == "C"  # temperatures without a unit are Celsius
     assert entries[-1].fields["text"].startswith("line one\nline two")
+    visitor = next(e for e in entries if e.kind == "visitor")
+    assert (visitor.fields["time_in"], visitor.fields["time_out"]) == (time(9, 15), time(11, 40))
     assert verify(folder) == []
+
+
+@pytest.mark.parametrize(("kind", "fields", "words"), [
+    ("visitor", {"name": "A", "time_in": "11:00", "time_out": "09:00"}, "before time_in"),
+    ("visitor", {"name": "A", "time_in": "25:00"}, "not a time like 07:30"),
+    ("visitor", {"name": "A", "time_in": "9"}, "not a time like 07:30"),
+    ("plant", {"what": "pump", "hours_down": 2}, "say broken_down too"),
+    ("plant", {"what": "pump", "hours_worked": 20, "broken_down": True, "hours_down": 6},
+     "more than a day"),
+    ("plant", {"what": "pump", "count": 0}, "below 1"),
+    ("plant", {"what": "pump", "count": 501}, "above 500"),
+    ("lost-time", {"cause": "plant-breakdown", "hours": 25}, "above 24"),
+    ("remaining", {"activity": "EXC-010", "days": "1e9"}, "not a whole number"),
+    ("percent", {"activity": "EXC-010", "percent": "2,5"}, "not a number like 2.5"),
+])
+def test_new_fields_have_bounds(folder, kind, fields, words):
+    rec(folder, "started", d(7), activity="EXC-010")
+    with pytest.raises(EntryRefused, match=words):
+        rec(folder, kind, d(8), **fields)
+
+
+def test_a_day_long_before_the_site_start_is_refused(folder):
+    """A day more than a year before the site start is a mistyped year (day_words bounds)."""
+    with pytest.raises(EntryRefused, match="a year before the site start"):
+        rec(folder, "note", date(2024, 9, 8), text="wrong year")
 
 
 def test_device_id_is_made_once_outside_the_site(tmp_path, monkeypatch):
@@ -240,7 +271,9 @@ def test_cli_record_forms(folder, capsys):
     ids = []
     for args in ok:
         code, out, err = _main(capsys, "record", s, *args, *today)
-        assert code == 0 and err == "", (args, err)
+        # stderr only echoes the day, in full with its year (stdout is the entry id alone).
+        assert code == 0 and re.fullmatch(r"fieldlog: recorded \S+ for \w{3} \d\d \w{3} 2026\n",
+                                          err), (args, err)
         ids.append(out.strip())
     entries = read_journal(folder).entries
     lost = {e.fields["cause"]: e.fields for e in entries if e.kind == "lost-time"}

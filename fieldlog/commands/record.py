@@ -17,9 +17,12 @@ nothing is written then.
 from __future__ import annotations
 
 import argparse
+import sys
 from datetime import date
 
 from fieldlog.cli import iso_date
+from fieldlog.day_words import HELP as DAY_HELP
+from fieldlog.day_words import DayProblem, earliest_day, long_day, parse_day
 from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, record_entry
 from fieldlog.journal.entries import FieldSpec
@@ -68,9 +71,9 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
             f.add_argument("--set", dest="changes", action="append", default=[],
                            metavar="FIELD=VALUE",
                            help="a corrected value, e.g. --set days=4 (repeat for more)")
-        f.add_argument("--on", type=iso_date, metavar="DATE", dest="on",
-                       help="the day this describes (default: today; for a correction, the "
-                       "corrected entry's day)")
+        f.add_argument("--on", metavar="DAY", dest="on",
+                       help=f"the day this describes: {DAY_HELP} (default: today; for a "
+                       "correction, the corrected entry's day)")
         f.add_argument("--today", type=iso_date, metavar="DATE",
                        help="today's date (default: the computer's date)")
         f.add_argument("--author", metavar="NAME", help="who records it")
@@ -113,7 +116,14 @@ def run(args: argparse.Namespace) -> int:
                                    fix="e.g. --set days=4")
             fields[key.strip().replace("-", "_")] = value
     site = load_site(args.site)
-    entry = record_entry(args.site, site, kind, args.on, fields, today=today,
+    day = None
+    if args.on is not None:
+        try:
+            day = parse_day(args.on, today, earliest=earliest_day(site.start), latest=today)
+        except DayProblem as exc:
+            raise EntryRefused(f"--on: {exc}", fix="e.g. --on yesterday") from None
+    entry = record_entry(args.site, site, kind, day, fields, today=today,
                          author=args.author, site_name=args.site)
     print(entry.id)
+    print(f"fieldlog: recorded {entry.kind} for {long_day(entry.day)}", file=sys.stderr)
     return 0

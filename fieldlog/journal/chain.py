@@ -17,7 +17,7 @@ from __future__ import annotations
 import hashlib
 import json
 from collections.abc import Mapping
-from datetime import date, datetime
+from datetime import date, datetime, time
 from typing import Any
 
 
@@ -26,6 +26,8 @@ def _tag(value: Any) -> Any:
         return {"datetime": value.isoformat()}
     if isinstance(value, date):
         return {"date": value.isoformat()}
+    if isinstance(value, time):
+        return {"time": value.isoformat()}
     raise TypeError(f"cannot hash a {type(value).__name__}")
 
 

@@ -13,13 +13,15 @@ percent     physical percent complete, kept apart from the remaining days on pur
             remaining days drive the schedule, the percent is what was built
 weather     conditions, high/low temperature, precipitation, wind, whether work stopped
 crew        a crew on site: trade, company, headcount, hours worked in total
-lost-time   time lost and why (weather, client, design, access, materials, other); a whole
-            lost day becomes a non-working day for the calendars it affects
+lost-time   time lost and why (weather, plant breakdown, labour, client, design, access,
+            materials, other); a whole lost day is a non-working day for the calendars it
+            affects
+plant       plant or equipment on site (how many, hours worked) and any breakdown
 need        a readiness item: something an activity needs before it can start
 cleared     a readiness item has been dealt with
 delivery    material or equipment that arrived
 inspection  an inspection or test and its result
-visitor     someone who came to site
+visitor     someone who came to site, with the times they came and left
 instruction an instruction received: from whom, verbal or written, reference
 incident    something that went wrong (injury, damage, near miss)
 safety      a safety observation and what was done about it
@@ -35,7 +37,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass, field
-from datetime import date, datetime
+from datetime import date, datetime, time
 from types import MappingProxyType
 from typing import Any
 
@@ -44,9 +46,11 @@ from fieldlog.readiness import READINESS_KINDS
 
 __all__ = ["FieldProblem", "FieldSpec", "coerce"]  # re-exported: the app builds forms from them
 
-LOST_TIME_CAUSES = ("weather", "client", "design", "access", "materials", "other")
-"""Why time was lost: weather, a client instruction, missing design information, no access,
-materials not there, anything else."""
+LOST_TIME_CAUSES = ("weather", "plant-breakdown", "labour", "client", "design", "access",
+                    "materials", "other")
+"""Why time was lost: weather, plant or equipment broken down, labour short (crew absent or
+too few), a client instruction, missing design information, no access, materials not there,
+anything else."""
 
 INSPECTION_RESULTS = ("passed", "failed", "partial", "held")
 INSTRUCTION_FORMS = ("verbal", "written")
@@ -103,6 +107,17 @@ KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType({
         _f("calendars", "names", "calendars the lost day affects (default: all)"),
         _f("note", "text", "what happened"),
     ),
+    "plant": (
+        _f("what", "text", "machine or equipment, e.g. '13 t excavator'", required=True,
+           cli="positional"),
+        _f("count", "int", "how many of them on site", low=1, high=500),
+        _f("hours_worked", "float", "hours each worked today", low=0, high=24),
+        _f("broken_down", "bool", "it broke down today"),
+        _f("hours_down", "float", "hours out of use because of the breakdown", low=0, high=24),
+        _f("supplier", "text", "owner or hire company"),
+        _OPT_ACTIVITY,
+        _f("note", "text", "what failed, when it is back"),
+    ),
     "need": (
         _ACTIVITY,
         _f("what", "text", "what is needed, e.g. 'rebar shop drawings rev B'", required=True,
@@ -135,6 +150,8 @@ KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType({
         _f("name", "text", "who came", required=True, cli="positional"),
         _f("company", "text", "organisation"),
         _f("purpose", "text", "why they came"),
+        _f("time_in", "time", "when they arrived, e.g. 09:15"),
+        _f("time_out", "time", "when they left, e.g. 11:40"),
     ),
     "instruction": (
         _f("text", "text", "what was instructed", required=True, cli="positional"),
@@ -244,6 +261,15 @@ def _cross_field(kind: str, f: Mapping[str, Any]) -> None:
             raise FieldProblem("give either a whole lost day or the hours lost, not both")
         if not f.get("whole_day") and "hours" not in f:
             raise FieldProblem("say how much was lost: a whole day, or the hours")
+    elif kind == "plant":
+        if "hours_down" in f and not f.get("broken_down"):
+            raise FieldProblem("hours_down is for a breakdown: say broken_down too")
+        if f.get("hours_worked", 0) + f.get("hours_down", 0) > 24:
+            raise FieldProblem(f"{f.get('hours_worked', 0):g} hours worked and "
+                               f"{f.get('hours_down', 0):g} down is more than a day")
+    elif kind == "visitor" and f.get("time_out", time.max) < f.get("time_in", time.min):
+        raise FieldProblem(f"time_out {f['time_out']:%H:%M} is before time_in "
+                               f"{f['time_in']:%H:%M}")
 
 
 @dataclass(frozen=True)

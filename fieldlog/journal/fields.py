@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
-from datetime import date, datetime
+from datetime import date, datetime, time
 from typing import Any
 
 _MAX_TEXT = 4000
@@ -25,7 +25,8 @@ class FieldSpec:
 
     Attributes:
         name: the TOML key.
-        type: ``text``, ``int``, ``float``, ``bool``, ``date``, ``choice``, ``activity`` (an
+        type: ``text``, ``int``, ``float``, ``bool``, ``date``, ``time`` (of day, to the
+            minute), ``choice``, ``activity`` (an
             activity id), ``ids`` (activity ids), ``names`` (a list of plain names, e.g.
             calendars) or ``entry`` (an entry id).
         required: the entry is refused without it.
@@ -90,6 +91,8 @@ def coerce(s: FieldSpec, value: Any) -> Any:
         if isinstance(value, datetime) or not isinstance(value, date):
             raise FieldProblem(f"{s.name} must be a date, not {value!r}")
         return value
+    if t == "time":
+        return _time_of_day(s, value)
     if t == "choice":
         if s.choices and value not in s.choices:
             raise FieldProblem(f"{s.name} '{value}' is not one of: {', '.join(s.choices)}")
@@ -113,13 +116,23 @@ def coerce(s: FieldSpec, value: Any) -> Any:
     raise AssertionError(f"unknown field type {t}")
 
 
+_WHOLE_RE = re.compile(r"^[+-]?[0-9]{1,12}$")
+_DECIMAL_RE = re.compile(r"^[+-]?([0-9]{1,12}(\.[0-9]{0,6})?|\.[0-9]{1,6})$")
+"""Numbers as typed: plain digits with at most one decimal point. Python's own ``float()``
+also takes ``1e9``, ``1_000``, ``nan`` and ``inf``; a person typing any of those meant
+something else, so they are refused rather than read."""
+
+
 def _number(s: FieldSpec, value: Any) -> int | float:
     if isinstance(value, str):
-        try:
-            value = int(value) if s.type == "int" else float(value)
-        except ValueError:
-            what = "a whole number" if s.type == "int" else "a number"
-            raise FieldProblem(f"{s.name} '{value}' is not {what}") from None
+        text = value.strip()
+        if s.type == "int" and _WHOLE_RE.match(text):
+            value = int(text)
+        elif s.type == "float" and _DECIMAL_RE.match(text):
+            value = float(text)
+        else:
+            what = "a whole number like 3" if s.type == "int" else "a number like 2.5"
+            raise FieldProblem(f"{s.name} '{text}' is not {what}")
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise FieldProblem(f"{s.name} must be a number, not {value!r}")
     if s.type == "int":
@@ -135,6 +148,23 @@ def _number(s: FieldSpec, value: Any) -> int | float:
         raise FieldProblem(f"{s.name} {value} is below {_fmt(s.low)}")
     if s.high is not None and value > s.high:
         raise FieldProblem(f"{s.name} {value} is above {_fmt(s.high)}")
+    return value
+
+
+_TIME_RE = re.compile(r"^([01]?[0-9]|2[0-3])[:.h]?([0-5][0-9])$")
+
+
+def _time_of_day(s: FieldSpec, value: Any) -> time:
+    """A time of day to the minute: ``07:30``, ``7:30``, ``0730`` or a stored TOML time."""
+    if isinstance(value, str):
+        m = _TIME_RE.match(value.strip())
+        if not m:
+            raise FieldProblem(f"{s.name} '{value.strip()}' is not a time like 07:30")
+        return time(int(m[1]), int(m[2]))
+    if not isinstance(value, time) or value.tzinfo is not None:
+        raise FieldProblem(f"{s.name} must be a time of day, not {value!r}")
+    if value.second or value.microsecond:
+        raise FieldProblem(f"{s.name} {value} has seconds: give hours and minutes")
     return value
 
 

@@ -100,7 +100,7 @@ def record_entry(
               if v is not None and not (isinstance(v, list | tuple) and not v)}
     if kind != "correction":
         day = day or today
-        check_day(day, today)
+        check_day(day, today, site.start)
         clean = _shape(kind, fields)
     device = device or device_id(home)
     author = _author(author or default_author(home))
@@ -155,7 +155,7 @@ def _correction(site: Site, journal: Journal, day: date | None, fields: Mapping[
         raise refuse("a withdrawal carries no new values", fix="leave out --withdraw, or the "
                      "new values")
     day = day or target.day
-    check_day(day, today)
+    check_day(day, today, site.start)
     if not withdraw and not changes and day == target.day:
         raise refuse("nothing to correct",
                      fix="give the right day (--on DATE), new values (--set FIELD=VALUE) or "

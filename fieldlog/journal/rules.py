@@ -14,6 +14,7 @@ from collections.abc import Mapping
 from datetime import date
 from typing import Any
 
+from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import EntryRefused
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.replay import ActivityEntries, Replay
@@ -25,11 +26,16 @@ def refuse(problem: str, *, activity: str | None = None, fix: str | None = None)
     return EntryRefused(problem, activity=activity, fix=fix)
 
 
-def check_day(day: date, today: date) -> None:
-    """A day in the future cannot have happened yet."""
+def check_day(day: date, today: date, site_start: date) -> None:
+    """A day in the future cannot have happened yet; one long before the site start is a
+    mistyped year (the bounds of :mod:`fieldlog.day_words`, so app and command line agree)."""
     if day > today:
-        raise refuse(f"{day} is after today ({today})",
+        raise refuse(f"{long_day(day)} is after today ({long_day(today)})",
                      fix="record what happened on a day up to today")
+    earliest = earliest_day(site_start)
+    if day < earliest:
+        raise refuse(f"{long_day(day)} is before {long_day(earliest)}, a year before the site "
+                     "start", fix="check the year of the day")
 
 
 def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any],
