@@ -46,7 +46,9 @@ async def test_newest_first_and_correct_a_value(tmp_path: Path):
         await pilot.press("c")
         form = app.screen
         assert isinstance(form, FormScreen)
-        assert form.query_one("#field-days", Input).value == "5"  # opens with the old values
+        days = form.query_one("#field-days", Input)
+        # A number opens empty with the old value shown: typing replaces it.
+        assert days.value == "" and days.placeholder.startswith("5 now")
         await pilot.press(*"wrong count")
         form.query_one("#field-days", Input).value = "2"
         await pilot.press("ctrl+s")

@@ -15,11 +15,15 @@ from fieldlog.app.float_filter import FILTERS, NEAR_CRITICAL_DAYS, driver_text, 
 from fieldlog.app.forms import (
     CHOICE,
     DAY,
+    LINES,
     NUMBER,
     WHOLE,
     YES_NO,
+    DayContext,
     Field,
     Form,
+    initial_text,
+    placeholder_text,
     read_field,
     read_form,
 )
@@ -30,10 +34,13 @@ from fieldlog.app.recording import KIND_TITLES, entry_form
 from fieldlog.app.session import SiteSession
 from fieldlog.app.shift import DONE_TODAY, READY, RUNNING, shift_rows
 from fieldlog.journal import KINDS
-from fieldlog.journal.entries import Entry
+from fieldlog.journal.entries import Entry, FieldSpec
+from fieldlog.journal.entries import spec as spec_of
 from tests.test_app_site import fix_device, log, write_site
 
 MON, TUE = date(2026, 3, 2), date(2026, 3, 3)
+RECORD_VIEWS = ("today", "lookahead", "float")
+"""The views that answer the record keys (keymap area "record")."""
 
 # -- keys ----------------------------------------------------------------------------------------
 
@@ -48,12 +55,24 @@ class TestKeymap:
     def test_no_two_actions_share_a_key_on_one_view(self, area: str) -> None:
         # A view answers its own keys and the keys of "views" (plus Textual's Ctrl+Q/Ctrl+P).
         taken: dict[str, str] = {"ctrl+q": "quit", "ctrl+p": "palette", "ctrl+c": "quit"}
-        for k in [*keys_for("views"), *keys_for(area)]:
+        shared = list(keys_for("record")) if area in RECORD_VIEWS else []
+        for k in [*keys_for("views"), *shared, *keys_for(area)]:
             if not k.bound:
                 continue
             for name in k.keys.split(","):
                 assert name not in taken, f"{name} is {taken[name]} and {k.id}"
                 taken[name] = k.id
+
+    def test_the_record_keys_are_bound_on_every_list_view(self) -> None:
+        from fieldlog.app.screens.float_list import FloatScreen
+        from fieldlog.app.screens.lookahead import LookaheadScreen
+        from fieldlog.app.screens.today import TodayScreen
+
+        record = {k.id for k in keys_for("record")}
+        for screen in (TodayScreen, LookaheadScreen, FloatScreen):
+            ids = {b.id for cls in screen.__mro__ for b in getattr(cls, "BINDINGS", [])
+                   if hasattr(b, "id")}
+            assert record <= ids, screen.__name__
 
     def test_every_view_has_a_number_key(self) -> None:
         assert [key(f"views.{v}").keys for v in VIEWS] == ["1", "2", "3", "4", "5"]
@@ -71,31 +90,53 @@ class TestKeymap:
 # -- forms ---------------------------------------------------------------------------------------
 
 
+DAYS = FieldSpec("days", "int", low=1)
+PERCENT = FieldSpec("percent", "float", low=0, high=100)
+MON_28 = DayContext(date(2026, 9, 28), earliest=date(2025, 9, 6))  # a Monday
+
+
 class TestForms:
     @pytest.mark.parametrize(("field", "raw", "value"), [
-        (Field("n", "Days", WHOLE, low=1), "3", 3),
+        (Field("n", "Days", WHOLE, spec=DAYS), "3", 3),
         (Field("n", "Days", WHOLE), " 12 ", 12),
-        (Field("x", "Rain", NUMBER), "2,5", 2.5),          # a decimal comma is accepted
-        (Field("d", "On", DAY), "2026-03-02", date(2026, 3, 2)),
+        (Field("n", "Days", WHOLE, default=4, spec=DAYS), "", 4),   # empty keeps the value
+        (Field("n", "Days", WHOLE, default=4, spec=DAYS), "3", 3),  # typing replaces it
+        (Field("x", "Rain", NUMBER), "2.5", 2.5),
+        (Field("x", "Rain", NUMBER), ".5", 0.5),
+        (Field("d", "On", DAY), "2026-09-25", date(2026, 9, 25)),
+        (Field("d", "On", DAY), "fri", date(2026, 9, 25)),
         (Field("c", "Cause", CHOICE, choices=("weather", "access")), "access", "access"),
         (Field("b", "Stopped", YES_NO), True, True),
         (Field("b", "Stopped", YES_NO), None, False),
         (Field("t", "Note"), "", None),                      # empty optional field: left out
+        (Field("t", "Note", LINES), "line one\nline two", "line one\nline two"),
     ])
     def test_reads(self, field: Field, raw: object, value: object) -> None:
-        assert read_field(field, raw) == value
+        assert read_field(field, raw, MON_28) == value
 
     @pytest.mark.parametrize(("field", "raw", "words"), [
-        (Field("n", "Days left", WHOLE, low=1), "0", "cannot be less than 1"),
-        (Field("n", "Percent", NUMBER, high=100), "101", "cannot be more than 100"),
+        (Field("n", "Days left", WHOLE, spec=DAYS), "0", "Days left: 0 is below 1"),
+        (Field("n", "Percent", NUMBER, spec=PERCENT), "101", "Percent: 101.0 is above 100"),
+        (Field("n", "Percent", NUMBER, spec=PERCENT), "1e9", "not a number like 2.5"),
         (Field("n", "Days", WHOLE), "2.5", "whole number"),
-        (Field("d", "On", DAY), "02/03/2026", "a date like 2026-03-02"),
+        (Field("n", "Rain", NUMBER), "2,5", "not a number like 2.5"),  # never read as 25
+        (Field("n", "Rain", NUMBER), "nan", "not a number"),
+        (Field("n", "Rain", NUMBER), "1_000", "not a number"),
+        (Field("d", "On", DAY), "02/03/2026", "not a day"),
+        (Field("d", "On", DAY), "+1", "has not happened yet"),
         (Field("c", "Cause", CHOICE, choices=("weather",)), "rain", "choose one of: weather"),
         (Field("t", "What", required=True), "  ", "What is needed"),
     ])
     def test_refuses_with_words(self, field: Field, raw: object, words: str) -> None:
         with pytest.raises(ValueError, match=words):
-            read_field(field, raw)
+            read_field(field, raw, MON_28)
+
+    def test_the_form_bounds_are_the_journal_bounds(self) -> None:
+        """One set of ranges: the form field carries the journal's own spec object."""
+        form = entry_form("remaining", defaults={"days": 4})
+        days = next(f for f in form.fields if f.name == "days")
+        assert days.spec is spec_of("remaining", "days")
+        assert initial_text(days) == "" and "4 now" in placeholder_text(days)
 
     def test_a_form_reads_whole_or_names_every_problem(self) -> None:
         form = Form("t", (Field("a", "A", WHOLE, required=True), Field("b", "B", NUMBER)))

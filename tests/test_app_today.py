@@ -105,7 +105,7 @@ async def test_days_left_refused_by_the_form_then_recorded(tmp_path: Path):
         days.value = "0"
         await pilot.press("enter")
         assert isinstance(app.screen, FormScreen)  # still open, nothing written
-        assert "cannot be less than 1" in screen_text(app)
+        assert "Days left: 0 is below 1" in screen_text(app)
         assert entries_of(folder, "remaining") == []
 
         days.value = "5"
@@ -186,7 +186,7 @@ async def test_open_and_clear_a_readiness_item(tmp_path: Path):
     app = make_app(folder, TUE)
     async with app.run_test(size=(100, 30)) as pilot:
         app.screen.query_one("#shift-table", RowList).move_to("EXC-010")
-        await pilot.press("y", "enter")  # first choice: it needs something
+        await pilot.press("y", "enter")  # nothing open yet: the only choice is a new item
         form = app.screen
         assert isinstance(form, FormScreen)
         form.query_one("#field-what", Input).value = "dewatering pump"
@@ -198,7 +198,7 @@ async def test_open_and_clear_a_readiness_item(tmp_path: Path):
                                "category": "equipment"}
         assert "!! EXC-010 needs dewatering pump (equipment), no expected date" in screen_text(app)
 
-        await pilot.press("y", "down", "enter")  # second choice: cleared
+        await pilot.press("y", "enter")  # open items come first: clear it
         await pilot.press("ctrl+s")
         await settle(app, pilot)
         assert [e.fields["item"] for e in entries_of(folder, "cleared")] == [need.id]

@@ -26,15 +26,16 @@ from textual.timer import Timer
 from textual.worker import get_current_worker
 
 from fieldlog.app.commands import FieldlogCommands
-from fieldlog.app.forms import Form
+from fieldlog.app.forms import DayContext, Form
 from fieldlog.app.history_rows import summarize
-from fieldlog.app.recording import record
+from fieldlog.app.recording import DAY_FIELD, entry_fields, record
 from fieldlog.app.screens.base import ViewScreen
-from fieldlog.app.screens.form import FormScreen
+from fieldlog.app.screens.form import FormScreen, Submit
 from fieldlog.app.screens.help import HelpScreen
 from fieldlog.app.screens.today import TodayScreen
 from fieldlog.app.session import SiteSession, Snapshot
 from fieldlog.calendars import HorizonExceeded
+from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import FieldlogError
 from fieldlog.journal.entries import Entry
 
@@ -82,7 +83,12 @@ class FieldlogApp(App[None]):
         self.snapshot: Snapshot = session.latest
         self.status: tuple[str, bool] = (notice or opening_words(self.snapshot), False)
         self._pending = ""
+        self._alert = ""
+        """A warning about the entry just written; it leads the next status line (out of
+        sequence), where the line's right edge cannot cut it off."""
         self._busy_note: Timer | None = None
+        self.drafts: dict[str, dict[str, Any]] = {}
+        """Forms closed with Esc, by draft key: reopened with what was typed."""
 
     def on_mount(self) -> None:
         """Open on the end-of-shift view."""
@@ -100,8 +106,10 @@ class FieldlogApp(App[None]):
 
     # -- recording ------------------------------------------------------------------------------
 
-    def write(self, kind: str, fields: Mapping[str, Any], day: date | None = None) -> str | None:
-        """Append one entry now and start the recompute.
+    def write(self, kind: str, fields: Mapping[str, Any], day: date | None = None,
+              note: str = "") -> str | None:
+        """Append one entry now and start the recompute; ``note`` is added to what the status
+        line says was recorded.
 
         Returns:
             None when written; otherwise the journal's reason for refusing it (also shown in
@@ -112,23 +120,46 @@ class FieldlogApp(App[None]):
         except FieldlogError as exc:
             self.set_status(f"Not recorded: {exc.message}", problem=True)
             return exc.message
-        self.recorded(entry)
+        self.recorded(entry, note)
         return None
 
-    def recorded(self, entry: Entry) -> None:
-        """Say what was recorded and recompute."""
-        self._pending = f"recorded {summarize(entry)} ({entry.id})"
+    def recorded(self, entry: Entry, note: str = "") -> None:
+        """Say what was recorded, for which day (always with its year), and recompute."""
+        self._pending = f"recorded for {long_day(entry.day)}: {summarize(entry)} ({entry.id})"
+        other_day = f"for {long_day(entry.day)}" if entry.day != self.session.today else ""
+        self._alert = " · ".join(a for a in (note, other_day) if a)
         self.recompute()
 
-    def ask(self, form: Form, kind: str, *, fixed: Mapping[str, Any] | None = None,
-            day: date | None = None) -> None:
-        """Open ``form``; when it reads, append an entry of ``kind`` with the ``fixed`` fields."""
-        def submit(values: dict[str, Any]) -> str | None:
-            fields = {k: v for k, v in values.items() if v is not None}
-            fields.update(fixed or {})
-            return self.write(kind, fields, day)
+    def day_context(self) -> DayContext:
+        """What the forms' day fields are read against: today, and the site's earliest day."""
+        return DayContext(self.session.today, earliest_day(self.snapshot.site.start))
 
-        self.push_screen(FormScreen(form, submit))
+    def ask(self, form: Form, kind: str, *, fixed: Mapping[str, Any] | None = None,
+            day: date | None = None, draft_key: str = "") -> None:
+        """Open ``form``; when it reads, append an entry of ``kind`` with the ``fixed`` fields.
+
+        The form's "Day" field, when it has one, gives the entry's day. A form closed with Esc
+        keeps its typing as a draft under ``draft_key`` (default: the kind and the fixed
+        fields, so the same key on the same activity opens it again).
+        """
+        def submit(values: dict[str, Any]) -> str | None:
+            values = dict(values)
+            typed_day = values.pop(DAY_FIELD, None)
+            return self.write(kind, entry_fields(values, fixed), typed_day or day)
+
+        self.open_form(form, submit, draft_key or draft_name(kind, fixed))
+
+    def open_form(self, form: Form, submit: Submit, draft_key: str) -> None:
+        """Show ``form``, restoring its draft; Esc keeps what was typed under ``draft_key``."""
+        def keep(raw: dict[str, Any] | None) -> None:
+            if raw is None:
+                self.drafts.pop(draft_key, None)
+                return
+            self.drafts[draft_key] = raw
+            self.set_status(f"Not recorded: draft kept, the same key reopens it ({form.title})")
+
+        self.push_screen(FormScreen(form, submit, days=self.day_context(),
+                                    draft=self.drafts.get(draft_key), keep_draft=keep))
 
     # -- recompute ------------------------------------------------------------------------------
 
@@ -195,8 +226,9 @@ class FieldlogApp(App[None]):
         old, self.snapshot = self.snapshot, snap
         change = finish_change(old, snap)
         if self._pending:
-            self.status = (f"{change} · {self._pending}", False)
-            self._pending = ""
+            alert = f"{self._alert} · " if self._alert else ""
+            self.status = (f"{alert}{change} · {self._pending}", False)
+            self._pending = self._alert = ""
         else:
             self.status = (f"{change} · read again from disk", False)
         for screen in self.screen_stack:
@@ -223,11 +255,19 @@ class FieldlogApp(App[None]):
     async def run_key(self, key_id: str) -> None:
         """Run the action of a keymap entry from the palette: switch view, then act."""
         from fieldlog.app.keymap import key
+        from fieldlog.app.screens.record_keys import RecordView
 
         k = key(key_id)
         if k.area in self.MODES and self.current_mode != k.area:
             await self.switch_mode(k.area)
+        elif k.area == "record" and not isinstance(self.screen, RecordView):
+            await self.switch_mode("today")  # the record keys act on a list's activity
         await self.screen.run_action(k.action)
+
+
+def draft_name(kind: str, fixed: Mapping[str, Any] | None) -> str:
+    """The draft key of a form: its entry kind and the values the caller fixed."""
+    return kind + "".join(f" {k}={v}" for k, v in sorted((fixed or {}).items()))
 
 
 def opening_words(snap: Snapshot) -> str:

@@ -18,8 +18,8 @@ if TYPE_CHECKING:
     from fieldlog.app.app import FieldlogApp
 
 _AREA_WORD = {
-    "views": "view", "today": "today", "lookahead": "lookahead", "float": "float",
-    "journal": "journal", "sync": "sync",
+    "views": "view", "record": "record", "today": "today", "lookahead": "lookahead",
+    "float": "float", "journal": "journal", "sync": "sync",
 }
 
 

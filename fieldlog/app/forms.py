@@ -13,13 +13,25 @@ from dataclasses import dataclass, field
 from datetime import date
 from typing import Any
 
-TEXT, WHOLE, NUMBER, DAY, CHOICE, YES_NO = "text", "whole", "number", "day", "choice", "yes/no"
-KINDS = (TEXT, WHOLE, NUMBER, DAY, CHOICE, YES_NO)
+from fieldlog.day_words import DayProblem, parse_day
+from fieldlog.journal.fields import FieldProblem, FieldSpec, coerce
+
+TEXT, LINES, WHOLE, NUMBER, DAY, TIME, CHOICE, YES_NO = (
+    "text", "lines", "whole", "number", "day", "time", "choice", "yes/no")
+KINDS = (TEXT, LINES, WHOLE, NUMBER, DAY, TIME, CHOICE, YES_NO)
+NUMBER_KINDS = frozenset({WHOLE, NUMBER})
+
+_SPEC_TYPE = {WHOLE: "int", NUMBER: "float", TIME: "time"}
 
 
 @dataclass(frozen=True)
 class Field:
-    """One field of a form."""
+    """One field of a form.
+
+    A number field opens *empty* with its current value as the placeholder: typing replaces
+    the value instead of adding digits to it, and Enter on the empty field keeps it. A text
+    field opens holding its default.
+    """
 
     name: str
     """Key of the value in the result."""
@@ -31,10 +43,15 @@ class Field:
     """For :data:`CHOICE`: the allowed values, shown as they are."""
     default: Any = None
     placeholder: str = ""
-    low: float | None = None
-    """Smallest number allowed (whole and number kinds)."""
-    high: float | None = None
-    """Largest number allowed."""
+    spec: FieldSpec | None = None
+    """The journal's spec of the field: its bounds are the form's bounds (one set of rules
+    for the app and the command line)."""
+    future: bool = False
+    """For :data:`DAY`: a later day than today is allowed (an expected date)."""
+
+    def journal_spec(self) -> FieldSpec:
+        """The spec the value is checked against (a plain one when the form has its own)."""
+        return self.spec or FieldSpec(self.name, _SPEC_TYPE.get(self.kind, "text"))
 
 
 @dataclass(frozen=True)
@@ -60,23 +77,32 @@ class Reading:
         return not self.problems
 
 
-def read_form(form: Form, raw: Mapping[str, Any]) -> Reading:
+@dataclass(frozen=True)
+class DayContext:
+    """What day fields are read against: the app's today and the site's earliest day."""
+
+    today: date
+    earliest: date | None = None
+
+
+def read_form(form: Form, raw: Mapping[str, Any], days: DayContext | None = None) -> Reading:
     """Turn the widgets' raw values (text, bool, chosen value) into typed values.
 
-    Empty optional fields give None. Problems are keyed by field name.
+    Empty optional fields give None (a number field with a current value gives that value).
+    Problems are keyed by field name.
     """
     values: dict[str, Any] = {}
     problems: dict[str, str] = {}
     for f in form.fields:
         try:
-            values[f.name] = read_field(f, raw.get(f.name))
+            values[f.name] = read_field(f, raw.get(f.name), days)
         except ValueError as exc:
             problems[f.name] = str(exc)
     return Reading(values, problems)
 
 
-def read_field(f: Field, raw: Any) -> Any:
-    """One field's value.
+def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
+    """One field's value. Nothing typed is altered: a value reads as typed or is refused.
 
     Raises:
         ValueError: with the sentence to show under the field.
@@ -84,46 +110,53 @@ def read_field(f: Field, raw: Any) -> Any:
     if f.kind == YES_NO:
         return bool(raw)
     text = "" if raw is None else str(raw).strip()
+    if not text and f.kind in NUMBER_KINDS and f.default is not None:
+        return f.default
     if not text:
         if f.required:
             raise ValueError(f"{f.label} is needed")
         return None
-    if f.kind == TEXT:
+    if f.kind in (TEXT, LINES):
         return text
     if f.kind == CHOICE:
         if text not in f.choices:
             raise ValueError(f"choose one of: {', '.join(f.choices)}")
         return text
     if f.kind == DAY:
+        if days is None:
+            raise TypeError(f"day field {f.name} read without a DayContext")
         try:
-            return date.fromisoformat(text)
-        except ValueError:
-            raise ValueError("type a date like 2026-03-02") from None
-    if f.kind == WHOLE:
-        try:
-            number: float = int(text)
-        except ValueError:
-            raise ValueError("type a whole number, like 3") from None
-    else:
-        try:
-            number = float(text.replace(",", "."))
-        except ValueError:
-            raise ValueError("type a number, like 2.5") from None
-    if f.low is not None and number < f.low:
-        raise ValueError(f"{f.label} cannot be less than {_num(f.low)}")
-    if f.high is not None and number > f.high:
-        raise ValueError(f"{f.label} cannot be more than {_num(f.high)}")
-    return number
+            return parse_day(text, days.today, earliest=days.earliest,
+                             latest=None if f.future else days.today)
+        except DayProblem as exc:
+            raise ValueError(str(exc)) from None
+    try:
+        return coerce(f.journal_spec(), text)
+    except FieldProblem as exc:
+        raise ValueError(f"{f.label}: {_after_name(f, str(exc))}") from None
 
 
-def _num(x: float) -> str:
-    return str(int(x)) if float(x).is_integer() else str(x)
+def _after_name(f: Field, message: str) -> str:
+    """The journal's message without its leading field name (the label is shown instead)."""
+    name = f.journal_spec().name
+    return message[len(name) + 1:] if message.startswith(name + " ") else message
 
 
 def initial_text(f: Field) -> str:
-    """What the field's input shows when the form opens."""
-    if f.default is None or f.kind == YES_NO:
+    """What the field's input holds when the form opens (number fields open empty)."""
+    if f.default is None or f.kind == YES_NO or f.kind in NUMBER_KINDS:
         return ""
     if isinstance(f.default, date):
         return f.default.isoformat()
     return str(f.default)
+
+
+def placeholder_text(f: Field) -> str:
+    """The grey text of an empty field: a number's current value, or the field's hint."""
+    if f.kind in NUMBER_KINDS and f.default is not None:
+        value = f.default
+        shown = str(int(value)) if float(value).is_integer() else str(value)
+        return f"{shown} now: type to replace, Enter keeps it"
+    if f.kind == DAY and not f.placeholder:
+        return "today, yesterday, fri, -2 or 2026-09-25"
+    return f.placeholder

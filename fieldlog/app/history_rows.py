@@ -56,9 +56,11 @@ def summarize(e: Entry) -> str:
     f = e.fields
     fn = _SUMMARIES.get(e.kind)
     if fn is not None:
-        return fn(f)
-    return f"{KIND_TITLES.get(e.kind, e.kind)}: " + ", ".join(
-        f"{label(k)} {_v(v)}" for k, v in f.items())
+        text = fn(f)
+    else:
+        text = f"{KIND_TITLES.get(e.kind, e.kind)}: " + ", ".join(
+            f"{label(k)} {_v(v)}" for k, v in f.items())
+    return text.replace("\n", " / ")  # a note of several lines, on one line
 
 
 def _v(v: Any) -> str:
@@ -108,6 +110,16 @@ def _crew(f: Mapping[str, Any]) -> str:
     return f"Crew: {who} {f['headcount']} on site{hours}{_acts(f)}"
 
 
+def _times(f: Mapping[str, Any]) -> str | None:
+    """A visit's times: ``09:15-11:40``, ``in 09:15``, ``out 11:40``."""
+    t_in, t_out = f.get("time_in"), f.get("time_out")
+    if t_in and t_out:
+        return f"{t_in:%H:%M}-{t_out:%H:%M}"
+    if t_in:
+        return f"in {t_in:%H:%M}"
+    return f"out {t_out:%H:%M}" if t_out else None
+
+
 def _need(f: Mapping[str, Any]) -> str:
     when = f"expected {_v(f['expected'])}" if f.get("expected") else "no expected date"
     return f"{f['activity']} needs {f['what']} ({f['category']}), {when}"
@@ -128,7 +140,13 @@ _SUMMARIES = {
                                                f"from {f['supplier']}" if f.get("supplier")
                                                else None) + _acts(f),
     "inspection": lambda f: f"Inspection: {f['what']}, {f['result'].upper()}" + _acts(f),
-    "visitor": lambda f: "Visitor: " + _join(f["name"], f.get("company"), f.get("purpose")),
+    "visitor": lambda f: "Visitor: " + _join(f["name"], f.get("company"), f.get("purpose"),
+                                             _times(f)),
+    "plant": lambda f: "Plant: " + _join(
+        f"{f['count']} x {f['what']}" if f.get("count") else f["what"],
+        f"{_v(f['hours_worked'])} h worked" if "hours_worked" in f else None,
+        ("BROKE DOWN" + (f", {_v(f['hours_down'])} h down" if "hours_down" in f else ""))
+        if f.get("broken_down") else None) + _acts(f),
     "instruction": lambda f: (f"Instruction ({f['form']}) from {f['given_by']}: {f['text']}"
                               + _acts(f)),
     "incident": lambda f: ("Incident: " + f["text"] + (" [SOMEONE HURT]" if f.get("injury")

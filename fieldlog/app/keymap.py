@@ -6,6 +6,20 @@ and the help overlay never drift from what the screens really bind.
 
 Keys are chosen for a tired person with gloves on: one letter, no chords, the letter is the
 first letter of the word on the label wherever that is free.
+
+The record keys (area ``record``) are the same on Today, Two weeks and Float, so a fact is one
+letter whatever list the activity is in; the views' own keys never take one of those letters:
+
+===============  ================================================================
+record           s started, f finished, r days left, % percent, n note, y readiness,
+                 w weather, c crews, l lost time, e plant, d delivery/visitor/...,
+                 i incident
+Today            / find any activity by id or name
+Two weeks        / find, p print, , and . a week back/on, a all rows
+Float            / search the list, v next filter, a all, g go to the driver
+Journal          c correct, v check the log
+Sync             s sync now
+===============  ================================================================
 """
 
 from __future__ import annotations
@@ -15,6 +29,7 @@ from dataclasses import dataclass
 
 AREAS: dict[str, str] = {
     "views": "Anywhere",
+    "record": "Recording (Today, Two weeks and Float)",
     "today": "Today (end of shift)",
     "lookahead": "Two weeks (lookahead)",
     "float": "Float",
@@ -90,32 +105,40 @@ KEYS: tuple[Key, ...] = (
     Key("views.quit", "ctrl+q", "quit", "Quit",
         "leave the app; everything is already written, there is nothing to save",
         display="Ctrl+Q", show=False, bound=False),
-    # -- today ------------------------------------------------------------------------------------
-    Key("today.started", "s", "started", "Started",
-        "mark the selected activity started today"),
-    Key("today.finished", "f", "finished", "Finished",
-        "mark the selected activity finished today"),
-    Key("today.remaining", "r", "remaining", "Days left",
+    # -- recording (Today, Two weeks, Float) -------------------------------------------------------
+    Key("record.started", "s", "started", "Started",
+        "mark the selected activity started today (out-of-sequence work is allowed, and said)"),
+    Key("record.finished", "f", "finished", "Finished",
+        "mark the selected activity finished today (a milestone: reached)"),
+    Key("record.remaining", "r", "remaining", "Days left",
         "set how many working days the selected activity still needs"),
-    Key("today.percent", "p", "percent", "Percent",
-        "set the selected activity's physical percent complete"),
-    Key("today.note", "n", "note", "Note",
-        "add a note about the selected activity (or the day)"),
-    Key("today.weather", "w", "weather", "Weather",
-        "record today's weather"),
-    Key("today.crews", "c", "crews", "Crews",
-        "record how many people each crew had on site today"),
-    Key("today.lost", "l", "lost", "Lost time",
-        "record time lost today and its cause (a lost day moves the forecast)"),
-    Key("today.readiness", "y", "readiness", "Readiness",
-        "open or clear a readiness item for the selected activity (drawings, material, permit)"),
-    Key("today.visit", "d", "visit", "Delivery",
-        "record a delivery, a visitor or an instruction received"),
-    Key("today.incident", "i", "incident", "Incident",
-        "record an incident or a near miss"),
+    Key("record.percent", "percent_sign", "percent", "Percent",
+        "set the selected activity's physical percent complete", display="%", show=False),
+    Key("record.note", "n", "note", "Note",
+        "add a note of one or more lines, about the selected activity or the day"),
+    Key("record.readiness", "y", "readiness", "Readiness",
+        "list the open readiness items to clear one, or open one for the selected activity"),
+    Key("record.weather", "w", "weather", "Weather",
+        "record the day's weather, whether it stopped work and the hours lost"),
+    Key("record.crews", "c", "crews", "Crews",
+        "record the crews on site: the last day's crews are filled in, Enter keeps them"),
+    Key("record.lost", "l", "lost", "Lost time",
+        "record time lost and its cause (a whole lost day moves the forecast)"),
+    Key("record.plant", "e", "plant", "Plant",
+        "record plant or equipment on site and any breakdown", show=False),
+    Key("record.visit", "d", "visit", "Delivery",
+        "record a delivery, an inspection, a visitor, an instruction or a note", show=False),
+    Key("record.incident", "i", "incident", "Incident",
+        "record an incident or a near miss", show=False),
+    # -- today ------------------------------------------------------------------------------------
+    Key("today.find", "slash", "find", "Find",
+        "find any activity by part of its id or name, then record against it", display="/"),
     # -- lookahead --------------------------------------------------------------------------------
     Key("lookahead.print", "p", "print_sheet", "Print",
         "write the printable two-week sheet to a file; print it if a printer is set up"),
+    Key("lookahead.find", "slash", "find", "Find",
+        "find any activity by part of its id or name, then record against it", display="/",
+        show=False),
     Key("lookahead.earlier", "comma", "shift_week(-1)", "Week back",
         "show the lookahead from a week earlier", display=",", show=False),
     Key("lookahead.later", "full_stop", "shift_week(1)", "Week on",
@@ -124,14 +147,8 @@ KEYS: tuple[Key, ...] = (
         "show every unfinished activity, not only those with work in these two weeks"),
     # -- float ------------------------------------------------------------------------------------
     Key("float.all", "a", "filter('all')", "All", "show every activity"),
-    Key("float.behind", "b", "filter('behind')", "Behind",
-        "only activities behind: negative float, or overdue for an update"),
-    Key("float.critical", "c", "filter('critical')", "Critical",
-        "only critical activities (lowest float) and the driving path"),
-    Key("float.near", "n", "filter('near')", "Near crit",
-        "only near-critical activities (a few days of float)"),
-    Key("float.fortnight", "t", "filter('fortnight')", "2 weeks",
-        "only activities that may run in the next two weeks"),
+    Key("float.next", "v", "next_filter", "Filter",
+        "next filter: all, behind, critical, near critical, the next two weeks"),
     Key("float.search", "slash", "search", "Search",
         "find activities by id or name", display="/"),
     Key("float.driver", "g", "goto_driver", "Go to driver",
@@ -165,7 +182,8 @@ KEYS: tuple[Key, ...] = (
 
 
 _KEY_WORDS = {
-    "question_mark": "?", "slash": "/", "comma": ",", "full_stop": ".", "pageup": "PgUp",
+    "question_mark": "?", "slash": "/", "percent_sign": "%", "comma": ",", "full_stop": ".",
+    "pageup": "PgUp",
     "pagedown": "PgDn", "escape": "Esc", "enter": "Enter", "tab": "Tab", "up": "Up",
     "down": "Down", "left": "Left", "right": "Right",
 }

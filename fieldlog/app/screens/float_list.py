@@ -1,8 +1,9 @@
 """Float: every activity with its dates and floats, filters, and what drives the selected one.
 
-Rows are in the printed float list's order (least float first). The filter keys narrow the
-list (behind, critical, near critical, the next two weeks); ``/`` searches ids and names. The
-line under the list names the driving predecessor of the selected activity; ``g`` jumps to it.
+Rows are in the printed float list's order (least float first). ``v`` steps through the
+filters (behind, critical, near critical, the next two weeks) and ``a`` shows all again; ``/``
+searches ids and names. The line under the list names the driving predecessor of the selected
+activity; ``g`` jumps to it. The record keys work here as on Today, on any activity listed.
 """
 
 from __future__ import annotations
@@ -18,7 +19,8 @@ from textual.widget import Widget
 from textual.widgets import Input, Static
 
 from fieldlog.app.float_filter import FILTERS, driver_text, filtered
-from fieldlog.app.screens.base import ViewScreen, bindings
+from fieldlog.app.screens.base import bindings
+from fieldlog.app.screens.record_keys import RecordView
 from fieldlog.app.screens.today import flag
 from fieldlog.app.session import Snapshot
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
@@ -79,7 +81,7 @@ def columns_for(width: int, id_width: int) -> list[Column]:
     return fit_columns(out, width - 2, "name")
 
 
-class FloatScreen(ViewScreen):
+class FloatScreen(RecordView):
     """The float list."""
 
     VIEW = "float"
@@ -121,8 +123,8 @@ class FloatScreen(ViewScreen):
         search = f" · search '{self.query_text}'" if self.query_text else ""
         total = len(schedule.activities)
         self.query_one("#float-head", Static).update(Text(
-            f"{FILTERS[self.kind].capitalize()}{search}: {len(self.shown)} of {total} · "
-            "!! late  * critical  > driving path · TF/FF working days"))
+            f"{FILTERS[self.kind].capitalize()} (v: next){search}: {len(self.shown)} of {total}"
+            " · !! late  * critical  > driving path"))
         self.show_driver()
 
     def selected_id(self) -> str | None:
@@ -154,6 +156,17 @@ class FloatScreen(ViewScreen):
         """Show only the activities of filter ``kind``."""
         self.kind = kind
         self.paint(self.fieldlog.snapshot)
+
+    def action_next_filter(self) -> None:
+        """The next filter in :data:`FILTERS` order, back to all after the last."""
+        names = list(FILTERS)
+        self.action_filter(names[(names.index(self.kind) + 1) % len(names)])
+
+    @on(RowList.Picked, "#float-table")
+    def _picked(self, event: RowList.Picked) -> None:
+        """Enter or a tap on an activity: its record keys as a menu."""
+        event.stop()
+        self.action_menu(event.key)
 
     def action_search(self) -> None:
         """Open the search box."""

@@ -22,7 +22,6 @@ from fieldlog.app.forms import YES_NO, Field, Form
 from fieldlog.app.history_rows import HistoryRow, history_rows
 from fieldlog.app.recording import KIND_TITLES, entry_form
 from fieldlog.app.screens.base import ViewScreen, bindings
-from fieldlog.app.screens.form import FormScreen
 from fieldlog.app.session import Snapshot
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
 from fieldlog.errors import FieldlogError
@@ -186,7 +185,7 @@ class JournalScreen(ViewScreen):
         def submit(values: dict[str, Any]) -> str | None:
             return self.fieldlog.write("correction", correction_fields(entry, values), None)
 
-        self.app.push_screen(FormScreen(form, submit))
+        self.fieldlog.open_form(form, submit, f"correction {entry.id}")
 
     def action_verify(self) -> None:
         """Check the log files again, now."""

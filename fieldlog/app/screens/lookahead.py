@@ -6,7 +6,7 @@ grid reads the same on a monochrome screen; the legend sits under the grid and t
 it explains the selected cell in words ("waiting on ...", "3 days of float").
 
 ``,`` and ``.`` move the window a week; ``p`` writes the printable sheet (and prints it when a
-printer is set up).
+printer is set up). The record keys work on the selected row as on Today.
 """
 
 from __future__ import annotations
@@ -22,7 +22,8 @@ from textual.widget import Widget
 from textual.widgets import DataTable, Static
 
 from fieldlog.app.printing import deliver_sheet
-from fieldlog.app.screens.base import ViewScreen, bindings
+from fieldlog.app.screens.base import bindings
+from fieldlog.app.screens.record_keys import RecordView
 from fieldlog.app.session import LOOKAHEAD_DAYS, Snapshot
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import ActivityRow, Cell, Lookahead, build_lookahead
@@ -72,7 +73,7 @@ def crew_cell(load: CrewLoad, k: int) -> Text:
     return Text(f"{text:>3}", style="bold reverse" if over else "")
 
 
-class LookaheadScreen(ViewScreen):
+class LookaheadScreen(RecordView):
     """The two-week grid."""
 
     AUTO_FOCUS = "#look-table"
@@ -112,6 +113,7 @@ class LookaheadScreen(ViewScreen):
         look = self.look = self.lookahead_for(snap)
         table = self.query_one("#look-table", DataTable)
         keep = table.cursor_coordinate
+        keep_key = self.selected_row_key()
         table.clear(columns=True)
         id_width = max([len(r.id) for r in look.rows] + [4]) + 1
         days_width = 3 * len(look.days)
@@ -134,14 +136,29 @@ class LookaheadScreen(ViewScreen):
                           *(crew_cell(load, k) for k in range(len(look.days))), Text(""),
                           key=CREW_PREFIX + load.crew)
         if table.row_count:
-            table.move_cursor(row=min(keep.row, table.row_count - 1),
-                              column=max(keep.column, 3) if keep.column else 3)
+            # The cursor follows its activity (by id) when a recompute moves the rows.
+            row = min(keep.row, table.row_count - 1)
+            if keep_key is not None and keep_key in table.rows:
+                row = table.get_row_index(keep_key)
+            table.move_cursor(row=row, column=max(keep.column, 3) if keep.column else 3)
         hidden = len(look.rows) - len(self.shown)
         more = f" · {hidden} with nothing to do now hidden (a shows all)" if hidden else ""
         first, last = look.days[0], look.days[-1]
         self.query_one("#look-head", Static).update(Text(
             f"{first:%a %d %b} to {last:%a %d %b} · {len(self.shown)} activities{more}"))
         self.explain()
+
+    def selected_row_key(self) -> str | None:
+        """Key of the grid row under the cursor (an activity id or a crew row), or None."""
+        table = self.query_one("#look-table", DataTable)
+        if not table.row_count:
+            return None
+        return table.coordinate_to_cell_key(table.cursor_coordinate).row_key.value
+
+    def selected_id(self) -> str | None:
+        """The activity under the cursor, for the record keys (None on a crew row)."""
+        key = self.selected_row_key()
+        return None if key is None or key.startswith(CREW_PREFIX) else key
 
     @on(DataTable.CellHighlighted, "#look-table")
     def _moved(self, event: DataTable.CellHighlighted) -> None:

@@ -3,8 +3,9 @@
 Top: the activities running or ready today (:mod:`fieldlog.app.shift`), with what tomorrow
 asks of each (MUST / may, from the lookahead), float, days left and forecast finish. One key
 records a fact about the selected activity; day facts (weather, crews, lost time, visits,
-incidents) have their own keys. Bottom: what is already recorded for today and the readiness
-items still open, so the foreman sees what is missing before leaving.
+incidents) have their own keys (:mod:`fieldlog.app.screens.record_keys`, the same on every
+list); ``/`` finds work that is not on the list. Bottom: what is already recorded for today
+and the readiness items still open, so the foreman sees what is missing before leaving.
 
 Every key writes the journal at once: there is nothing to save.
 """
@@ -22,10 +23,8 @@ from textual.widget import Widget
 from textual.widgets import Static
 
 from fieldlog.app.history_rows import summarize
-from fieldlog.app.keymap import key
-from fieldlog.app.recording import KIND_TITLES, PICK_INCIDENT, PICK_VISIT, entry_form
-from fieldlog.app.screens.base import ViewScreen, bindings
-from fieldlog.app.screens.pick import PickScreen
+from fieldlog.app.screens.base import bindings
+from fieldlog.app.screens.record_keys import RecordView
 from fieldlog.app.session import Snapshot
 from fieldlog.app.shift import ShiftRow
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
@@ -38,10 +37,6 @@ COLUMNS = (
     Column("left", "Left", 7), Column("finish", "Finish", 6),
 )
 """The activity list's columns; the name takes whatever width is left."""
-
-ACTIVITY_KEYS = tuple(key(f"today.{name}") for name in (
-    "started", "finished", "remaining", "percent", "note", "readiness"))
-"""The keys about one activity, offered as a menu when a row is picked by Enter or a tap."""
 
 PROGRESS_KINDS = frozenset({"started", "finished", "remaining", "percent"})
 """Entry kinds shown in the activity list rather than in the day panel."""
@@ -77,7 +72,7 @@ def float_text(r: ActivityResult) -> str:
     return f"{r.total_float:+d}" if r.total_float else "0"
 
 
-class TodayScreen(ViewScreen):
+class TodayScreen(RecordView):
     """The end-of-shift view."""
 
     AUTO_FOCUS = "#shift-table"
@@ -114,9 +109,9 @@ class TodayScreen(ViewScreen):
                 TOMORROW_WORDS[cell] if cell is not None else "", float_text(r), left_text(r),
                 f"{finish:%d %b}" if finish else "",
             )))
-        # The cursor keeps its place in the list, not its activity: after "finished" the row
-        # moves to the bottom and the next activity slides under the cursor, ready for a key.
-        table.set_rows(columns, lines)
+        # The cursor follows its activity through the re-sort: after "started" the row moves
+        # up, and the next key still means the activity the foreman was looking at.
+        table.set_rows(columns, lines, keep=table.current)
         n = len(self.rows)
         head = (f"{snap.today:%a %d %b %Y}: {n} activit{'y' if n == 1 else 'ies'} running or "
                 f"ready · {must} MUST run tomorrow")
@@ -131,128 +126,11 @@ class TodayScreen(ViewScreen):
         """Id of the activity under the cursor, or None when the list is empty."""
         return self.query_one("#shift-table", RowList).current
 
-    def selected(self) -> ActivityResult | None:
-        """The selected activity, or None (and a hint in the status line)."""
-        aid = self.selected_id()
-        if aid is None:
-            self.say("No activity is selected: the list is empty", problem=True)
-            return None
-        return self.fieldlog.snapshot.state.schedule.by_id[aid]
-
     @on(RowList.Picked, "#shift-table")
     def _picked(self, event: RowList.Picked) -> None:
         """Enter, a click or a tap on an activity: offer its actions (no keyboard needed)."""
         event.stop()
-        r = self.fieldlog.snapshot.state.schedule.by_id.get(event.key)
-        if r is None:
-            return
-        options = [(k.action, f"{k.label} (key {k.shown_key})") for k in ACTIVITY_KEYS]
-
-        def chosen(action: str | None) -> None:
-            if action is not None:
-                self.call_later(self.run_action, action)
-
-        self.app.push_screen(PickScreen(f"{r.id} {r.name}", options,
-                                        intro="What happened today?"), chosen)
-
-    # -- activity keys --------------------------------------------------------------------------
-
-    def action_started(self) -> None:
-        """The selected activity started today."""
-        r = self.selected()
-        if r is not None:
-            self.fieldlog.write("started", {"activity": r.id})
-
-    def action_finished(self) -> None:
-        """The selected activity finished today."""
-        r = self.selected()
-        if r is not None:
-            self.fieldlog.write("finished", {"activity": r.id})
-
-    def action_remaining(self) -> None:
-        """Ask for the working days the selected activity still needs after today."""
-        r = self.selected()
-        if r is not None:
-            intro = f"{r.id} {r.name}: working days still needed after today"
-            self.fieldlog.ask(entry_form("remaining", intro=intro, fixed={"activity": r.id},
-                                         defaults={"days": r.remaining or None}),
-                              "remaining", fixed={"activity": r.id})
-
-    def action_percent(self) -> None:
-        """Ask for the selected activity's physical percent complete."""
-        r = self.selected()
-        if r is not None:
-            intro = f"{r.id} {r.name}: how much is built (does not change the days left)"
-            self.fieldlog.ask(entry_form("percent", intro=intro, fixed={"activity": r.id},
-                                         defaults={"percent": r.percent}),
-                              "percent", fixed={"activity": r.id})
-
-    def action_note(self) -> None:
-        """A note, about the selected activity when there is one."""
-        aid = self.selected_id()
-        self.fieldlog.ask(entry_form("note", defaults={"activity": aid},
-                                     intro="Clear the activity to make it a note on the day"),
-                          "note")
-
-    def action_readiness(self) -> None:
-        """Open a need for the selected activity, or clear one of its open needs."""
-        r = self.selected()
-        if r is None:
-            return
-        items = [i for i in self.fieldlog.snapshot.state.replay.readiness if i.activity == r.id]
-        options = [("need", f"It needs something before it can start ({r.id})")]
-        options += [(f"clear:{i.entry_id}", f"Cleared: {i.what}") for i in items if i.entry_id]
-
-        def picked(choice: str | None) -> None:
-            if choice == "need":
-                intro = f"{r.id} {r.name}: what it needs, and when it is expected"
-                self.fieldlog.ask(entry_form("need", intro=intro, fixed={"activity": r.id}),
-                                  "need", fixed={"activity": r.id})
-            elif choice is not None:
-                item = choice.split(":", 1)[1]
-                self.fieldlog.ask(entry_form("cleared", intro=f"{r.id}: how it was cleared"),
-                                  "cleared", fixed={"item": item})
-
-        self.app.push_screen(PickScreen("Readiness", options, intro=f"{r.id} {r.name}"), picked)
-
-    # -- day keys -------------------------------------------------------------------------------
-
-    def action_weather(self) -> None:
-        """Today's weather."""
-        self.fieldlog.ask(entry_form("weather", defaults={"unit": "C"}), "weather")
-
-    def action_crews(self) -> None:
-        """A crew on site today (one entry per crew)."""
-        crews = ", ".join(self.fieldlog.snapshot.site.crews) or "concrete, steel fixers"
-        aid = self.selected_id()
-        self.fieldlog.ask(entry_form("crew", intro="One crew per entry; c again for the next",
-                                     hints={"trade": f"e.g. {crews}"},
-                                     defaults={"activities": aid}), "crew")
-
-    def action_lost(self) -> None:
-        """Time lost today and why; a whole lost day moves the forecast."""
-        self.fieldlog.ask(entry_form(
-            "lost-time", defaults={"cause": "weather"},
-            intro="A whole lost day is a non-working day: the forecast moves"), "lost-time")
-
-    def action_visit(self) -> None:
-        """A delivery, inspection, visitor, instruction or note."""
-        self._pick_then_ask("What came or was said today?", PICK_VISIT)
-
-    def action_incident(self) -> None:
-        """An incident or a safety observation."""
-        self._pick_then_ask("What happened?", PICK_INCIDENT)
-
-    def _pick_then_ask(self, title: str, kinds: tuple[str, ...]) -> None:
-        aid = self.selected_id()
-
-        def picked(kind: str | None) -> None:
-            if kind is not None:
-                defaults = {"activity": aid} if kind != "visitor" else {}
-                self.fieldlog.ask(entry_form(kind, defaults=defaults), kind)
-
-        options = [(k, KIND_TITLES[k]) for k in kinds]
-        self.app.push_screen(PickScreen(title, options), picked)
+        self.action_menu(event.key)
 
 
 def day_text(snap: Snapshot) -> Text:
