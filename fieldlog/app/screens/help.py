@@ -26,8 +26,9 @@ CAUTION = (
 )
 
 QUICK_START = (
-    ("1", "Today: pick an activity with Up/Down, then s started, f finished, r days left, "
-          "n note; w weather, c crews, l lost time. Each key writes the log at once."),
+    ("1", "Today: pick an activity with Up/Down (/ finds any other), then s started, f "
+          "finished, r days left, n note; w weather, c crews, l lost time. The same keys work "
+          "on Two weeks and Float. Each key writes the log at once."),
     ("2", "Tomorrow's MUST list: the Tmrw column on 1 Today, or the first day column of "
           "2 Two weeks (the legend under the grid names each mark). p there prints the "
           "sheet."),
