@@ -18,13 +18,13 @@ What a broken chain means, in the words a finding uses:
 from __future__ import annotations
 
 import re
-import tomllib
 from dataclasses import dataclass, field
 from datetime import date, datetime
 from types import MappingProxyType
 from typing import Any
 
-from fieldlog.errors import JournalError
+from fieldlog.errors import JournalError, OutOfBounds, UnreadableToml
+from fieldlog.guarded_read import decode, loads
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.entries import (
     CHAIN_KEYS,
@@ -95,15 +95,10 @@ def check_bytes(name: str, data: bytes) -> FileCheck:
     except JournalError as exc:
         return FileCheck(name, (), (Finding(name, "", "bad name", exc.problem),))
     try:
-        text = data.decode("utf-8")
-        doc = tomllib.loads(text)
-    except UnicodeDecodeError as exc:
-        return FileCheck(name, (), (Finding(name, "", "not TOML",
-                                            f"not UTF-8 text (byte {exc.start})"),))
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"\(at line (\d+), column \d+\)", str(exc))
-        return FileCheck(name, (), (Finding(name, "", "not TOML", str(exc),
-                                            int(m[1]) if m else None),))
+        text = decode(data)
+        doc = loads(text, "journal", name)
+    except (OutOfBounds, UnreadableToml) as exc:
+        return FileCheck(name, (), (Finding(name, "", "not TOML", exc.problem, exc.line),))
     rows = doc.get("entry")
     if set(doc) - {"entry"} or not isinstance(rows, list) or not rows:
         return FileCheck(name, (), (Finding(name, "", "bad entry",

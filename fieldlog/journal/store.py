@@ -28,7 +28,8 @@ from collections.abc import Iterator
 from pathlib import Path
 
 from fieldlog.durable import flush_to_disk, fsync_folder, replace_with_retry, write_all
-from fieldlog.errors import JournalError
+from fieldlog.errors import JournalError, OutOfBounds
+from fieldlog.guarded_read import read_capped
 from fieldlog.journal.names import TEMP_SUFFIX, lock_name, temp_prefix
 
 LOCK_TIMEOUT = 15.0
@@ -174,11 +175,20 @@ def _share_like_new_file(fd: int) -> None:
     os.fchmod(fd, 0o666 & ~mask)
 
 
-def read_bytes(path: Path) -> bytes:
-    """The bytes of ``path``, or ``b""`` when it does not exist yet."""
+def read_bytes(path: Path, kind: str = "journal") -> bytes:
+    """The bytes of ``path``, or ``b""`` when it does not exist yet.
+
+    A link is refused, never followed, and the file may be no larger than the cap for
+    ``kind`` (see :data:`fieldlog.bounds.FILE_CAPS`).
+
+    Raises:
+        JournalError: the file is a link, too large, or cannot be read.
+    """
     try:
-        return path.read_bytes()
+        return read_capped(path, kind, follow_links=False)
     except FileNotFoundError:
         return b""
+    except OutOfBounds as exc:
+        raise JournalError(exc.problem, file=path, fix=exc.fix) from None
     except OSError as exc:
         raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc
