@@ -19,7 +19,7 @@ from __future__ import annotations
 import argparse
 from datetime import date
 
-from fieldlog.cli import iso_date
+from fieldlog.cli import iso_date, shift_day
 from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, record_entry
 from fieldlog.journal.entries import FieldSpec
@@ -100,7 +100,7 @@ def _add_field(parser: argparse.ArgumentParser, spec: FieldSpec) -> None:
 
 def run(args: argparse.Namespace) -> int:
     """Record the entry and print its id on stdout."""
-    today = args.today or date.today()  # the one place the real date is read
+    today = shift_day(args.today, date.today())  # the one place the real date is read
     kind = args.kind
     fields = {k[2:]: v for k, v in vars(args).items() if k.startswith("f_") and v is not None}
     if kind == "lost-time":

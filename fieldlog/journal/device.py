@@ -74,11 +74,18 @@ def device_id(home: Path | None = None) -> str:
     except OSError as exc:
         raise JournalError(f"cannot create fieldlog's data folder: {exc.strerror}", file=home,
                            fix=f"set {HOME_ENV} to a folder you can write") from exc
-    with device_lock(home, "device-settings"):
-        settings = _settings(home)  # another process may have made it meanwhile
-        if "device" not in settings:
-            settings["device"] = new_device_id(socket.gethostname())
-            atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
+    try:
+        with device_lock(home, "device-settings"):
+            settings = _settings(home)  # another process may have made it meanwhile
+            if "device" not in settings:
+                settings["device"] = new_device_id(socket.gethostname())
+                atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
+    except JournalError as exc:
+        if not isinstance(exc.__cause__, OSError):
+            raise
+        reason = exc.__cause__.strerror or str(exc.__cause__)
+        raise JournalError(f"cannot write fieldlog's data folder ({reason})", file=home,
+                           fix=f"set {HOME_ENV} to a folder you can write") from exc
     return _checked(settings["device"], home)
 
 

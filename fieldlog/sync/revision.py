@@ -16,7 +16,8 @@ from dataclasses import dataclass, field
 from enum import StrEnum
 from pathlib import Path
 
-from fieldlog.errors import FieldlogError, JournalError, SiteError
+from fieldlog.durable import make_folder
+from fieldlog.errors import FieldlogError, JournalError, SiteError, SyncError
 from fieldlog.guarded_read import loads, read_capped
 from fieldlog.model import Site
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, build_site, read_toml
@@ -184,7 +185,12 @@ def _keep_old(site_folder: Path, revision: int) -> str:
     old = (site_folder / SCHEDULE_FILE).read_bytes()
     digest = sha256_bytes(old)
     history = site_folder / HISTORY_DIR
-    history.mkdir(exist_ok=True)
+    try:
+        make_folder(history)
+    except OSError as exc:
+        raise SyncError(f"cannot use {HISTORY_DIR}/: {exc.strerror}", file=history,
+                        fix="replace a link there with a real folder; check the site folder "
+                        "is writable") from exc
     for name in (f"schedule.r{revision}.toml", f"schedule.r{revision}.{digest[:8]}.toml"):
         dest = history / name
         if not os.path.lexists(dest):
