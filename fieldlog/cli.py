@@ -10,6 +10,7 @@ from __future__ import annotations
 import argparse
 import importlib
 import sys
+import warnings
 from collections.abc import Sequence
 from datetime import date
 
@@ -77,6 +78,12 @@ def build_parser(only: str | None = None) -> argparse.ArgumentParser:
     return parser
 
 
+def _one_line_warning(message: Warning | str, category: type[Warning], filename: str,
+                      lineno: int, line: str | None = None) -> str:
+    """Warnings (a site cache that cannot be written) as one diagnostic line on stderr."""
+    return f"fieldlog: warning: {message}\n"
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     argv = sys.argv[1:] if argv is None else list(argv)
@@ -84,6 +91,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     # Importing only the chosen command's module keeps `fieldlog schedule` quick to start.
     parser = build_parser(first if first in COMMANDS else None)
     args = parser.parse_args(argv)
+    warnings.formatwarning = _one_line_warning
     try:
         return int(args.run(args))
     except FieldlogError as exc:
