@@ -282,3 +282,18 @@ def _can_create(path: Path) -> bool:
         return False
     path.rmdir()
     return True
+
+
+def test_damaged_day_file_with_a_5000_digit_number_does_not_break_recording(tmp_path):
+    """The writer reads entry numbers from the raw text of a damaged file of its device."""
+    site = make_site(tmp_path / "site")
+    home = tmp_path / "home"
+    home.mkdir()
+    (home / "device.toml").write_text(f'device = "{DEVICE}"\n')
+    (site / "log").mkdir()
+    (site / "log" / f"2026-09-08_{DEVICE}.toml").write_text("[[entry]]\nseq = " + "9" * 5000
+                                                           + "\n")
+    done = run_hostile(tmp_path, "record", str(site), "note", "hello", "--today", "2026-09-25",
+                       "--author", "P. Tester", home=home)
+    assert done.returncode == 2
+    assert "used every entry number" in done.stderr

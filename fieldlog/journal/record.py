@@ -181,7 +181,10 @@ def _next_seq(log: Path, journal: Journal, device: str) -> int:
     for name in damaged:
         if name.endswith(f"_{device}{SUFFIX}"):
             for m in _SEQ_RE.finditer(read_bytes(log / name)):
-                highest = max(highest, int(m[1]))
+                # A number longer than any allowed one counts as past the bound (and is
+                # never converted: Python refuses to convert 5,000-digit text anyway).
+                seq = int(m[1]) if len(m[1]) <= 10 else MAX_COUNTER + 1
+                highest = max(highest, seq)
     if highest >= MAX_COUNTER:
         raise JournalError(f"device {device} has used every entry number up to {highest:,}",
                            file=log, fix="run 'fieldlog verify'; an entry numbered this high "
