@@ -15,7 +15,8 @@ record           s started, f finished, r days left, % percent, n note, y readin
                  w weather, c crews, l lost time, e plant, d delivery/visitor/...,
                  i incident
 Today            / find any activity by id or name
-Two weeks        / find, p print, , and . a week back/on, a all rows
+Two weeks        / find, p print, , and . a week back/on, a all rows, h the headcount
+                 plan with the fewest people
 Float            / search the list, v next filter, a all, g go to the driver
 Journal          c correct, v check the log
 Sync             s sync now
@@ -145,6 +146,8 @@ KEYS: tuple[Key, ...] = (
         "show the lookahead from a week later", display=".", show=False),
     Key("lookahead.all", "a", "toggle_all", "All rows",
         "show every unfinished activity, not only those with work in these two weeks"),
+    Key("lookahead.fewest", "h", "fewest", "Fewest",
+        "see the plan with the fewest people per crew: the starts to move, and the bound"),
     # -- float ------------------------------------------------------------------------------------
     Key("float.all", "a", "filter('all')", "All", "show every activity"),
     Key("float.next", "v", "next_filter", "Filter",

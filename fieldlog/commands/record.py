@@ -20,11 +20,12 @@ import argparse
 import sys
 from datetime import date
 
-from fieldlog.cli import iso_date
+from fieldlog.cli import iso_date, shift_day
 from fieldlog.day_words import HELP as DAY_HELP
 from fieldlog.day_words import DayProblem, earliest_day, long_day, parse_day
 from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, record_entry
+from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import FieldSpec
 from fieldlog.site_files import load_site
 
@@ -103,7 +104,7 @@ def _add_field(parser: argparse.ArgumentParser, spec: FieldSpec) -> None:
 
 def run(args: argparse.Namespace) -> int:
     """Record the entry and print its id on stdout."""
-    today = args.today or date.today()  # the one place the real date is read
+    today = shift_day(args.today, date.today())  # the one place the real date is read
     kind = args.kind
     fields = {k[2:]: v for k, v in vars(args).items() if k.startswith("f_") and v is not None}
     if kind == "lost-time":
@@ -115,6 +116,7 @@ def run(args: argparse.Namespace) -> int:
                 raise EntryRefused(f"--set {change!r} is not FIELD=VALUE",
                                    fix="e.g. --set days=4")
             fields[key.strip().replace("-", "_")] = value
+    device = device_id()  # first: a data folder that cannot be written is the one error shown
     site = load_site(args.site)
     day = None
     if args.on is not None:
@@ -123,7 +125,7 @@ def run(args: argparse.Namespace) -> int:
         except DayProblem as exc:
             raise EntryRefused(f"--on: {exc}", fix="e.g. --on yesterday") from None
     entry = record_entry(args.site, site, kind, day, fields, today=today,
-                         author=args.author, site_name=args.site)
+                         author=args.author, device=device, site_name=args.site)
     print(entry.id)
     print(f"fieldlog: recorded {entry.kind} for {long_day(entry.day)}", file=sys.stderr)
     return 0

@@ -14,8 +14,9 @@ from collections.abc import Mapping
 from datetime import date
 from typing import Any
 
+from fieldlog.bounds import check_date
 from fieldlog.day_words import earliest_day, long_day
-from fieldlog.errors import EntryRefused
+from fieldlog.errors import EntryRefused, OutOfBounds
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.replay import ActivityEntries, Replay
 from fieldlog.model import Site
@@ -26,16 +27,20 @@ def refuse(problem: str, *, activity: str | None = None, fix: str | None = None)
     return EntryRefused(problem, activity=activity, fix=fix)
 
 
-def check_day(day: date, today: date, site_start: date) -> None:
-    """A day in the future cannot have happened yet; one long before the site start is a
-    mistyped year (the bounds of :mod:`fieldlog.day_words`, so app and command line agree)."""
+def check_day(day: date, today: date, site_start: date | None = None) -> None:
+    """A day in the future cannot have happened yet; one more than a year before the site
+    start is a mistyped year (the bound of :mod:`fieldlog.day_words`, so the app's day fields
+    and ``--on`` agree), and any date stays inside :mod:`fieldlog.bounds`' range."""
     if day > today:
         raise refuse(f"{long_day(day)} is after today ({long_day(today)})",
                      fix="record what happened on a day up to today")
-    earliest = earliest_day(site_start)
-    if day < earliest:
-        raise refuse(f"{long_day(day)} is before {long_day(earliest)}, a year before the site "
-                     "start", fix="check the year of the day")
+    if site_start is not None and day < earliest_day(site_start):
+        raise refuse(f"{long_day(day)} is before {long_day(earliest_day(site_start))}, a year "
+                     "before the site start", fix="check the year of the day")
+    try:
+        check_date(day, "the day", site_start)
+    except OutOfBounds as exc:
+        raise refuse(exc.problem, fix=exc.fix) from None
 
 
 def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any],

@@ -6,7 +6,8 @@ grid reads the same on a monochrome screen; the legend sits under the grid and t
 it explains the selected cell in words ("waiting on ...", "3 days of float").
 
 ``,`` and ``.`` move the window a week; ``p`` writes the printable sheet (and prints it when a
-printer is set up). The record keys work on the selected row as on Today.
+printer is set up); ``h`` shows the fewest-people plan as it would be
+(:mod:`fieldlog.app.screens.fewest`). The record keys work on the selected row as on Today.
 """
 
 from __future__ import annotations
@@ -23,6 +24,7 @@ from textual.widgets import DataTable, Static
 
 from fieldlog.app.printing import deliver_sheet
 from fieldlog.app.screens.base import bindings
+from fieldlog.app.screens.fewest import FewestScreen
 from fieldlog.app.screens.record_keys import RecordView
 from fieldlog.app.session import LOOKAHEAD_DAYS, Snapshot
 from fieldlog.errors import FieldlogError
@@ -207,6 +209,11 @@ class LookaheadScreen(RecordView):
         """Show every unfinished activity, or only those with something to do."""
         self.show_all = not self.show_all
         self.paint(self.fieldlog.snapshot)
+
+    def action_fewest(self) -> None:
+        """Open the fewest-people plan of the window shown."""
+        if self.look is not None:
+            self.app.push_screen(FewestScreen(self.look))
 
     def action_print_sheet(self) -> None:
         """Write the printable sheet, then print it if a printer is set up."""
