@@ -266,6 +266,11 @@ def test_cli_record_forms(folder, capsys):
         ["incident", "cut hand", "--injury", "--on", "2026-09-08"],
         ["safety", "edge protection", "--action", "fixed", "--on", "2026-09-08"],
         ["note", "quiet day", "--on", "2026-09-08"],
+        ["plant", "pump", "--hours-worked", "5", "--broken-down", "--hours-down", "2",
+         "--on", "2026-09-08"],
+        ["visitor", "B. Surveyor", "--time-in", "08:00", "--time-out", "9.30",
+         "--on", "2026-09-08"],
+        ["lost-day", "--on", "2026-09-09", "--cause", "labour", "--hours", "3"],
         ["finished", "EXC-010", "--on", "2026-09-11"],
     ]
     ids = []

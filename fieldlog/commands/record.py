@@ -8,6 +8,8 @@ can never disagree::
     fieldlog record SITE weather --conditions rain --high 12 --low 6 --precip-mm 14 --stopped
     fieldlog record SITE lost-day --cause weather --activities EXC-010,EXC-020
     fieldlog record SITE need STL-010 "anchor bolt layout rev C" --kind drawings
+    fieldlog record SITE plant "13 t excavator" --hours-worked 5 --broken-down --hours-down 3
+    fieldlog record SITE visitor "A. Inspector" --time-in 09:15 --time-out 11:40 --on yesterday
     fieldlog record SITE correct site-laptop-1.42 --reason "wrong day" --on 2026-09-17
 
 The new entry's id goes to stdout. A refused entry is one line on stderr and exit code 2;
@@ -37,6 +39,7 @@ VERBS = {
     "weather": ("weather", "the day's weather and whether it stopped work"),
     "crew": ("crew", "a crew on site: trade, company, headcount, hours"),
     "lost-day": ("lost-time", "time lost and why; a whole day becomes a non-working day"),
+    "plant": ("plant", "plant or equipment on site, and any breakdown"),
     "need": ("need", "a readiness item an activity needs before it can start"),
     "cleared": ("cleared", "a readiness item dealt with"),
     "delivery": ("delivery", "a delivery received"),
