@@ -114,6 +114,12 @@ class Lookahead:
     levelling: Levelling | None
     """A suggestion when some crew is over its headcount on early dates, else None."""
 
+    @property
+    def rows_with_work(self) -> tuple[ActivityRow, ...]:
+        """The rows with a MUST or MAY day in the window: what the printed sheet lists and
+        what the app shows by default. One rule, here, so the screen and the paper agree."""
+        return tuple(row for row in self.rows if row.active)
+
 
 def build_lookahead(
     result: ScheduleResult,
