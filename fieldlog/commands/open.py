@@ -13,7 +13,7 @@ import sys
 from collections.abc import Mapping
 from datetime import date
 
-from fieldlog.cli import iso_date
+from fieldlog.cli import iso_date, shift_day
 from fieldlog.errors import FieldlogError
 
 MONO_TERMS = frozenset({"dumb", "vt52", "vt100", "vt102", "vt220", "vt320", "vt420"})
@@ -40,7 +40,8 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
 
 def run(args: argparse.Namespace) -> int:
     """Load the site (errors exit 2 before the screen changes), then run the app."""
-    today = args.today or date.today()  # the one place the app's "today" is read from the clock
+    # The one place the app's "today" is read from the clock.
+    today = shift_day(args.today, date.today())
     return open_site(args.site, today, plain=args.ascii)
 
 
