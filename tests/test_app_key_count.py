@@ -101,7 +101,7 @@ async def test_the_end_of_shift_update_takes_at_most_40_keys(sample_site: Path,
 
         await k.press("2", "p")                              # print the lookahead
         await settle(app, pilot)
-        await k.press("5", "s")                              # sync: no office folder yet
+        await k.press("5")                                   # sync: type the office folder
         await k.type(str(office))
         await k.press("enter")
         await settle(app, pilot)

@@ -36,6 +36,7 @@ from fieldlog.app.forms import (
     read_field,
     read_form,
 )
+from fieldlog.app.widgets.exact_input import ExactInput, ExactTextArea
 from fieldlog.day_words import long_day
 
 
@@ -119,10 +120,10 @@ class FormScreen(ModalScreen[dict[str, Any] | None]):
             )
         text = str(held) if self.draft and held is not None else initial_text(f)
         if f.kind == LINES:
-            return TextArea(text, id=wid, compact=True, placeholder=f.placeholder,
-                            show_cursor=True, highlight_cursor_line=False)
-        return Input(text, placeholder=placeholder_text(f), id=wid, compact=True,
-                     select_on_focus=False)
+            return ExactTextArea(text, id=wid, compact=True, placeholder=f.placeholder,
+                                 show_cursor=True, highlight_cursor_line=False)
+        return ExactInput(text, placeholder=placeholder_text(f), id=wid, compact=True,
+                          select_on_focus=False)
 
     def on_mount(self) -> None:
         """Cursor steady (stable snapshots, calmer on a tablet) and focus on the first field."""
