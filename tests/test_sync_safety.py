@@ -100,6 +100,7 @@ def test_killed_process_leaves_a_hidden_temp_that_a_later_sync_removes(pair, mon
     temps = [n for n in os.listdir(office / "log") if n.endswith(".tmp")]
     assert len(temps) == 1 and temps[0].startswith(".")
     monkeypatch.undo()
+    monkeypatch.setattr(transfer, "process_alive", lambda pid: False)  # the killed writer
 
     young = os.stat(office / "log" / temps[0]).st_mtime
     rerun = sync(site, office, now=young + 60)  # another sync may still be writing it

@@ -169,8 +169,10 @@ def parse_receipts(label: str, data: bytes) -> ReceiptsFile:
         return _broken(label, data, f"is not UTF-8 text (byte {exc.start})")
     except tomllib.TOMLDecodeError as exc:
         return _broken(label, data, f"is not TOML: {exc}")
-    except (ValueError, RecursionError) as exc:  # a 5,000-digit number; brackets 1,000 deep
-        return _broken(label, data, f"cannot be read ({type(exc).__name__})")
+    except RecursionError:  # brackets or tables nested thousands deep: the parser gives up
+        return _broken(label, data, "is nested too deeply to read")
+    except ValueError:  # e.g. an integer of 5,000 digits
+        return _broken(label, data, "holds a value too long to read")
     rows = doc.get("receipt", [])
     if set(doc) - {"receipt"} or not isinstance(rows, list):
         return _broken(label, data, "holds something other than [[receipt]] tables")

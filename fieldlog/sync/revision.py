@@ -117,6 +117,9 @@ def bring_in_schedule(
         theirs_file = read_toml(src)
     except SiteError as exc:
         return _refused(ours, None, exc.message)
+    except RecursionError:  # brackets nested thousands deep: the parser gives up
+        return _refused(ours, None, f"{src}: nested too deeply to read; not a schedule "
+                        "fieldlog wrote or expects")
     theirs = theirs_file.data.get("revision")
     if not isinstance(theirs, int) or isinstance(theirs, bool):
         return _refused(ours, None, f"{src}: revision is missing or not a whole number")
@@ -139,6 +142,12 @@ def bring_in_schedule(
 
 def _bring_in(site_folder: Path, src: Path, site: Site, theirs: int) -> RevisionChange:
     """Validate the target's schedule as it will land, keep the old one, then swap."""
+    history = site_folder / HISTORY_DIR
+    if os.path.islink(history) or (os.path.lexists(history) and not history.is_dir()):
+        return _refused(site.revision, theirs,
+                        f"{HISTORY_DIR} in the site folder is a link or a file, so the old "
+                        "schedule cannot be kept there (links are never followed). Fix: "
+                        f"replace it with a plain folder named {HISTORY_DIR}")
     try:
         data = read_plain_file(src)
     except SourceChanged:
