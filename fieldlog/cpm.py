@@ -79,6 +79,7 @@ from fieldlog.schedule_result import (
     OutOfSequence,
     ScheduleResult,
     critical_threshold,
+    finished_without_start,
 )
 
 _DAY = timedelta(days=1)
@@ -176,7 +177,8 @@ def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
         site=site, as_of=status_date, finish=finish, calendars=calendars,
         driving_path=tuple(path),
         lowest_float=tuple(ids[k] for k in np.flatnonzero(critical).tolist()),
-        out_of_sequence=_out_of_sequence(site, net, fin, fixed.started),
+        out_of_sequence=_out_of_sequence(site, net, fin, fixed.started)
+        + finished_without_start(site, progress),
         rows=columns.rows,
     )
 

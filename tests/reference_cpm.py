@@ -462,6 +462,12 @@ def find_out_of_sequence(site: Site, progress: Sequence[Progress],
             kind = "finished before predecessor started"
         if kind:
             found.append(OutOfSequence(link, kind, treatment))
+    # Work recorded finished with no start recorded (a milestone is only ever reached).
+    for a, p in zip(site.activities, progress, strict=True):
+        if p.actual_finish and not p.actual_start and a.duration > 0:
+            found.append(OutOfSequence(None, "finished, no start recorded", "its finish day "
+                                       "is taken as its start; record the start as a "
+                                       "correction", a.id))
     return tuple(found)
 
 
