@@ -9,9 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from fieldlog.errors import JournalError
 from fieldlog.journal import check_journal_bytes
-from fieldlog.journal.names import LOG_DIR
 
 JournalCheck = Callable[[str, bytes], None]
 """``check(name, data)``: raises :class:`~fieldlog.errors.JournalError` when ``data`` is not a
@@ -19,15 +17,5 @@ valid, intact journal file that may be called ``name``."""
 
 
 def default_check() -> JournalCheck:
-    """The journal's own check, with a file too deeply nested to parse refused like any other
-    unreadable file (the parser gives up with RecursionError; sync carries on)."""
-    return _journal_check
-
-
-def _journal_check(name: str, data: bytes) -> None:
-    try:
-        check_journal_bytes(name, data)
-    except RecursionError as exc:
-        raise JournalError(f"{LOG_DIR}/{name}: not TOML: nested too deeply to read",
-                           fix="this is not a file fieldlog wrote; find where it came from") \
-            from exc
+    """The journal's own check."""
+    return check_journal_bytes

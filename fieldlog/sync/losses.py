@@ -30,15 +30,13 @@ from fieldlog.sync.transfer import SourceChanged, read_plain_file
 def listing_holdings(listing: Listing) -> Held:
     """What the journal files of a listing hold per device, read without following links.
 
-    Files that vanish or turn into links while read are left out (the copy step skips them),
-    and so are files nested too deeply to parse (the copy step's check refuses and reports
-    them).
+    Files that vanish or turn into links while read are left out (the copy step skips them).
     """
     out: dict[str, dict[int, tuple[str, str]]] = {}
     for name, f in sorted(listing.files.items()):
         try:
             entries = checked(name, read_plain_file(f.path)).entries
-        except (SourceChanged, RecursionError):
+        except SourceChanged:
             continue
         for e in entries:
             out.setdefault(e.device, {}).setdefault(e.seq, (e.hash, e.file))

@@ -17,10 +17,12 @@ import re
 from dataclasses import dataclass
 from pathlib import Path
 
+from fieldlog.errors import OutOfBounds
+from fieldlog.guarded_read import read_capped
 from fieldlog.journal.names import valid_device
 from fieldlog.sync.names import is_ignored
-from fieldlog.sync.receipts import MAX_RECEIPTS_BYTES, RECEIPTS_DIR, ReceiptsFile, parse_receipts
-from fieldlog.sync.transfer import LinkedFolder, SourceChanged, read_plain_file, write_atomic
+from fieldlog.sync.receipts import RECEIPTS_DIR, ReceiptsFile, parse_receipts
+from fieldlog.sync.transfer import LinkedFolder, write_atomic
 
 _NAME = re.compile(r"^(?P<device>[a-z0-9][a-z0-9-]{4,22}[a-z0-9])(?:\.(?P<chain>[0-9a-f]{12}))?"
                    r"\.toml$")
@@ -93,13 +95,9 @@ def read_folder(folder: Path, label: str) -> FolderReceipts:
 def read_file(path: Path, label: str) -> ReceiptsFile | str:
     """One receipts file, or the one-line reason it cannot be read (a link, too big, gone)."""
     try:
-        if path.is_symlink():
-            return f"{label}: is a link; links are never followed"
-        if path.stat().st_size > MAX_RECEIPTS_BYTES:
-            return f"{label}: is over the {MAX_RECEIPTS_BYTES // 1048576} MB limit"
-        data = read_plain_file(path)
-    except SourceChanged:
-        return f"{label}: changed or became a link while reading; run again"
+        data = read_capped(path, "receipts", follow_links=False)
+    except OutOfBounds as exc:
+        return f"{label}: {exc.problem}"
     except OSError as exc:
         return f"{label}: cannot be read ({exc.strerror or exc})"
     return parse_receipts(label, data)

@@ -30,7 +30,6 @@ the next one's ``prev`` and the numbering.
 from __future__ import annotations
 
 import re
-import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass
 from datetime import datetime
@@ -38,14 +37,14 @@ from typing import Any
 
 import tomli_w
 
-from fieldlog.errors import JournalError
+from fieldlog.bounds import MAX_COUNTER
+from fieldlog.errors import JournalError, OutOfBounds, UnreadableToml
+from fieldlog.guarded_read import loads
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.names import parse_file_name, valid_device
 
 RECEIPTS_DIR = "receipts"
-MAX_RECEIPTS_BYTES = 16 * 1024 * 1024
-"""A receipt is a few hundred bytes per device; 16 MB is tens of thousands of syncs."""
-MAX_NUMBER = 2**31 - 1
+MAX_NUMBER = MAX_COUNTER
 
 HEADER = ("# fieldlog office receipts: written only by fieldlog sync, by appending. Do not edit:\n"
           "# 'fieldlog verify' detects a changed, removed or reordered receipt.\n")
@@ -160,19 +159,13 @@ def parse_receipts(label: str, data: bytes) -> ReceiptsFile:
         label: where the file is, used in every problem.
         data: its bytes.
     """
-    if len(data) > MAX_RECEIPTS_BYTES:
-        return _broken(label, data, f"is {len(data) / 1048576:.1f} MB, over the "
-                       f"{MAX_RECEIPTS_BYTES // 1048576} MB limit for a receipts file")
     try:
-        doc = tomllib.loads(data.decode("utf-8"))
-    except UnicodeDecodeError as exc:
-        return _broken(label, data, f"is not UTF-8 text (byte {exc.start})")
-    except tomllib.TOMLDecodeError as exc:
-        return _broken(label, data, f"is not TOML: {exc}")
-    except RecursionError:  # brackets or tables nested thousands deep: the parser gives up
-        return _broken(label, data, "is nested too deeply to read")
-    except ValueError:  # e.g. an integer of 5,000 digits
-        return _broken(label, data, "holds a value too long to read")
+        doc = loads(data, "receipts", label)
+    except UnreadableToml as exc:
+        return _broken(label, data, "is not TOML: " + exc.problem
+                       + (f" (line {exc.line})" if exc.line else ""))
+    except OutOfBounds as exc:
+        return _broken(label, data, exc.problem)
     rows = doc.get("receipt", [])
     if set(doc) - {"receipt"} or not isinstance(rows, list):
         return _broken(label, data, "holds something other than [[receipt]] tables")

@@ -118,9 +118,6 @@ def bring_in_schedule(
         theirs_file = read_toml(src)
     except SiteError as exc:
         return _refused(ours, None, exc.message)
-    except RecursionError:  # brackets nested thousands deep: the parser gives up
-        return _refused(ours, None, f"{src}: nested too deeply to read; not a schedule "
-                        "fieldlog wrote or expects")
     theirs = theirs_file.data.get("revision")
     if not isinstance(theirs, int) or isinstance(theirs, bool):
         return _refused(ours, None, f"{src}: revision is missing or not a whole number")
