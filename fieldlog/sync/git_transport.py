@@ -154,8 +154,8 @@ def _folder_sync(site_folder: Path, files: Path, options: SyncOptions,
                  office: bool) -> SyncSummary:
     """The folder sync between the site and the branch's files, the right way round."""
     has_site = (files / SITE_FILE).is_file() and (files / SCHEDULE_FILE).is_file()
-    if office and has_site:
-        return sync_site(files, site_folder, options)
+    if office and has_site:  # the branch plays the site: no device receipt to give
+        return sync_site(files, site_folder, replace(options, receipts=False))
     return sync_site(site_folder, files, options)
 
 

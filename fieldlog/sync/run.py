@@ -38,7 +38,7 @@ from fieldlog.sync.conflicts import conflicts_folder, keep_aside
 from fieldlog.sync.holdings import Held, common_holdings
 from fieldlog.sync.losses import SideLosses, listing_holdings, vouchers
 from fieldlog.sync.plan import Conflict, Copy, Direction, LogPlan, plan_logs
-from fieldlog.sync.receipt_sync import give_receipt
+from fieldlog.sync.receipt_sync import ReceiptOutcome, give_receipt
 from fieldlog.sync.revision import HISTORY_DIR, bring_in_schedule, seed_target
 from fieldlog.sync.scan import (
     CONFLICTS_DIR,
@@ -77,6 +77,9 @@ class SyncOptions:
     stale_after_s: float = STALE_AFTER_S
     home: Path | None = None
     """This device's data folder (device id, receipt copies); None = :func:`fieldlog_home`."""
+    receipts: bool = True
+    """Give the target a receipt. False when the "site" side is not a device's copy (the git
+    transport's office way round, where the branch's files play the site)."""
 
 
 @dataclass(frozen=True)
@@ -134,8 +137,9 @@ def sync_site(site_folder: Path | str, target: Path | str,
             *SideLosses.of("target", after_office, vouch.office).lines()]
     written = (datetime.fromtimestamp(opts.now, UTC).replace(microsecond=0)
                if opts.now is not None else None)
-    receipt = give_receipt(site_folder, target, home, device, written,
-                           common_holdings(after_site, after_office))
+    receipt = (give_receipt(site_folder, target, home, device, written,
+                            common_holdings(after_site, after_office))
+               if opts.receipts else ReceiptOutcome())
     return SyncSummary(
         sent=tuple(c for c in done if c.direction is Direction.SEND),
         received=tuple(c for c in done if c.direction is Direction.RECEIVE),
