@@ -59,6 +59,7 @@ def run_hostile(tmp_path: Path, *args: str,
     assert seconds < MAX_SECONDS, f"took {seconds:.1f} s"
     peak_mb = int(rss.read_text()) / 1024
     assert peak_mb < MAX_RSS_MB, f"peak memory {peak_mb:.0f} MB"
+    print(f"\n{' '.join(args[:1])}: {seconds:.2f} s, {peak_mb:.0f} MB")  # shown with -s
     assert "Traceback" not in done.stderr + done.stdout, done.stderr
     assert done.returncode in (1, 2), (done.returncode, done.stdout, done.stderr)
     lines = done.stderr.strip().splitlines()
