@@ -40,8 +40,12 @@ class SyncRecord:
     """The site's schedule revision after the sync."""
 
     @classmethod
-    def of(cls, site: Path, target: Path, summary: SyncSummary, when: datetime) -> SyncRecord:
-        """The record of a finished sync (``fieldlog sync`` and the app both save this)."""
+    def of(cls, site: Path, target: Path | str, summary: SyncSummary,
+           when: datetime) -> SyncRecord:
+        """The record of a finished sync (``fieldlog sync`` and the app both save this).
+
+        ``target`` is a folder, or the text of a git target (kept as given).
+        """
         change = summary.revision
         revision = change.site_revision
         if change.status is RevisionStatus.BROUGHT_IN:
@@ -49,7 +53,8 @@ class SyncRecord:
             assert change.target_revision is not None
             revision = change.target_revision
         return cls(
-            site=str(site.resolve()), target=str(target.resolve()), when=when,
+            site=str(site.resolve()),
+            target=str(target.resolve()) if isinstance(target, Path) else target, when=when,
             sent=len(summary.sent), received=len(summary.received),
             conflicts=len(summary.conflicts), refused=len(summary.refused),
             revision=revision,
