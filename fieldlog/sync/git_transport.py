@@ -193,6 +193,7 @@ def _commit(repo: Any, tree: Any, parent: Any, identity: bytes, now: float,
 def _push(client: Any, path: str, repo: Any, branch: bytes, expected: bytes | None,
           commit: bytes, remote: GitRemote) -> None:
     """Move the remote branch from ``expected`` to ``commit``, or raise :class:`_Moved`."""
+    from dulwich.file import FileLocked
     from dulwich.objects import ZERO_SHA
 
     def update(refs: dict[bytes, bytes]) -> dict[bytes, bytes]:
@@ -204,6 +205,8 @@ def _push(client: Any, path: str, repo: Any, branch: bytes, expected: bytes | No
         result = client.send_pack(path, update, generate_pack_data=repo.generate_pack_data)
     except _Moved:
         raise
+    except FileLocked as exc:  # another device's push holds the branch's lock right now
+        raise _Moved from exc
     except Exception as exc:  # dulwich raises many kinds; each becomes one SyncError line
         raise SyncError(f"the push to {remote.shown} did not complete: {_why(exc)}",
                         fix="run the same sync again; the repository keeps its last "
