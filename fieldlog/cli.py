@@ -16,7 +16,8 @@ from datetime import date
 from fieldlog import __version__
 from fieldlog.errors import FieldlogError
 
-COMMANDS = ("schedule", "lookahead", "record", "report", "verify", "sync", "sites", "open", "demo")
+COMMANDS = ("schedule", "lookahead", "history", "record", "report", "verify", "sync", "sites",
+            "open", "demo")
 """Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
 
 EXIT_OK, EXIT_PROBLEM, EXIT_BAD_INPUT = 0, 1, 2
