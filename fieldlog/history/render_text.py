@@ -72,8 +72,8 @@ def _chart(h: History, width: int) -> list[str]:
     high = max([0, *positions] + ([required] if required is not None else []))
     low -= min(MARGIN, max(0, cells - 1 - (high - low)))  # a bar is never a single mark
     step = max(1, -(-(high - low + 1) // (cells - 1)))
-    scale = "1 working day" if step == 1 else f"{step} working days"
-    out = [head + f"Finish (= {scale}; | required, ! passed)"[: cells]]
+    scale = "one working day" if step == 1 else f"{step} working days"
+    out = [head + "Finish line"]
     for w, pos in zip(h.windows, positions, strict=True):
         bar = ["="] * ((pos - low) // step + 1)
         if required is not None:
@@ -85,6 +85,7 @@ def _chart(h: History, width: int) -> list[str]:
         out.append(f"{w.label:<{label_w}}  {w.finish.isoformat()}  "
                    f"{right(_float(w.finish_float), 5)}  {right(signed(w.movement), 5)}  "
                    + "".join(bar))
+    out.append(f"(= {scale}; | required finish; ! finish past it)")
     return out
 
 
@@ -142,7 +143,7 @@ def _totals(h: History) -> list[str]:
 
 def _reliability(weeks: tuple[WeekReliability, ...], width: int) -> list[str]:
     out = ["Plan reliability: PPC = planned assignments done as planned / planned",
-           "(plan: the lookahead as of the Sunday before; MUST work and MAY work in the week)",
+           "(the plan: MUST and MAY work of the lookahead as of the Sunday before)",
            f"{'Week from':<12}{'Planned':>8}{'Done':>6}{'PPC':>6}   MUST done/planned"]
     for wk in weeks:
         ppc = "-" if wk.ppc is None else f"{wk.ppc:.0f}%"
