@@ -113,10 +113,10 @@ def generate(site: Site, folder: Path, working_days: int, seed: int = 11) -> int
         logged += 1
         n = 0
 
-        def add(device: str, kind: str, **fields: Any) -> str:
+        def add(device: str, kind: str, on: date = day, **fields: Any) -> str:
             nonlocal n
             n += 1
-            return w.add(device, kind, day, fields)
+            return w.add(device, kind, on, fields)
 
         add(DEVICES[0], "weather", conditions="dry", high=15.0, low=5.0, unit="C")
         if rng.random() < 0.04:
