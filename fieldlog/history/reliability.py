@@ -30,10 +30,10 @@ from datetime import date, timedelta
 from fieldlog.history.causes import lost_time_category
 from fieldlog.history.values import Assignment, WeekReliability
 from fieldlog.journal.entries import Entry
-from fieldlog.lookahead import ActivityRow, Cell, build_lookahead
+from fieldlog.lookahead.classify import Cell, PatternCache, Window
 from fieldlog.progress import Status
 from fieldlog.readiness import OpenItem
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.schedule_result import ActivityResult, ScheduleResult
 
 NO_REASON = "no reason recorded in the log"
 _DAY = timedelta(days=1)
@@ -44,24 +44,43 @@ def week_reliability(plan: ScheduleResult, readiness: Sequence[OpenItem], monday
     """PPC of the week starting ``monday``, from ``plan`` (as of the Sunday before) and the
     entries in force dated in the week (module docstring)."""
     sunday = monday + 6 * _DAY
-    look = build_lookahead(plan, readiness, start=monday, days=7, suggest_levelling=False)
     week = [e for e in entries if monday <= e.day <= sunday]
+    about: dict[str, list[Entry]] = {}
+    for e in week:
+        for aid in e.activities():
+            about.setdefault(aid, []).append(e)
     out = []
-    for row in sorted(look.rows, key=lambda r: r.id):
-        if plan.by_id[row.id].duration == 0:
-            continue  # a milestone is an event, not an assignment
-        must = Cell.MUST in row.cells
-        if not must and Cell.MAY not in row.cells:
-            continue
+    for row, must in week_plan(plan, monday):
         required = needed(row, sunday)
-        mine = [e for e in week if row.id in e.activities()]
+        mine = about.get(row.id, [])
         done = is_done(row, required, mine, plan, monday)
         reasons = () if done else miss_reasons(row, week, readiness, mine)
         out.append(Assignment(row.id, must, required, done, reasons))
     return WeekReliability(monday, sunday, plan.as_of, tuple(out))
 
 
-def needed(row: ActivityRow, sunday: date) -> str:
+def week_plan(plan: ScheduleResult, monday: date) -> list[tuple[ActivityResult, bool]]:
+    """The week's assignments, by id, and whether each is MUST: the lookahead's own classes
+    (:class:`fieldlog.lookahead.classify.PatternCache`, as ``build_lookahead`` uses them) for
+    the seven days from ``monday``, without the reasons text a printed sheet needs."""
+    days = [monday + k * _DAY for k in range(7)]
+    window = Window(monday.toordinal(), 7, plan.data_date.toordinal())
+    cache = PatternCache(window, {name: tuple(c.is_working(d) for d in days)
+                                  for name, c in plan.calendars.items()})
+    out = []
+    for r in sorted(plan.activities, key=lambda r: r.id):
+        if not r.is_open or r.duration == 0:
+            continue  # a milestone is an event, not an assignment
+        assert r.late_start is not None and r.late_finish is not None
+        assert r.total_float is not None
+        cells = cache.get(r.calendar, r.early_start, r.early_finish, r.late_start,
+                          r.late_finish, r.total_float < 0).cells
+        if Cell.MUST in cells or Cell.MAY in cells:
+            out.append((r, Cell.MUST in cells))
+    return out
+
+
+def needed(row: ActivityResult, sunday: date) -> str:
     """What the week's plan needed of an activity: ``finish``, ``start`` or ``progress``."""
     if row.early_finish <= sunday:
         return "finish"
@@ -70,7 +89,7 @@ def needed(row: ActivityRow, sunday: date) -> str:
     return "progress"
 
 
-def is_done(row: ActivityRow, required: str, mine: Sequence[Entry], plan: ScheduleResult,
+def is_done(row: ActivityResult, required: str, mine: Sequence[Entry], plan: ScheduleResult,
             monday: date) -> bool:
     """Whether the week's entries about the activity show what the plan needed."""
     kinds = {e.kind for e in mine}
@@ -89,7 +108,7 @@ def is_done(row: ActivityRow, required: str, mine: Sequence[Entry], plan: Schedu
     return True
 
 
-def miss_reasons(row: ActivityRow, week: Sequence[Entry], readiness: Sequence[OpenItem],
+def miss_reasons(row: ActivityResult, week: Sequence[Entry], readiness: Sequence[OpenItem],
                  mine: Sequence[Entry]) -> tuple[str, ...]:
     """What the log records about a missed assignment that week (module docstring)."""
     out: list[str] = []
