@@ -8,12 +8,14 @@ reads.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from datetime import date
 from typing import Any
 
+from fieldlog.bounds import check_date, check_text
 from fieldlog.day_words import DayProblem, parse_day
+from fieldlog.errors import OutOfBounds
 from fieldlog.journal.fields import FieldProblem, FieldSpec, coerce
 
 TEXT, LINES, WHOLE, NUMBER, DAY, TIME, CHOICE, YES_NO = (
@@ -117,7 +119,7 @@ def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
             raise ValueError(f"{f.label} is needed")
         return None
     if f.kind in (TEXT, LINES):
-        return text
+        return _bounded(check_text, text, f.label)
     if f.kind == CHOICE:
         if text not in f.choices:
             raise ValueError(f"choose one of: {', '.join(f.choices)}")
@@ -126,10 +128,11 @@ def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
         if days is None:
             raise TypeError(f"day field {f.name} read without a DayContext")
         try:
-            return parse_day(text, days.today, earliest=days.earliest,
-                             latest=None if f.future else days.today)
+            day = parse_day(text, days.today, earliest=days.earliest,
+                            latest=None if f.future else days.today)
         except DayProblem as exc:
             raise ValueError(str(exc)) from None
+        return _bounded(check_date, day, f.label)
     try:
         return coerce(f.journal_spec(), text)
     except FieldProblem as exc:
@@ -140,6 +143,14 @@ def _after_name(f: Field, message: str) -> str:
     """The journal's message without its leading field name (the label is shown instead)."""
     name = f.journal_spec().name
     return message[len(name) + 1:] if message.startswith(name + " ") else message
+
+
+def _bounded(check: Callable[[Any, str], Any], value: Any, label: str) -> Any:
+    """The command line's check from :mod:`fieldlog.bounds`, as the sentence under a field."""
+    try:
+        return check(value, label)
+    except OutOfBounds as exc:
+        raise ValueError(exc.problem) from None
 
 
 def initial_text(f: Field) -> str:
