@@ -34,7 +34,7 @@ async def settled_after_menu(app, pilot, done) -> None:  # noqa: ANN001 - app an
         if done():
             return
         await pilot.pause(0.1)
-    assert done()
+    assert done(), (app.status, screen_text(app))
 
 
 # -- number fields -------------------------------------------------------------------------------
