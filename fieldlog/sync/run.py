@@ -4,7 +4,8 @@ Steps, each safe to interrupt and repeat:
 
 1. check the two folders (the site must load; the target must exist);
 2. remove temporary files a sync that died long ago left behind;
-3. seed a target that has no site files yet;
+3. seed a target that has no site files yet, and carry the device key files (``devices/``,
+   :mod:`fieldlog.sync.devices`: copied when missing, never replaced);
 4. list both ``log/`` folders by content hash and plan what each side lacks;
 5. copy, each file through a checked temporary name, validating it as a journal first;
 6. keep both versions of every conflicting file;
@@ -27,6 +28,7 @@ from fieldlog.errors import JournalError, SyncError
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.checks import JournalCheck, default_check
 from fieldlog.sync.conflicts import conflicts_folder, keep_aside
+from fieldlog.sync.devices import sync_devices
 from fieldlog.sync.plan import Conflict, Copy, Direction, LogPlan, plan_logs
 from fieldlog.sync.revision import HISTORY_DIR, bring_in_schedule, seed_target
 from fieldlog.sync.scan import (
@@ -82,6 +84,7 @@ def sync_site(site_folder: Path | str, target: Path | str,
     _check_target(site_folder, target)
     cleaned = _clean(site_folder, target, opts)
     seeded = seed_target(site_folder, target)
+    devices = sync_devices(site_folder, target)
 
     ours, theirs = (scan_log(site_folder, "site", max_bytes=opts.max_bytes),
                     scan_log(target, "target", max_bytes=opts.max_bytes))
@@ -100,7 +103,7 @@ def sync_site(site_folder: Path | str, target: Path | str,
         received=tuple(c for c in done if c.direction is Direction.RECEIVE),
         unchanged=plan.unchanged, seeded=seeded, revision=revision,
         conflicts=tuple(conflicts), refused=tuple(refused), skipped=tuple(skipped),
-        cleaned=cleaned, bytes_copied=copied_bytes,
+        cleaned=cleaned, bytes_copied=copied_bytes, devices=devices,
     )
 
 

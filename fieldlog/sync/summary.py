@@ -8,8 +8,9 @@ conflict or refused file with what to do about it. Counts come first so a glance
 from __future__ import annotations
 
 import json
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
+from fieldlog.sync.devices import DeviceSync
 from fieldlog.sync.plan import Copy
 from fieldlog.sync.revision import RevisionChange, RevisionStatus
 from fieldlog.sync.scan import Refusal
@@ -42,16 +43,20 @@ class SyncSummary:
     cleaned: int
     """Leftover temporary files of an interrupted sync that were removed."""
     bytes_copied: int
+    devices: DeviceSync = field(default_factory=DeviceSync)
+    """Device key files carried (``devices/``) and any that differ between the sides."""
 
     @property
     def has_problems(self) -> bool:
         """True when a person should look: conflicts, refusals, skipped files, schedules."""
-        return bool(self.conflicts or self.refused or self.skipped or self.revision.is_problem)
+        return bool(self.conflicts or self.refused or self.skipped or self.revision.is_problem
+                    or self.devices.has_problems)
 
     @property
     def changed_anything(self) -> bool:
         """True when either folder was written to."""
         return bool(self.sent or self.received or self.seeded or self.cleaned
+                    or self.devices.sent or self.devices.received
                     or self.revision.status is RevisionStatus.BROUGHT_IN
                     or any(r.kept for r in self.conflicts))
 
@@ -76,6 +81,7 @@ def render_text(s: SyncSummary) -> str:
     lines = []
     if s.seeded:
         lines.append(f"{'seeded':<11}target was empty: copied {', '.join(s.seeded)} from the site")
+    lines.extend(_device_lines(s.devices))
     lines.append(f"{'sent':<11}{_files(s.sent)} to the target")
     lines.append(f"{'received':<11}{_files(s.received)} from the target")
     lines.append(f"{'unchanged':<11}{s.unchanged} journal "
@@ -107,6 +113,20 @@ def render_text(s: SyncSummary) -> str:
     else:
         lines.append("result     both sides are up to date")
     return "\n".join(lines) + "\n"
+
+
+def _device_lines(d: DeviceSync) -> list[str]:
+    """Lines about key files, only when something happened to them."""
+    pad = " " * 11
+    lines = []
+    if d.sent or d.received:
+        lines.append(f"{'keys':<11}{len(d.sent)} device key file(s) sent, {len(d.received)} "
+                     "received")
+    for c in d.conflicts:
+        lines.append(f"{'KEY CLASH':<11}{c}")
+    lines.extend(f"{pad}- {r.describe()}" for r in d.refused)
+    lines.extend(f"{pad}- {name} changed while syncing; run sync again" for name in d.skipped)
+    return lines
 
 
 def _revision_line(r: RevisionChange) -> str:
@@ -142,6 +162,11 @@ def render_json(s: SyncSummary) -> str:
                       for c in s.conflicts],
         "refused": [{"side": r.side, "path": r.path, "reason": r.reason} for r in s.refused],
         "skipped": list(s.skipped),
+        "devices": {"sent": list(s.devices.sent), "received": list(s.devices.received),
+                    "conflicts": list(s.devices.conflicts),
+                    "refused": [{"side": r.side, "path": r.path, "reason": r.reason}
+                                for r in s.devices.refused],
+                    "skipped": list(s.devices.skipped)},
         "cleaned": s.cleaned,
         "bytes_copied": s.bytes_copied,
         "problems": s.has_problems,
