@@ -119,6 +119,9 @@ def _forged_because(e: Entry, registry: Registry, content_edited: bool,
     """Why ``e`` is forged; None when it may be used; ``""`` when unusable but already
     reported (an unsigned older entry whose content no longer matches its hash)."""
     record = registry.devices.get(e.device)
+    if (record is not None and e.sig and not content_edited  # the usual case, first
+            and signature_ok(record.public_key, e.hash, e.sig)):
+        return None
     key_file = f"{DEVICES_DIR}/{key_file_name(e.device)}"
     if content_edited:
         if e.sig or record is not None:
