@@ -10,13 +10,16 @@ from __future__ import annotations
 import argparse
 import importlib
 import sys
+import warnings
 from collections.abc import Sequence
 from datetime import date
 
 from fieldlog import __version__
-from fieldlog.errors import FieldlogError
+from fieldlog.bounds import check_date, shown
+from fieldlog.errors import FieldlogError, OutOfBounds
 
-COMMANDS = ("schedule", "lookahead", "record", "report", "verify", "sync", "sites", "open", "demo")
+COMMANDS = ("schedule", "lookahead", "record", "report", "verify", "sync", "sites", "check",
+            "export", "open", "demo")
 """Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
 
 EXIT_OK, EXIT_PROBLEM, EXIT_BAD_INPUT = 0, 1, 2
@@ -30,11 +33,34 @@ class _Parser(argparse.ArgumentParser):
 
 
 def iso_date(text: str) -> date:
-    """argparse type for YYYY-MM-DD dates."""
+    """argparse type for YYYY-MM-DD dates, within fieldlog's range (see fieldlog.bounds)."""
     try:
-        return date.fromisoformat(text)
+        day = date.fromisoformat(text[:40])
     except ValueError:
-        raise argparse.ArgumentTypeError(f"'{text}' is not a date like 2026-03-02") from None
+        raise argparse.ArgumentTypeError(f"{shown(text)} is not a date like 2026-03-02") from None
+    try:
+        return check_date(day, "date")
+    except OutOfBounds as exc:
+        raise argparse.ArgumentTypeError(f"{exc.problem}; {exc.fix}") from None
+
+
+def shift_day(given: date | None, machine_today: date) -> date:
+    """The shift being recorded: ``--today`` if given, else the machine's date.
+
+    The caller reads the machine's date (the command line's edge is the one place it is
+    read) and passes it in. A ``--today`` later than it would let entries be written for days
+    that have not happened, so it is refused.
+
+    Raises:
+        OutOfBounds: ``given`` is later than ``machine_today``.
+    """
+    if given is None:
+        return machine_today
+    if given > machine_today:
+        raise OutOfBounds(f"--today {given.isoformat()} is later than this computer's date "
+                          f"{machine_today.isoformat()}",
+                          fix="give today's date or an earlier one, or set the computer's clock")
+    return given
 
 
 def build_parser(only: str | None = None) -> argparse.ArgumentParser:
@@ -53,6 +79,12 @@ def build_parser(only: str | None = None) -> argparse.ArgumentParser:
     return parser
 
 
+def _one_line_warning(message: Warning | str, category: type[Warning], filename: str,
+                      lineno: int, line: str | None = None) -> str:
+    """Warnings (a site cache that cannot be written) as one diagnostic line on stderr."""
+    return f"fieldlog: warning: {message}\n"
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     argv = sys.argv[1:] if argv is None else list(argv)
@@ -60,6 +92,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     # Importing only the chosen command's module keeps `fieldlog schedule` quick to start.
     parser = build_parser(first if first in COMMANDS else None)
     args = parser.parse_args(argv)
+    warnings.formatwarning = _one_line_warning
     try:
         return int(args.run(args))
     except FieldlogError as exc:

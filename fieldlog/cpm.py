@@ -4,8 +4,9 @@ Pure: no I/O, no clock. Input is a :class:`~fieldlog.model.Site`, the status dat
 end of day D"; the data date is the next day) and each activity's :class:`Progress`.
 Output is a :class:`ScheduleResult`.
 
-How the passes work (the rules are in DESIGN.md section 3; the formulas are the precedence
-diagramming method's, e.g. Hendrickson, *Project Management for Construction*, section 10.7):
+How the passes work (the rules are in DEVELOPERS.md, Rules of the trade; the formulas are
+the precedence diagramming method's, e.g. Hendrickson, *Project Management for
+Construction*, section 10.7):
 
 * Times are integer *points* on each activity's own calendar (see :mod:`fieldlog.calendars`).
   ES is the start point, EF = ES + duration the finish point. Shown dates are inclusive working
@@ -78,6 +79,7 @@ from fieldlog.schedule_result import (
     OutOfSequence,
     ScheduleResult,
     critical_threshold,
+    finished_without_start,
 )
 
 _DAY = timedelta(days=1)
@@ -175,7 +177,8 @@ def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
         site=site, as_of=status_date, finish=finish, calendars=calendars,
         driving_path=tuple(path),
         lowest_float=tuple(ids[k] for k in np.flatnonzero(critical).tolist()),
-        out_of_sequence=_out_of_sequence(site, net, fin, fixed.started),
+        out_of_sequence=_out_of_sequence(site, net, fin, fixed.started)
+        + finished_without_start(site, progress),
         rows=columns.rows,
     )
 

@@ -3,6 +3,11 @@ is retried while another program holds the file, and the rename itself is made d
 
 These raise plain ``OSError``; the journal and sync turn it into their own error with the
 file and the fix, because what to tell the user differs (a log entry vs. a copy to a stick).
+
+Links inside a site folder are never written through: a ``log/`` that is a link to another
+folder, or a day file that is a link to some file of the machine, would let one planted link
+make fieldlog write anywhere. :func:`refuse_links` and :func:`make_folder` refuse them
+(``ELOOP``), and files are opened with ``O_NOFOLLOW`` where the system has it.
 """
 
 from __future__ import annotations
@@ -17,6 +22,13 @@ RETRY_REPLACE = sys.platform == "win32"
 """Retry a rename refused because another program has the file open (Windows: virus
 scanners, search indexers and sync clients do this for a moment)."""
 REPLACE_TRIES = 10
+
+NOFOLLOW = getattr(os, "O_NOFOLLOW", 0)
+"""Open flag that makes the open fail on a link (0 where the system has no such flag)."""
+
+PERMISSION_UNSUPPORTED = frozenset({errno.EPERM, errno.ENOTSUP, errno.ENOSYS, errno.EINVAL})
+"""What a chmod gives on file systems without Unix permissions (FAT through FUSE, some network
+shares): the file is written all the same, so these are tolerated."""
 
 FOLDER_FSYNC_REFUSALS = frozenset({errno.EINVAL, errno.ENOTSUP, errno.EBADF})
 """Errors some file systems (certain FUSE and network mounts) give for fsync on a folder; the
@@ -72,3 +84,39 @@ def fsync_folder(folder: Path) -> None:
             raise
     finally:
         os.close(fd)
+
+
+def refuse_links(*paths: Path) -> None:
+    """Raise ``OSError(ELOOP)`` naming the first of ``paths`` that is a symbolic link."""
+    for path in paths:
+        if path.is_symlink():
+            raise OSError(errno.ELOOP, "is a link; fieldlog never writes through a link",
+                          str(path))
+
+
+def make_folder(folder: Path) -> None:
+    """Create ``folder`` (one level) unless it exists; a link there is refused, not followed.
+
+    A folder made here is made durable in its parent, so a power cut cannot lose the folder
+    of an entry already reported written.
+    """
+    refuse_links(folder)
+    if folder.is_dir():
+        return
+    folder.mkdir(exist_ok=True)
+    fsync_folder(folder.parent)
+
+
+def share_like_new_file(fd: int) -> None:
+    """Give a temp file the permissions a newly created file gets (mkstemp makes it private),
+    so a log on a shared folder stays readable by the office; file systems without Unix
+    permissions refuse the chmod, which is tolerated (see PERMISSION_UNSUPPORTED)."""
+    if not hasattr(os, "fchmod"):
+        return
+    mask = os.umask(0o022)
+    os.umask(mask)
+    try:
+        os.fchmod(fd, 0o666 & ~mask)
+    except OSError as exc:
+        if exc.errno not in PERMISSION_UNSUPPORTED:
+            raise

@@ -9,7 +9,9 @@ because the person reading it is a foreman at the end of a shift, not a programm
     ├── CalendarError             a calendar cannot be built (unknown region, no working days)
     ├── JournalError              the field log cannot be read or written
     │   └── EntryRefused          an entry was refused before anything was written
-    └── SyncError                 a sync could not be completed
+    ├── SyncError                 a sync could not be completed
+    ├── OutOfBounds               a value or file beyond fieldlog's limits (fieldlog/bounds.py)
+    └── UnreadableToml            a TOML file that cannot be parsed (syntax, nesting, encoding)
 
 The command line turns any of these into one line on stderr and exit code 2; nothing is
 swallowed, and no traceback is shown for a mistake a user can make.
@@ -102,3 +104,14 @@ class EntryRefused(JournalError):
 
 class SyncError(FieldlogError):
     """A sync with the office folder could not be completed."""
+
+
+class OutOfBounds(FieldlogError):
+    """A value or a file beyond the limits in :mod:`fieldlog.bounds` (a date in 9999, a
+    duration of a billion days, a 100 MB file). Raised without a location; the caller that
+    knows the file, line and activity re-raises it as its own error or reports a finding."""
+
+
+class UnreadableToml(FieldlogError):
+    """A TOML text that cannot be parsed: a syntax error (``line`` set when known), nesting
+    deeper than :data:`fieldlog.bounds.MAX_NESTING`, or a number too long to convert."""

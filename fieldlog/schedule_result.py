@@ -90,18 +90,44 @@ _FIELD_NAMES = tuple(f.name for f in fields(ActivityResult))
 
 @dataclass(frozen=True)
 class OutOfSequence:
-    """Work that started (or finished) before its predecessor allowed."""
+    """Work that started (or finished) before its predecessor allowed, or that was recorded
+    finished with no start recorded (``link`` is None then, ``activity`` names it)."""
 
-    link: Link
+    link: Link | None
     kind: str
     """``"started before predecessor finished"`` and similar plain words."""
     treatment: str
-    """``"retained logic"`` or ``"progress override"``."""
+    """``"retained logic"`` or ``"progress override"``; for a finish with no start, what the
+    engine assumed instead."""
+    activity: str = ""
+    """The activity concerned when there is no link."""
 
     def describe(self) -> str:
         """One line for reports."""
+        if self.link is None:
+            return f"{self.activity} {self.kind}; {self.treatment}"
         return (f"{self.link.succ} {self.kind} {self.link.pred} ({self.link.type.value}); "
                 f"{self.treatment}")
+
+
+NO_START_KIND = "finished, no start recorded"
+NO_START_TREATMENT = "its finish day is taken as its start; record the start as a correction"
+
+
+def finished_without_start(site: Site, progress: Mapping[str, Progress]
+                           ) -> tuple[OutOfSequence, ...]:
+    """Work (not a milestone) recorded finished while no start was ever recorded.
+
+    A daily log that shows a finish with no start is incomplete, and in a delay dispute that
+    gap matters: the case is listed with the other out-of-sequence cases, never silently
+    accepted. A milestone is only ever reached, so it has no start to miss. In file order.
+    """
+    out = []
+    for a in site.activities:
+        p = progress.get(a.id)
+        if p is not None and p.actual_finish and not p.actual_start and not a.is_milestone:
+            out.append(OutOfSequence(None, NO_START_KIND, NO_START_TREATMENT, a.id))
+    return tuple(out)
 
 
 @dataclass(frozen=True)
@@ -241,7 +267,8 @@ def find_out_of_sequence(site: Site, progress: Sequence[Progress],
         caught_up = p.actual_start if from_start else p.actual_finish
         if moved_on and not caught_up:
             found.append(OutOfSequence(link, OUT_OF_SEQUENCE_KINDS[link.type], treatment))
-    return tuple(found)
+    by_id = {a.id: p for a, p in zip(site.activities, progress, strict=True)}
+    return tuple(found) + finished_without_start(site, by_id)
 
 
 _NOTHING = Progress()

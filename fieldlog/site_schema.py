@@ -9,12 +9,14 @@ never be silently ignored on a legal record.
 from __future__ import annotations
 
 import re
+from collections.abc import Callable
 from datetime import date, datetime
 from functools import partial
 from types import MappingProxyType
 from typing import Any, Literal, overload
 
-from fieldlog.errors import DependencyLoopError
+from fieldlog import bounds
+from fieldlog.errors import DependencyLoopError, OutOfBounds
 from fieldlog.model import (
     WEEKDAY_NAMES,
     Activity,
@@ -28,7 +30,7 @@ from fieldlog.model import (
 from fieldlog.network import topological_order
 from fieldlog.toml_file import SITE_FILE, Line, TomlFile
 
-MAX_LAG = 3650
+MAX_LAG = bounds.MAX_DAYS
 """Largest lag or lead accepted, in working days (about 14 years): beyond it is a typo."""
 
 
@@ -49,8 +51,8 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
     _no_unknown(site_file, head, _SITE_KEYS, "[site]")
     name = _string(site_file, head, "name", "[site]")
     start = _date(site_file, head, "start", "[site]", required=True)
-    finish_by = _date(site_file, head, "finish_by", "[site]")
-    calendars = _calendars(site_file)
+    finish_by = _date(site_file, head, "finish_by", "[site]", site_start=start)
+    calendars = _calendars(site_file, start)
     default_cal = head.get("calendar")
     if default_cal is None:
         if len(calendars) != 1:
@@ -77,7 +79,7 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
             fix='use "successor" or "predecessor"',
         ) from None
     crews = _crews(site_file)
-    revision, activities, links = _schedule(schedule_file, calendars, crews, default_cal)
+    revision, activities, links = _schedule(schedule_file, calendars, crews, default_cal, start)
     if finish_by is not None and finish_by < start:
         raise site_file.error(
             f"finish_by {finish_by} is before the site start {start}",
@@ -98,7 +100,7 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
 # --- pieces ----------------------------------------------------------------------------------
 
 
-def _calendars(f: TomlFile) -> dict[str, CalendarSpec]:
+def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
     tables = _table(f, f.data, "calendars", required=True)
     if not tables:
         raise f.error("no calendars defined", fix='add [calendars.weekdays] with workdays = [...]')
@@ -116,7 +118,7 @@ def _calendars(f: TomlFile) -> dict[str, CalendarSpec]:
         for d in days:
             key = str(d).strip().lower()[:3]
             if key not in WEEKDAY_NAMES:
-                raise f.error(f"{where} workdays has '{d}', not a weekday",
+                raise f.error(f"{where} workdays has {bounds.shown(d)}, not a weekday",
                               line=f.line_of(r"^\s*workdays\s*="),
                               fix="use mon, tue, wed, thu, fri, sat, sun")
             weekdays.add(WEEKDAY_NAMES.index(key))
@@ -124,9 +126,10 @@ def _calendars(f: TomlFile) -> dict[str, CalendarSpec]:
         if not isinstance(hol, list):
             raise f.error(f"{where} holidays must be a list of dates",
                           line=f.line_of(r"^\s*holidays\s*="))
-        holidays = frozenset(_as_date(f, h, f"{where} holidays") for h in hol)
+        holidays = frozenset(_as_date(f, h, f"{where} holidays", site_start=start)
+                             for h in hol)
         region = body.get("public_holidays")
-        if region is not None and not isinstance(region, str):
+        if region is not None and (not isinstance(region, str) or len(region) > 10):
             raise f.error(f"{where} public_holidays must be a region code like \"GB-ENG\"",
                           line=f.line_of(r"^\s*public_holidays\s*="))
         out[cname] = CalendarSpec(cname, frozenset(weekdays), holidays, region)
@@ -141,21 +144,25 @@ def _crews(f: TomlFile) -> dict[str, Crew]:
             raise f.error(f"{where} must be a table")
         _no_unknown(f, body, _CREW_KEYS, where)
         available = body.get("available")
+        crew_line = partial(f.line_of, rf"^\[crews\.{re.escape(cname)}\]")
         if not isinstance(available, int) or isinstance(available, bool) or available < 0:
             raise f.error(f"{where} available must be a whole number of people, 0 or more",
-                          line=f.line_of(rf"^\[crews\.{re.escape(cname)}\]"))
+                          line=crew_line)
+        _bounded(f, bounds.check_headcount, available, f"{where} available", line=crew_line)
         out[cname] = Crew(cname, available)
     return out
 
 
 def _schedule(
-    f: TomlFile, calendars: dict[str, CalendarSpec], crews: dict[str, Crew], default_cal: str
+    f: TomlFile, calendars: dict[str, CalendarSpec], crews: dict[str, Crew], default_cal: str,
+    start: date,
 ) -> tuple[int, list[Activity], list[Link]]:
     _no_unknown(f, f.data, {"revision", "activity", "link"}, "top level")
     revision = f.data.get("revision")
     if not isinstance(revision, int) or isinstance(revision, bool) or revision < 0:
         raise f.error("revision must be a whole number (the office's revision counter)",
                       line=f.line_of(r"^\s*revision\s*="), fix="add revision = 1 at the top")
+    _bounded(f, bounds.check_counter, revision, "revision", line=f.line_of(r"^\s*revision\s*="))
     rows = f.data.get("activity", [])
     if not isinstance(rows, list):
         raise f.error("activities must be [[activity]] tables")
@@ -163,10 +170,12 @@ def _schedule(
     links: list[Link] = []
     seen: dict[str, int] = {}
     for row in rows:
+        if not isinstance(row, dict):
+            raise f.error("activities must be [[activity]] tables")
         aid = row.get("id")
         if not isinstance(aid, str) or not _ID_PATTERN.match(aid):
             raise f.error(
-                f"activity id {aid!r} is not valid",
+                f"activity id {bounds.shown(aid)} is not valid",
                 line=f.line_of(r"^\s*id\s*=", len(activities)),
                 fix="use 1-32 letters, digits, '.', '_' or '-', starting with a letter or digit",
             )
@@ -181,6 +190,7 @@ def _schedule(
         if not isinstance(name, str) or not name.strip():
             raise f.error(f"activity '{aid}' has no name", line=line, activity=aid,
                           fix='add name = "what the crew does"')
+        _bounded(f, bounds.check_text, name, f"activity '{aid}' name", line=line, activity=aid)
         duration = row.get("duration")
         if not isinstance(duration, int) or isinstance(duration, bool):
             raise f.error(f"activity '{aid}' duration must be a whole number of working days",
@@ -188,6 +198,8 @@ def _schedule(
         if duration < 0:
             raise f.error(f"activity '{aid}' has a negative duration ({duration})",
                           line=line, activity=aid, fix="use 0 for a milestone or a positive number")
+        _bounded(f, bounds.check_days, duration, f"activity '{aid}' duration", activity=aid,
+                 line=partial(f.key_line, "duration", line))
         cal = row.get("calendar", default_cal)
         if cal not in calendars:
             raise f.error(f"activity '{aid}' uses unknown calendar '{cal}'", line=line,
@@ -205,13 +217,17 @@ def _schedule(
             if not isinstance(count, int) or isinstance(count, bool) or count < 0:
                 raise f.error(f"activity '{aid}' crew '{cname}' must be a whole headcount",
                               line=line, activity=aid)
+            _bounded(f, bounds.check_headcount, count, f"activity '{aid}' crew '{cname}'",
+                     line=line, activity=aid)
         where = f"activity '{aid}'"
         activities.append(Activity(
             id=aid, name=name.strip(), duration=duration, calendar=cal,
             start_not_before=_date(f, row, "start_not_before", where, activity=aid,
-                                   line=partial(f.key_line, "start_not_before", line)),
+                                   line=partial(f.key_line, "start_not_before", line),
+                                   site_start=start),
             finish_not_after=_date(f, row, "finish_not_after", where, activity=aid,
-                                   line=partial(f.key_line, "finish_not_after", line)),
+                                   line=partial(f.key_line, "finish_not_after", line),
+                                   site_start=start),
             crew=MappingProxyType(dict(crew)),
         ))
         after = row.get("after", [])
@@ -238,6 +254,8 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
     out = []
     for n, row in enumerate(rows):
         line = partial(f.line_of, r"^\s*\[\[link\]\]", n)
+        if not isinstance(row, dict):
+            raise f.error("links must be [[link]] tables", line=line)
         _no_unknown(f, row, _LINK_KEYS, "[[link]]", line=line)
         pred, succ = row.get("from"), row.get("to")
         for key, value in (("from", pred), ("to", succ)):
@@ -252,16 +270,16 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
         try:
             link_type = LinkType(kind)
         except ValueError:
-            raise f.error(f"[[link]] {pred} -> {succ} has unknown type '{row.get('type')}'",
+            raise f.error(f"[[link]] {pred} -> {succ} has unknown type "
+                          f"{bounds.shown(row.get('type'))}",
                           line=line, activity=succ, fix="use FS, SS, FF or SF") from None
         lag = row.get("lag", 0)
         if not isinstance(lag, int) or isinstance(lag, bool):
             raise f.error(f"[[link]] {pred} -> {succ} lag must be whole working days",
                           line=line, activity=succ, fix="e.g. lag = 2, or lag = -1 for a lead")
-        if abs(lag) > MAX_LAG:
-            raise f.error(f"[[link]] {pred} -> {succ} lag {lag} is beyond {MAX_LAG} working days",
-                          line=line, activity=succ, fix="check the number; a lag is working days")
-        out.append(Link(pred, succ, link_type, lag))
+        _bounded(f, bounds.check_days, lag, f"[[link]] {pred} -> {succ} lag", low=-MAX_LAG,
+                 line=line, activity=succ)
+        out.append(Link(str(pred), str(succ), link_type, lag))
     return out
 
 
@@ -291,41 +309,58 @@ def _no_unknown(f: TomlFile, table: dict[str, Any], allowed: set[str], where: st
 
 def _string(f: TomlFile, table: dict[str, Any], key: str, where: str) -> str:
     value = table.get(key)
+    line = partial(f.line_of, rf"^\s*{key}\s*=")
     if not isinstance(value, str) or not value.strip():
-        raise f.error(f"{where} needs {key} (text)", line=f.line_of(rf"^\s*{key}\s*="))
-    return value.strip()
+        raise f.error(f"{where} needs {key} (text)", line=line)
+    return _bounded(f, bounds.check_text, value.strip(), f"{where} {key}", line=line)
+
+
+def _bounded(f: TomlFile, check: Callable[..., Any], value: Any, what: str, *, line: Line,
+             activity: str | None = None, **limits: Any) -> Any:
+    """``check(value, what, **limits)`` from :mod:`fieldlog.bounds`, located in ``f``."""
+    try:
+        return check(value, what, **limits)
+    except OutOfBounds as exc:
+        raise f.error(exc.problem, line=line, activity=activity, fix=exc.fix) from None
 
 
 @overload
 def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: Literal[True],
-          line: Line = None, activity: str | None = None) -> date: ...
+          line: Line = None, activity: str | None = None,
+          site_start: date | None = None) -> date: ...
 @overload
 def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *,
           required: Literal[False] = False, line: Line = None,
-          activity: str | None = None) -> date | None: ...
+          activity: str | None = None, site_start: date | None = None) -> date | None: ...
 def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: bool = False,
-          line: Line = None, activity: str | None = None) -> date | None:
+          line: Line = None, activity: str | None = None,
+          site_start: date | None = None) -> date | None:
     """The date at ``key``; None when it is absent, unless ``required`` (then it refuses)."""
     value = table.get(key)
     if value is None:
         if required:
             raise f.error(f"{where} needs {key} (a date like 2026-03-02)", line=line)
         return None
-    return _as_date(f, value, f"{where} {key}", activity=activity,
+    return _as_date(f, value, f"{where} {key}", activity=activity, site_start=site_start,
                     line=line or partial(f.line_of, rf"^\s*{key}\s*="))
 
 
 def _as_date(f: TomlFile, value: Any, what: str, *, line: Line = None,
-             activity: str | None = None) -> date:
+             activity: str | None = None, site_start: date | None = None) -> date:
+    """A date from TOML (or ISO text), in fieldlog's range and near the site start."""
+    day: date | None = None
     if isinstance(value, datetime):
-        return value.date()
-    if isinstance(value, date):
-        return value
-    if isinstance(value, str):
+        day = value.date()
+    elif isinstance(value, date):
+        day = value
+    elif isinstance(value, str) and len(value) <= 40:
         try:
-            return date.fromisoformat(value.strip())
+            day = date.fromisoformat(value.strip())
         except ValueError:
-            pass
-    raise f.error(f"{what} {value!r} is not a date", activity=activity,
-                  line=line or f.line_of(re.escape(str(value))),
-                  fix="write dates as YYYY-MM-DD, e.g. 2026-03-02")
+            day = None
+    if day is None:
+        raise f.error(f"{what} {bounds.shown(value)} is not a date", activity=activity,
+                      line=line or partial(f.line_of, re.escape(str(value)[:40])),
+                      fix="write dates as YYYY-MM-DD, e.g. 2026-03-02")
+    return _bounded(f, bounds.check_date, day, what, site_start=site_start, activity=activity,
+                    line=line or partial(f.line_of, re.escape(day.isoformat())))

@@ -8,14 +8,15 @@ key, a bad date) the line is found in the text, and only when an error is raised
 from __future__ import annotations
 
 import re
-import tomllib
 from collections.abc import Callable
 from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 from typing import Any
 
-from fieldlog.errors import SiteError
+from fieldlog.bounds import check_size
+from fieldlog.errors import OutOfBounds, SiteError, UnreadableToml
+from fieldlog.guarded_read import decode, loads, read_capped
 
 SITE_FILE = "site.toml"
 SCHEDULE_FILE = "schedule.toml"
@@ -95,39 +96,50 @@ def read_toml(path: Path) -> TomlFile:
 
 
 def read_file_bytes(path: Path) -> bytes:
-    """The bytes of a site file; a missing or unreadable file is a :class:`SiteError`."""
+    """The bytes of a site file; missing, unreadable or oversized is a :class:`SiteError`.
+
+    The size cap (site.toml 1 MB, schedule.toml 64 MB, see :mod:`fieldlog.bounds`) is
+    checked before anything is read.
+    """
     try:
-        return path.read_bytes()
+        return read_capped(path, _kind(path))
     except FileNotFoundError:
         raise SiteError(
             f"{path.name} is missing", file=path,
             fix=f"a site folder needs {SITE_FILE} and {SCHEDULE_FILE}; check the folder name",
         ) from None
+    except OutOfBounds as exc:
+        raise SiteError(exc.problem, file=path, fix=exc.fix) from None
     except OSError as exc:
         raise SiteError(f"cannot read {path.name}: {exc.strerror}", file=path) from exc
 
 
+def _kind(path: Path) -> str:
+    """Which size cap applies: site.toml's, or schedule.toml's (also for office copies)."""
+    return SITE_FILE if path.name == SITE_FILE else SCHEDULE_FILE
+
+
 def parse_toml(path: Path, raw: bytes) -> TomlFile:
-    """Parse the bytes ``raw`` read from ``path`` (see :func:`read_toml`)."""
+    """Parse the bytes ``raw`` read from ``path`` (see :func:`read_toml`).
+
+    Raises:
+        SiteError: too large, not UTF-8, nested too deep or not valid TOML (with its line).
+    """
     try:
-        text = raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
+        text_and_data = _parse(path, raw)
+    except OutOfBounds as exc:
+        raise SiteError(exc.problem, file=path, fix=exc.fix) from None
+    except UnreadableToml as exc:
+        if exc.problem.startswith("not UTF-8"):
+            raise SiteError(exc.problem, file=path, fix="save the file as UTF-8") from None
         raise SiteError(
-            f"not UTF-8 text (byte {exc.start})", file=path, fix="save the file as UTF-8"
-        ) from exc
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        line = None
-        msg = str(exc)
-        m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
-        if m:
-            line = int(m[1])
-            msg = msg[: m.start()].strip()
-        raise SiteError(
-            f"TOML syntax error: {msg}", file=path, line=line,
-            fix="correct the line (quotes, brackets, '=' between key and value)",
-        ) from exc
-    return TomlFile(path, text, data)
+            f"TOML syntax error: {exc.problem}", file=path, line=exc.line,
+            fix=exc.fix or "correct the line (quotes, brackets, '=' between key and value)",
+        ) from None
+    return TomlFile(path, *text_and_data)
 
 
+def _parse(path: Path, raw: bytes) -> tuple[str, dict[str, Any]]:
+    check_size(len(raw), _kind(path), path.name)
+    text = decode(raw, bom=True)
+    return text, loads(text, _kind(path), path.name)

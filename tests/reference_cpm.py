@@ -17,8 +17,9 @@ Pure: no I/O, no clock. Input is a :class:`~fieldlog.model.Site`, the status dat
 end of day D"; the data date is the next day) and each activity's :class:`Progress`.
 Output is a :class:`ScheduleResult`.
 
-How the passes work (the rules are in DESIGN.md section 3; the formulas are the precedence
-diagramming method's, e.g. Hendrickson, *Project Management for Construction*, section 10.7):
+How the passes work (the rules are in DEVELOPERS.md, Rules of the trade; the formulas are
+the precedence diagramming method's, e.g. Hendrickson, *Project Management for
+Construction*, section 10.7):
 
 * Times are integer *points* on each activity's own calendar (see :mod:`fieldlog.calendars`).
   ES is the start point, EF = ES + duration the finish point. Shown dates are inclusive working
@@ -461,6 +462,12 @@ def find_out_of_sequence(site: Site, progress: Sequence[Progress],
             kind = "finished before predecessor started"
         if kind:
             found.append(OutOfSequence(link, kind, treatment))
+    # Work recorded finished with no start recorded (a milestone is only ever reached).
+    for a, p in zip(site.activities, progress, strict=True):
+        if p.actual_finish and not p.actual_start and a.duration > 0:
+            found.append(OutOfSequence(None, "finished, no start recorded", "its finish day "
+                                       "is taken as its start; record the start as a "
+                                       "correction", a.id))
     return tuple(found)
 
 

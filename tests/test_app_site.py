@@ -112,7 +112,8 @@ def log(folder: Path, kind: str, day: date | None, fields: dict[str, Any], *,
 
 class TestTheTestSite:
     """The forward and backward pass worked by hand (Hendrickson, *Project Management for
-    Construction*, Table 10-7, with inclusive working-day dates as DESIGN.md section 3)."""
+    Construction*, Table 10-7, with inclusive working-day dates as in DEVELOPERS.md, Rules of
+    the trade)."""
 
     def test_dates_and_floats_by_hand(self, tmp_path: Path) -> None:
         state = load_state(write_site(tmp_path / "site"), date(2026, 3, 1))

@@ -2,9 +2,9 @@
 
 Facts of the trade are marked "common practice" (float identities, critical = lowest float,
 FS with lag 0 starts the next working day, free float <= total float). Edge cases come from the
-list in DESIGN.md section 5: weekends and holidays at the edges, leads before the site start,
-milestones, disconnected chains, required finish on a non-working day, negative float, lost
-days, progress at a status date, out-of-sequence work, readiness holds.
+list in DEVELOPERS.md, Easy to get wrong: weekends and holidays at the edges, leads before the
+site start, milestones, disconnected chains, required finish on a non-working day, negative
+float, lost days, progress at a status date, out-of-sequence work, readiness holds.
 
 Dates: 2026-03-02 is a Monday; the weekday calendar works Monday to Friday.
 """

@@ -183,7 +183,7 @@ def test_missing_site_exits_2(tmp_path: Path, capsysbinary) -> None:
 
 
 def test_core_lookahead_modules_never_import_textual_or_rich() -> None:
-    """DESIGN.md section 2: the core never imports textual (checked in a fresh interpreter)."""
+    """The core never imports textual (DEVELOPERS.md, Contracts), checked in a fresh interpreter."""
     code = ("import sys, fieldlog.lookahead, fieldlog.lookahead.render_text, "
             "fieldlog.lookahead.render_data, fieldlog.commands.lookahead; "
             "print(sorted(m for m in sys.modules if m.split('.')[0] in ('textual', 'rich')))")

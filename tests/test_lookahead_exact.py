@@ -1,14 +1,14 @@
 """The must / may / cannot rule is exact: proved against brute-force enumeration.
 
-DESIGN.md section 3: an activity works on day d in every schedule that keeps the logic and
-meets the late dates iff LS <= d <= EF (MUST), in some such schedule iff ES <= d <= LF (MAY),
-and in none otherwise (CANNOT). The outside oracle (:mod:`test_lookahead_oracle`) enumerates
-every integer schedule of small random networks (every link type, leads and lags, one or two
-calendars with holidays, lags on either calendar, work finished and in progress, retained logic
-and progress override, start-not-before, finish-not-after, readiness holds, a required finish
-that may be missed) using numpy's busday functions for the calendars, and counts the schedules
-each activity runs in on each day. Milestones take no working time and are checked apart
-(``test_lookahead_facts.py``).
+DEVELOPERS.md, Rules of the trade: an activity works on day d in every schedule that keeps the
+logic and meets the late dates iff LS <= d <= EF (MUST), in some such schedule iff ES <= d <= LF
+(MAY), and in none otherwise (CANNOT). The outside oracle (:mod:`test_lookahead_oracle`)
+enumerates every integer schedule of small random networks (every link type, leads and lags, one
+or two calendars with holidays, lags on either calendar, work finished and in progress, retained
+logic and progress override, start-not-before, finish-not-after, readiness holds, a required
+finish that may be missed) using numpy's busday functions for the calendars, and counts the
+schedules each activity runs in on each day. Milestones take no working time and are checked
+apart (``test_lookahead_facts.py``).
 """
 
 from __future__ import annotations

@@ -70,7 +70,7 @@ def test_day_d_runs_from_end_of_d_minus_1_to_end_of_d() -> None:
 
 
 def test_cells_of_a_small_chain() -> None:
-    """The whole pattern of a worked example (by hand from DESIGN.md section 3's rule)."""
+    """The whole pattern of a worked example, by hand from the rule (DEVELOPERS.md)."""
     la = build_lookahead(compute_schedule(_chain_site(), SUN), days=7)
     assert _row(la, "A").cells == (M, M, M, N, N, X, X)
     assert _row(la, "B").cells == (N, N, N, M, M, X, X)
@@ -96,7 +96,7 @@ def test_lags_and_link_types_in_reasons() -> None:
 
 
 def test_negative_float_is_late_and_must_on_its_earliest_days() -> None:
-    """DESIGN.md section 3: negative float -> ES..EF are MUST, and the activity is flagged."""
+    """Negative float -> ES..EF are MUST and the activity is flagged (DEVELOPERS.md)."""
     site = _chain_site(finish_by=date(2026, 3, 5))  # needs Mon 9th, required Thu 5th
     la = build_lookahead(compute_schedule(site, SUN), days=7)
     a = _row(la, "A")

@@ -41,8 +41,10 @@ def test_method_is_named() -> None:
 
 
 @st.composite
-def crewed_networks(draw):
-    n = draw(st.integers(3, 9))
+def crewed_networks(draw, sizes=(3, 9), durations=(0, 4), lags=(-2, 3), link_odds=4,
+                    finish_days=(5, 40), finish_from=date(2026, 3, 2)):
+    """Random small sites with two crews; the keywords let other tests draw smaller ones."""
+    n = draw(st.integers(*sizes))
     cals = list(CALS[: draw(st.integers(1, 2))])
     acts, progress = [], {}
     for k in range(n):
@@ -50,17 +52,17 @@ def crewed_networks(draw):
         for c in ("hands", "pour"):
             if draw(st.integers(0, 2)):
                 crew[c] = draw(st.integers(1, 4))
-        acts.append(act(f"A{k}", draw(st.integers(0, 4)),
+        acts.append(act(f"A{k}", draw(st.integers(*durations)),
                         calendar=draw(st.sampled_from([c.name for c in cals])), crew=crew))
         if k == 0 and draw(st.booleans()):
             progress["A0"] = Progress(actual_start=date(2026, 2, 27), remaining=2,
                                       remaining_as_of=SUN)
     links = [Link(f"A{i}", f"A{j}", draw(st.sampled_from(list(LinkType))),
-                  draw(st.integers(-2, 3)))
-             for j in range(n) for i in range(j) if draw(st.integers(0, 3)) == 0]
+                  draw(st.integers(*lags)))
+             for j in range(n) for i in range(j) if draw(st.integers(0, link_odds - 1)) == 0]
     finish_by = None
     if draw(st.booleans()):
-        finish_by = date(2026, 3, 2) + timedelta(days=draw(st.integers(5, 40)))
+        finish_by = finish_from + timedelta(days=draw(st.integers(*finish_days)))
     site = make_site(acts, links, calendars=cals, crews={"hands": draw(st.integers(1, 5)),
                                                           "pour": draw(st.integers(1, 5))},
                      finish_by=finish_by, start=date(2026, 2, 23),

@@ -310,7 +310,7 @@ def test_oracle_counts_match_numpy_busday_count() -> None:
 
 
 def test_oracle_fs_link_means_next_working_day() -> None:
-    """FS with no lag: the successor may start on the next working day (DESIGN.md section 3)."""
+    """FS with no lag: the successor may start on the next working day (DEVELOPERS.md)."""
     site = make_site([act("A", 1), act("B", 1)], [Link("A", "B")])
     cals = {"weekdays": OracleCalendar(WEEKDAYS)}
     fri, sat, mon = (date(2026, 3, d).toordinal() for d in (6, 7, 9))

@@ -179,7 +179,7 @@ def test_absurd_lag_is_refused(tmp_path):
     """A lag of decades is a typo; refusing it keeps the calendars a sane size."""
     bad = SCHEDULE.replace("lag = 0", "lag = 99999")
     err = error_for(tmp_path, schedule=bad)
-    assert "lag 99999 is beyond 3650" in str(err)
+    assert "lag 99999 is not from -3650 to 3650" in str(err)
     _assert_located(err, bad, "[[link]]", "CURE")
 
 

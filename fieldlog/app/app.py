@@ -36,6 +36,7 @@ from fieldlog.app.screens.help import HelpScreen
 from fieldlog.app.screens.today import TodayScreen
 from fieldlog.app.session import SiteSession, Snapshot
 from fieldlog.calendars import HorizonExceeded
+from fieldlog.cli import shift_day
 from fieldlog.errors import FieldlogError
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.keys import saved_author, take_warnings
@@ -278,7 +279,7 @@ def finish_change(old: Snapshot, new: Snapshot) -> str:
 
 
 def make_app(site_folder: Path | str, today: date, *, session: SiteSession | None = None,
-             notice: str = "") -> FieldlogApp:
+             notice: str = "", machine_today: date | None = None) -> FieldlogApp:
     """The app for ``site_folder`` as of the end of ``today``; shared by the CLI and the tests.
 
     Args:
@@ -287,10 +288,14 @@ def make_app(site_folder: Path | str, today: date, *, session: SiteSession | Non
         session: an already loaded session (``fieldlog open`` loads first, to fail before the
             terminal is taken over).
         notice: first status line.
+        machine_today: this computer's date; ``today`` may not be later. Default: read
+            here, at the app's edge (the one place the app reads the clock).
 
     Raises:
         FieldlogError: the site cannot be loaded (only when no session is given).
+        OutOfBounds: ``today`` is later than the machine's date.
     """
+    shift_day(today, machine_today or date.today())
     if session is None:
         session = SiteSession(site_folder, today)
         session.load()

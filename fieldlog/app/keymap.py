@@ -122,6 +122,8 @@ KEYS: tuple[Key, ...] = (
         "show the lookahead from a week later", display=".", show=False),
     Key("lookahead.all", "a", "toggle_all", "All rows",
         "show every unfinished activity, not only those with work in these two weeks"),
+    Key("lookahead.fewest", "f", "fewest", "Fewest",
+        "see the plan with the fewest people per crew: the starts to move, and the bound"),
     # -- float ------------------------------------------------------------------------------------
     Key("float.all", "a", "filter('all')", "All", "show every activity"),
     Key("float.behind", "b", "filter('behind')", "Behind",

@@ -21,6 +21,7 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 
+from fieldlog.durable import make_folder, refuse_links
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import Lookahead
 from fieldlog.lookahead.render_text import render_text
@@ -57,7 +58,8 @@ def write_sheet(look: Lookahead, folder: Path) -> Path:
     path = sheet_path(folder, look)
     text = render_text(look, SHEET_WIDTH)
     try:
-        path.parent.mkdir(exist_ok=True)
+        make_folder(path.parent)
+        refuse_links(path)
         path.write_text(text, encoding="utf-8", newline="\n")
     except OSError as exc:
         raise FieldlogError(f"cannot write the lookahead sheet: {exc.strerror}", file=path,

@@ -15,7 +15,7 @@ import tempfile
 from datetime import date, timedelta
 from pathlib import Path
 
-from fieldlog.cli import iso_date
+from fieldlog.cli import iso_date, shift_day
 from fieldlog.errors import SiteError
 
 SAMPLE = "kestrel-yard"
@@ -84,7 +84,7 @@ def run(args: argparse.Namespace) -> int:
         folder = copy_sample(scratch)
         day, last = demo_day(folder)
         if args.today is not None:
-            day = args.today
+            day = shift_day(args.today, date.today())  # the machine's date, read at the edge
             why = "the day asked for"
         elif last is None:
             why = "the site's first working day (the sample log is empty)"

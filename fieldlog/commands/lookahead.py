@@ -13,12 +13,13 @@ from pathlib import Path
 
 from fieldlog.cli import EXIT_BAD_INPUT, EXIT_OK, iso_date
 from fieldlog.errors import FieldlogError
-from fieldlog.lookahead.build import DEFAULT_DAYS, build_lookahead
+from fieldlog.lookahead.build import DEFAULT_DAYS, Lookahead, build_lookahead
 from fieldlog.lookahead.render_data import render_csv, render_json
+from fieldlog.lookahead.render_ics import crew_calendars, render_ics
 from fieldlog.lookahead.render_text import WIDTHS, layout_for, render_text
-from fieldlog.workspace import load_state
+from fieldlog.workspace import SiteState, load_state
 
-FORMATS = ("text", "json", "csv")
+FORMATS = ("text", "json", "csv", "ics")
 MAX_DAYS = 62
 
 
@@ -40,7 +41,13 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--width", type=int, choices=WIDTHS, default=80,
                    help="columns of the printed sheet (default 80)")
     p.add_argument("--ascii", action="store_true", help="plain ASCII marks and names")
-    p.add_argument("--out", type=Path, metavar="FILE", help="write to FILE instead of stdout")
+    p.add_argument("--out", type=Path, metavar="FILE", help="write to FILE instead of stdout "
+                   "(with --per-crew: the folder the crews' .ics files go in)")
+    crews = p.add_mutually_exclusive_group()
+    crews.add_argument("--crew", metavar="NAME",
+                       help="with --format ics: only the MUST work of this crew")
+    crews.add_argument("--per-crew", action="store_true",
+                       help="with --format ics: one calendar file per crew, in --out FOLDER")
     p.set_defaults(run=run)
 
 
@@ -56,21 +63,44 @@ def run(args: argparse.Namespace) -> int:
         except ValueError as exc:
             print(f"fieldlog: {exc}; use --width 132 or fewer --days", file=sys.stderr)
             return EXIT_BAD_INPUT
+    if (args.crew is not None or args.per_crew) and args.format != "ics":
+        print("fieldlog: --crew and --per-crew go with --format ics", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    if args.per_crew and args.out is None:
+        print("fieldlog: --per-crew needs --out FOLDER for the crews' files", file=sys.stderr)
+        return EXIT_BAD_INPUT
     state = load_state(args.site, args.as_of)
+    if args.crew is not None and args.crew not in state.site.crews:
+        known = ", ".join(sorted(state.site.crews)) or "none"
+        print(f"fieldlog: no crew '{args.crew[:40]}' in site.toml (crews: {known})",
+              file=sys.stderr)
+        return EXIT_BAD_INPUT
     la = build_lookahead(state.schedule, state.replay.readiness, args.start, args.days)
-    if args.format == "json":
-        text = render_json(la)
+    if args.per_crew:
+        _write_crew_files(args.out, crew_calendars(la))
+        _report(la, state)
+        return EXIT_OK
+    if args.format == "ics":
+        data = render_ics(la, args.crew)
+    elif args.format == "json":
+        data = render_json(la).encode("utf-8")
     elif args.format == "csv":
-        text = render_csv(la)
+        data = render_csv(la).encode("utf-8")
     else:
         text = render_text(la, args.width, ascii_only=args.ascii)
-    data = text.encode("ascii" if args.ascii and args.format == "text" else "utf-8")
+        data = text.encode("ascii" if args.ascii else "utf-8")
     if args.out is not None:
         _write(args.out, data)
     else:
         sys.stdout.flush()
         sys.stdout.buffer.write(data)
         sys.stdout.buffer.flush()
+    _report(la, state)
+    return EXIT_OK
+
+
+def _report(la: Lookahead, state: SiteState) -> None:
+    """Readiness items to chase, out-of-sequence work and log problems, on stderr."""
     for row in la.rows:
         for flag in row.not_ready:
             print(f"fieldlog: not ready: {row.id} {flag}", file=sys.stderr)
@@ -78,7 +108,21 @@ def run(args: argparse.Namespace) -> int:
         print(f"fieldlog: out of sequence: {oos.describe()}", file=sys.stderr)
     for problem in state.replay.problems:
         print(f"fieldlog: log: {problem.message}", file=sys.stderr)
-    return EXIT_OK
+
+
+def _write_crew_files(folder: Path, files: dict[str, bytes]) -> None:
+    """Each crew's calendar into ``folder`` (made if missing); names go to stderr."""
+    try:
+        folder.mkdir(exist_ok=True)
+    except OSError as exc:
+        raise FieldlogError(f"cannot make the folder: {exc.strerror}", file=folder,
+                            fix="give a folder whose parent exists and is writable") from exc
+    if not files:
+        print("fieldlog: no crew has MUST work in the window; no files written",
+              file=sys.stderr)
+    for name, data in files.items():
+        _write(folder / name, data)
+        print(f"fieldlog: wrote {folder / name}", file=sys.stderr)
 
 
 def _write(path: Path, data: bytes) -> None:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import argparse
 from datetime import date
 
-from fieldlog.cli import iso_date
+from fieldlog.cli import iso_date, shift_day
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
@@ -28,7 +28,8 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
 
 def run(args: argparse.Namespace) -> int:
     """Load the site (errors exit 2 before the screen changes), then run the app."""
-    today = args.today or date.today()  # the one place the app's "today" is read from the clock
+    # The one place the app's "today" is read from the clock.
+    today = shift_day(args.today, date.today())
     return open_site(args.site, today)
 
 

@@ -24,9 +24,10 @@ import argparse
 import sys
 from datetime import date
 
-from fieldlog.cli import iso_date
+from fieldlog.cli import iso_date, shift_day
 from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, record_entry
+from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import FieldSpec
 from fieldlog.journal.keys import MAX_AUTHOR, check_author, save_author, saved_author
 from fieldlog.site_files import load_site
@@ -108,7 +109,7 @@ def _add_field(parser: argparse.ArgumentParser, spec: FieldSpec) -> None:
 
 def run(args: argparse.Namespace) -> int:
     """Record the entry and print its id on stdout."""
-    today = args.today or date.today()  # the one place the real date is read
+    today = shift_day(args.today, date.today())  # the one place the real date is read
     kind = args.kind
     fields = {k[2:]: v for k, v in vars(args).items() if k.startswith("f_") and v is not None}
     if kind == "lost-time":
@@ -120,10 +121,11 @@ def run(args: argparse.Namespace) -> int:
                 raise EntryRefused(f"--set {change!r} is not FIELD=VALUE",
                                    fix="e.g. --set days=4")
             fields[key.strip().replace("-", "_")] = value
+    device = device_id()  # first: a data folder that cannot be written is the one error shown
     site = load_site(args.site)
     author = _author(args.author)
     entry = record_entry(args.site, site, kind, args.on, fields, today=today,
-                         author=author, site_name=args.site)
+                         author=author, device=device, site_name=args.site)
     print(entry.id)
     return 0
 

@@ -16,6 +16,7 @@ from pathlib import Path
 
 from fieldlog.errors import SyncError
 from fieldlog.sync import SyncOptions, sync_site
+from fieldlog.sync.git_remote import is_git_target, parse_remote
 from fieldlog.sync.state import SyncRecord, save_record
 from fieldlog.sync.summary import render_json, render_text
 
@@ -34,7 +35,11 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
         "side by side and reported.")
     p.add_argument("site", help="the site folder on this device")
     p.add_argument("target", help="the office's folder for this site (created from the site "
-                   "when empty)")
+                   "when empty), or a git repository: git+file:///srv/jobs.git, git+ssh://..., "
+                   "git+https://... (one branch per site)")
+    p.add_argument("--office", action="store_true",
+                   help="with a git target: SITE is the office's copy, whose newer schedule "
+                   "revisions go to the branch")
     p.add_argument("--format", choices=("text", "json"), default="text")
     p.set_defaults(run=run)
 
@@ -58,8 +63,28 @@ class _ProgressLine:
 
 def run(args: argparse.Namespace) -> int:
     """Sync, print the summary, remember the sync in this device's data folder."""
-    site, target = Path(args.site), Path(args.target)
-    summary = sync_site(site, target, SyncOptions(progress=_ProgressLine(), now=time.time()))
+    site = Path(args.site)
+    options = SyncOptions(progress=_ProgressLine(), now=time.time())
+    target: Path | str
+    if is_git_target(args.target):
+        from fieldlog.sync.git_transport import sync_git
+
+        remote = parse_remote(args.target)
+        target = remote.shown
+        result = sync_git(site, remote, options, office=args.office)
+        summary = result.summary
+        pushed = f"pushed {result.pushed[:12]}" if result.pushed else "nothing to push"
+        print(f"fieldlog: sync: git branch {result.branch}: {pushed} "
+              f"(attempt {result.attempts})", file=sys.stderr)
+        if args.office:
+            print("fieldlog: sync: office copy: in the summary the 'site' is the branch and "
+                  "the 'target' is this folder", file=sys.stderr)
+    elif args.office:
+        raise SyncError("--office goes with a git target",
+                        fix="sync an office folder as the TARGET instead")
+    else:
+        target = Path(args.target)
+        summary = sync_site(site, target, options)
     sys.stdout.write(render_json(summary) if args.format == "json" else render_text(summary))
     if summary.has_problems:
         print(f"fieldlog: sync: {len(summary.conflicts)} conflicts, {len(summary.refused)} "

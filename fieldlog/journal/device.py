@@ -19,12 +19,12 @@ import re
 import secrets
 import socket
 import sys
-import tomllib
 from pathlib import Path
 
 import tomli_w
 
-from fieldlog.errors import JournalError
+from fieldlog.errors import JournalError, OutOfBounds, UnreadableToml
+from fieldlog.guarded_read import loads
 from fieldlog.journal.names import valid_device
 from fieldlog.journal.store import atomic_write, device_lock, read_bytes
 
@@ -48,14 +48,15 @@ def fieldlog_home() -> Path:
 
 def read_settings(home: Path) -> dict:
     """device.toml as a table (empty when it does not exist yet)."""
-    raw = read_bytes(home / DEVICE_FILE)
+    raw = read_bytes(home / DEVICE_FILE, "settings")
     if not raw:
         return {}
     try:
-        return tomllib.loads(raw.decode("utf-8-sig"))
-    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
-        raise JournalError(f"cannot read the device settings: {exc}", file=home / DEVICE_FILE,
-                           fix="delete the file; a new device id will be made") from exc
+        return loads(raw, "settings", DEVICE_FILE, bom=True)
+    except (OutOfBounds, UnreadableToml) as exc:
+        raise JournalError(f"cannot read the device settings: {exc.problem}",
+                           file=home / DEVICE_FILE, line=exc.line,
+                           fix="delete the file; a new device id will be made") from None
 
 
 def device_id(home: Path | None = None) -> str:
@@ -73,11 +74,18 @@ def device_id(home: Path | None = None) -> str:
     except OSError as exc:
         raise JournalError(f"cannot create fieldlog's data folder: {exc.strerror}", file=home,
                            fix=f"set {HOME_ENV} to a folder you can write") from exc
-    with device_lock(home, "device-settings"):
-        settings = read_settings(home)  # another process may have made it meanwhile
-        if "device" not in settings:
-            settings["device"] = new_device_id(socket.gethostname())
-            atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
+    try:
+        with device_lock(home, "device-settings"):
+            settings = read_settings(home)  # another process may have made it meanwhile
+            if "device" not in settings:
+                settings["device"] = new_device_id(socket.gethostname())
+                atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
+    except JournalError as exc:
+        if not isinstance(exc.__cause__, OSError):
+            raise
+        reason = exc.__cause__.strerror or str(exc.__cause__)
+        raise JournalError(f"cannot write fieldlog's data folder ({reason})", file=home,
+                           fix=f"set {HOME_ENV} to a folder you can write") from exc
     return _checked(settings["device"], home)
 
 

@@ -39,6 +39,7 @@ from datetime import date, datetime
 from types import MappingProxyType
 from typing import Any
 
+from fieldlog.bounds import MAX_DAYS, MAX_HEADCOUNT
 from fieldlog.journal.fields import FieldProblem, FieldSpec, coerce
 from fieldlog.readiness import READINESS_KINDS
 
@@ -73,6 +74,7 @@ KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType({
     "remaining": (
         _ACTIVITY,
         _f("days", "int", "working days still needed after this day", required=True, low=1,
+           high=MAX_DAYS,
            cli="positional"),
     ),
     "percent": (
@@ -93,8 +95,9 @@ KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType({
     "crew": (
         _f("trade", "text", "trade, e.g. concrete, steel fixers", required=True),
         _f("company", "text", "company (contractor or subcontractor)"),
-        _f("headcount", "int", "people on site", required=True, low=0, high=10000),
-        _f("hours", "float", "hours worked by the whole crew (person-hours)", low=0),
+        _f("headcount", "int", "people on site", required=True, low=0, high=MAX_HEADCOUNT),
+        _f("hours", "float", "hours worked by the whole crew (person-hours)", low=0,
+           high=MAX_HEADCOUNT * 24),
         _OPT_ACTIVITIES,
     ),
     "lost-time": (

@@ -9,13 +9,16 @@ and parsed here, so every caller gets the same message for the same mistake.
 from __future__ import annotations
 
 import re
+from collections.abc import Callable
 from dataclasses import dataclass
 from datetime import date, datetime
 from typing import Any
 
-_MAX_TEXT = 4000
+from fieldlog.bounds import MAX_COUNTER, check_date, check_text, shown
+from fieldlog.errors import OutOfBounds
+
 _ID_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,31}$")
-_ENTRY_ID_RE = re.compile(r"^[a-z0-9][a-z0-9-]{4,22}[a-z0-9]\.[1-9][0-9]{0,8}$")
+_ENTRY_ID_RE = re.compile(r"^[a-z0-9][a-z0-9-]{4,22}[a-z0-9]\.([1-9][0-9]{0,9})$")
 _NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9 ._-]{0,63}$")
 
 
@@ -63,13 +66,13 @@ def coerce(s: FieldSpec, value: Any) -> Any:
     if t in ("text", "activity", "entry"):
         if not isinstance(value, str) or not value.strip():
             raise FieldProblem(f"{s.name} must be text, not {value!r}")
-        text = value.strip()
-        if len(text) > _MAX_TEXT:
-            raise FieldProblem(f"{s.name} is longer than {_MAX_TEXT} characters")
+        text = _bounded(check_text, value.strip(), s.name)
         if t == "activity" and not _ID_RE.match(text):
-            raise FieldProblem(f"{s.name} '{text}' is not an activity id")
-        if t == "entry" and not _ENTRY_ID_RE.match(text):
-            raise FieldProblem(f"{s.name} '{text}' is not an entry id like site-laptop-1.42")
+            raise FieldProblem(f"{s.name} {shown(text)} is not an activity id")
+        entry_id = _ENTRY_ID_RE.match(text) if t == "entry" else None
+        if t == "entry" and (entry_id is None or int(entry_id[1]) > MAX_COUNTER):
+            raise FieldProblem(f"{s.name} {shown(text)} is not an entry id like "
+                               "site-laptop-1.42")
         if any(ord(c) < 32 and c not in "\n\t" for c in text):
             raise FieldProblem(f"{s.name} contains control characters")
         return text
@@ -77,35 +80,37 @@ def coerce(s: FieldSpec, value: Any) -> Any:
         if isinstance(value, str) and value.lower() in ("true", "yes", "1", "false", "no", "0"):
             return value.lower() in ("true", "yes", "1")
         if not isinstance(value, bool):
-            raise FieldProblem(f"{s.name} must be true or false, not {value!r}")
+            raise FieldProblem(f"{s.name} must be true or false, not {shown(value)}")
         return value
     if t in ("int", "float"):
         return _number(s, value)
     if t == "date":
         if isinstance(value, str):
             try:
-                value = date.fromisoformat(value.strip())
+                value = date.fromisoformat(value.strip()[:40])
             except ValueError:
-                raise FieldProblem(f"{s.name} '{value}' is not a date like 2026-09-18") from None
+                raise FieldProblem(f"{s.name} {shown(value)} is not a date like "
+                                   "2026-09-18") from None
         if isinstance(value, datetime) or not isinstance(value, date):
-            raise FieldProblem(f"{s.name} must be a date, not {value!r}")
-        return value
+            raise FieldProblem(f"{s.name} must be a date, not {shown(value)}")
+        return _bounded(check_date, value, s.name)
     if t == "choice":
-        if s.choices and value not in s.choices:
-            raise FieldProblem(f"{s.name} '{value}' is not one of: {', '.join(s.choices)}")
         if not isinstance(value, str):
-            raise FieldProblem(f"{s.name} must be text, not {value!r}")
+            raise FieldProblem(f"{s.name} must be text, not {shown(value)}")
+        if s.choices and value not in s.choices:
+            raise FieldProblem(f"{s.name} {shown(value)} is not one of: "
+                               f"{', '.join(s.choices)}")
         return value
     if t in ("ids", "names"):
         if isinstance(value, str):
             value = [v for v in (p.strip() for p in value.split(",")) if v]
         if not isinstance(value, list | tuple) or not all(isinstance(v, str) for v in value):
-            raise FieldProblem(f"{s.name} must be a list of names, not {value!r}")
+            raise FieldProblem(f"{s.name} must be a list of names, not {shown(value)}")
         items = [v.strip() for v in value]
         rx = _ID_RE if t == "ids" else _NAME_RE
         for v in items:
             if not rx.match(v):
-                raise FieldProblem(f"{s.name} has '{v}', which is not a valid "
+                raise FieldProblem(f"{s.name} has {shown(v)}, which is not a valid "
                                    f"{'activity id' if t == 'ids' else 'name'}")
         if len(set(items)) != len(items):
             raise FieldProblem(f"{s.name} lists the same name twice")
@@ -116,12 +121,12 @@ def coerce(s: FieldSpec, value: Any) -> Any:
 def _number(s: FieldSpec, value: Any) -> int | float:
     if isinstance(value, str):
         try:
-            value = int(value) if s.type == "int" else float(value)
+            value = int(value[:40]) if s.type == "int" else float(value[:40])
         except ValueError:
             what = "a whole number" if s.type == "int" else "a number"
-            raise FieldProblem(f"{s.name} '{value}' is not {what}") from None
+            raise FieldProblem(f"{s.name} {shown(value)} is not {what}") from None
     if isinstance(value, bool) or not isinstance(value, int | float):
-        raise FieldProblem(f"{s.name} must be a number, not {value!r}")
+        raise FieldProblem(f"{s.name} must be a number, not {shown(value)}")
     if s.type == "int":
         if isinstance(value, float):
             if not value.is_integer():
@@ -132,10 +137,18 @@ def _number(s: FieldSpec, value: Any) -> int | float:
         if value != value or value in (float("inf"), float("-inf")):
             raise FieldProblem(f"{s.name} must be a finite number")
     if s.low is not None and value < s.low:
-        raise FieldProblem(f"{s.name} {value} is below {_fmt(s.low)}")
+        raise FieldProblem(f"{s.name} {shown(value)} is below {_fmt(s.low)}")
     if s.high is not None and value > s.high:
-        raise FieldProblem(f"{s.name} {value} is above {_fmt(s.high)}")
+        raise FieldProblem(f"{s.name} {shown(value)} is above {_fmt(s.high)}")
     return value
+
+
+def _bounded(check: Callable[[Any, str], Any], value: Any, what: str) -> Any:
+    """A check from :mod:`fieldlog.bounds`, its refusal worded as this field's problem."""
+    try:
+        return check(value, what)
+    except OutOfBounds as exc:
+        raise FieldProblem(exc.problem) from None
 
 
 def _fmt(v: float) -> str:

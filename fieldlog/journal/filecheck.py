@@ -18,13 +18,14 @@ What a broken chain means, in the words a finding uses:
 from __future__ import annotations
 
 import re
-import tomllib
 from dataclasses import dataclass, field
 from datetime import date, datetime
 from types import MappingProxyType
 from typing import Any
 
-from fieldlog.errors import JournalError
+from fieldlog.bounds import MAX_COUNTER, check_date, check_text, shown
+from fieldlog.errors import JournalError, OutOfBounds, UnreadableToml
+from fieldlog.guarded_read import decode, loads
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.entries import (
     CHAIN_KEYS,
@@ -101,15 +102,10 @@ def check_bytes(name: str, data: bytes) -> FileCheck:
     except JournalError as exc:
         return FileCheck(name, (), (Finding(name, "", "bad name", exc.problem),))
     try:
-        text = data.decode("utf-8")
-        doc = tomllib.loads(text)
-    except UnicodeDecodeError as exc:
-        return FileCheck(name, (), (Finding(name, "", "not TOML",
-                                            f"not UTF-8 text (byte {exc.start})"),))
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"\(at line (\d+), column \d+\)", str(exc))
-        return FileCheck(name, (), (Finding(name, "", "not TOML", str(exc),
-                                            int(m[1]) if m else None),))
+        text = decode(data)
+        doc = loads(text, "journal", name)
+    except (OutOfBounds, UnreadableToml) as exc:
+        return FileCheck(name, (), (Finding(name, "", "not TOML", exc.problem, exc.line),))
     rows = doc.get("entry")
     if set(doc) - {"entry"} or not isinstance(rows, list) or not rows:
         return FileCheck(name, (), (Finding(name, "", "bad entry",
@@ -160,18 +156,24 @@ def _entry(name: str, position: int, row: Any) -> tuple[Entry | None, str]:
             return None, f"has no '{key}'"
     eid, seq, kind, day = row["id"], row["seq"], row["kind"], row["day"]
     written, author, device = row["written"], row["author"], row["device"]
-    if not isinstance(seq, int) or isinstance(seq, bool) or seq < 1:
-        return None, f"seq {seq!r} is not a positive whole number"
+    if not isinstance(seq, int) or isinstance(seq, bool) or not 1 <= seq <= MAX_COUNTER:
+        return None, f"seq {shown(seq)} is not a whole number from 1 to {MAX_COUNTER:,}"
     if not isinstance(device, str) or eid != f"{device}.{seq}":
-        return None, f"id {eid!r} is not <device>.<seq>"
-    if kind not in KINDS:
-        return None, f"unknown kind {kind!r}"
+        return None, f"id {shown(eid)} is not <device>.<seq>"
+    if not isinstance(kind, str) or kind not in KINDS:
+        return None, f"unknown kind {shown(kind)}"
     if not isinstance(day, date) or isinstance(day, datetime):
-        return None, f"day {day!r} is not a date"
+        return None, f"day {shown(day)} is not a date"
     if not isinstance(written, datetime) or written.utcoffset() is None:
-        return None, f"written {written!r} is not a time with its UTC offset"
+        return None, f"written {shown(written)} is not a time with its UTC offset"
     if not isinstance(author, str) or not author.strip():
         return None, "author is empty"
+    try:
+        check_date(day, "day")
+        check_date(written, "written")
+        check_text(author, "author")
+    except OutOfBounds as exc:
+        return None, exc.problem
     if not isinstance(row["prev"], str) or not (row["prev"] == "" or _HEX64.match(row["prev"])):
         return None, "prev is not a hash"
     if not isinstance(row["hash"], str) or not _HEX64.match(row["hash"]):

@@ -14,7 +14,8 @@ from dataclasses import dataclass, field
 from datetime import date
 from pathlib import Path
 
-from fieldlog.errors import JournalError
+from fieldlog.errors import JournalError, OutOfBounds
+from fieldlog.guarded_read import read_capped
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.filecheck import FileCheck, Finding, check_bytes
 from fieldlog.journal.names import LOG_DIR, is_working_file
@@ -79,6 +80,10 @@ def log_folder(folder: Path | str) -> Path:
 def scan(folder: Path | str) -> list[FileCheck]:
     """Check every file in the site's ``log/`` folder (fieldlog's working files excepted)."""
     log = log_folder(folder)
+    if log.is_symlink():  # never followed: it could lead anywhere on the machine
+        return [FileCheck("", (), (Finding("", "", "bad name", "log/ is a link to another "
+                                           "folder; replace the link with the log folder "
+                                           "itself, fieldlog never follows it"),))]
     if not log.exists():
         return []
     if not log.is_dir():
@@ -88,13 +93,18 @@ def scan(folder: Path | str) -> list[FileCheck]:
     for path in sorted(log.iterdir(), key=lambda p: p.name):
         if is_working_file(path.name):
             continue
-        if not path.is_file():
+        if path.is_symlink() or not path.is_file():
+            what = "a link" if path.is_symlink() else "a folder"
             checks.append(FileCheck(path.name, (), (Finding(
-                path.name, "", "bad name", "a folder inside log/; only journal files belong "
-                "there"),)))
+                path.name, "", "bad name", f"{what} inside log/; only journal files belong "
+                "there, and fieldlog never follows a link"),)))
             continue
         try:
-            data = path.read_bytes()
+            data = read_capped(path, "journal", follow_links=False)
+        except OutOfBounds as exc:
+            checks.append(FileCheck(path.name, (), (Finding(path.name, "", "not TOML",
+                                                            exc.problem),)))
+            continue
         except OSError as exc:
             raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc
         checks.append(checked(path.name, data))
@@ -170,10 +180,34 @@ def cross_file_findings(entries: Iterable[Entry]) -> list[Finding]:
                                f"the same id is also in {seqs[e.seq].file}"))
         seqs.setdefault(e.seq, e)
     for device, seqs in sorted(by_device.items()):
-        for n in range(1, max(seqs)):
-            if n not in seqs:
-                after = seqs[min(s for s in seqs if s > n)]
-                out.append(Finding("", f"{device}.{n}", "removed",
-                                   f"it is in no file, yet {after.id} (in {after.file}) was "
-                                   "written after it"))
+        out += _gaps(device, seqs)
+    return out
+
+
+GAP_NAMED = 10
+"""A gap of up to this many missing numbers names each; a longer one is one finding."""
+
+
+def _gaps(device: str, seqs: dict[int, Entry]) -> list[Finding]:
+    """Findings for the numbers missing from one device's sequence 1, 2, 3 ...
+
+    Runs over the numbers present (sorted), never over the range up to the highest: a
+    hostile entry numbered 10**9 costs one finding, not a billion loop turns.
+    """
+    out: list[Finding] = []
+    before = 0
+    for n in sorted(seqs):
+        missing = n - before - 1
+        if missing > 0:
+            after = seqs[n]
+            where = f"it is in no file, yet {after.id} (in {after.file}) was written after it"
+            if missing <= GAP_NAMED:
+                out += [Finding("", f"{device}.{k}", "removed", where)
+                        for k in range(before + 1, n)]
+            else:
+                out.append(Finding("", f"{device}.{before + 1}", "removed",
+                                   f"{missing:,} entries, {device}.{before + 1} to "
+                                   f"{device}.{n - 1}, are in no file, yet {after.id} (in "
+                                   f"{after.file}) was written after them"))
+        before = n
     return out

@@ -20,6 +20,8 @@ from typing import Any
 import tomli_w
 from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 
+from fieldlog.bounds import MAX_COUNTER
+from fieldlog.durable import make_folder
 from fieldlog.errors import EntryRefused, JournalError
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.device import device_id
@@ -109,14 +111,14 @@ def record_entry(
               if v is not None and not (isinstance(v, list | tuple) and not v)}
     if kind != "correction":
         day = day or today
-        check_day(day, today)
+        check_day(day, today, site.start)
         clean = _shape(kind, fields)
     device = device or device_id(home)
     author = check_author(author) if author is not None else _kept_author(home)
     key = key or device_key(home).private
     log = log_folder(folder)
     try:
-        log.mkdir(exist_ok=True)
+        make_folder(log)
     except OSError as exc:
         raise write_error(log, exc, "create the log folder") from exc
     with device_lock(log, device):
@@ -184,7 +186,7 @@ def _correction(site: Site, journal: Journal, day: date | None, fields: Mapping[
         raise refuse("a withdrawal carries no new values", fix="leave out --withdraw, or the "
                      "new values")
     day = day or target.day
-    check_day(day, today)
+    check_day(day, today, site.start)
     if not withdraw and not changes and day == target.day:
         raise refuse("nothing to correct",
                      fix="give the right day (--on DATE), new values (--set FIELD=VALUE) or "
@@ -208,7 +210,14 @@ def _next_seq(log: Path, journal: Journal, device: str) -> int:
     for name in damaged:
         if name.endswith(f"_{device}{SUFFIX}"):
             for m in _SEQ_RE.finditer(read_bytes(log / name)):
-                highest = max(highest, int(m[1]))
+                # A number longer than any allowed one counts as past the bound (and is
+                # never converted: Python refuses to convert 5,000-digit text anyway).
+                seq = int(m[1]) if len(m[1]) <= 10 else MAX_COUNTER + 1
+                highest = max(highest, seq)
+    if highest >= MAX_COUNTER:
+        raise JournalError(f"device {device} has used every entry number up to {highest:,}",
+                           file=log, fix="run 'fieldlog verify'; an entry numbered this high "
+                           "was not written by fieldlog")
     return highest + 1
 
 

@@ -14,7 +14,8 @@ from collections.abc import Mapping
 from datetime import date
 from typing import Any
 
-from fieldlog.errors import EntryRefused
+from fieldlog.bounds import check_date
+from fieldlog.errors import EntryRefused, OutOfBounds
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.replay import ActivityEntries, Replay
 from fieldlog.model import Site
@@ -25,11 +26,15 @@ def refuse(problem: str, *, activity: str | None = None, fix: str | None = None)
     return EntryRefused(problem, activity=activity, fix=fix)
 
 
-def check_day(day: date, today: date) -> None:
-    """A day in the future cannot have happened yet."""
+def check_day(day: date, today: date, site_start: date | None = None) -> None:
+    """A day in the future cannot have happened yet; nor one decades from the site's start."""
     if day > today:
         raise refuse(f"{day} is after today ({today})",
                      fix="record what happened on a day up to today")
+    try:
+        check_date(day, "the day", site_start)
+    except OutOfBounds as exc:
+        raise refuse(exc.problem, fix=exc.fix) from None
 
 
 def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any],

@@ -27,8 +27,17 @@ import time
 from collections.abc import Iterator
 from pathlib import Path
 
-from fieldlog.durable import flush_to_disk, fsync_folder, replace_with_retry, write_all
-from fieldlog.errors import JournalError
+from fieldlog.durable import (
+    NOFOLLOW,
+    flush_to_disk,
+    fsync_folder,
+    refuse_links,
+    replace_with_retry,
+    share_like_new_file,
+    write_all,
+)
+from fieldlog.errors import JournalError, OutOfBounds
+from fieldlog.guarded_read import read_capped
 from fieldlog.journal.names import TEMP_SUFFIX, lock_name, temp_prefix
 
 LOCK_TIMEOUT = 15.0
@@ -42,6 +51,7 @@ _REASONS = {
     errno.EACCES: "no permission to write there",
     errno.EPERM: "no permission to write there",
     errno.EIO: "the disk reported an input/output error",
+    errno.ELOOP: "it is a link, and fieldlog never writes through a link",
 }
 
 
@@ -53,6 +63,8 @@ def write_error(path: Path, exc: OSError, what: str = "write") -> JournalError:
         errno.EROFS: "check the stick or share is not write-protected, then try again",
         errno.EACCES: "check the folder's permissions, then try again",
         errno.EPERM: "check the folder's permissions, then try again",
+        errno.ELOOP: "replace the link with the real folder or file (it may have been planted "
+                     "to make fieldlog write elsewhere)",
     }.get(exc.errno or 0, "check the disk, then record the entry again")
     return JournalError(f"cannot {what}: {reason}; the log was left as it was",
                         file=path, fix=fix)
@@ -67,7 +79,8 @@ def device_lock(log_dir: Path, device: str, timeout: float = LOCK_TIMEOUT) -> It
     """
     path = log_dir / lock_name(device)
     try:
-        fd = os.open(path, os.O_RDWR | os.O_CREAT, 0o666)
+        refuse_links(log_dir)
+        fd = os.open(path, os.O_RDWR | os.O_CREAT | NOFOLLOW, 0o666)
     except OSError as exc:
         raise write_error(path, exc, "lock the log for writing") from exc
     try:
@@ -140,13 +153,14 @@ def atomic_write(path: Path, data: bytes) -> None:
     """
     folder = path.parent
     try:
+        refuse_links(folder, path)
         fd, tmp = tempfile.mkstemp(prefix=temp_prefix(path.name), suffix=TEMP_SUFFIX,
                                    dir=folder)
     except OSError as exc:
         raise write_error(path, exc) from exc
     try:
         try:
-            _share_like_new_file(fd)
+            share_like_new_file(fd)
             write_all(fd, data)
             flush_to_disk(fd)
         finally:
@@ -164,21 +178,20 @@ def atomic_write(path: Path, data: bytes) -> None:
         raise write_error(folder, exc, "make the write durable") from exc
 
 
-def _share_like_new_file(fd: int) -> None:
-    """Give the temp file the permissions a newly created file gets (mkstemp makes it
-    private), so a log on a shared folder stays readable by the office."""
-    if not hasattr(os, "fchmod"):
-        return
-    mask = os.umask(0o022)
-    os.umask(mask)
-    os.fchmod(fd, 0o666 & ~mask)
+def read_bytes(path: Path, kind: str = "journal") -> bytes:
+    """The bytes of ``path``, or ``b""`` when it does not exist yet.
 
+    A link is refused, never followed, and the file may be no larger than the cap for
+    ``kind`` (see :data:`fieldlog.bounds.FILE_CAPS`).
 
-def read_bytes(path: Path) -> bytes:
-    """The bytes of ``path``, or ``b""`` when it does not exist yet."""
+    Raises:
+        JournalError: the file is a link, too large, or cannot be read.
+    """
     try:
-        return path.read_bytes()
+        return read_capped(path, kind, follow_links=False)
     except FileNotFoundError:
         return b""
+    except OutOfBounds as exc:
+        raise JournalError(exc.problem, file=path, fix=exc.fix) from None
     except OSError as exc:
         raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc

@@ -23,6 +23,7 @@ from operator import attrgetter
 
 from fieldlog.lookahead.classify import Cell, PatternCache, Why, Window
 from fieldlog.lookahead.crew_load import CrewLoad, CrewWork, crew_loads
+from fieldlog.lookahead.fewest_people import FewestPeople, fewest_people
 from fieldlog.lookahead.levelling import Levelling, level
 from fieldlog.lookahead.reasons import ReasonWriter
 from fieldlog.progress import Status
@@ -113,6 +114,8 @@ class Lookahead:
     crews: tuple[CrewLoad, ...]
     levelling: Levelling | None
     """A suggestion when some crew is over its headcount on early dates, else None."""
+    fewest: FewestPeople | None = None
+    """The fewest people per crew over or near its headcount, and the starts to move."""
 
 
 def build_lookahead(
@@ -122,6 +125,7 @@ def build_lookahead(
     days: int = DEFAULT_DAYS,
     *,
     suggest_levelling: bool = True,
+    suggest_fewest: bool = True,
 ) -> Lookahead:
     """Classify every unfinished activity on each day of the window.
 
@@ -132,6 +136,7 @@ def build_lookahead(
         start: first day shown (default: the data date).
         days: number of calendar days shown (at least 1).
         suggest_levelling: look for a levelling suggestion when a crew is over its headcount.
+        suggest_fewest: find the fewest people for crews over or near their headcount.
 
     Returns:
         The lookahead, ready for the renderers.
@@ -200,11 +205,15 @@ def build_lookahead(
         levelling = level(result, window_days, over, {load.crew: load.early for load in loads},
                           rows)
         loads = tuple(_with_levelled(load, levelling.window_load) for load in loads)
+    fewest = None
+    if suggest_fewest:
+        fewest = fewest_people(result, window_days,
+                               {load.crew: max(load.early, default=0) for load in loads}, rows)
     return Lookahead(
         site=site.name, revision=site.revision, as_of=result.as_of, data_date=result.data_date,
         days=window_days, finish=result.finish, finish_by=site.finish_by,
         finish_float=result.finish_float, rows=tuple(rows), finished=tuple(finished),
-        crews=loads, levelling=levelling,
+        crews=loads, levelling=levelling, fewest=fewest,
     )
 
 

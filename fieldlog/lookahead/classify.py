@@ -1,7 +1,8 @@
 """Must, may or cannot: the class of one activity on each day of the lookahead window.
 
-The rule (DESIGN.md section 3) works on an activity's inclusive working dates on its own
-calendar: early start ES, early finish EF, late start LS, late finish LF. For a working day d:
+The rule (DEVELOPERS.md, Rules of the trade) works on an activity's inclusive working dates
+on its own calendar: early start ES, early finish EF, late start LS, late finish LF. For a
+working day d:
 
 * MUST when LS <= d <= EF: the activity runs on d in *every* schedule that keeps the links and
   meets the late dates, so if it is not running on d the job slips;

@@ -1,6 +1,6 @@
 """The lookahead as data: JSON for other tools, CSV for the office's spreadsheets.
 
-JSON (the contract in DESIGN.md section 4, extended, never broken)::
+JSON (the contract in DEVELOPERS.md, Contracts, extended, never broken)::
 
     {"from": "2026-03-09", "days": ["2026-03-09", ...],
      "activities": [{"id", "name", "cells": ["must" | "may" | "cannot" | "off", one per day],
@@ -24,12 +24,15 @@ from datetime import date
 
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.crew_load import CrewLoad
+from fieldlog.lookahead.fewest_people import CAUTION, FewestPeople
 from fieldlog.lookahead.levelling import Levelling
 
 CSV_COLUMNS = (
     "day", "id", "name", "cell", "reason", "total_float", "late", "not_ready", "early_start",
-    "late_finish",
+    "late_finish", "fewest_people_start",
 )
+"""``fewest_people_start`` (added last, so older readers keep working): the start day the
+fewest-people plan gives the activity when it moves it, else empty."""
 
 
 def _iso(d: date | None) -> str | None:
@@ -78,6 +81,26 @@ def levelling_json(lev: Levelling | None) -> dict | None:
     }
 
 
+def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | None:
+    """The fewest-people plan as JSON (None when no crew is over or near its headcount)."""
+    if fewest is None:
+        return None
+    return {
+        "method": fewest.method, "finish": _iso(fewest.finish), "nodes": fewest.nodes,
+        "budget": fewest.budget, "caution": CAUTION,
+        "crews": [{"crew": a.crew, "available": a.available, "early_peak": a.early_peak,
+                   "people": a.peak, "optimal": a.optimal, "lower_bound": a.bound.people,
+                   "bound_reason": a.bound.reason, "bound_from": _iso(days[a.bound.first]),
+                   "bound_to": _iso(days[a.bound.last]),
+                   "bound_person_days": a.bound.person_days,
+                   "bound_work_days": a.bound.work_days, "load": list(a.load)}
+                  for a in fewest.crews],
+        "moves": [{"id": m.activity, "name": m.name, "early_start": _iso(m.early_start),
+                   "start": _iso(m.start), "finish": _iso(m.finish),
+                   "float_used": m.float_used, "crew": dict(m.crew)} for m in fewest.moves],
+    }
+
+
 def lookahead_json(la: Lookahead) -> dict:
     """The ``fieldlog lookahead --format json`` document."""
     return {
@@ -91,6 +114,7 @@ def lookahead_json(la: Lookahead) -> dict:
                       "actual_finish": _iso(f.actual_finish)} for f in la.finished],
         "crews": [crew_json(load, la.days) for load in la.crews],
         "levelling": levelling_json(la.levelling),
+        "fewest_people": fewest_json(la.fewest, la.days),
     }
 
 
@@ -122,13 +146,15 @@ def render_csv(la: Lookahead) -> str:
     w = csv.writer(buf, lineterminator="\n")
     w.writerow(CSV_COLUMNS)
     days = [d.isoformat() for d in la.days]
+    moved = {m.activity: m.start.isoformat() for m in la.fewest.moves} if la.fewest else {}
     for row in la.rows:
         late = "true" if row.late else "false"  # as in the schedule CSV
         not_ready = "; ".join(row.not_ready)
         es, lf = row.early_start.isoformat(), row.late_finish.isoformat()
         reasons = row.reasons
+        start = moved.get(row.id, "")
         w.writerows(
             (day, row.id, row.name, cell.value, reasons[k] if k is not None else "",
-             row.total_float, late, not_ready, es, lf)
+             row.total_float, late, not_ready, es, lf, start)
             for day, cell, k in zip(days, row.cells, row.why, strict=True))
     return buf.getvalue()

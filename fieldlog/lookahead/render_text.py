@@ -20,6 +20,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from fieldlog.lookahead import fewest_text
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
 from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
@@ -123,7 +124,8 @@ class _Sheet:
         grid = [[self._row(row)] for row in shown] or [
             ["  Nothing must or may run in this window."]]
         grid += self._crew_blocks()
-        text = self._levelling() + self._to_chase() + self._why(shown) + self._finished()
+        text = (self._levelling() + self._fewest() + self._to_chase() + self._why(shown)
+                + self._finished())
         hidden = len(self.la.rows) - len(shown)
         if hidden:
             text.append([""] + self._wrap(
@@ -262,10 +264,13 @@ class _Sheet:
             return []
         title = self.t("Crew load, people per day (! more than the crew has)")
         blocks = [["", fit(title, self.lay.width)]]
+        fewest = {a.crew: a.load for a in self.la.fewest.crews} if self.la.fewest else {}
         for load in loads:
             rows = [("must", load.must), ("most", load.most), ("early", load.early)]
             if load.levelled is not None and load.levelled != load.early:
                 rows.append(("levelled", load.levelled))
+            if load.crew in fewest and fewest[load.crew] != load.early:
+                rows.append(("fewest", fewest[load.crew]))
             block = []
             for k, (label, values) in enumerate(rows):
                 name = self.t(f"{load.crew} (has {load.available})") if k == 0 else ""
@@ -309,6 +314,15 @@ class _Sheet:
             block += self._wrap(
                 f"MUST work alone needs more people than {', '.join(must_over)} "
                 "has on some days: add people or expect a slip.", "  ", "  ")
+        return [block]
+
+    def _fewest(self) -> list[list[str]]:
+        fewest = self.la.fewest
+        if fewest is None:
+            return []
+        block = ["", *self._wrap(fewest_text.title(fewest))]
+        for sentence in fewest_text.lines(fewest, self.la.days):
+            block += self._wrap(sentence, "    ", "  ")
         return [block]
 
     def _to_chase(self) -> list[list[str]]:

@@ -12,12 +12,13 @@ schedule that was in force at the time.
 from __future__ import annotations
 
 import os
-import tomllib
 from dataclasses import dataclass, field
 from enum import StrEnum
 from pathlib import Path
 
-from fieldlog.errors import JournalError, SiteError
+from fieldlog.durable import make_folder
+from fieldlog.errors import FieldlogError, JournalError, SiteError, SyncError
+from fieldlog.guarded_read import loads, read_capped
 from fieldlog.model import Site
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, build_site, read_toml
 from fieldlog.sync.orphans import orphaned_entries, removed_activities
@@ -184,7 +185,12 @@ def _keep_old(site_folder: Path, revision: int) -> str:
     old = (site_folder / SCHEDULE_FILE).read_bytes()
     digest = sha256_bytes(old)
     history = site_folder / HISTORY_DIR
-    history.mkdir(exist_ok=True)
+    try:
+        make_folder(history)
+    except OSError as exc:
+        raise SyncError(f"cannot use {HISTORY_DIR}/: {exc.strerror}", file=history,
+                        fix="replace a link there with a real folder; check the site folder "
+                        "is writable") from exc
     for name in (f"schedule.r{revision}.toml", f"schedule.r{revision}.{digest[:8]}.toml"):
         dest = history / name
         if not os.path.lexists(dest):
@@ -209,9 +215,8 @@ def schedule_revision(folder: Path) -> int | None:
     that cannot even be parsed simply shows no revision here.
     """
     try:
-        with (folder / SCHEDULE_FILE).open("rb") as f:
-            raw = f.read()
-        value = tomllib.loads(raw.decode("utf-8-sig")).get("revision")
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+        raw = read_capped(folder / SCHEDULE_FILE, SCHEDULE_FILE)
+        value = loads(raw, SCHEDULE_FILE, SCHEDULE_FILE, bom=True).get("revision")
+    except (OSError, FieldlogError):
         return None
     return value if isinstance(value, int) and not isinstance(value, bool) else None

@@ -13,6 +13,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from types import MappingProxyType
 
+from fieldlog.bounds import FILE_CAPS
 from fieldlog.sync.names import is_ignored, portable_name_problem
 from fieldlog.sync.transfer import sha256_file
 
@@ -21,8 +22,9 @@ CONFLICTS_DIR = "conflicts"
 """Beside ``log/`` (not in it: ``log/`` holds journal files only): copies kept aside when two
 versions of a journal file disagree."""
 
-MAX_FILE_BYTES = 5 * 1024 * 1024
-"""No real day's journal from one device comes near 5 MB; a bigger file is refused."""
+MAX_FILE_BYTES = FILE_CAPS["journal"]
+"""No real day's journal from one device comes near 5 MB; a bigger file is refused (the one
+cap for journal files, in :mod:`fieldlog.bounds`)."""
 
 
 @dataclass(frozen=True)

@@ -9,14 +9,14 @@ to do must leave both folders byte for byte as they were. The app reads it to sa
 from __future__ import annotations
 
 import hashlib
-import tomllib
 from dataclasses import dataclass
 from datetime import datetime
 from pathlib import Path
 
 import tomli_w
 
-from fieldlog.errors import SyncError
+from fieldlog.errors import FieldlogError, SyncError
+from fieldlog.guarded_read import loads, read_capped
 from fieldlog.journal.device import fieldlog_home
 from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.summary import SyncSummary
@@ -40,8 +40,12 @@ class SyncRecord:
     """The site's schedule revision after the sync."""
 
     @classmethod
-    def of(cls, site: Path, target: Path, summary: SyncSummary, when: datetime) -> SyncRecord:
-        """The record of a finished sync (``fieldlog sync`` and the app both save this)."""
+    def of(cls, site: Path, target: Path | str, summary: SyncSummary,
+           when: datetime) -> SyncRecord:
+        """The record of a finished sync (``fieldlog sync`` and the app both save this).
+
+        ``target`` is a folder, or the text of a git target (kept as given).
+        """
         change = summary.revision
         revision = change.site_revision
         if change.status is RevisionStatus.BROUGHT_IN:
@@ -49,7 +53,8 @@ class SyncRecord:
             assert change.target_revision is not None
             revision = change.target_revision
         return cls(
-            site=str(site.resolve()), target=str(target.resolve()), when=when,
+            site=str(site.resolve()),
+            target=str(target.resolve()) if isinstance(target, Path) else target, when=when,
             sent=len(summary.sent), received=len(summary.received),
             conflicts=len(summary.conflicts), refused=len(summary.refused),
             revision=revision,
@@ -85,12 +90,12 @@ def last_sync(site_folder: Path, home: Path | None = None) -> SyncRecord | None:
     if not path.exists():
         return None
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
+        data = loads(read_capped(path, "settings"), "settings", path.name)
         return SyncRecord(
             site=data["site"], target=data["target"], when=data["when"], sent=data["sent"],
             received=data["received"], conflicts=data["conflicts"], refused=data["refused"],
             revision=data["revision"],
         )
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError, KeyError) as exc:
+    except (OSError, FieldlogError, KeyError) as exc:
         raise SyncError(f"the last-sync record cannot be read ({exc})", file=path,
                         fix="delete this file; the next sync writes a new one") from exc

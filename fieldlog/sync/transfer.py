@@ -142,6 +142,9 @@ def write_atomic(dest: Path, data: bytes) -> None:
     Raises:
         SyncError: the folder could not be written or the bytes did not read back identically.
     """
+    if dest.is_symlink() or dest.parent.is_symlink():
+        raise SyncError("this or its folder is a link; fieldlog never writes through one",
+                        file=dest, fix="replace the link with the real file or folder")
     tmp = write_temp(dest.parent, data, sha256_bytes(data))
     try:
         replace(tmp, dest)

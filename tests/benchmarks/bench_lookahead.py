@@ -85,12 +85,17 @@ def mid_job_progress(site: Site, status) -> dict[str, Progress]:
     return progress
 
 
-def main(argv: list[str]) -> None:
-    n = int(argv[1]) if len(argv) > 1 else 10_000
+def mid_job(n: int):
+    """The crewed site of ``n`` activities stood 90 days in: site, status, progress, result."""
     site = crewed_site(n)
     status = START + timedelta(days=90)
     progress = mid_job_progress(site, status)
-    result = compute_schedule(site, status, progress)
+    return site, status, progress, compute_schedule(site, status, progress)
+
+
+def main(argv: list[str]) -> None:
+    n = int(argv[1]) if len(argv) > 1 else 10_000
+    site, status, progress, result = mid_job(n)
     la = build_lookahead(result)
     open_rows = len(la.rows)
     running = sum(1 for r in result.activities if r.status is Status.IN_PROGRESS)

@@ -6,7 +6,8 @@ grid reads the same on a monochrome screen; the legend sits under the grid and t
 it explains the selected cell in words ("waiting on ...", "3 days of float").
 
 ``,`` and ``.`` move the window a week; ``p`` writes the printable sheet (and prints it when a
-printer is set up).
+printer is set up); ``f`` shows the fewest-people plan as it would be
+(:mod:`fieldlog.app.screens.fewest`).
 """
 
 from __future__ import annotations
@@ -23,6 +24,7 @@ from textual.widgets import DataTable, Static
 
 from fieldlog.app.printing import deliver_sheet
 from fieldlog.app.screens.base import ViewScreen, bindings
+from fieldlog.app.screens.fewest import FewestScreen
 from fieldlog.app.session import LOOKAHEAD_DAYS, Snapshot
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import ActivityRow, Cell, Lookahead, build_lookahead
@@ -190,6 +192,11 @@ class LookaheadScreen(ViewScreen):
         """Show every unfinished activity, or only those with something to do."""
         self.show_all = not self.show_all
         self.paint(self.fieldlog.snapshot)
+
+    def action_fewest(self) -> None:
+        """Open the fewest-people plan of the window shown."""
+        if self.look is not None:
+            self.app.push_screen(FewestScreen(self.look))
 
     def action_print_sheet(self) -> None:
         """Write the printable sheet, then print it if a printer is set up."""

@@ -1,0 +1,166 @@
+"""Every limit fieldlog puts on a value or a file, in one place.
+
+A site folder arrives from other people: the office's schedule, a stick from another laptop, a
+file somebody edited by hand. One absurd number must not hang the site (a duration of a
+billion days makes the calendars allocate by the billion; an entry number of a billion made
+the journal's gap check loop a billion times). So every value a person or a file can give is
+bounded here, and site_schema, the journal's fields and reader, sync and the command line all
+call these functions: the same mistake gets the same message wherever it is made.
+
+The limits are far beyond any real job and far below what would hurt:
+
+=================== ======================= =================================================
+what                limit                   why this number
+=================== ======================= =================================================
+any date            1900-01-01..2199-12-31  calendars are built day by day between dates
+date on a site      within 50 years of the  a typo in the year (2062 for 2026) is caught
+                    site start
+durations, lags,    3,650 working days      about 14 years of working days
+remaining days
+headcounts          100,000 people          the largest sites hold a few tens of thousands
+revision, entry     below 2**31             fits every 32-bit counter an office tool uses
+numbers
+text                4,000 characters        a long note is a few hundred
+=================== ======================= =================================================
+
+File size caps (checked before a byte is read) and the nesting cap are in
+:data:`FILE_CAPS` and :data:`MAX_NESTING`; :mod:`fieldlog.guarded_read` applies them.
+
+A refusal is an :class:`~fieldlog.errors.OutOfBounds` that says what and the fix; the caller
+adds where (file, line, activity, entry) and turns it into its own error or finding.
+"""
+
+from __future__ import annotations
+
+from datetime import date, datetime
+
+from fieldlog.errors import OutOfBounds
+
+EARLIEST_DATE = date(1900, 1, 1)
+LATEST_DATE = date(2199, 12, 31)
+SITE_SPAN_YEARS = 50
+"""A date on a site may lie at most this many years before or after the site start."""
+MAX_DAYS = 3650
+"""Durations, lags (either sign) and remaining days, in working days."""
+MAX_HEADCOUNT = 100_000
+MAX_COUNTER = 2**31 - 1
+"""Largest revision or entry number (``seq``) accepted."""
+MAX_TEXT = 4000
+"""Longest name, note or other text, in characters."""
+MAX_NESTING = 32
+"""Deepest nesting of arrays, inline tables and dotted keys accepted in a TOML file."""
+
+KIB, MIB = 1024, 1024 * 1024
+FILE_CAPS = {
+    "site.toml": 1 * MIB,
+    "schedule.toml": 64 * MIB,
+    "journal": 5 * MIB,
+    "settings": 64 * KIB,
+}
+"""Largest file accepted, by kind. schedule.toml: a 200,000-activity schedule is about 25 MB.
+journal: one device's day file; no real day comes near (a full day of entries is a few KB).
+settings: device.toml and the last-sync records in fieldlog's own data folder."""
+
+
+def check_date(value: date, what: str, site_start: date | None = None) -> date:
+    """``value`` if it lies in the calendar fieldlog handles (and near ``site_start``).
+
+    Raises:
+        OutOfBounds: before 1900, after 2199, or more than 50 years from the site start.
+    """
+    day = value.date() if isinstance(value, datetime) else value
+    if not EARLIEST_DATE <= day <= LATEST_DATE:
+        raise OutOfBounds(f"{what} {day.isoformat()} is outside {EARLIEST_DATE.isoformat()} to "
+                          f"{LATEST_DATE.isoformat()}", fix="check the year")
+    if site_start is not None:
+        low, high = _years_from(site_start, -SITE_SPAN_YEARS), _years_from(site_start,
+                                                                           SITE_SPAN_YEARS)
+        if not low <= day <= high:
+            raise OutOfBounds(
+                f"{what} {day.isoformat()} is more than {SITE_SPAN_YEARS} years from the site "
+                f"start {site_start.isoformat()}", fix="check the year")
+    return value
+
+
+def _years_from(day: date, years: int) -> date:
+    """``day`` moved by whole years (29 February becomes 28 February), kept in range."""
+    year = min(max(day.year + years, date.min.year), date.max.year)
+    return day.replace(year=year, day=min(day.day, 28) if day.month == 2 else day.day)
+
+
+def check_days(value: int, what: str, *, low: int = 0) -> int:
+    """A count of working days (duration, remaining days: ``low`` 0 or 1; lag: ``low`` -3650).
+
+    Raises:
+        OutOfBounds: below ``low`` or above 3,650.
+    """
+    if value > MAX_DAYS or value < low:
+        bound = f"from {low} to {MAX_DAYS}" if low >= 0 else f"from -{MAX_DAYS} to {MAX_DAYS}"
+        raise OutOfBounds(f"{what} {value} is not {bound} working days",
+                          fix="check the number; it counts working days")
+    return value
+
+
+def check_headcount(value: int, what: str) -> int:
+    """A number of people, 0 to 100,000.
+
+    Raises:
+        OutOfBounds: negative or above 100,000.
+    """
+    if not 0 <= value <= MAX_HEADCOUNT:
+        raise OutOfBounds(f"{what} {value} is not 0 to {MAX_HEADCOUNT:,} people",
+                          fix="check the number of people")
+    return value
+
+
+def check_counter(value: int, what: str, *, low: int = 0) -> int:
+    """A revision or entry number: ``low`` up to 2**31 - 1.
+
+    Raises:
+        OutOfBounds: outside that range.
+    """
+    if not low <= value <= MAX_COUNTER:
+        raise OutOfBounds(f"{what} {shown(value)} is not {low} to {MAX_COUNTER:,}",
+                          fix="check the number")
+    return value
+
+
+def check_text(value: str, what: str) -> str:
+    """Text of at most 4,000 characters.
+
+    Raises:
+        OutOfBounds: longer than that.
+    """
+    if len(value) > MAX_TEXT:
+        raise OutOfBounds(f"{what} is {len(value):,} characters, more than {MAX_TEXT:,}",
+                          fix="shorten it")
+    return value
+
+
+def check_size(size: int, kind: str, what: str) -> None:
+    """Refuse a file of ``size`` bytes larger than the cap for ``kind`` (see FILE_CAPS).
+
+    Raises:
+        OutOfBounds: the file is bigger than the cap.
+    """
+    cap = FILE_CAPS[kind]
+    if size > cap:
+        raise OutOfBounds(f"{what} is {_megabytes(size)}, more than the {_megabytes(cap)} "
+                          "fieldlog reads", fix="this is not a file fieldlog wrote or expects; "
+                          "check where it came from and replace it with a good copy")
+
+
+def _megabytes(n: int) -> str:
+    return f"{n / MIB:.1f} MB" if n >= MIB else f"{n / KIB:.0f} KB"
+
+
+def shown(value: object, width: int = 40) -> str:
+    """``repr(value)`` cut to ``width`` characters, for a one-line message about any value.
+
+    Only scalars are ever printed whole: a list or table from a hostile file could be
+    megabytes long, or nested deep enough to make ``repr`` itself fail.
+    """
+    if isinstance(value, list | tuple | dict | set):
+        return f"a {type(value).__name__} of {len(value)} items"
+    text = repr(value) if not isinstance(value, int) or abs(value) < 10**30 else "a huge number"
+    return text if len(text) <= width else text[: width - 3] + "..."
