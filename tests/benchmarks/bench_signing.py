@@ -38,7 +38,7 @@ from fieldlog.journal.chain import entry_hash  # noqa: E402
 from fieldlog.journal.keys import public_hex, save_author  # noqa: E402
 from fieldlog.journal.reader import forget_checks  # noqa: E402
 from fieldlog.journal.registry import DeviceRecord, register  # noqa: E402
-from fieldlog.journal.signing import sign, signature_ok  # noqa: E402
+from fieldlog.journal.signing import forget_signatures, sign  # noqa: E402
 from fieldlog.journal.store import atomic_write  # noqa: E402
 from fieldlog.site_files import load_site  # noqa: E402
 from tests.test_journal_helpers import make_site  # noqa: E402
@@ -119,7 +119,7 @@ def build_log(folder: Path, days: int, per_day: int, signed: bool) -> int:
 
 def timed_verify(folder: Path) -> tuple[float, int]:
     forget_checks()
-    signature_ok.cache_clear()
+    forget_signatures()
     t = time.perf_counter()
     found = verify(folder)
     took = time.perf_counter() - t
