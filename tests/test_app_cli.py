@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import subprocess
 import sys
+import time
 from datetime import date
 from pathlib import Path
 
@@ -15,6 +16,7 @@ import pytest
 
 from fieldlog.cli import main
 from fieldlog.commands import demo
+from fieldlog.commands.open import plain_wanted
 from tests.test_app_site import fix_device, log, write_site
 
 
@@ -60,7 +62,7 @@ def test_demo_runs_on_a_scratch_copy_and_says_so(
         monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture, keep: bool) -> None:
     seen = {}
 
-    def fake_open(folder: str, today: date, notice: str = "") -> int:
+    def fake_open(folder: str, today: date, notice: str = "", *, plain: bool = False) -> int:
         seen.update(folder=Path(folder), today=today, notice=notice,
                     copied=(Path(folder) / "site.toml").is_file())
         (Path(folder) / "log").mkdir(exist_ok=True)  # the app writes in the copy only
@@ -82,3 +84,32 @@ def test_demo_runs_on_a_scratch_copy_and_says_so(
         import shutil
 
         shutil.rmtree(seen["folder"].parent)
+
+
+def test_open_without_a_terminal_refuses_at_once(tmp_path: Path) -> None:
+    """Output to a file (a cron job, ``> out.txt``): one line on stderr, exit 2, no spinning."""
+    folder = write_site(tmp_path / "site")
+    started = time.monotonic()
+    done = subprocess.run([sys.executable, "-m", "fieldlog", "open", str(folder), "--today",
+                           "2026-03-03"], stdin=subprocess.DEVNULL, capture_output=True,
+                          text=True, timeout=30)
+    assert time.monotonic() - started < 30
+    assert done.returncode == 2
+    assert done.stdout == ""
+    assert done.stderr.count("\n") == 1 and "needs a terminal" in done.stderr
+    assert "\x1b[" not in done.stderr  # the terminal was never taken over
+
+
+@pytest.mark.parametrize(("env", "asked", "plain"), [
+    ({}, False, False),
+    ({"TERM": "xterm-256color"}, False, False),
+    ({"TERM": "xterm-256color"}, True, True),        # --ascii
+    ({"TERM": "xterm-256color", "NO_COLOR": "1"}, False, True),  # no-color.org
+    ({"TERM": "xterm", "NO_COLOR": ""}, False, False),  # empty means unset (no-color.org)
+    ({"TERM": "dumb"}, False, True),
+    ({"TERM": "vt100"}, False, True),
+    ({"TERM": "xterm-mono"}, False, True),           # terminfo's monochrome variant
+])
+def test_plain_mode_is_chosen_by_flag_no_color_or_term(
+        env: dict[str, str], asked: bool, plain: bool) -> None:
+    assert plain_wanted(env, asked) is plain

@@ -26,6 +26,7 @@ import io
 import itertools
 import json
 from datetime import date
+from unittest import mock
 
 import pytest
 from hypothesis import HealthCheck, assume, given, settings
@@ -35,6 +36,7 @@ from test_lookahead_oracle import OracleCalendar, Placement, act, link_holds, ma
 
 from fieldlog.cpm import compute_schedule
 from fieldlog.lookahead import build_lookahead
+from fieldlog.lookahead import fewest_people as fewest_module
 from fieldlog.lookahead.fewest_bounds import lower_bound
 from fieldlog.lookahead.fewest_people import fewest_people, near_headcount
 from fieldlog.lookahead.fewest_problem import build_problem
@@ -283,3 +285,19 @@ def test_an_answer_cut_short_prints_its_bound_beside_it() -> None:
 def test_crews_over_or_near_their_headcount_are_asked_about(available, peak, asked) -> None:
     """Near means within a tenth of the headcount, at least one person (our own rule)."""
     assert near_headcount(available, peak) is asked
+
+
+@settings(max_examples=60, deadline=None, derandomize=True,
+          suppress_health_check=[HealthCheck.too_slow])
+@given(small_sites(durations=WORK_AND_MILESTONES))
+def test_repair_search_plans_keep_every_link(case) -> None:
+    """With the quick branch and bound switched off, every try goes through the repair
+    search first: its plans too are checked by the oracle (links, late finishes, forecast
+    finish, recounted load)."""
+    site, progress, days = case
+    result = compute_schedule(site, SUN, progress)
+    with mock.patch.object(fewest_module, "QUICK_NODES", 0):
+        la = build_lookahead(result, days=days, suggest_levelling=False)
+    if la.fewest is None:
+        return
+    _check_plan(site, result, la, {n: OracleCalendar(spec) for n, spec in site.calendars.items()})

@@ -15,12 +15,13 @@ that finishes late can never paint over a newer one.
 from __future__ import annotations
 
 import importlib
-from collections.abc import Callable, Mapping
+from collections.abc import Callable, Mapping, Sequence
 from datetime import date, timedelta
 from pathlib import Path
 from typing import Any, ClassVar
 
 from textual.app import App
+from textual.filter import LineFilter, Monochrome
 from textual.screen import Screen
 from textual.timer import Timer
 from textual.worker import get_current_worker
@@ -28,6 +29,7 @@ from textual.worker import get_current_worker
 from fieldlog.app.commands import FieldlogCommands
 from fieldlog.app.forms import Form
 from fieldlog.app.history_rows import summarize
+from fieldlog.app.plain import AsciiMarks
 from fieldlog.app.recording import record
 from fieldlog.app.screens.author import author_screen
 from fieldlog.app.screens.base import ViewScreen
@@ -61,6 +63,8 @@ class FieldlogApp(App[None]):
     Args:
         session: the site, loaded (see :func:`make_app`).
         notice: the first line of the status line (``fieldlog demo`` says which day it opened).
+        plain: plain mode for a terminal without colour: ASCII marks, no colour at all, so
+            nothing can depend on colour (``--ascii``, ``NO_COLOR``, ``TERM=dumb``).
     """
 
     CSS_PATH = "app.tcss"
@@ -76,8 +80,11 @@ class FieldlogApp(App[None]):
     the printing and sync code they pull in) load the first time they are shown."""
     COMMANDS = App.COMMANDS | {FieldlogCommands}
 
-    def __init__(self, session: SiteSession, *, notice: str = "") -> None:
+    def __init__(self, session: SiteSession, *, notice: str = "", plain: bool = False) -> None:
         super().__init__()
+        self.plain = plain
+        self.set_class(plain, "-plain")
+        self._plain_filters: tuple[LineFilter, ...] = (AsciiMarks(), Monochrome())
         if session.latest is None:
             session.load()
         assert session.latest is not None
@@ -97,6 +104,13 @@ class FieldlogApp(App[None]):
             return
         if needs_name:
             self.push_screen(author_screen())
+
+    def get_line_filters(self) -> Sequence[LineFilter]:
+        """Plain mode: ASCII marks, and black and white whatever the terminal claims."""
+        filters = list(super().get_line_filters())
+        if self.plain:
+            filters.extend(self._plain_filters)
+        return filters
 
     # -- status line ----------------------------------------------------------------------------
 
@@ -279,7 +293,8 @@ def finish_change(old: Snapshot, new: Snapshot) -> str:
 
 
 def make_app(site_folder: Path | str, today: date, *, session: SiteSession | None = None,
-             notice: str = "", machine_today: date | None = None) -> FieldlogApp:
+             notice: str = "", machine_today: date | None = None,
+             plain: bool = False) -> FieldlogApp:
     """The app for ``site_folder`` as of the end of ``today``; shared by the CLI and the tests.
 
     Args:
@@ -290,6 +305,7 @@ def make_app(site_folder: Path | str, today: date, *, session: SiteSession | Non
         notice: first status line.
         machine_today: this computer's date; ``today`` may not be later. Default: read
             here, at the app's edge (the one place the app reads the clock).
+        plain: plain mode (see :class:`FieldlogApp`).
 
     Raises:
         FieldlogError: the site cannot be loaded (only when no session is given).
@@ -299,4 +315,4 @@ def make_app(site_folder: Path | str, today: date, *, session: SiteSession | Non
     if session is None:
         session = SiteSession(site_folder, today)
         session.load()
-    return FieldlogApp(session, notice=notice)
+    return FieldlogApp(session, notice=notice, plain=plain)

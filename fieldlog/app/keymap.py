@@ -54,6 +54,9 @@ class Key:
     """How the key is written in the help overlay and footer, when not the key name itself."""
     bound: bool = True
     """False for keys the widgets already handle (arrows, tab); listed in help only."""
+    priority: bool = False
+    """Run by the app before the key reaches the focused widget: for a key that moves the
+    focus, so that the keys typed right after it go to the new place (see ``float.search``)."""
 
     @property
     def area(self) -> str:
@@ -135,7 +138,7 @@ KEYS: tuple[Key, ...] = (
     Key("float.fortnight", "t", "filter('fortnight')", "2 weeks",
         "only activities that may run in the next two weeks"),
     Key("float.search", "slash", "search", "Search",
-        "find activities by id or name", display="/"),
+        "find activities by id or name", display="/", priority=True),
     Key("float.driver", "g", "goto_driver", "Go to driver",
         "move to the driving predecessor of the selected activity"),
     Key("float.clear", "escape", "clear_search", "Clear search",
@@ -146,8 +149,11 @@ KEYS: tuple[Key, ...] = (
     Key("journal.verify", "v", "verify", "Check",
         "check the log files for entries altered or removed outside fieldlog"),
     # -- sync -------------------------------------------------------------------------------------
-    Key("sync.run", "s", "sync", "Sync now",
-        "send the field log to the office folder and bring new schedule revisions back"),
+    Key("sync.run", "s,enter", "sync", "Sync now",
+        "send the field log to the office folder and bring new schedule revisions back "
+        "(in the folder box, letters type and Enter syncs)"),
+    Key("sync.leave", "escape", "leave_folder", "Leave box",
+        "leave the folder box, so the view keys 1-5 work again", display="Esc", show=False),
     # -- moving around (handled by the widgets; listed for the help overlay) ---------------------
     Key("moving.rows", "up,down", "", "", "move between rows",
         display="Up/Down", bound=False),

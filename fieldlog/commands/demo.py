@@ -31,6 +31,8 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
                    help="keep the scratch copy when the app closes (its folder is printed)")
     p.add_argument("--today", type=iso_date, metavar="DATE",
                    help="open on this day instead of the day after the sample's last log day")
+    p.add_argument("--ascii", action="store_true",
+                   help="plain ASCII marks and no colour (see fieldlog open --ascii)")
     p.set_defaults(run=run)
 
 
@@ -94,7 +96,7 @@ def run(args: argparse.Namespace) -> int:
         # (the status line cuts this at the screen edge; the day comes first for that reason)
         print(f"fieldlog demo: scratch copy of the sample site at {folder}", file=sys.stderr)
         print(f"fieldlog demo: opening on {day:%a %d %b %Y}, {why}", file=sys.stderr)
-        code = open_site(str(folder), day, notice=notice)
+        code = open_site(str(folder), day, notice=notice, plain=args.ascii)
     finally:
         if args.keep:
             print(f"fieldlog demo: the scratch copy is kept at {scratch}", file=sys.stderr)

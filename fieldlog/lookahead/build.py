@@ -117,6 +117,12 @@ class Lookahead:
     fewest: FewestPeople | None = None
     """The fewest people per crew over or near its headcount, and the starts to move."""
 
+    @property
+    def rows_with_work(self) -> tuple[ActivityRow, ...]:
+        """The rows with a MUST or MAY day in the window: what the printed sheet lists and
+        what the app shows by default. One rule, here, so the screen and the paper agree."""
+        return tuple(row for row in self.rows if row.active)
+
 
 def build_lookahead(
     result: ScheduleResult,

@@ -11,9 +11,11 @@ How the answer is found and how sure it is:
 
 * a proven **lower bound** first (:mod:`fieldlog.lookahead.fewest_bounds`: must work per day,
   and work that must fall inside an interval over the days in it);
-* then **branch and bound** (:mod:`fieldlog.lookahead.fewest_search`) from the early-start
-  plan: ask for one person fewer than the best plan so far until the search proves that no plan
-  has that few, or the best plan meets the bound. Either way the answer is **optimal**. If the
+* then ask for one person fewer than the best plan so far (from the early-start plan): a quick
+  **branch and bound** (:mod:`fieldlog.lookahead.fewest_search`), then the **repair search**
+  (:mod:`fieldlog.lookahead.fewest_repair`) that slides starts off the busiest day, then the
+  branch and bound with the rest of the budget, until the search proves that no plan has that
+  few, or the best plan meets the bound. Either way the answer is **optimal**. If the
   node budget runs out first, the best plan found is given with the bound beside it ("8
   people; no plan needs fewer than 7");
 * **several crews** are settled one after another, the most over first: each is as small as it
@@ -35,6 +37,7 @@ from datetime import date
 
 from fieldlog.lookahead.fewest_bounds import LowerBound, lower_bound
 from fieldlog.lookahead.fewest_problem import Problem, build_problem
+from fieldlog.lookahead.fewest_repair import repair
 from fieldlog.lookahead.fewest_search import Outcome, find_plan
 from fieldlog.lookahead.levelling import Move
 from fieldlog.lookahead.positions import Network
@@ -44,6 +47,12 @@ METHOD = "branch and bound with must-work and energy lower bounds"
 NODE_BUDGET = 20_000
 """Starts the search may try over all crews of one lookahead; about a second at most on a
 10,000-activity site (tests/benchmarks/bench_fewest.py)."""
+
+QUICK_NODES = 500
+"""Starts the first, quick branch and bound of each try may take."""
+REPAIR_STEPS = 2_000
+"""Starts the repair search may weigh per try before the branch and bound takes over (or a
+quarter of what is left, if more)."""
 
 CAUTION = (
     "A smaller crew is a suggestion, not a safe staffing level: the people needed for safe "
@@ -122,17 +131,16 @@ def fewest_people(result: ScheduleResult, days: Sequence[date], early_peaks: Map
         bound = lower_bound(problem, crew)
         peak = max(loads_of(problem, plan)[crew], default=0)
         optimal = peak <= bound.people
-        while not optimal:
-            search = find_plan(problem, {**caps, crew: peak - 1}, left)
-            left -= search.nodes
-            if search.outcome is Outcome.FOUND:
-                assert search.starts is not None
-                plan = search.starts
+        while not optimal and left > 0:
+            target = {**caps, crew: peak - 1}
+            found, proven_none, used = _try(problem, target, plan, left)
+            left -= used
+            if found is not None:
+                plan = found
                 peak = max(loads_of(problem, plan)[crew], default=0)
                 optimal = peak <= bound.people
-            elif search.outcome is Outcome.NONE:
-                optimal = True
             else:
+                optimal = proven_none
                 break
         caps[crew] = peak
         answers.append((crew, early[crew], peak, bound, optimal))
@@ -142,6 +150,28 @@ def fewest_people(result: ScheduleResult, days: Sequence[date], early_peaks: Map
         tuple(CrewAnswer(c, available[c], e, p, b, o, tuple(final[c]))
               for c, e, p, b, o in answers),
         _moves(problem, plan), budget - left, budget, result.finish)
+
+
+def _try(problem: Problem, caps: Mapping[str, int], plan: tuple[int, ...],
+         left: int) -> tuple[tuple[int, ...] | None, bool, int]:
+    """One probe at ``caps``: a quick branch and bound (easy cases end here), then the repair
+    search from ``plan``, then the branch and bound with all that is left.
+
+    Returns the plan found (or None), whether none can exist, and the starts used.
+    """
+    used = 0
+    quick = find_plan(problem, caps, min(left, QUICK_NODES))
+    used += quick.nodes
+    if quick.outcome is not Outcome.BUDGET:
+        return quick.starts, quick.outcome is Outcome.NONE, used
+    repaired, weighed = repair(problem, caps, plan, min(left - used,
+                                                        max(REPAIR_STEPS, left // 4)))
+    used += weighed
+    if repaired is not None:
+        return repaired, False, used
+    full = find_plan(problem, caps, left - used)
+    used += full.nodes
+    return full.starts, full.outcome is Outcome.NONE, used
 
 
 def loads_of(problem: Problem, plan: Sequence[int]) -> dict[str, list[int]]:

@@ -120,7 +120,7 @@ class _Sheet:
     # -- whole sheet --------------------------------------------------------------------------
 
     def render(self) -> str:
-        shown = [row for row in self.la.rows if row.active]
+        shown = list(self.la.rows_with_work)
         grid = [[self._row(row)] for row in shown] or [
             ["  Nothing must or may run in this window."]]
         grid += self._crew_blocks()

@@ -21,6 +21,7 @@ from fieldlog.app.float_filter import FILTERS, driver_text, filtered
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.screens.today import flag
 from fieldlog.app.session import Snapshot
+from fieldlog.app.widgets.exact_input import ExactInput
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
 from fieldlog.progress import Status
 from fieldlog.schedule_result import ActivityResult
@@ -95,8 +96,8 @@ class FloatScreen(ViewScreen):
     def compose_body(self) -> Iterable[Widget]:
         """Filter line, search box (hidden until ``/``), list, driver line."""
         yield Static(id="float-head", classes="view-head")
-        search = Input(placeholder="id or name, Enter to keep, Esc to clear", id="float-search",
-                       compact=True)
+        search = ExactInput(placeholder="id or name, Enter to keep, Esc to clear",
+                            id="float-search", compact=True, select_on_focus=False)
         search.display = False
         yield search
         yield RowList(id="float-table")
@@ -156,10 +157,22 @@ class FloatScreen(ViewScreen):
         self.paint(self.fieldlog.snapshot)
 
     def action_search(self) -> None:
-        """Open the search box."""
+        """Open the search box and give it the keys at once.
+
+        Keys reach the list through its own queue, so a quick typist's first letters after
+        ``/`` used to be queued for the list before the box had the focus (and ran the list's
+        filter keys). ``/`` is therefore a priority key, run by the app in typing order, and
+        the focus moves before the app hands on the next key. In the box itself ``/`` types
+        (:meth:`check_action`).
+        """
         search = self.query_one("#float-search", Input)
         search.display = True
-        search.focus()
+        self.set_focus(search)
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        """While the search box has the cursor, ``/`` is a character to type, not a key."""
+        return not (action == "search"
+                    and self.focused is self.query_one("#float-search", Input))
 
     @on(Input.Changed, "#float-search")
     def _typed(self, event: Input.Changed) -> None:

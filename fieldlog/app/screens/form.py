@@ -29,6 +29,7 @@ from fieldlog.app.forms import (
     initial_text,
     read_form,
 )
+from fieldlog.app.widgets.exact_input import ExactInput
 
 
 def yes_no(value: bool) -> str:
@@ -95,8 +96,8 @@ class FormScreen(ModalScreen[dict[str, Any] | None]):
             )
         input_type = _INPUT_TYPE.get(f.kind, "text")
         placeholder = f.placeholder or ("YYYY-MM-DD" if f.kind == DAY else "")
-        return Input(initial_text(f), placeholder=placeholder, type=input_type, id=wid,
-                     compact=True, select_on_focus=False)
+        return ExactInput(initial_text(f), placeholder=placeholder, type=input_type, id=wid,
+                          compact=True, select_on_focus=False)
 
     def on_mount(self) -> None:
         """Cursor steady (stable snapshots, calmer on a tablet) and focus on the first field."""

@@ -18,6 +18,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Static
 
 from fieldlog.app.keymap import AREAS, KEYS, VIEWS
+from fieldlog.app.widgets.row_list import CURSOR_MARK, PLAIN_CURSOR_MARK
 
 CAUTION = (
     "A schedule is a plan, not a permit. Excavation, lifting, concrete, work at height and "
@@ -36,8 +37,11 @@ QUICK_START = (
 """The three steps of a shift, shown first."""
 
 
-MARKS = ("Marks in the lists: !! late (negative float)  * critical  > driving path  "
-         "\u25b6 selected row. Tmrw: what tomorrow asks (MUST / may / cannot / off).")
+def marks(cursor: str) -> str:
+    """The marks of the lists, with the selected row's mark as this screen draws it."""
+    return ("Marks in the lists: !! late (negative float)  * critical  > driving path  "
+            f"{cursor.strip()} selected row. Tmrw: what tomorrow asks (MUST / may / cannot / "
+            "off).")
 
 
 def quick_start() -> Table:
@@ -84,7 +88,9 @@ class HelpScreen(ModalScreen[None]):
                 yield Static(quick_start(), id="help-quick")
                 yield Static(Text(CAUTION), id="help-caution")
                 views = "  ".join(f"{n} {name}" for n, name in enumerate(VIEWS.values(), 1))
-                yield Static(Text(f"Views: {views}  (click a tab too)\n{MARKS}"), id="help-views")
+                cursor = PLAIN_CURSOR_MARK if self.app.has_class("-plain") else CURSOR_MARK
+                yield Static(Text(f"Views: {views}  (click a tab too)\n{marks(cursor)}"),
+                             id="help-views")
                 yield Static(key_table(), id="help-keys")
 
     def action_close(self) -> None:

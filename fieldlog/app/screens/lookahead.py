@@ -29,14 +29,19 @@ from fieldlog.app.session import LOOKAHEAD_DAYS, Snapshot
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import ActivityRow, Cell, Lookahead, build_lookahead
 from fieldlog.lookahead.crew_load import CrewLoad
-from fieldlog.lookahead.render_text import UNICODE as SHEET
+from fieldlog.lookahead.render_text import ASCII, UNICODE, Glyphs
 
-GLYPHS: Mapping[Cell, str] = {
-    Cell.MUST: SHEET.must * 2, Cell.MAY: SHEET.may * 2, Cell.CANNOT: SHEET.cannot * 2,
-    Cell.OFF: "  ",
-}
-"""Two characters per day cell, the printed sheet's own marks: each class has its own shape
-(solid, shaded, dotted, blank), so no colour is needed."""
+
+def glyphs(sheet: Glyphs) -> Mapping[Cell, str]:
+    """Two characters per day cell, the printed sheet's own marks: each class has its own
+    shape (solid, shaded, dotted, blank), so no colour is needed."""
+    return {Cell.MUST: sheet.must * 2, Cell.MAY: sheet.may * 2, Cell.CANNOT: sheet.cannot * 2,
+            Cell.OFF: "  "}
+
+
+GLYPHS = glyphs(UNICODE)
+PLAIN_GLYPHS = glyphs(ASCII)
+"""Plain mode: the ``--ascii`` sheet's marks (``#``, ``:``, ``.``)."""
 
 CELL_WORDS: Mapping[Cell, str] = {
     Cell.MUST: "MUST run", Cell.MAY: "may run", Cell.CANNOT: "cannot run",
@@ -48,9 +53,13 @@ CELL_STYLES: Mapping[Cell, str] = {
 }
 """Colour helps where there is colour; the glyphs carry the meaning without it."""
 
-LEGEND = (f"{GLYPHS[Cell.MUST]} MUST  {GLYPHS[Cell.MAY]} may  {GLYPHS[Cell.CANNOT]} cannot  "
-          "blank: no work day  !! late  ?? not ready  !? both")
-"""Fits 80 columns, so the whole legend is on screen at the smallest size."""
+def legend(marks: Mapping[Cell, str]) -> str:
+    """Fits 80 columns, so the whole legend is on screen at the smallest size."""
+    return (f"{marks[Cell.MUST]} MUST  {marks[Cell.MAY]} may  {marks[Cell.CANNOT]} cannot  "
+            "blank: no work day  !! late  ?? not ready  !? both")
+
+
+LEGEND = legend(GLYPHS)
 
 CREW_PREFIX = "crew:"
 
@@ -94,8 +103,13 @@ class LookaheadScreen(ViewScreen):
         table: DataTable[Text] = DataTable(id="look-table", cursor_type="cell", cell_padding=0,
                                            header_height=2, fixed_columns=3)
         yield table
-        yield Static(Text(LEGEND), id="look-legend")
+        yield Static(Text(legend(self.marks)), id="look-legend")
         yield Static(id="look-why", classes="detail-line")
+
+    @property
+    def marks(self) -> Mapping[Cell, str]:
+        """The day-cell marks: the sheet's blocks, or its ASCII marks in plain mode."""
+        return PLAIN_GLYPHS if self.fieldlog.plain else GLYPHS
 
     def is_stale(self, snap: Snapshot) -> bool:
         """Stale only once the new snapshot's full lookahead is there (step 2)."""
@@ -124,11 +138,11 @@ class LookaheadScreen(ViewScreen):
         for d in look.days:
             table.add_column(Text(f" {d:%a}"[:3] + f"\n{d.day:>3}"), key=d.isoformat(), width=3)
         table.add_column(Text("  TF"), key="tf", width=5)
-        self.shown = [r for r in look.rows if self.show_all or r.active or r.late or r.not_ready]
+        self.shown = list(look.rows if self.show_all else look.rows_with_work)
         for r in self.shown:
             table.add_row(
                 Text(f"{row_flag(r):<3}"), Text(r.id), Text(r.name[: name_width - 1]),
-                *(_cell(c) for c in r.cells), Text(f"{r.total_float:>4}"), key=r.id)
+                *(_cell(c, self.marks) for c in r.cells), Text(f"{r.total_float:>4}"), key=r.id)
         for load in look.crews:
             if not any(load.most):
                 continue
@@ -215,8 +229,8 @@ class LookaheadScreen(ViewScreen):
         self.app.call_from_thread(self.fieldlog.set_status, words)
 
 
-def _cell(c: Cell) -> Text:
-    return Text(" " + GLYPHS[c], style=CELL_STYLES[c])
+def _cell(c: Cell, marks: Mapping[Cell, str]) -> Text:
+    return Text(" " + marks[c], style=CELL_STYLES[c])
 
 
 def _crew_words(load: CrewLoad, look: Lookahead, k: int) -> str:

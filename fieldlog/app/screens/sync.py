@@ -1,5 +1,10 @@
 """Sync: the office folder, the last sync, conflicts, and a key to sync now.
 
+Keys and words agree wherever the focus is, because the line above the folder says what the
+next key does: while the folder box has the cursor, letters type into it and Enter syncs; on
+the panel below it, ``s`` or Enter syncs and Tab goes back to the folder. The box has the
+cursor when no folder is known yet (the first thing to do is type it), the panel otherwise.
+
 The office folder is typed once (a network share, a USB stick, a cloud-synced folder) and
 remembered through the last-sync record kept in this device's data folder, the same record
 ``fieldlog sync`` writes. A sync runs in a worker thread with its progress in the status line;
@@ -15,7 +20,7 @@ from pathlib import Path
 from typing import ClassVar
 
 from rich.text import Text
-from textual import on, work
+from textual import events, on, work
 from textual.binding import BindingType
 from textual.containers import Horizontal, VerticalScroll
 from textual.widget import Widget
@@ -23,6 +28,7 @@ from textual.widgets import Input, Label, Static
 
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
+from fieldlog.app.widgets.exact_input import ExactInput
 from fieldlog.errors import FieldlogError
 from fieldlog.sync import SyncOptions, SyncSummary, list_conflicts, sync_site
 from fieldlog.sync.state import SyncRecord, last_sync, save_record
@@ -32,7 +38,7 @@ from fieldlog.sync.summary import render_text
 def last_sync_words(record: SyncRecord | None) -> str:
     """The last sync in one line."""
     if record is None:
-        return "Never synced from this device: type the office folder and press s"
+        return "Never synced from this device"
     return (f"Last sync {record.when:%a %d %b %Y %H:%M} with {record.target}: sent "
             f"{record.sent}, received {record.received}, conflicts {record.conflicts}, refused "
             f"{record.refused}; schedule revision {record.revision}")
@@ -48,10 +54,11 @@ class SyncScreen(ViewScreen):
     def compose_body(self) -> Iterable[Widget]:
         """Last sync, target folder, summary of the last run, open conflicts."""
         yield Static(id="sync-last")
+        yield Static(id="sync-hint", classes="view-head")
         with Horizontal(id="sync-target-row"):
             yield Label("Office folder ", id="sync-target-label")
-            yield Input(placeholder="e.g. /media/stick/kestrel-yard", id="sync-target",
-                        compact=True)
+            yield ExactInput(placeholder="e.g. /media/stick/kestrel-yard", id="sync-target",
+                             compact=True)
         with VerticalScroll(id="sync-panel"):
             yield Static(id="sync-summary")
             yield Static(id="sync-conflicts")
@@ -61,6 +68,27 @@ class SyncScreen(ViewScreen):
         target = self.query_one("#sync-target", Input)
         target.cursor_blink = False
         super().on_mount()
+        if not target.value:
+            target.focus()  # nothing to sync with yet: the first thing to do is type it
+        self.show_hint()
+
+    def on_descendant_focus(self, event: events.DescendantFocus) -> None:
+        """The focus moved: say what the keys do now."""
+        self.show_hint()
+
+    def show_hint(self) -> None:
+        """One line saying what the next key does, for where the focus is now."""
+        target = self.query_one("#sync-target", Input)
+        folder = target.value.strip()
+        if self.focused is target:
+            words = ("Type the office folder, then press Enter to sync" if not folder else
+                     "Edit the office folder if needed, then press Enter to sync")
+            words += " · Esc leaves the box"
+        elif folder:
+            words = f"Press s or Enter to sync with {folder} · Tab moves to the folder"
+        else:
+            words = "Press Tab, type the office folder, then press Enter to sync"
+        self.query_one("#sync-hint", Static).update(Text(words))
 
     def paint(self, snap: Snapshot) -> None:
         """Last sync, and the conflicts waiting in the site folder."""
@@ -89,11 +117,15 @@ class SyncScreen(ViewScreen):
         event.stop()
         self.action_sync()
 
+    def action_leave_folder(self) -> None:
+        """Leave the folder box for the panel (the view keys work there)."""
+        self.query_one("#sync-panel").focus()
+
     def action_sync(self) -> None:
         """Sync with the office folder typed above."""
         raw = self.query_one("#sync-target", Input).value.strip()
         if not raw:
-            self.say("Type the office folder first (Tab moves to it)", problem=True)
+            self.say("Type the office folder first, then press Enter", problem=True)
             self.query_one("#sync-target", Input).focus()
             return
         self.fieldlog.set_status(f"Syncing with {raw}")
@@ -124,6 +156,9 @@ class SyncScreen(ViewScreen):
 
     def _synced(self, summary: SyncSummary, problem: str) -> None:
         self.query_one("#sync-summary", Static).update(Text(render_text(summary)))
+        # The folder is known now: the panel takes the keys again, so the view keys (1-5)
+        # switch views instead of typing into the folder, and s or Enter syncs again.
+        self.query_one("#sync-panel").focus()
         words = "Sync done: look at the summary" if summary.has_problems else "Sync done"
         self.fieldlog.set_status(words + problem, problem=summary.has_problems or bool(problem))
         self.painted_version = 0  # last sync and conflicts changed: repaint on the next snapshot

@@ -258,8 +258,9 @@ class TodayScreen(ViewScreen):
 def day_text(snap: Snapshot) -> Text:
     """The day panel: what is recorded for today, then the readiness items to chase."""
     today = snap.today
-    day_entries = [e for e in snap.state.replay.effective
-                   if e.day == today and e.kind not in PROGRESS_KINDS]
+    recorded = [e for e in snap.state.replay.effective if e.day == today]
+    day_entries = [e for e in recorded if e.kind not in PROGRESS_KINDS]
+    progress = len(recorded) - len(day_entries)
     text = Text()
     text.append(f"Recorded for {today:%a %d %b}", style="bold")
     kinds = {e.kind for e in day_entries}
@@ -268,7 +269,12 @@ def day_text(snap: Snapshot) -> Text:
     if missing:
         text.append(f"  · not yet: {', '.join(missing)}")
     text.append("\n")
-    if not day_entries:
+    if progress:
+        # Progress shows in the list above, but "nothing yet" under it would read as if the
+        # day's record were empty: say how much of it is there.
+        text.append(f"  {progress} progress entr{'y' if progress == 1 else 'ies'} "
+                    "(started, finished, days left, percent): see the list above\n")
+    if not recorded:
         text.append("  nothing yet for the day\n")
     for e in day_entries:
         text.append(f"  {summarize(e)}\n")

@@ -34,6 +34,9 @@ GUTTER = 2
 CURSOR_MARK = "\u25b6 "
 """The selected row's mark (a right-pointing triangle), as wide as the gutter."""
 
+PLAIN_CURSOR_MARK = "->"
+"""The mark in plain mode (ASCII only, as wide as the gutter)."""
+
 
 @dataclass(frozen=True)
 class Column:
@@ -258,7 +261,8 @@ class RowList(ScrollView, can_focus=True):
             line = lay_out(self.columns, self._cells[index])
             self._lines[index] = line
         if index == self.cursor:
-            return self._strip(Text(CURSOR_MARK) + line, self.get_component_rich_style(
+            mark = PLAIN_CURSOR_MARK if self.app.has_class("-plain") else CURSOR_MARK
+            return self._strip(Text(mark) + line, self.get_component_rich_style(
                 "row-list--cursor"), x, width)
         return self._strip(Text(" " * GUTTER) + line, Style(), x, width)
 

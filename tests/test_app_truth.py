@@ -1,0 +1,140 @@
+"""The views say what is true and keep what was typed: one Pilot test per finding.
+
+Each test drives the real app on the small site of ``test_app_site`` at 80x24, the size of a
+tablet's terminal, the way a tired foreman would: quick bursts of keys, pasted text, no mouse.
+"""
+
+from __future__ import annotations
+
+from datetime import date
+from pathlib import Path
+
+import pytest
+from textual import events
+from textual.widgets import DataTable, Input
+
+from fieldlog.app.app import make_app
+from fieldlog.journal import read_journal
+from tests.test_app_site import log, screen_text, settle
+from tests.test_app_today import started_site
+
+TUE = date(2026, 3, 3)
+
+
+@pytest.fixture
+def site(tmp_path: Path) -> Path:
+    """The test site, EXC-010 started on Monday (the app opens on Tuesday)."""
+    return started_site(tmp_path)
+
+
+def burst(app, *keys: tuple[str, str]) -> None:  # noqa: ANN001 - the app under test
+    """Keys arriving together, as a terminal hands over a fast typist's keys: all are queued
+    before the first is handled (``Pilot.press`` waits for the app between keys)."""
+    for name, character in keys:
+        app.post_message(events.Key(name, character))
+
+
+async def test_day_panel_counts_progress_recorded_today(site: Path):
+    log(site, "finished", TUE, {"activity": "EXC-010"}, today=TUE)
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)):
+        day = str(app.screen.query_one("#day-record").render())
+    assert "nothing yet" not in day
+    assert "1 progress entry" in day
+
+
+async def test_no_key_typed_after_slash_is_lost(site: Path):
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("3")
+        await settle(app, pilot)
+        # "con" holds two of the list's filter keys (c critical, n near critical).
+        burst(app, ("slash", "/"), ("c", "c"), ("o", "o"), ("n", "n"), ("slash", "/"))
+        await pilot.pause()
+        await pilot.pause()
+        search = app.screen.query_one("#float-search", Input)
+        assert search.value == "con/"
+        assert app.screen.kind == "all"  # no filter key ran
+
+
+FAMILY = "\U0001f468\u200d\U0001f469\u200d\U0001f467"  # man ZWJ woman ZWJ girl
+FLAG = "\U0001f3f4\U000e0067\U000e0062\U000e0073\U000e0063\U000e0074\U000e007f"  # tag flag
+WORKER = "\U0001f477\u200d\u2640\ufe0f"  # construction worker ZWJ female sign VS16
+
+
+async def test_text_typed_and_pasted_is_recorded_exactly(site: Path):
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("n")
+        await pilot.pause()
+        field = app.screen.query_one("#field-text", Input)
+        field.focus()
+        await pilot.pause()
+        typed = "lift ok " + WORKER + " " + FAMILY + " "
+        burst(app, *((ch, ch) for ch in typed))
+        await pilot.pause()
+        app.screen.query_one("#field-text", Input).post_message(events.Paste(FLAG + "\nline 2"))
+        await pilot.pause()
+        await pilot.press("ctrl+s")
+        await settle(app, pilot)
+    notes = [e for e in read_journal(site).entries if e.kind == "note"]
+    assert [e.fields["text"] for e in notes] == [typed + FLAG + " / line 2"]
+
+
+async def test_sync_view_words_match_its_keys(site: Path, tmp_path: Path):
+    office = tmp_path / "office stick"
+    office.mkdir()
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("5")
+        await pilot.pause()
+        assert "Type the office folder, then press Enter to sync" in screen_text(app)
+        await pilot.press(*str(office))  # the path has an s in it: it must type, not sync
+        assert app.screen.query_one("#sync-target", Input).value == str(office)
+        assert not (office / "log").exists()
+        await pilot.press("enter")
+        await settle(app, pilot)
+        assert "Last sync" in screen_text(app)
+        assert (office / "log").is_dir()
+
+        await pilot.press("1", "5")  # the panel has the keys after a sync: view keys work
+        await pilot.pause()
+        hint = str(app.screen.query_one("#sync-hint").render())
+        assert hint.startswith(f"Press s or Enter to sync with {office}")
+        await pilot.press("s")
+        await settle(app, pilot)
+        assert app.screen.query_one("#sync-target", Input).value == str(office)
+        assert "Sync done" in screen_text(app)
+
+
+async def test_two_weeks_shows_the_printed_sheets_rows(sample_site: Path):
+    from fieldlog.commands.demo import demo_day
+
+    day, _ = demo_day(sample_site)
+    app = make_app(sample_site, day)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("2")
+        await settle(app, pilot)
+        look = app.snapshot.lookahead
+        assert look is not None
+        table = app.screen.query_one("#look-table", DataTable)
+        crews = sum(1 for load in look.crews if any(load.most))
+        shown = [r.id for r in app.screen.shown]
+        assert shown == [r.id for r in look.rows_with_work]
+        assert table.row_count == len(shown) + crews
+        assert len(look.rows) > len(shown)
+        await pilot.press("a")
+        assert len(app.screen.shown) == len(look.rows)
+
+
+async def test_plain_mode_draws_ascii_only(site: Path):
+    app = make_app(site, TUE, plain=True)
+    async with app.run_test(size=(80, 24)) as pilot:
+        for view in ("1", "2", "3", "4", "5", "question_mark"):
+            await pilot.press(view)
+            await settle(app, pilot)
+            text = screen_text(app)
+            assert text.isascii(), {ch for ch in text if not ch.isascii()}
+        await pilot.press("escape", "escape", "2")  # close help, leave the folder box
+        await pilot.pause()
+        assert "## MUST  :: may  .. cannot" in screen_text(app)
