@@ -162,3 +162,15 @@ def test_a_bad_key_file_makes_its_devices_entries_forged(capsys, sample_site: Pa
     out = capsys.readouterr().out
     assert "devices/tablet-2.toml: bad key file: not TOML" in out
     assert "entry tablet-2.1: forged: signed, but device tablet-2 has no registered key" in out
+
+
+def test_a_linked_devices_folder_is_never_trusted(capsys, sample_site: Path, tmp_path):
+    from fieldlog.cli import main
+
+    elsewhere = tmp_path / "elsewhere"
+    (sample_site / "devices").rename(elsewhere)
+    (sample_site / "devices").symlink_to(elsewhere, target_is_directory=True)
+    assert main(["verify", str(sample_site)]) == 1
+    out = capsys.readouterr().out
+    assert "devices: bad key file: the devices folder is a link" in out
+    assert "entry site-laptop-1.1: forged" in out

@@ -19,7 +19,6 @@ Files in the data folder:
 from __future__ import annotations
 
 import contextlib
-import errno
 import os
 from dataclasses import dataclass
 from pathlib import Path
@@ -31,15 +30,13 @@ from cryptography.hazmat.primitives.asymmetric.ed25519 import (
     Ed25519PublicKey,
 )
 
-from fieldlog.durable import flush_to_disk, write_all
+from fieldlog.durable import PERMISSION_UNSUPPORTED, flush_to_disk, write_all
 from fieldlog.errors import EntryRefused, JournalError
 from fieldlog.journal.device import DEVICE_FILE, HOME_ENV, fieldlog_home, read_settings
 from fieldlog.journal.store import atomic_write, device_lock
 
 KEY_FILE = "device-key.pem"
 MAX_AUTHOR = 80
-_NO_CHMOD = frozenset({errno.ENOSYS, errno.EPERM, errno.ENOTSUP, errno.EINVAL})
-"""What chmod gives on a file system without Unix permissions (FAT via FUSE: ENOSYS)."""
 
 
 _WARNINGS: list[str] = []
@@ -199,7 +196,7 @@ def _owner_only(fd: int, path: Path) -> str | None:
     try:
         os.fchmod(fd, 0o600)
     except OSError as exc:
-        if exc.errno not in _NO_CHMOD:
+        if exc.errno not in PERMISSION_UNSUPPORTED:  # FAT via FUSE: ENOSYS
             raise
         return (f"{path}: this file system cannot make the signing key owner-only "
                 f"({exc.strerror}); keep the data folder on a private disk")

@@ -31,6 +31,7 @@ from types import MappingProxyType
 
 import tomli_w
 
+from fieldlog.durable import make_folder
 from fieldlog.errors import JournalError
 from fieldlog.journal.filecheck import Finding
 from fieldlog.journal.keys import check_author
@@ -146,6 +147,9 @@ def read_registry(site_folder: Path | str) -> Registry:
         JournalError: the devices folder cannot be read at all (permissions).
     """
     folder = devices_folder(site_folder)
+    if folder.is_symlink():  # keys from wherever a link points are no keys at all
+        return Registry(findings=(Finding("", "", "bad key file", "the devices folder is a "
+                                          "link; links are never followed", folder=DEVICES_DIR),))
     if not folder.is_dir():
         return Registry()
     records: dict[str, DeviceRecord] = {}
@@ -195,7 +199,7 @@ def register(site_folder: Path, record: DeviceRecord) -> DeviceRecord:
                 "own data folder (FIELDLOG_HOME) so it gets a new id and key")
         return found
     try:
-        folder.mkdir(exist_ok=True)
+        make_folder(folder)
     except OSError as exc:
         raise JournalError(f"cannot create the devices folder: {exc.strerror}",
                            file=folder) from exc
