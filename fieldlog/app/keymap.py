@@ -20,6 +20,7 @@ AREAS: dict[str, str] = {
     "float": "Float",
     "journal": "Journal",
     "sync": "Office sync",
+    "forecast": "History (how the forecast moved)",
     "moving": "Moving around",
 }
 """Area id -> heading in the help overlay, in the order shown."""
@@ -30,6 +31,7 @@ VIEWS: dict[str, str] = {
     "float": "Float",
     "journal": "Journal",
     "sync": "Sync",
+    "forecast": "History",
 }
 """View (screen mode) id -> short name used in the view strip and palette."""
 
@@ -83,6 +85,9 @@ KEYS: tuple[Key, ...] = (
         "show the journal, newest first, and correct an entry", show=False),
     Key("views.sync", "5", "view('sync')", "Sync",
         "show the office sync status and sync now", show=False),
+    Key("views.forecast", "6", "view('forecast')", "History",
+        "show how the forecast finish moved day by day, why, and plan reliability per week",
+        show=False),
     Key("views.help", "question_mark,f1", "help", "Help",
         "list every key (this overlay)", display="?"),
     Key("views.reload", "f5", "reload", "Reload",
@@ -153,7 +158,12 @@ KEYS: tuple[Key, ...] = (
         "send the field log to the office folder and bring new schedule revisions back "
         "(in the folder box, letters type and Enter syncs)"),
     Key("sync.leave", "escape", "leave_folder", "Leave box",
-        "leave the folder box, so the view keys 1-5 work again", display="Esc", show=False),
+        "leave the folder box, so the view keys 1-6 work again", display="Esc", show=False),
+    # -- forecast history ---------------------------------------------------------------------
+    Key("forecast.day", "d", "group('day')", "By day", "one line per logged day"),
+    Key("forecast.week", "w", "group('week')", "By week",
+        "one line per week (Monday to Sunday)"),
+    Key("forecast.month", "m", "group('month')", "By month", "one line per month"),
     # -- moving around (handled by the widgets; listed for the help overlay) ---------------------
     Key("moving.rows", "up,down", "", "", "move between rows",
         display="Up/Down", bound=False),

@@ -36,7 +36,7 @@ def bindings(area: str) -> list[BindingType]:
 
 
 class ViewScreen(Screen[None]):
-    """Base of the five views (one Textual mode each)."""
+    """Base of the views (one Textual mode each)."""
 
     VIEW: ClassVar[str] = ""
     """The view id (a key of :data:`fieldlog.app.keymap.VIEWS`)."""
