@@ -14,11 +14,14 @@ from textual import events
 from textual.widgets import DataTable, Input
 
 from fieldlog.app.app import make_app
+from fieldlog.app.keymap import AREAS
+from fieldlog.app.screens.help import key_table
+from fieldlog.cli import main
 from fieldlog.journal import read_journal
 from tests.test_app_site import log, screen_text, settle
 from tests.test_app_today import started_site
 
-TUE = date(2026, 3, 3)
+MON, TUE = date(2026, 3, 2), date(2026, 3, 3)
 
 
 @pytest.fixture
@@ -138,3 +141,55 @@ async def test_plain_mode_draws_ascii_only(site: Path):
         await pilot.press("escape", "escape", "2")  # close help, leave the folder box
         await pilot.pause()
         assert "## MUST  :: may  .. cannot" in screen_text(app)
+
+
+async def test_daily_report_view_is_the_commands_report_and_prints_it(
+        site: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
+        capsys: pytest.CaptureFixture) -> None:
+    no_tools = tmp_path / "no-tools"
+    no_tools.mkdir()
+    monkeypatch.setenv("PATH", str(no_tools))  # no print command: the file only
+    log(site, "weather", TUE, {"conditions": "dry", "unit": "C"}, today=TUE)
+    elsewhere = tmp_path / "elsewhere"
+    elsewhere.mkdir()
+
+    command = {}  # what `fieldlog report SITE --day DAY` prints (before the app takes stdout)
+    for day in (MON, TUE):
+        assert main(["report", str(site), "--day", day.isoformat()]) == 0
+        command[day] = capsys.readouterr().out
+
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("6")
+        await settle(app, pilot)
+        assert app.screen.text == command[TUE]
+        assert "DAILY REPORT" in screen_text(app)
+        await pilot.press("comma")  # Monday
+        assert app.screen.text == command[MON]
+        await pilot.press("full_stop", "full_stop")  # back to Tuesday; never past the shift
+        assert app.screen.shown_day(app.snapshot) == TUE
+        await pilot.press("p")
+        await settle(app, pilot)
+        printed = site / "prints" / "daily-report-2026-03-03.txt"
+        assert printed.read_text(encoding="utf-8") == app.screen.text
+        assert "report saved as prints/daily-report-2026-03-03.txt" in app.status[0]
+
+        printed.unlink()
+        (site / "prints").rmdir()
+        (site / "prints").symlink_to(elsewhere, target_is_directory=True)
+        await pilot.press("p")
+        await settle(app, pilot)
+        assert app.status[1] and "link" in app.status[0]
+    assert list(elsewhere.iterdir()) == []  # nothing written through the link
+
+
+def test_help_headings_are_whole_at_80_columns() -> None:
+    import io
+
+    from rich.console import Console
+
+    console = Console(width=76, file=io.StringIO(), record=True)  # the help box inside 80
+    console.print(key_table())
+    text = console.export_text()
+    for heading in AREAS.values():
+        assert heading in [line.rstrip() for line in text.splitlines()], heading

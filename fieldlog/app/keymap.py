@@ -20,6 +20,7 @@ AREAS: dict[str, str] = {
     "float": "Float",
     "journal": "Journal",
     "sync": "Office sync",
+    "report": "Daily report",
     "moving": "Moving around",
 }
 """Area id -> heading in the help overlay, in the order shown."""
@@ -30,6 +31,7 @@ VIEWS: dict[str, str] = {
     "float": "Float",
     "journal": "Journal",
     "sync": "Sync",
+    "report": "Report",
 }
 """View (screen mode) id -> short name used in the view strip and palette."""
 
@@ -83,6 +85,8 @@ KEYS: tuple[Key, ...] = (
         "show the journal, newest first, and correct an entry", show=False),
     Key("views.sync", "5", "view('sync')", "Sync",
         "show the office sync status and sync now", show=False),
+    Key("views.report", "6", "view('report')", "Report",
+        "show the printable daily report of the shift (, and . for other days)", show=False),
     Key("views.help", "question_mark,f1", "help", "Help",
         "list every key (this overlay)", display="?"),
     Key("views.reload", "f5", "reload", "Reload",
@@ -154,6 +158,13 @@ KEYS: tuple[Key, ...] = (
         "(in the folder box, letters type and Enter syncs)"),
     Key("sync.leave", "escape", "leave_folder", "Leave box",
         "leave the folder box, so the view keys 1-5 work again", display="Esc", show=False),
+    # -- daily report -----------------------------------------------------------------------------
+    Key("report.print", "p", "print_report", "Print",
+        "write the daily report shown to prints/; print it if a printer is set up"),
+    Key("report.earlier", "comma", "shift_day(-1)", "Day back",
+        "show the daily report of the day before", display=",", show=False),
+    Key("report.later", "full_stop", "shift_day(1)", "Day on",
+        "show the daily report of the day after (up to the shift)", display=".", show=False),
     # -- moving around (handled by the widgets; listed for the help overlay) ---------------------
     Key("moving.rows", "up,down", "", "", "move between rows",
         display="Up/Down", bound=False),
