@@ -1,11 +1,13 @@
 """Fitting text into fixed columns: display width, abbreviation, word wrap, plain ASCII.
 
 The printed sheet and the daily report are monospaced, so every line is measured in *cells*
-(columns), not characters: a wide East Asian character takes two cells, a combining accent
-none, and an emoji sequence held together by zero width joiners (a family, a flag) is one
-picture two cells wide however many characters it has. Cells are counted and text is cut by
-Rich's grapheme and cell tables (``rich.cells``), the ones the app's screen uses, so a name
-lines up the same on paper and on screen and a cut never splits an emoji sequence.
+(columns), not characters: a wide East Asian character takes two cells (Unicode's East Asian
+Width, UAX #11), a combining accent none, and an emoji sequence held together by zero width
+joiners (a family, a profession), a flag (two regional indicators, or a black flag with tag
+characters) or an emoji made wide by variation selector 16 is one picture two cells wide
+however many characters it has (UTS #51). Text is cut between such pictures, never inside one.
+tests/test_report_cells.py checks these widths against Rich's ``rich.cells``, the tables the
+app's screen is drawn with; the core itself imports neither Rich nor Textual.
 ``--ascii`` sheets go to old printers and code pages, so user text (site and activity names,
 readiness items) is transliterated to plain ASCII *before* it is measured and cut.
 """
@@ -16,7 +18,31 @@ import re
 import unicodedata
 from collections.abc import Iterator
 
-from rich.cells import cell_len, split_graphemes
+ZWJ = "\u200d"
+VS16 = "\ufe0f"
+"""Variation selector 16: show the character before it as an emoji (two cells)."""
+
+
+def _extends(ch: str) -> bool:
+    """True for a character that belongs to the picture before it: accents, variation
+    selectors, skin-tone modifiers, tag characters, the joiner itself."""
+    code = ord(ch)
+    return (unicodedata.combining(ch) != 0 or unicodedata.category(ch) in ("Mn", "Me", "Mc")
+            or 0x1F3FB <= code <= 0x1F3FF or 0xE0020 <= code <= 0xE007F or ch == ZWJ)
+
+
+def _regional(ch: str) -> bool:
+    return 0x1F1E6 <= ord(ch) <= 0x1F1FF
+
+
+def _cells(cluster: str) -> int:
+    """Cells one user-perceived character takes."""
+    base = cluster[0]
+    if len(cluster) > 1 and (ZWJ in cluster or VS16 in cluster or _regional(base)):
+        return 2
+    if unicodedata.category(base) in ("Cc", "Cf", "Mn", "Me", "Zl", "Zp"):
+        return 0
+    return 2 if unicodedata.east_asian_width(base) in ("W", "F") else 1
 
 _ASCII_SUBSTITUTES = {
     "\u2018": "'", "\u2019": "'", "\u201c": '"', "\u201d": '"', "\u2013": "-", "\u2014": "-",
@@ -43,21 +69,27 @@ def to_ascii(text: str) -> str:
 
 
 def graphemes(text: str) -> Iterator[tuple[str, int]]:
-    """Each user-perceived character of ``text`` with the cells it takes."""
+    """Each user-perceived character of ``text`` (a grapheme) with the cells it takes."""
     if text.isascii():
         for ch in text:
             yield ch, 1 if ch >= " " else 0
         return
-    spans, _ = split_graphemes(text)
-    for start, end, cells in spans:
-        yield text[start:end], cells
+    k, n = 0, len(text)
+    while k < n:
+        end = k + 1
+        if _regional(text[k]) and end < n and _regional(text[end]):
+            end += 1  # a flag: two regional indicators
+        while end < n and _extends(text[end]):
+            end += 2 if text[end] == ZWJ and end + 1 < n else 1  # a joiner takes the next one
+        yield text[k:end], _cells(text[k:end])
+        k = end
 
 
 def width(text: str) -> int:
-    """Cells ``text`` takes on a monospaced page."""
-    if text.isascii():
+    """Cells ``text`` takes on a monospaced page (control characters take none)."""
+    if text.isascii() and text.isprintable():
         return len(text)
-    return cell_len(text)
+    return sum(cells for _, cells in graphemes(text))
 
 
 def head(text: str, columns: int) -> str:

@@ -2,8 +2,10 @@
 
 The outside reference is Rich's ``rich.cells`` (``cell_len`` and ``split_graphemes``), the cell
 tables Textual draws the app's screen with; a terminal or printer that follows Unicode's East
-Asian Width (UAX #11) and emoji presentation (UTS #51) rules shows the same widths. The checks
-measure every printed line with Rich, never with the code under test.
+Asian Width (UAX #11) and emoji presentation (UTS #51) rules shows the same widths. The core
+does not import Rich (tests/test_lookahead_command.py), so ``fieldlog.text_fit`` has its own
+small grapheme rules; here they are compared with Rich's, and every printed line is measured
+with Rich, never with the code under test.
 """
 
 from __future__ import annotations
@@ -18,7 +20,7 @@ from fieldlog.daily_report import render_daily_report
 from fieldlog.lookahead import build_lookahead
 from fieldlog.lookahead.render_text import render_text
 from fieldlog.render_schedule import render_schedule
-from fieldlog.text_fit import fit, right, wrap
+from fieldlog.text_fit import fit, graphemes, right, width, wrap
 from fieldlog.workspace import load_state
 from tests.test_app_site import fix_device, log, write_site
 
@@ -33,6 +35,28 @@ NAMES = [
     "ascii only, grid A-C",
 ]
 MON, TUE = date(2026, 3, 2), date(2026, 3, 3)
+
+
+MORE = ["\u2600\ufe0f sunny", "\u2600 plain sun", "\U0001f44d\U0001f3fd thumbs", "\u00b7\u2026",
+        "\ud55c\uad6d\uc5b4", "\uff76\uff80\uff76\uff85", "\U0001f3f4\U000e0067\U000e0062\U000e0073"
+        "\U000e0063\U000e0074\U000e007f flag"]
+
+
+@pytest.mark.parametrize("text", NAMES + MORE)
+def test_cells_and_graphemes_agree_with_rich(text: str) -> None:
+    assert width(text) == cell_len(text)
+    spans, _ = split_graphemes(text)
+    ours = [g for g, _ in graphemes(text)]
+    if any(0x1F1E6 <= ord(ch) <= 0x1F1FF for ch in text):
+        # Rich splits a flag's two regional indicators into two graphemes (cells still 2);
+        # the sheet keeps them together, so a cut never leaves half a flag.
+        assert "".join(ours) == text and FLAG in ours
+    else:
+        assert ours == [text[a:b] for a, b, _ in spans]
+
+
+def test_a_control_character_takes_no_cell() -> None:
+    assert width("tab\there") == cell_len("tab\there") == 7
 
 
 def boundaries(text: str) -> set[int]:
