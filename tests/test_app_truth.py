@@ -193,3 +193,42 @@ def test_help_headings_are_whole_at_80_columns() -> None:
     text = console.export_text()
     for heading in AREAS.values():
         assert heading in [line.rstrip() for line in text.splitlines()], heading
+
+
+async def test_two_weeks_shows_work_after_its_finish_as_done(site: Path):
+    from fieldlog.app.screens.lookahead import GLYPHS
+    from fieldlog.lookahead import Cell
+
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("2")
+        await settle(app, pilot)
+        look = app.snapshot.lookahead
+        assert look is not None
+        exc = next(r for r in look.rows if r.id == "EXC-010")  # finishes Wed 4th, no float
+        after = [c for d, c in zip(look.days, exc.cells, strict=True) if d > exc.late_finish]
+        assert after and Cell.CANNOT not in after and Cell.DONE in after
+        table = app.screen.query_one("#look-table", DataTable)
+        cells = [str(c).strip() for c in table.get_row("EXC-010")[3:3 + len(look.days)]]
+        assert GLYPHS[Cell.CANNOT] not in cells[1:]  # Thursday on: done, not cannot
+        table.move_cursor(row=table.get_row_index("EXC-010"), column=4)  # Thursday
+        await pilot.pause()
+        assert "EXC-010 Thu 05 Mar: done" in str(app.screen.query_one("#look-why").render())
+
+
+async def test_keys_typed_with_a_view_key_go_to_the_new_view(site: Path):
+    """"3/fnd" in one burst, the Float view not loaded yet: the search gets "fnd", and the
+    "f" never reaches Today (where it would record a finish)."""
+    app = make_app(site, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        burst(app, ("3", "3"), ("slash", "/"), *((ch, ch) for ch in "exn"))
+        await settle(app, pilot)
+        assert app.current_mode == "float"
+        assert app.screen.query_one("#float-search", Input).value == "exn"
+        assert app.screen.kind == "all"
+        await pilot.press("escape")
+        burst(app, ("1", "1"), ("f", "f"))  # back to Today, then a finish: it lands on Today
+        await settle(app, pilot)
+        assert app.current_mode == "today"
+    kinds = [e.kind for e in read_journal(site).entries]
+    assert kinds == ["started", "finished"]  # only the finish typed on Today
