@@ -56,10 +56,13 @@ FILE_CAPS = {
     "schedule.toml": 64 * MIB,
     "journal": 5 * MIB,
     "settings": 64 * KIB,
+    "receipts": 16 * MIB,
 }
 """Largest file accepted, by kind. schedule.toml: a 200,000-activity schedule is about 25 MB.
 journal: one device's day file; no real day comes near (a full day of entries is a few KB).
-settings: device.toml and the last-sync records in fieldlog's own data folder."""
+settings: device.toml and the last-sync records in fieldlog's own data folder.
+receipts: one device's office receipts chain; a receipt is a few hundred bytes per device, so
+this is tens of thousands of syncs."""
 
 
 def check_date(value: date, what: str, site_start: date | None = None) -> date:

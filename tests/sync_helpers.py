@@ -75,13 +75,19 @@ def append_entry(site: Path, day: date, device: str | None, note: str, *,
     return site / "log" / journal_name(day, entry.device)
 
 
-def tree(folder: Path) -> dict[str, bytes | str]:
-    """Every file under ``folder`` by relative path: bytes, or ``-> target`` for links."""
+def tree(folder: Path, *, receipts: bool = True) -> dict[str, bytes | str]:
+    """Every file under ``folder`` by relative path: bytes, or ``-> target`` for links.
+
+    ``receipts=False`` leaves out ``receipts/`` (the copies of office receipts a sync keeps in
+    the site folder), for tests about the journal and schedule alone.
+    """
     out: dict[str, bytes | str] = {}
     for root, dirs, files in os.walk(folder):
         for name in dirs + files:
             path = Path(root) / name
             rel = path.relative_to(folder).as_posix()
+            if not receipts and (rel == "receipts" or rel.startswith("receipts/")):
+                continue
             if path.is_symlink():
                 out[rel] = f"-> {os.readlink(path)}"
             elif path.is_file():

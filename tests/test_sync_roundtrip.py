@@ -60,17 +60,18 @@ def test_entries_from_both_devices_reach_all_three(devices):
     a.log(MON, "A10 started")
     b.log(MON, "crew of 4 groundworkers")
 
-    first = sync(site_a, office)
+    first = sync(site_a, office, home=a.home)
     assert first.seeded == ("site.toml", "schedule.toml")
     assert [c.name for c in first.sent] == [f"2026-03-02_{dev_a}.toml"]
-    sync(site_b, office)
+    assert sync(site_b, office, home=b.home).exit_code == 0
     a.log(TUE, "A10 remaining 3")
     a.log(MON, "late note for Monday")  # the Monday file grows
-    grown = sync(site_a, office)
+    grown = sync(site_a, office, home=a.home)
     assert sorted((c.name, c.grown) for c in grown.sent) == [
         (f"2026-03-02_{dev_a}.toml", True), (f"2026-03-03_{dev_a}.toml", False)]
     assert [c.name for c in grown.received] == [f"2026-03-02_{dev_b}.toml"]
-    sync(site_b, office)
+    assert grown.exit_code == 0 and not grown.restored and grown.receipt
+    assert sync(site_b, office, home=b.home).exit_code == 0
 
     office_files = journal_files(office)
     assert office_files == journal_files(site_a) == journal_files(site_b)
@@ -86,19 +87,20 @@ def test_new_revision_reaches_both_devices_and_old_one_is_kept(devices):
     office, a, b = devices
     site_a, site_b = a.site, b.site
     old_schedule = (site_a / "schedule.toml").read_bytes()
-    sync(site_a, office)
-    sync(site_b, office)
+    sync(site_a, office, home=a.home)
+    sync(site_b, office, home=b.home)
     (office / "schedule.toml").write_text(schedule_toml(2, ("A10", "A20", "A30", "A40")))
 
-    for site in (site_a, site_b):
-        summary = sync(site, office)
+    for device in (a, b):
+        site = device.site
+        summary = sync(site, office, home=device.home)
         assert summary.revision.status is RevisionStatus.BROUGHT_IN
         assert (summary.revision.site_revision, summary.revision.target_revision) == (1, 2)
         assert (site / "schedule.toml").read_bytes() == (office / "schedule.toml").read_bytes()
         assert (site / "schedule_history" / "schedule.r1.toml").read_bytes() == old_schedule
         assert summary.revision.kept_as == "schedule_history/schedule.r1.toml"
         assert summary.exit_code == 0
-    again = sync(site_a, office)
+    again = sync(site_a, office, home=a.home)
     assert again.revision.status is RevisionStatus.SAME
 
 
@@ -107,11 +109,11 @@ def test_second_sync_changes_nothing(devices):
     site_a, site_b = a.site, b.site
     a.log(MON, "A10 started")
     b.log(TUE, "weather: rain")
-    sync(site_a, office)
-    sync(site_b, office)
-    sync(site_a, office)
+    sync(site_a, office, home=a.home)
+    sync(site_b, office, home=b.home)
+    sync(site_a, office, home=a.home)
     before = (tree(site_a), tree(office))
-    again = sync(site_a, office)
+    again = sync(site_a, office, home=a.home)
     assert (tree(site_a), tree(office)) == before
     assert not again.changed_anything and not again.has_problems
     assert (again.sent, again.received, again.unchanged) == ((), (), 2)
@@ -142,8 +144,9 @@ def test_unusable_target_is_bad_input(tmp_path, capsys, target_kind):
     assert not (tmp_path / "nowhere").exists()
 
 
-def test_cli_summary_matches_golden_file(tmp_path, capsys):
-    """One sync with every kind of line: seeded, sent, grown, conflict, refusal."""
+def test_cli_summary_matches_golden_file(tmp_path, capsys, _isolated_home):
+    """One sync with every kind of line: seeded, sent, grown, conflict, refusal, receipt."""
+    (_isolated_home / "device.toml").write_text('device = "lap-north"\n')
     site = make_site(tmp_path / "site")
     office = tmp_path / "office"
     make_site(office)
@@ -180,7 +183,7 @@ def test_office_folder_is_a_valid_site_folder_after_sync(devices, capsys):
     a.log(MON, "A10 started")
     b.log(TUE, "weather: rain")
     for device in (a, b, a):
-        sync(device.site, office)
+        sync(device.site, office, home=device.home)
     assert main(["verify", str(office)]) == 0
     assert "2 entries" in capsys.readouterr().out
     assert main(["schedule", str(office), "--format", "json"]) == 0

@@ -18,7 +18,7 @@ from fieldlog.cpm import compute_schedule
 from fieldlog.model import Site
 from fieldlog.readiness import holds
 from fieldlog.schedule_result import ScheduleResult
-from fieldlog.workspace import SiteState
+from fieldlog.workspace import SiteState, load_state
 
 __all__ = ["CheckResult", "HealthReport", "Outcome", "check_site", "check_state"]
 
@@ -71,6 +71,4 @@ def check_state(state: SiteState, baseline: Baseline | None = None) -> HealthRep
 
 def check_site(folder: str, as_of: date | None = None) -> HealthReport:
     """Load the site folder and run every check as of ``as_of`` (default: last logged day)."""
-    from fieldlog.workspace import load_state
-
     return check_state(load_state(folder, as_of))

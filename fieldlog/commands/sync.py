@@ -88,7 +88,9 @@ def run(args: argparse.Namespace) -> int:
     sys.stdout.write(render_json(summary) if args.format == "json" else render_text(summary))
     if summary.has_problems:
         print(f"fieldlog: sync: {len(summary.conflicts)} conflicts, {len(summary.refused)} "
-              "refused files; see the summary", file=sys.stderr)
+              f"refused files, {len(summary.restored)} restored, {len(summary.lost)} lost, "
+              f"{len(summary.receipt_problems)} receipt problems; see the summary",
+              file=sys.stderr)
     record = SyncRecord.of(site, target, summary,
                            datetime.now().astimezone().replace(microsecond=0))
     try:

@@ -4,6 +4,10 @@ Prints every integrity finding (an edited, removed, reordered or misfiled entry,
 is not a journal file) with its file and entry id, then every contradiction the log holds
 (finish before start, two devices disagreeing on a start, progress on an activity the schedule
 no longer has ...), which are fixed by recording a correction, and every sync conflict copy.
+
+Then the log is checked against the office receipts that vouch for it (this device's copies;
+with ``--office FOLDER`` the office's own chain): an entry removed from the end of the log
+after a sync, which the hash chain alone cannot show, is named with its device, entry and file.
 Exit code 1 when anything is found, 0 when the log is clean.
 """
 
@@ -11,10 +15,14 @@ from __future__ import annotations
 
 import argparse
 from datetime import date
+from pathlib import Path
 
-from fieldlog.journal import read_journal, replay
+from fieldlog.errors import SiteError
+from fieldlog.journal import Journal, fieldlog_home, read_journal, replay
 from fieldlog.site_files import load_site
+from fieldlog.sync.audit import Audit, audit, known_device, office_receipts, own_receipts
 from fieldlog.sync.conflicts import list_conflicts
+from fieldlog.sync.holdings import holdings_of
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
@@ -22,6 +30,10 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser("verify", help="check the field log is intact (exit 1 if not)",
                        description=__doc__.splitlines()[0].split(": ", 1)[1])
     p.add_argument("site", help="the site folder")
+    p.add_argument("--office", metavar="FOLDER",
+                   help="also check the log against the receipts in the office's folder for "
+                   "this site (catches entries removed after a sync even when this device's "
+                   "own copies of the receipts are gone)")
     p.set_defaults(run=run)
 
 
@@ -43,12 +55,39 @@ def run(args: argparse.Namespace) -> int:
         print("Sync conflicts (two versions of one journal file are kept side by side):")
         for c in conflicts:
             print(f"  {c.describe()}")
+    receipt_lines = receipts_check(Path(args.site), journal, args.office).lines()
+    if receipt_lines:
+        print("Against the office receipts (what both sides held at a sync):")
+        for line in receipt_lines:
+            print(f"  {line}")
     n_entries = len(journal.entries)
-    if findings or contradictions or conflicts:
+    if findings or contradictions or conflicts or receipt_lines:
         print(f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
-              f"{len(conflicts)} sync conflict(s) in {len(journal.files)} file(s), "
-              f"{n_entries} entries")
+              f"{len(conflicts)} sync conflict(s), {len(receipt_lines)} receipt finding(s) in "
+              f"{len(journal.files)} file(s), {n_entries} entries")
         return 1
     print(f"log intact: {len(journal.files)} file(s), {n_entries} entries, chains unbroken, "
           "no contradictions")
     return 0
+
+
+def receipts_check(site: Path, journal: Journal, office: str | None) -> Audit:
+    """The log against this device's receipts, and against the office's when asked.
+
+    Raises:
+        SiteError: ``office`` is not a folder.
+    """
+    home = fieldlog_home()
+    mine = own_receipts(site, home)
+    groups = [mine]
+    if office is not None:
+        folder = Path(office)
+        if not folder.is_dir():
+            raise SiteError("the office folder does not exist", file=folder,
+                            fix="give the folder 'fieldlog sync' writes to for this site")
+        devices = {d for d, _ in mine.files}
+        this = known_device(home)
+        if this is not None:
+            devices.add(this)
+        groups.append(office_receipts(folder, devices, mine))
+    return audit(holdings_of(journal), groups)

@@ -11,7 +11,8 @@ One sync with a git remote, each step safe to interrupt:
    office revision brought in), and whatever the folder sync learns, git gets for free;
 4. commit the folder on top of the fetched tree (:func:`~fieldlog.sync.git_tree.overlay_tree`:
    nothing is ever removed from the branch) and push it, expecting the branch where it was;
-5. if another device pushed first, the push is refused: start again from 1, at most
+5. if another device pushed first (or is pushing at this moment: the branch is locked), the
+   push is refused: start again from 1 after a short pause, at most
    :data:`MAX_ATTEMPTS` times. The site folder already holds everything it received, so
    nothing is lost by starting over.
 
@@ -29,6 +30,7 @@ from __future__ import annotations
 
 import shutil
 import tempfile
+import time
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -44,6 +46,8 @@ from fieldlog.sync.summary import SyncSummary
 
 MAX_ATTEMPTS = 5
 """Pushes tried before giving up when other devices keep pushing first."""
+RETRY_PAUSE_S = 0.1
+"""Pause before fetching again, longer after each lost race."""
 SCRATCH_DIR = "git-scratch"
 STALE_SCRATCH_S = 24 * 3600.0
 """A scratch folder older than this was left by a sync that died; it is removed."""
@@ -122,6 +126,7 @@ def sync_git(site_folder: Path | str, remote: GitRemote, options: SyncOptions, *
             try:
                 _push(client, path, repo, branch, head, commit, remote)
             except _Moved:
+                time.sleep(RETRY_PAUSE_S * attempt)  # let the other device finish its push
                 continue
             return GitSyncResult(summary, branch.decode(), attempt, commit.decode())
         finally:
@@ -154,8 +159,8 @@ def _folder_sync(site_folder: Path, files: Path, options: SyncOptions,
                  office: bool) -> SyncSummary:
     """The folder sync between the site and the branch's files, the right way round."""
     has_site = (files / SITE_FILE).is_file() and (files / SCHEDULE_FILE).is_file()
-    if office and has_site:
-        return sync_site(files, site_folder, options)
+    if office and has_site:  # the branch plays the site: no device receipt to give
+        return sync_site(files, site_folder, replace(options, receipts=False))
     return sync_site(site_folder, files, options)
 
 
@@ -200,10 +205,14 @@ def _push(client: Any, path: str, repo: Any, branch: bytes, expected: bytes | No
             raise _Moved
         return {branch: commit}
 
+    from dulwich.file import FileLocked
+
     try:
         result = client.send_pack(path, update, generate_pack_data=repo.generate_pack_data)
     except _Moved:
         raise
+    except FileLocked as exc:  # another device is moving the branch this very moment
+        raise _Moved from exc
     except Exception as exc:  # dulwich raises many kinds; each becomes one SyncError line
         raise SyncError(f"the push to {remote.shown} did not complete: {_why(exc)}",
                         fix="run the same sync again; the repository keeps its last "

@@ -140,6 +140,12 @@ def bring_in_schedule(
 
 def _bring_in(site_folder: Path, src: Path, site: Site, theirs: int) -> RevisionChange:
     """Validate the target's schedule as it will land, keep the old one, then swap."""
+    history = site_folder / HISTORY_DIR
+    if os.path.islink(history) or (os.path.lexists(history) and not history.is_dir()):
+        return _refused(site.revision, theirs,
+                        f"{HISTORY_DIR} in the site folder is a link or a file, so the old "
+                        "schedule cannot be kept there (links are never followed). Fix: "
+                        f"replace it with a plain folder named {HISTORY_DIR}")
     try:
         data = read_plain_file(src)
     except SourceChanged:

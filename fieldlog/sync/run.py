@@ -8,7 +8,12 @@ Steps, each safe to interrupt and repeat:
 4. list both ``log/`` folders by content hash and plan what each side lacks;
 5. copy, each file through a checked temporary name, validating it as a journal first;
 6. keep both versions of every conflicting file;
-7. bring a newer office schedule revision into the site.
+7. bring a newer office schedule revision into the site;
+8. give the office a receipt of what both sides now hold (:mod:`fieldlog.sync.receipt_sync`).
+
+Before copying, each side is checked against the receipts that vouch for it
+(:mod:`fieldlog.sync.losses`): a copy that brings back entries a side had lost is still made,
+and reported as a restore; entries neither side holds any more are reported as lost.
 
 Nothing is ever deleted or overwritten except a journal file by a longer copy that begins with
 exactly its bytes, and the site's schedule by a validated newer revision (the old one is kept).
@@ -20,14 +25,20 @@ from __future__ import annotations
 import os
 from collections.abc import Callable
 from dataclasses import dataclass
+from datetime import UTC, datetime
 from functools import partial
 from pathlib import Path
 
 from fieldlog.errors import JournalError, SyncError
+from fieldlog.journal.device import device_id, fieldlog_home
+from fieldlog.journal.names import parse_file_name
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.checks import JournalCheck, default_check
 from fieldlog.sync.conflicts import conflicts_folder, keep_aside
+from fieldlog.sync.holdings import Held, common_holdings
+from fieldlog.sync.losses import SideLosses, listing_holdings, vouchers
 from fieldlog.sync.plan import Conflict, Copy, Direction, LogPlan, plan_logs
+from fieldlog.sync.receipt_sync import ReceiptOutcome, give_receipt
 from fieldlog.sync.revision import HISTORY_DIR, bring_in_schedule, seed_target
 from fieldlog.sync.scan import (
     CONFLICTS_DIR,
@@ -64,6 +75,20 @@ class SyncOptions:
     """Wall-clock time (seconds since the epoch) for judging stale temporary files; None skips
     that clean-up. Passed in, so the core never reads the clock."""
     stale_after_s: float = STALE_AFTER_S
+    home: Path | None = None
+    """This device's data folder (device id, receipt copies); None = :func:`fieldlog_home`."""
+    receipts: bool = True
+    """Give the target a receipt. False when the "site" side is not a device's copy (the git
+    transport's office way round, where the branch's files play the site)."""
+
+
+@dataclass(frozen=True)
+class _Side:
+    """What a copy into one side needs to know to tell a restore from new entries."""
+
+    losses: SideLosses
+    source: Held
+    source_side: str
 
 
 def sync_site(site_folder: Path | str, target: Path | str,
@@ -80,14 +105,25 @@ def sync_site(site_folder: Path | str, target: Path | str,
     site_folder, target = Path(site_folder), Path(target)
     site = load_site(site_folder)
     _check_target(site_folder, target)
+    home = opts.home or fieldlog_home()
+    device = device_id(home)
     cleaned = _clean(site_folder, target, opts)
     seeded = seed_target(site_folder, target)
 
     ours, theirs = (scan_log(site_folder, "site", max_bytes=opts.max_bytes),
                     scan_log(target, "target", max_bytes=opts.max_bytes))
+    held_site, held_office = listing_holdings(ours), listing_holdings(theirs)
+    vouch = vouchers(site_folder, target, home, device)
+    sides = {
+        Direction.RECEIVE: _Side(SideLosses.of("site", held_site, vouch.site), held_office,
+                                 "target"),
+        Direction.SEND: _Side(SideLosses.of("target", held_office, vouch.office), held_site,
+                              "site"),
+    }
     plan = plan_logs(ours.files, theirs.files, _is_prefix)
     refused = [*ours.refused, *theirs.refused]
-    done, skipped, copied_bytes = _copy_all(plan, site_folder, target, check, opts, refused)
+    done, skipped, copied_bytes, restored = _copy_all(plan, site_folder, target, check, opts,
+                                                      refused, sides)
     conflicts = [_keep_both(c, site_folder, target, check, refused, skipped)
                  for c in plan.conflicts]
     for folder in {site_folder / LOG_DIR, target / LOG_DIR}:
@@ -95,12 +131,23 @@ def sync_site(site_folder: Path | str, target: Path | str,
             fsync_folder(folder)
 
     revision = bring_in_schedule(site_folder, target, site, max_bytes=opts.max_bytes)
+    after_site = listing_holdings(scan_log(site_folder, "site", max_bytes=opts.max_bytes))
+    after_office = listing_holdings(scan_log(target, "target", max_bytes=opts.max_bytes))
+    lost = [*SideLosses.of("site", after_site, vouch.site).lines(),
+            *SideLosses.of("target", after_office, vouch.office).lines()]
+    written = (datetime.fromtimestamp(opts.now, UTC).replace(microsecond=0)
+               if opts.now is not None else None)
+    receipt = (give_receipt(site_folder, target, home, device, written,
+                            common_holdings(after_site, after_office))
+               if opts.receipts else ReceiptOutcome())
     return SyncSummary(
         sent=tuple(c for c in done if c.direction is Direction.SEND),
         received=tuple(c for c in done if c.direction is Direction.RECEIVE),
         unchanged=plan.unchanged, seeded=seeded, revision=revision,
         conflicts=tuple(conflicts), refused=tuple(refused), skipped=tuple(skipped),
-        cleaned=cleaned, bytes_copied=copied_bytes,
+        cleaned=cleaned, bytes_copied=copied_bytes, restored=tuple(restored),
+        lost=tuple(lost), receipt=receipt.written,
+        receipt_problems=tuple(dict.fromkeys((*vouch.problems, *receipt.problems))),
     )
 
 
@@ -140,10 +187,12 @@ def _is_prefix(shorter: LogFile, longer: LogFile) -> bool:
 
 
 def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalCheck,
-              opts: SyncOptions, refused: list[Refusal]) -> tuple[list[Copy], list[str], int]:
-    """Carry out every planned copy; returns (done, skipped names, bytes copied)."""
+              opts: SyncOptions, refused: list[Refusal], sides: dict[Direction, _Side],
+              ) -> tuple[list[Copy], list[str], int, list[str]]:
+    """Carry out every planned copy; returns (done, skipped names, bytes copied, restores)."""
     done: list[Copy] = []
     skipped: list[str] = []
+    restored: list[str] = []
     copied = 0
     total = len(plan.copies)
     unusable = {r.side for r in refused if r.path == LOG_DIR}  # a link or a file: reported
@@ -167,9 +216,21 @@ def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalChec
             _refuse_link(refused, "site" if to_site else "target", LOG_DIR)
         else:
             done.append(copy)
+            note = _restore_note(copy, sides[copy.direction])
+            if note is not None:
+                restored.append(note)
         if opts.progress is not None:
             opts.progress(n, total, copied)
-    return done, skipped, copied
+    return done, skipped, copied, restored
+
+
+def _restore_note(copy: Copy, side: _Side) -> str | None:
+    """Why this copy brought back removed entries, or None for new entries."""
+    try:
+        _, device = parse_file_name(copy.name)
+    except JournalError:
+        return None  # not a journal file name: the check refused it before it landed
+    return side.losses.restore_note(copy.name, device, side.source, side.source_side)
 
 
 def _keep_both(conflict: Conflict, site_folder: Path, target: Path, check: JournalCheck,

@@ -42,16 +42,27 @@ class SyncSummary:
     cleaned: int
     """Leftover temporary files of an interrupted sync that were removed."""
     bytes_copied: int
+    restored: tuple[str, ...] = ()
+    """Copies that brought back entries a side had lost since a receipt (a finding)."""
+    lost: tuple[str, ...] = ()
+    """Entries a receipt vouches for that neither side holds any more."""
+    receipt: str | None = None
+    """The receipt given to the office (``receipt 5 in receipts/<device>.toml``), or None
+    when what both sides hold had not changed since the last one."""
+    receipt_problems: tuple[str, ...] = ()
+    """Receipts files that do not verify, were restored, or are links."""
 
     @property
     def has_problems(self) -> bool:
-        """True when a person should look: conflicts, refusals, skipped files, schedules."""
-        return bool(self.conflicts or self.refused or self.skipped or self.revision.is_problem)
+        """True when a person should look: conflicts, refusals, skipped files, schedules,
+        restored or lost entries, receipts that do not verify."""
+        return bool(self.conflicts or self.refused or self.skipped or self.revision.is_problem
+                    or self.restored or self.lost or self.receipt_problems)
 
     @property
     def changed_anything(self) -> bool:
         """True when either folder was written to."""
-        return bool(self.sent or self.received or self.seeded or self.cleaned
+        return bool(self.sent or self.received or self.seeded or self.cleaned or self.receipt
                     or self.revision.status is RevisionStatus.BROUGHT_IN
                     or any(r.kept for r in self.conflicts))
 
@@ -96,12 +107,23 @@ def render_text(s: SyncSummary) -> str:
     if s.skipped:
         lines.append(f"{'skipped':<11}{len(s.skipped)} changed while syncing; run sync again:")
         lines.extend(f"{pad}- {name}" for name in s.skipped)
+    if s.restored:
+        lines.append(f"{'restored':<11}{len(s.restored)} journal "
+                     f"{'file' if len(s.restored) == 1 else 'files'} brought back after "
+                     "entries had been removed since a sync:")
+        lines.extend(f"{pad}- {r}" for r in s.restored)
+    if s.lost:
+        lines.append(f"{'lost':<11}{len(s.lost)} receipted entries are on neither side; "
+                     "restore them from a backup:")
+        lines.extend(f"{pad}- {r}" for r in s.lost)
+    lines.append(f"{'receipt':<11}{s.receipt or 'unchanged: the last receipt still holds'}")
+    lines.extend(f"{pad}- {p}" for p in s.receipt_problems)
     if s.cleaned:
         lines.append(f"{'cleaned':<11}{s.cleaned} leftover temporary files of an interrupted "
                      "sync removed")
     if s.has_problems:
-        lines.append("result     look at the conflicts and refused files above; both folders "
-                     "are valid and nothing was overwritten")
+        lines.append("result     look at the findings above; both folders are valid and "
+                     "nothing was overwritten")
     elif not s.changed_anything:
         lines.append("result     nothing to do: both sides already match")
     else:
@@ -142,6 +164,9 @@ def render_json(s: SyncSummary) -> str:
                       for c in s.conflicts],
         "refused": [{"side": r.side, "path": r.path, "reason": r.reason} for r in s.refused],
         "skipped": list(s.skipped),
+        "restored": list(s.restored),
+        "lost": list(s.lost),
+        "receipt": {"written": s.receipt, "problems": list(s.receipt_problems)},
         "cleaned": s.cleaned,
         "bytes_copied": s.bytes_copied,
         "problems": s.has_problems,

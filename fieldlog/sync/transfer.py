@@ -3,8 +3,9 @@
 Every copy goes to a temporary name in the destination folder (same folder, so the rename never
 crosses file systems), is flushed to the device, read back and checked against the sha256 the
 plan expects, and only then renamed over the real name. A stick pulled out mid-copy leaves at
-worst a hidden ``.fieldlog-sync-*.tmp`` file, which every reader ignores and a later sync
-removes once it is clearly stale.
+worst a hidden ``.fieldlog-sync-<host>-<pid>-<tag>.tmp`` file, which every reader ignores and
+a later sync on the same machine removes once it is clearly stale (see
+:func:`clean_stale_temps`).
 
 Read-back caveat: the read-back goes through the operating system's cache, so it proves the
 bytes were handed to the device intact, not that the device stored them; the next sync compares
@@ -17,6 +18,9 @@ import contextlib
 import errno
 import hashlib
 import os
+import re
+import socket
+import sys
 from collections.abc import Callable
 from pathlib import Path
 from typing import BinaryIO
@@ -27,11 +31,17 @@ from fieldlog.errors import SyncError
 
 TEMP_PREFIX = ".fieldlog-sync-"
 TEMP_SUFFIX = ".tmp"
-STALE_AFTER_S = 600.0
-"""A temporary file older than this (seconds) belongs to a sync that died; it is removed.
+STALE_AFTER_S = 86400.0
+"""A temporary file is removed only when older than a day by its time stamp, and only when
+its name says this machine wrote it from a process that is no longer running.
 
-Younger ones are left alone: another device may be copying into the same office folder now.
+Clocks on a shared office folder disagree (a laptop set to the wrong day, a file server in
+another time zone), so age alone never decides: another device may be copying now.
 """
+THIS_HOST = re.sub(r"[^a-z0-9]+", "-", socket.gethostname().lower()).strip("-")[:24] or "host"
+"""This machine's name as it appears in temporary file names."""
+_TEMP_NAME = re.compile(r"^\.fieldlog-sync-(?P<host>[a-z0-9-]+)-(?P<pid>\d{1,10})-[0-9a-f]{8}"
+                        r"\.tmp$")
 
 _CHUNK = 1 << 20
 
@@ -162,7 +172,7 @@ def write_temp(folder: Path, data: bytes, expected_sha256: str) -> Path:
     Raises:
         SyncError: writing failed (full, read-only, removed device) or the read-back differs.
     """
-    tmp = folder / f"{TEMP_PREFIX}{os.urandom(6).hex()}{TEMP_SUFFIX}"
+    tmp = folder / f"{TEMP_PREFIX}{THIS_HOST}-{os.getpid()}-{os.urandom(4).hex()}{TEMP_SUFFIX}"
     try:
         with tmp.open("xb") as f:
             _write_all(f, data)
@@ -228,25 +238,51 @@ def fsync_folder(folder: Path) -> None:
 
 
 def clean_stale_temps(folder: Path, now: float, older_than_s: float = STALE_AFTER_S) -> int:
-    """Remove temporary files an interrupted sync left in ``folder``; returns how many.
+    """Remove temporary files an interrupted sync on this machine left in ``folder``.
 
-    Only our own ``.fieldlog-sync-*.tmp`` names are touched, and only when older than
-    ``older_than_s`` by their modification time (2 s resolution on FAT is plenty here).
+    Only names of the form ``.fieldlog-sync-<host>-<pid>-<tag>.tmp`` are touched, and only when
+    ``host`` is this machine, process ``pid`` is not running here, and the file is older than
+    ``older_than_s``. Another machine's temp file is never removed (its writer may be alive
+    and our clock may be wrong); it is hidden and every reader ignores it.
+
+    Returns:
+        How many files were removed.
     """
     removed = 0
     if not folder.is_dir():
         return 0
-    for entry in os.scandir(folder):
-        name = entry.name
-        if not (name.startswith(TEMP_PREFIX) and name.endswith(TEMP_SUFFIX)):
-            continue
-        if not entry.is_file(follow_symlinks=False):
-            continue
-        if now - entry.stat(follow_symlinks=False).st_mtime >= older_than_s:
-            with contextlib.suppress(FileNotFoundError):  # another sync removed it first
-                os.unlink(entry.path)
-                removed += 1
+    with os.scandir(folder) as entries:
+        for entry in entries:
+            m = _TEMP_NAME.match(entry.name)
+            if m is None or m["host"] != THIS_HOST or not entry.is_file(follow_symlinks=False):
+                continue
+            if process_alive(int(m["pid"])):
+                continue
+            if now - entry.stat(follow_symlinks=False).st_mtime >= older_than_s:
+                with contextlib.suppress(FileNotFoundError):  # another sync removed it first
+                    os.unlink(entry.path)
+                    removed += 1
     return removed
+
+
+def process_alive(pid: int) -> bool:
+    """True when process ``pid`` runs on this machine, or when that cannot be told.
+
+    POSIX asks the kernel with signal 0 (nothing is sent). Windows has no such harmless probe
+    in the standard library (``os.kill`` there ends the process), so a pid is taken as alive
+    and its temporary file stays: hidden, ignored, harmless.
+    """
+    if sys.platform == "win32" or pid <= 0:
+        return True
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except PermissionError:  # it exists, owned by someone else
+        return True
+    except OverflowError:  # a pid no system hands out
+        return False
+    return True
 
 
 def _make_folder(folder: Path) -> None:

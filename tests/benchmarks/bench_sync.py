@@ -19,6 +19,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
+from fieldlog.journal.reader import EntryList, Journal  # noqa: E402
 from fieldlog.journal.record import _append  # noqa: E402
 from fieldlog.sync import SyncOptions, sync_site  # noqa: E402
 from tests.sync_helpers import WRITTEN, make_site  # noqa: E402
@@ -34,12 +35,15 @@ def build(site: Path, files: int, entries_per_file: int) -> int:
     for a foreman and far too slow to build 12,000 entries here).
     """
     log = site / "log"
+    written: dict[str, list] = {}  # the device's entries so far: its next number follows them
     for n in range(files):
         device = f"dev-{n // DAYS_PER_DEVICE:04d}"
         day = date(2026, 3, 2) + timedelta(days=n % DAYS_PER_DEVICE)
         for k in range(entries_per_file):
-            _append(log, device, "note", day, {"text": f"entry {k}: " + "x" * 120},
-                    "Bench Foreman", lambda: WRITTEN)
+            so_far = written.setdefault(device, [])
+            so_far.append(_append(log, Journal(EntryList(so_far)), device, "note", day,
+                                  {"text": f"entry {k}: " + "x" * 120}, "Bench Foreman",
+                                  lambda: WRITTEN))
     return sum(p.stat().st_size for p in log.iterdir() if not p.name.startswith("."))
 
 

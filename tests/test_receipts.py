@@ -1,0 +1,169 @@
+"""Entries removed from the end of a log after a sync are found: the office receipts.
+
+A hash chain shows an edited or removed entry in the middle of a file, not one removed from
+the end (nothing was chained after it). After a sync the office holds a receipt of each
+device's highest entry, and this device keeps copies of it; every tail-removal case below is
+done to a copy of the sample site after one sync and must be named (device, entry expected,
+file) by ``fieldlog verify`` against the device's copies, against the office's chain
+(``--office``, with the device's own copies gone too), and when done to the office's log.
+
+Oracle: what each case removes is read from the untouched sample files with the standard
+library's ``tomllib`` (not with fieldlog's reader), so the expected device, entry number and
+file come from outside the code under test.
+"""
+
+from __future__ import annotations
+
+import shutil
+import tomllib
+from collections.abc import Callable
+from datetime import date
+from pathlib import Path
+
+import pytest
+
+from fieldlog.cli import main
+from fieldlog.sync.receipt_files import home_folder
+from tests.sync_helpers import append_entry, sync
+
+
+def last_entries(site: Path) -> dict[str, tuple[int, str]]:
+    """Per device, the highest ``seq`` and the file it is in, read with plain tomllib."""
+    out: dict[str, tuple[int, str]] = {}
+    for path in sorted((site / "log").glob("*.toml")):
+        for row in tomllib.loads(path.read_text(encoding="utf-8"))["entry"]:
+            if row["seq"] > out.get(row["device"], (0, ""))[0]:
+                out[row["device"]] = (row["seq"], path.name)
+    return out
+
+
+def drop_last_entries(path: Path, n: int) -> None:
+    """Remove the last ``n`` ``[[entry]]`` blocks of a journal file, as a text editor would."""
+    blocks = path.read_text(encoding="utf-8").split("\n[[entry]]\n")
+    assert len(blocks) > n
+    path.write_text("\n[[entry]]\n".join(blocks[:-n]), encoding="utf-8")
+
+
+def device_files(site: Path, device: str) -> list[Path]:
+    return sorted((site / "log").glob(f"*_{device}.toml"))
+
+
+LAPTOP, TABLET = "site-laptop-1", "tablet-2"
+
+CASES: dict[str, tuple[Callable[[Path], None], tuple[str, ...]]] = {
+    "last entry": (lambda s: drop_last_entries(device_files(s, LAPTOP)[-1], 1), (LAPTOP,)),
+    "last 3 entries": (lambda s: drop_last_entries(device_files(s, LAPTOP)[-1], 3), (LAPTOP,)),
+    "last day file": (lambda s: device_files(s, LAPTOP)[-1].unlink(), (LAPTOP,)),
+    "all of one device's files": (
+        lambda s: [p.unlink() for p in device_files(s, TABLET)], (TABLET,)),
+    "whole log": (lambda s: shutil.rmtree(s / "log"), (LAPTOP, TABLET)),
+}
+
+
+@pytest.fixture
+def synced(sample_site: Path, tmp_path: Path) -> tuple[Path, Path, dict[str, tuple[int, str]]]:
+    """The sample site after one clean sync with an empty office folder."""
+    office = tmp_path / "office"
+    office.mkdir()
+    expected = last_entries(sample_site)
+    summary = sync(sample_site, office)
+    assert summary.exit_code == 0 and summary.receipt == "receipt 1 in " + (
+        f"receipts/{next((office / 'receipts').iterdir()).name}")
+    return sample_site, office, expected
+
+
+def verify(capsys: pytest.CaptureFixture[str], *args: str) -> tuple[int, str]:
+    code = main(["verify", *map(str, args)])
+    captured = capsys.readouterr()
+    assert "Traceback" not in captured.err
+    return code, captured.out
+
+
+def assert_named(out: str, expected: dict[str, tuple[int, str]], devices: tuple[str, ...]):
+    """Every removed device's highest entry is named with its file; nothing else is."""
+    for device in devices:
+        seq, file = expected[device]
+        assert (f"log/{file}: entry {device}.{seq} was removed after a sync") in out, out
+    for device in set(expected) - set(devices):
+        assert f"entry {device}." not in out.split("Against the office receipts")[-1]
+
+
+def test_intact_after_sync(synced, capsys):
+    site, office, _ = synced
+    assert verify(capsys, site)[0] == 0
+    assert verify(capsys, site, "--office", office)[0] == 0
+    assert verify(capsys, office)[0] == 0
+
+
+@pytest.mark.parametrize("side", ["site", "office"])
+@pytest.mark.parametrize("case", list(CASES))
+def test_tail_removal_is_found_against_the_receipts_that_folder_holds(synced, capsys, case,
+                                                                        side):
+    """The site against this device's copies; the office against its own chains."""
+    site, office, expected = synced
+    folder = site if side == "site" else office
+    tamper, devices = CASES[case]
+    tamper(folder)
+    code, out = verify(capsys, folder)
+    assert code == 1
+    assert_named(out, expected, devices)
+
+
+@pytest.mark.parametrize("case", list(CASES))
+def test_tail_removal_is_found_against_the_office_copy(synced, capsys, case, _isolated_home):
+    site, office, expected = synced
+    tamper, devices = CASES[case]
+    tamper(site)
+    shutil.rmtree(site / "receipts")                       # this device's copies gone too
+    shutil.rmtree(home_folder(_isolated_home, site))
+    assert verify(capsys, site)[0] == 0   # with its copies gone, nothing here vouches
+    code, out = verify(capsys, site, "--office", office)
+    assert code == 1
+    assert_named(out, expected, devices)
+    assert "office receipts/" in out
+
+
+def test_edited_receipt_is_a_finding_everywhere_it_is_kept(synced, capsys):
+    site, office, _ = synced
+    chain = next((office / "receipts").iterdir())
+    text = chain.read_text(encoding="utf-8")
+    chain.write_text(text.replace("seq = 3\n", "seq = 2\n"), encoding="utf-8")  # tablet-2
+    code, out = verify(capsys, office)
+    assert code == 1 and f"receipts/{chain.name}: receipt 1: edited" in out
+    code, out = verify(capsys, site, "--office", office)
+    assert code == 1 and f"office receipts/{chain.name}: receipt 1: edited" in out
+    copy = next((site / "receipts").iterdir())
+    copy.write_text(copy.read_text(encoding="utf-8").replace('number = 1', 'number = 2'))
+    code, out = verify(capsys, site)
+    assert code == 1 and f"receipts/{copy.name}: receipt 2: edited" in out
+
+
+def test_receipts_removed_from_the_end_of_the_office_chain(synced, capsys):
+    site, office, _ = synced
+    chain = next((office / "receipts").iterdir())
+    one_receipt = chain.read_bytes()
+    append_entry(site, date(2026, 9, 28), None, "late delivery noted")  # receipt 2 follows
+    assert sync(site, office).receipt.startswith("receipt 2 in ")
+    chain.write_bytes(one_receipt)
+    code, out = verify(capsys, site, "--office", office)
+    assert code == 1
+    assert f"office receipts/{chain.name}: holds 1 receipts" in out
+    assert "receipts 2 to 2 were removed from it" in out
+    again = sync(site, office)
+    assert again.exit_code == 1
+    assert any("had lost receipts 2 to 2" in p for p in again.receipt_problems)
+    assert verify(capsys, site, "--office", office)[0] == 0
+
+
+def test_office_missing_file_named_by_verify_office(synced, capsys):
+    site, office, _ = synced
+    shutil.rmtree(office / "receipts")
+    code, out = verify(capsys, site, "--office", office)
+    assert code == 1 and "missing, yet this device holds 1 receipts" in out
+
+
+def test_missing_office_folder_is_bad_input(synced, capsys, tmp_path):
+    site, _, _ = synced
+    code = main(["verify", str(site), "--office", str(tmp_path / "nowhere")])
+    err = capsys.readouterr().err
+    assert code == 2 and "office folder does not exist" in err and "Fix:" in err
