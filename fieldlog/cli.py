@@ -18,8 +18,8 @@ from fieldlog import __version__
 from fieldlog.bounds import check_date, shown
 from fieldlog.errors import FieldlogError, OutOfBounds
 
-COMMANDS = ("schedule", "lookahead", "record", "report", "verify", "sync", "sites", "check",
-            "export", "open", "demo")
+COMMANDS = ("schedule", "lookahead", "history", "record", "report", "verify", "sync", "sites",
+            "check", "export", "open", "demo")
 """Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
 
 EXIT_OK, EXIT_PROBLEM, EXIT_BAD_INPUT = 0, 1, 2

@@ -132,25 +132,66 @@ def _initial_range(site: Site, status: date, progress: Mapping[str, Progress],
     return min(known) - timedelta(days=400), max(known) + timedelta(days=ahead)
 
 
-def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
-         holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
+def schedule_on_calendars(site: Site, status_date: date, progress: Mapping[str, Progress],
+                          holds: Mapping[str, date],
+                          calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
+    """:func:`compute_schedule` on calendars the caller built (lost days already applied).
+
+    For callers that schedule one site as of many days (the forecast history): building the
+    calendars once over a wide range and reusing them is most of the saving. The result does
+    not depend on the range, only on the days in it.
+
+    Raises:
+        HorizonExceeded: the work runs outside the calendars' range; widen it and call again.
+    """
+    return _run(site, status_date, progress, holds, calendars)
+
+
+def forecast_finish_on_calendars(site: Site, status_date: date,
+                                 progress: Mapping[str, Progress], holds: Mapping[str, date],
+                                 calendars: Mapping[str, WorkCalendar]) -> date:
+    """The forecast finish alone (forward pass only): the same date as
+    :func:`schedule_on_calendars` gives, at about half the cost.
+
+    Raises:
+        HorizonExceeded: as :func:`schedule_on_calendars`.
+    """
+    return _forward(site, status_date, progress, holds, calendars)[-1]
+
+
+def _forward(site: Site, status_date: date, progress: Mapping[str, Progress],
+             holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]
+             ) -> tuple[NetworkArrays, CalendarTables, _Fixed, Early, np.ndarray, int, date]:
+    """The forward pass and what it fixes: last working day of every activity and the finish."""
     net = network_arrays(site)
     tables = calendar_tables(calendars, net.calendar_names)
     fixed = _starting_point(site, net, tables, status_date, progress, holds)
     start = fixed.start
-    options = {"override": site.progress_override,
-               "lag_on_successor": site.lag_calendar is LagCalendar.SUCCESSOR}
-    early = forward(net, tables, start, **options)
+    early = forward(net, tables, start, **_options(site))
     fin, dur, cal = start.finished, start.duration, net.calendar
     is_open = ~fin
-
     # Last working day of every activity (a start milestone: its own day), as an ordinal.
     last = np.empty(net.size, dtype=np.int64)
     point = np.where((dur != 0) | early.end_after, early.finish - 1, early.start)
     last[is_open] = tables.ordinals(cal[is_open], point[is_open])
     last[fin] = start.actual_finish[fin]
     finish_ord = int(last.max()) if net.size else site.start.toordinal()
-    finish = date.fromordinal(finish_ord)
+    return net, tables, fixed, early, last, finish_ord, date.fromordinal(finish_ord)
+
+
+def _options(site: Site) -> dict[str, bool]:
+    return {"override": site.progress_override,
+            "lag_on_successor": site.lag_calendar is LagCalendar.SUCCESSOR}
+
+
+def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
+         holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
+    net, tables, fixed, early, last, finish_ord, finish = _forward(
+        site, status_date, progress, holds, calendars)
+    start = fixed.start
+    options = _options(site)
+    fin, dur = start.finished, start.duration
+    is_open = ~fin
 
     latest, slack = _late_bounds(site, net, tables, early, is_open, finish)
     late_finish, slack = backward(net, tables, start, early, latest, slack, **options)

@@ -106,6 +106,7 @@ def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
         raise f.error("no calendars defined", fix='add [calendars.weekdays] with workdays = [...]')
     out: dict[str, CalendarSpec] = {}
     for cname, body in tables.items():
+        _bounded(f, bounds.check_text, cname, "a calendar name", line=None)
         where = f"[calendars.{cname}]"
         if not isinstance(body, dict):
             raise f.error(f"{where} must be a table", line=f.line_of(rf"\b{re.escape(cname)}\b"))
@@ -139,6 +140,7 @@ def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
 def _crews(f: TomlFile) -> dict[str, Crew]:
     out: dict[str, Crew] = {}
     for cname, body in _table(f, f.data, "crews").items():
+        _bounded(f, bounds.check_text, cname, "a crew name", line=None)
         where = f"[crews.{cname}]"
         if not isinstance(body, dict):
             raise f.error(f"{where} must be a table")

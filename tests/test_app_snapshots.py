@@ -81,7 +81,7 @@ def test_help_80x24(snap_compare, app: FieldlogApp) -> None:
 
 
 def test_report_80x24(snap_compare, app: FieldlogApp) -> None:
-    assert snap_compare(app, press=["6"], terminal_size=(80, 24), run_before=_settle)
+    assert snap_compare(app, press=["7"], terminal_size=(80, 24), run_before=_settle)
 
 
 def test_lookahead_plain_80x24(snap_compare, tmp_path: Path) -> None:

@@ -160,7 +160,7 @@ async def test_daily_report_view_is_the_commands_report_and_prints_it(
 
     app = make_app(site, TUE)
     async with app.run_test(size=(80, 24)) as pilot:
-        await pilot.press("6")
+        await pilot.press("7")
         await settle(app, pilot)
         assert app.screen.text == command[TUE]
         assert "DAILY REPORT" in screen_text(app)

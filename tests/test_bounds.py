@@ -214,3 +214,18 @@ def test_a_200000_activity_schedule_is_within_its_cap():
                        'duration = 10\ncalendar = "allweek"\nafter = ["A000001", "A000002", '
                        '"A000003"]\n\n')
     assert 200_000 * per_activity < bounds.FILE_CAPS["schedule.toml"]
+
+
+@pytest.mark.parametrize("kind, at_limit, past", [
+    ("day", "2199-12-31", "2200-01-01"),
+    ("day", "1900-01-01", "1899-12-31"),
+    ("text", "x" * 4000, "x" * 4001),
+])
+def test_app_form_fields_use_the_same_bounds(kind, at_limit, past):
+    """The app's forms refuse under the field what the command line refuses."""
+    from fieldlog.app.forms import DAY, TEXT, Field, read_field
+
+    field = Field("f", "Value", DAY if kind == "day" else TEXT)
+    assert read_field(field, at_limit) is not None
+    with pytest.raises(ValueError, match="outside 1900-01-01|more than 4,000"):
+        read_field(field, past)

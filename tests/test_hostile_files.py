@@ -59,6 +59,7 @@ def run_hostile(tmp_path: Path, *args: str,
     assert seconds < MAX_SECONDS, f"took {seconds:.1f} s"
     peak_mb = int(rss.read_text()) / 1024
     assert peak_mb < MAX_RSS_MB, f"peak memory {peak_mb:.0f} MB"
+    print(f"\n{' '.join(args[:1])}: {seconds:.2f} s, {peak_mb:.0f} MB")  # shown with -s
     assert "Traceback" not in done.stderr + done.stdout, done.stderr
     assert done.returncode in (1, 2), (done.returncode, done.stdout, done.stderr)
     lines = done.stderr.strip().splitlines()
@@ -297,3 +298,21 @@ def test_damaged_day_file_with_a_5000_digit_number_does_not_break_recording(tmp_
                        "--author", "P. Tester", home=home)
     assert done.returncode == 2
     assert "used every entry number" in done.stderr
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="needs FIFOs")
+@pytest.mark.parametrize("hostile", ["fifo", "100-MB"])
+def test_office_export_of_a_hostile_site_does_not_hang(tmp_path, hostile):
+    """The office's roll-up fingerprints every site's files before loading them."""
+    jobs = tmp_path / "jobs"
+    site = make_site(jobs / "yard")
+    (site / "schedule.toml").unlink()
+    if hostile == "fifo":
+        os.mkfifo(site / "schedule.toml")
+    else:
+        with open(site / "schedule.toml", "wb") as f:
+            f.truncate(100 * 1024 * 1024)
+    done = run_hostile(tmp_path, "export", str(jobs), "--sqlite", str(tmp_path / "office.db"))
+    assert done.returncode == 1
+    one_line_with(done.stdout, "schedule.toml", "not a plain file" if hostile == "fifo"
+                  else "100.0 MB")

@@ -167,3 +167,38 @@ def test_missing_office_folder_is_bad_input(synced, capsys, tmp_path):
     code = main(["verify", str(site), "--office", str(tmp_path / "nowhere")])
     err = capsys.readouterr().err
     assert code == 2 and "office folder does not exist" in err and "Fix:" in err
+
+
+def test_a_device_key_the_office_never_heard_from_is_named(synced, capsys, tmp_path,
+                                                            _isolated_home):
+    """A key planted in devices/ verifies its own entries; only the office can tell."""
+    site, office, _ = synced
+    devices = site / "devices"
+    devices.mkdir()
+    this = (_isolated_home / "device.toml").read_text().split('"')[1]
+    (devices / f"{this}.toml").write_text("# this device's own key\n")
+    (devices / "tab-planted-1.toml").write_text("# someone else's key\n")
+    for args in ((site,), (site, "--office", office)):
+        code, out = verify(capsys, *args)
+        assert code == 1
+        assert ("devices/tab-planted-1.toml: device tab-planted-1 is not known to the office"
+                in out)
+        assert f"device {this} is not known" not in out
+    # A device that syncs with the office itself becomes known, and the next receipt says so.
+    other_home = tmp_path / "home-planted"
+    other_home.mkdir()
+    (other_home / "device.toml").write_text('device = "tab-planted-1"\n')
+    other = tmp_path / "other-copy"
+    shutil.copytree(site, other)
+    shutil.rmtree(other / "receipts")
+    append_entry(other, date(2026, 9, 28), None, "crane booked", home=other_home)
+    assert sync(other, office, home=other_home).exit_code == 0
+    assert verify(capsys, site, "--office", office)[0] == 0
+    assert sync(site, office).receipt is not None          # receives the entry, knows the device
+    assert verify(capsys, site)[0] == 0
+
+
+def test_a_site_that_never_synced_names_no_device(sample_site, capsys):
+    (sample_site / "devices").mkdir()
+    (sample_site / "devices" / "tab-planted-1.toml").write_text("# a key\n")
+    assert verify(capsys, sample_site)[0] == 0

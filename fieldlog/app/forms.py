@@ -8,10 +8,13 @@ reads.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from datetime import date
 from typing import Any
+
+from fieldlog.bounds import check_date, check_text
+from fieldlog.errors import OutOfBounds
 
 TEXT, WHOLE, NUMBER, DAY, CHOICE, YES_NO = "text", "whole", "number", "day", "choice", "yes/no"
 KINDS = (TEXT, WHOLE, NUMBER, DAY, CHOICE, YES_NO)
@@ -89,16 +92,17 @@ def read_field(f: Field, raw: Any) -> Any:
             raise ValueError(f"{f.label} is needed")
         return None
     if f.kind == TEXT:
-        return text
+        return _bounded(check_text, text, f.label)
     if f.kind == CHOICE:
         if text not in f.choices:
             raise ValueError(f"choose one of: {', '.join(f.choices)}")
         return text
     if f.kind == DAY:
         try:
-            return date.fromisoformat(text)
+            day = date.fromisoformat(text[:40])
         except ValueError:
             raise ValueError("type a date like 2026-03-02") from None
+        return _bounded(check_date, day, f.label)
     if f.kind == WHOLE:
         try:
             number: float = int(text)
@@ -114,6 +118,14 @@ def read_field(f: Field, raw: Any) -> Any:
     if f.high is not None and number > f.high:
         raise ValueError(f"{f.label} cannot be more than {_num(f.high)}")
     return number
+
+
+def _bounded(check: Callable[[Any, str], Any], value: Any, label: str) -> Any:
+    """The command line's check from :mod:`fieldlog.bounds`, as the sentence under a field."""
+    try:
+        return check(value, label)
+    except OutOfBounds as exc:
+        raise ValueError(exc.problem) from None
 
 
 def _num(x: float) -> str:

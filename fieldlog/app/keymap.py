@@ -20,6 +20,7 @@ AREAS: dict[str, str] = {
     "float": "Float",
     "journal": "Journal",
     "sync": "Office sync",
+    "forecast": "History (how the forecast moved)",
     "report": "Daily report",
     "moving": "Moving around",
 }
@@ -31,6 +32,7 @@ VIEWS: dict[str, str] = {
     "float": "Float",
     "journal": "Journal",
     "sync": "Sync",
+    "forecast": "History",
     "report": "Report",
 }
 """View (screen mode) id -> short name used in the view strip and palette."""
@@ -86,7 +88,10 @@ KEYS: tuple[Key, ...] = (
         "show the journal, newest first, and correct an entry", show=False, priority=True),
     Key("views.sync", "5", "view('sync')", "Sync",
         "show the office sync status and sync now", show=False, priority=True),
-    Key("views.report", "6", "view('report')", "Report",
+    Key("views.forecast", "6", "view('forecast')", "History",
+        "show how the forecast finish moved day by day, why, and plan reliability per week",
+        show=False, priority=True),
+    Key("views.report", "7", "view('report')", "Report",
         "show the printable daily report of the shift (, and . for other days)", show=False,
         priority=True),
     Key("views.help", "question_mark,f1", "help", "Help",
@@ -159,7 +164,12 @@ KEYS: tuple[Key, ...] = (
         "send the field log to the office folder and bring new schedule revisions back "
         "(in the folder box, letters type and Enter syncs)"),
     Key("sync.leave", "escape", "leave_folder", "Leave box",
-        "leave the folder box, so the view keys 1-5 work again", display="Esc", show=False),
+        "leave the folder box, so the view keys 1-7 work again", display="Esc", show=False),
+    # -- forecast history ---------------------------------------------------------------------
+    Key("forecast.day", "d", "group('day')", "By day", "one line per logged day"),
+    Key("forecast.week", "w", "group('week')", "By week",
+        "one line per week (Monday to Sunday)"),
+    Key("forecast.month", "m", "group('month')", "By month", "one line per month"),
     # -- daily report -----------------------------------------------------------------------------
     Key("report.print", "p", "print_report", "Print",
         "write the daily report shown to prints/; print it if a printer is set up"),

@@ -7,22 +7,34 @@ no longer has ...), which are fixed by recording a correction, and every sync co
 
 Then the log is checked against the office receipts that vouch for it (this device's copies;
 with ``--office FOLDER`` the office's own chain): an entry removed from the end of the log
-after a sync, which the hash chain alone cannot show, is named with its device, entry and file.
+after a sync, which the hash chain alone cannot show, is named with its device, entry and file,
+and a device key in ``devices/`` of a device the office never heard from itself is named too.
 Exit code 1 when anything is found, 0 when the log is clean.
 """
 
 from __future__ import annotations
 
 import argparse
+from dataclasses import replace
 from datetime import date
 from pathlib import Path
 
 from fieldlog.errors import SiteError
 from fieldlog.journal import Journal, fieldlog_home, read_journal, replay
 from fieldlog.site_files import load_site
-from fieldlog.sync.audit import Audit, audit, known_device, office_receipts, own_receipts
+from fieldlog.sync.audit import (
+    Audit,
+    audit,
+    known_device,
+    known_devices,
+    office_receipts,
+    own_receipts,
+    unknown_devices,
+)
 from fieldlog.sync.conflicts import list_conflicts
 from fieldlog.sync.holdings import holdings_of
+from fieldlog.sync.receipt_files import read_folder
+from fieldlog.sync.receipts import RECEIPTS_DIR
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
@@ -78,16 +90,18 @@ def receipts_check(site: Path, journal: Journal, office: str | None) -> Audit:
         SiteError: ``office`` is not a folder.
     """
     home = fieldlog_home()
+    this = known_device(home)
     mine = own_receipts(site, home)
     groups = [mine]
+    known = known_devices(mine.of())
     if office is not None:
         folder = Path(office)
         if not folder.is_dir():
             raise SiteError("the office folder does not exist", file=folder,
                             fix="give the folder 'fieldlog sync' writes to for this site")
-        devices = {d for d, _ in mine.files}
-        this = known_device(home)
-        if this is not None:
-            devices.add(this)
+        devices = {d for d, _ in mine.files} | ({this} if this else set())
         groups.append(office_receipts(folder, devices, mine))
-    return audit(holdings_of(journal), groups)
+        there = read_folder(folder / RECEIPTS_DIR, RECEIPTS_DIR)
+        known = known_devices(f for d, f in there.files if f.label == f"{RECEIPTS_DIR}/{d}.toml")
+    result = audit(holdings_of(journal), groups)
+    return replace(result, unknown=tuple(unknown_devices(site, known, this)))

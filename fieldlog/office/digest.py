@@ -10,7 +10,8 @@ from __future__ import annotations
 import hashlib
 from pathlib import Path
 
-from fieldlog.errors import SiteError
+from fieldlog.errors import OutOfBounds, SiteError
+from fieldlog.guarded_read import read_capped
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE
 from fieldlog.sync.scan import LOG_DIR
 
@@ -23,7 +24,8 @@ def site_files(folder: Path) -> list[Path]:
     files = [folder / SITE_FILE, folder / SCHEDULE_FILE]
     log = folder / LOG_DIR
     if log.is_dir() and not log.is_symlink():
-        files += sorted(p for p in log.iterdir() if p.suffix == ".toml" and p.is_file())
+        files += sorted(p for p in log.iterdir()
+                        if p.suffix == ".toml" and not p.is_symlink() and p.is_file())
     return files
 
 
@@ -37,11 +39,14 @@ def files_sha256(folder: Path) -> str:
     total = 0
     for path in site_files(folder):
         name = path.relative_to(folder).as_posix().encode("utf-8")
+        kind = path.name if path.parent == folder else "journal"
         try:
-            data = path.read_bytes()
+            data = read_capped(path, kind, follow_links=path.parent != folder)
         except FileNotFoundError:
             data = b""
             name += b" (missing)"
+        except OutOfBounds as exc:  # a FIFO, a link in log/ or an oversized file
+            raise SiteError(exc.problem, file=path, fix=exc.fix) from None
         except OSError as exc:
             raise SiteError(f"cannot read: {exc.strerror}", file=path) from exc
         total += len(data)

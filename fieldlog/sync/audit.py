@@ -8,11 +8,16 @@ Which receipts vouch for which folder:
 
 Besides the log's shortfalls, the receipts themselves are checked: a chain that does not
 verify (an edited receipt), and one copy of a chain that holds fewer receipts than another
-(receipts removed from its end) are findings too.
+(receipts removed from its end) are findings too. So is a device key file in ``devices/`` of a
+device the office has never heard from itself (no chain of its own there, in no receipt's
+``known`` list): a key planted with entries signed by it verifies on its own, only the office
+can tell it is foreign.
 """
 
 from __future__ import annotations
 
+import os
+import re
 from collections.abc import Iterable
 from dataclasses import dataclass
 from pathlib import Path
@@ -21,6 +26,10 @@ from fieldlog.journal.device import DEVICE_FILE, device_id
 from fieldlog.sync.holdings import Held, Shortfall, shortfalls
 from fieldlog.sync.receipt_files import home_folder, office_path, read_file, read_folder
 from fieldlog.sync.receipts import RECEIPTS_DIR, ReceiptsFile
+
+DEVICES_DIR = "devices"
+"""The site's device key files, ``devices/<device>.toml`` (written by the journal's signing)."""
+_KEY_NAME = re.compile(r"^([a-z0-9][a-z0-9-]{4,22}[a-z0-9])\.toml$")
 
 
 @dataclass(frozen=True)
@@ -42,10 +51,12 @@ class Audit:
 
     shortfalls: tuple[Shortfall, ...]
     problems: tuple[str, ...]
+    unknown: tuple[str, ...] = ()
+    """Key files of devices the office does not know."""
 
     def lines(self) -> list[str]:
         """Every finding as one line, receipts problems first."""
-        return [*self.problems, *(s.describe() for s in self.shortfalls)]
+        return [*self.problems, *(s.describe() for s in self.shortfalls), *self.unknown]
 
 
 def own_receipts(folder: Path, home: Path) -> Receipts:
@@ -88,6 +99,30 @@ def audit(held: Held, receipts: Iterable[Receipts]) -> Audit:
     groups = list(receipts)
     files = [f for g in groups for f in g.of()]
     return Audit(shortfalls(held, files), tuple(p for g in groups for p in g.problems))
+
+
+def known_devices(files: Iterable[ReceiptsFile]) -> set[str] | None:
+    """Devices the receipts say synced with the office themselves; None when there are no
+    receipts at all (a site that never synced: the office has not spoken yet)."""
+    chains = [f for f in files if f.receipts]
+    if not chains:
+        return None
+    return {d for f in chains for r in f.receipts for d in (r.synced_by, *r.known)}
+
+
+def unknown_devices(site: Path, known: set[str] | None, this: str | None) -> list[str]:
+    """A line for every key file in ``site/devices/`` of a device the office does not know."""
+    folder = site / DEVICES_DIR
+    if known is None or os.path.islink(folder) or not folder.is_dir():
+        return []
+    out = []
+    for name in sorted(os.listdir(folder)):
+        m = _KEY_NAME.match(name)
+        if m and m[1] not in known and m[1] != this:
+            out.append(f"{DEVICES_DIR}/{name}: device {m[1]} is not known to the office (no "
+                       "office receipt lists it); its key did not come from the office's own "
+                       "records: check with the office before trusting its entries")
+    return out
 
 
 def known_device(home: Path) -> str | None:

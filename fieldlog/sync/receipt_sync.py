@@ -27,6 +27,7 @@ from fieldlog.sync.receipt_files import (
     home_folder,
     office_path,
     read_file,
+    read_folder,
     write_receipts,
 )
 from fieldlog.sync.receipts import (
@@ -86,9 +87,10 @@ def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
     latest = theirs.latest if theirs is not None else None
     outcome_written = None
     try:
+        known = known_to(office, device)
         if (holds or latest is not None) and (
-                latest is None or latest.holds != tuple(sorted(holds, key=lambda h: h.device))):
-            receipt = new_receipt(latest, device, written, holds)
+                latest is None or not latest.same_facts(holds, known)):
+            receipt = new_receipt(latest, device, written, holds, known)
             data += receipt_text(receipt).encode("utf-8")
             _check_round_trip(label, data, receipt.hash)
             outcome_written = f"receipt {receipt.number} in {label}"
@@ -97,13 +99,13 @@ def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
         if data != on_disk:
             write_receipts(path.parent, path.name, data)
         chain = parse_receipts(label, data).chain
-        known = theirs.data if theirs is not None and theirs.receipts else None
+        before = theirs.data if theirs is not None and theirs.receipts else None
         for folder in (site_folder / RECEIPTS_DIR, home_folder(home, site_folder)):
             target = folder / copy_name(device, chain)
             held = target.read_bytes() if target.is_file() else None
             if held == data:
                 continue
-            if known is not None and held != known:
+            if before is not None and held != before:
                 problems.append(f"this device's copy {target} was "
                                 f"{'missing' if held is None else 'not the office chain'}; "
                                 "refreshed from the office")
@@ -128,3 +130,12 @@ def _check_round_trip(label: str, data: bytes, expected_hash: str) -> None:
     if back.problems or back.latest is None or back.latest.hash != expected_hash:
         raise SyncError("the receipt did not read back as written", file=label,
                         fix="report this as a fieldlog bug; nothing was written")
+
+
+def known_to(office: Path, device: str) -> tuple[str, ...]:
+    """Devices that synced with ``office`` themselves (a chain they wrote), with ``device``."""
+    found = {device}
+    for d, f in read_folder(office / RECEIPTS_DIR, RECEIPTS_DIR).files:
+        if f.label == f"{RECEIPTS_DIR}/{d}.toml" and f.receipts and f.receipts[0].synced_by == d:
+            found.add(d)
+    return tuple(sorted(found))

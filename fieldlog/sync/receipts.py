@@ -12,6 +12,7 @@ A receipts file is TOML written by fieldlog only, by appending::
     number = 4                      # 1, 2, 3 ... in the file, no gaps
     synced_by = "tab-north-3fa9c1"  # the device whose sync wrote it
     written = 2026-03-06 17:32:00+00:00   # that device's clock, for people only
+    known = ["tab-north-3fa9c1", "tab-south-77b0e2"]   # devices with a chain of their own
     prev = "<hash of receipt 3>"    # "" for the first receipt
     hash = "<sha256 of this receipt's values, prev included>"
 
@@ -50,7 +51,7 @@ HEADER = ("# fieldlog office receipts: written only by fieldlog sync, by appendi
           "# 'fieldlog verify' detects a changed, removed or reordered receipt.\n")
 
 _HEX64 = re.compile(r"^[0-9a-f]{64}$")
-_RECEIPT_KEYS = {"number", "synced_by", "written", "holds", "prev", "hash"}
+_RECEIPT_KEYS = {"number", "synced_by", "written", "known", "holds", "prev", "hash"}
 _HOLD_KEYS = {"device", "seq", "entry_hash", "file"}
 
 
@@ -85,33 +86,37 @@ class Receipt:
     holds: tuple[Holding, ...]
     prev: str
     hash: str
+    known: tuple[str, ...] = ()
+    """Devices that had synced with the office themselves (each has its own chain there) at
+    this sync, sorted. A device key in a site that no receipt knows came from somewhere else.
+    Left out of the stored values (and the hash) when empty."""
 
     def content(self) -> dict[str, Any]:
         """The values the hash covers (everything but the hash)."""
         out: dict[str, Any] = {"number": self.number, "synced_by": self.synced_by}
         if self.written is not None:
             out["written"] = self.written
+        if self.known:
+            out["known"] = list(self.known)
         out["holds"] = [h.content() for h in self.holds]
         out["prev"] = self.prev
         return out
 
-    def held(self, device: str) -> Holding | None:
-        """What this receipt says about ``device``, if anything."""
-        for h in self.holds:
-            if h.device == device:
-                return h
-        return None
+    def same_facts(self, holds: tuple[Holding, ...], known: tuple[str, ...]) -> bool:
+        """True when this receipt already says ``holds`` and ``known`` (no new one needed)."""
+        return (self.holds == tuple(sorted(holds, key=lambda h: h.device))
+                and self.known == tuple(sorted(set(known))))
 
 
 def new_receipt(previous: Receipt | None, synced_by: str, written: datetime | None,
-                holds: tuple[Holding, ...]) -> Receipt:
+                holds: tuple[Holding, ...], known: tuple[str, ...] = ()) -> Receipt:
     """The receipt that follows ``previous`` (None: the first of a file)."""
     number = previous.number + 1 if previous else 1
     prev = previous.hash if previous else ""
     draft = Receipt(number, synced_by, written, tuple(sorted(holds, key=lambda h: h.device)),
-                    prev, "")
+                    prev, "", tuple(sorted(set(known))))
     return Receipt(draft.number, draft.synced_by, draft.written, draft.holds, prev,
-                   entry_hash(draft.content()))
+                   entry_hash(draft.content()), draft.known)
 
 
 def receipt_text(receipt: Receipt) -> str:
@@ -119,6 +124,8 @@ def receipt_text(receipt: Receipt) -> str:
     head: dict[str, Any] = {"number": receipt.number, "synced_by": receipt.synced_by}
     if receipt.written is not None:
         head["written"] = receipt.written
+    if receipt.known:
+        head["known"] = list(receipt.known)
     head["prev"] = receipt.prev
     head["hash"] = receipt.hash
     parts = ["\n[[receipt]]\n", tomli_w.dumps(head)]
@@ -221,6 +228,10 @@ def _receipt(row: Any) -> tuple[Receipt | None, str]:
         return None, "prev is not a hash"
     if not isinstance(digest, str) or not _HEX64.match(digest):
         return None, "hash is not a SHA-256 hex digest"
+    known = row.get("known", [])
+    if (not isinstance(known, list) or any(not isinstance(d, str) or not valid_device(d)
+                                           for d in known) or known != sorted(set(known))):
+        return None, "known is not a sorted list of device ids"
     if not isinstance(holds_raw, list):
         return None, "holds is not a list of tables"
     holds = []
@@ -231,7 +242,7 @@ def _receipt(row: Any) -> tuple[Receipt | None, str]:
         holds.append(hold)
     if len({h.device for h in holds}) != len(holds):
         return None, "names one device twice"
-    return Receipt(number, by, written, tuple(holds), prev, digest), ""
+    return Receipt(number, by, written, tuple(holds), prev, digest, tuple(known)), ""
 
 
 def _holding(raw: Any) -> tuple[Holding | None, str]:

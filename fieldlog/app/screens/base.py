@@ -3,7 +3,7 @@
 A view paints itself from the app's current :class:`~fieldlog.app.session.Snapshot`. The app
 repaints only the view on screen after a recompute; the others repaint when they are shown
 again (they compare the snapshot's version with the one they last painted), so recording an
-entry costs one view's repaint, not six.
+entry costs one view's repaint, not seven.
 """
 
 from __future__ import annotations
@@ -36,7 +36,7 @@ def bindings(area: str) -> list[BindingType]:
 
 
 class ViewScreen(Screen[None]):
-    """Base of the six views (one Textual mode each)."""
+    """Base of the views (one Textual mode each)."""
 
     VIEW: ClassVar[str] = ""
     """The view id (a key of :data:`fieldlog.app.keymap.VIEWS`)."""
