@@ -16,6 +16,7 @@ from textual.widgets import DataTable, Input
 from fieldlog.app.app import make_app
 from fieldlog.app.keymap import AREAS
 from fieldlog.app.screens.help import key_table
+from fieldlog.app.widgets.row_list import RowList
 from fieldlog.cli import main
 from fieldlog.journal import read_journal
 from tests.test_app_site import log, screen_text, settle
@@ -180,6 +181,14 @@ async def test_daily_report_view_is_the_commands_report_and_prints_it(
         await pilot.press("p")
         await settle(app, pilot)
         assert app.status[1] and "link" in app.status[0]
+
+        await pilot.press("4")  # the Journal: the report of the selected entry's day
+        await pilot.pause()
+        monday = next(e.id for e in read_journal(site).entries if e.day == MON)
+        app.screen.query_one("#journal-table", RowList).move_to(monday)
+        await pilot.press("d")
+        await settle(app, pilot)
+        assert app.current_mode == "report" and app.screen.text == command[MON]
     assert list(elsewhere.iterdir()) == []  # nothing written through the link
 
 

@@ -157,6 +157,8 @@ KEYS: tuple[Key, ...] = (
     # -- journal ----------------------------------------------------------------------------------
     Key("journal.correct", "c", "correct", "Correct",
         "correct the selected entry: a new entry replaces it, with a reason (nothing is erased)"),
+    Key("journal.report", "d", "day_report", "Day report",
+        "show the daily report of the selected entry's day"),
     Key("journal.verify", "v", "verify", "Check",
         "check the log files for entries altered or removed outside fieldlog"),
     # -- sync -------------------------------------------------------------------------------------

@@ -64,8 +64,11 @@ class ReportScreen(ViewScreen):
 
     def action_shift_day(self, days: int) -> None:
         """Another day: never after the shift being recorded, never before the site start."""
+        self.show_day(self.shown_day(self.fieldlog.snapshot) + timedelta(days=days))
+
+    def show_day(self, day: date) -> None:
+        """Show the report of ``day`` (from the Journal's ``d`` too), within the same bounds."""
         snap = self.fieldlog.snapshot
-        day = self.shown_day(snap) + timedelta(days=days)
         if day > snap.today:
             self.say(f"{snap.today:%a %d %b} is the shift being recorded: no later report")
             return
