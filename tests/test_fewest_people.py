@@ -302,3 +302,16 @@ def test_repair_search_plans_keep_every_link(case) -> None:
     if la.fewest is None:
         return
     _check_plan(site, result, la, {n: OracleCalendar(spec) for n, spec in site.calendars.items()})
+
+
+def test_the_budget_is_never_overspent() -> None:
+    """However small the budget, the searches stop on it (a busy invented yard, 20 jobs)."""
+    site = make_site([act(f"J{k:02d}", 2 + k % 4, crew={"formers": 1 + k % 5})
+                      for k in range(20)], crews={"formers": 8},
+                     finish_by=date(2026, 3, 20))
+    result = compute_schedule(site, SUN)
+    la = build_lookahead(result, suggest_levelling=False, suggest_fewest=False)
+    early = {load.crew: max(load.early) for load in la.crews}
+    for budget in (0, 1, 7, 100, 1000):
+        f = fewest_people(result, la.days, early, la.rows, budget=budget)
+        assert f is not None and f.nodes <= budget

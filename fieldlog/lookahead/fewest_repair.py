@@ -95,9 +95,11 @@ def repair(problem: Problem, caps: Mapping[str, int], plan: Sequence[int],
                 continue
             for k_to in allowed(i):
                 if k_to != k:
+                    if weighed == budget:
+                        return None, weighed
                     weighed += 1
                     moves.append((delta(i, k, k_to), rng.random(), i, k_to))
-        if weighed >= budget or not moves:
+        if not moves:
             return None, weighed
         if rng.random() < RANDOM_MOVE:
             _, _, i, k_to = rng.choice(moves)
