@@ -1,4 +1,4 @@
-"""The Textual app: six views over one site, and the write-then-recompute loop.
+"""The Textual app: seven views over one site, and the write-then-recompute loop.
 
 Every action that records something follows the same path:
 
@@ -76,6 +76,7 @@ class FieldlogApp(App[None]):
         "journal": lazy_screen("fieldlog.app.screens.history", "JournalScreen"),
         "sync": lazy_screen("fieldlog.app.screens.sync", "SyncScreen"),
         "forecast": lazy_screen("fieldlog.app.screens.forecast", "ForecastScreen"),
+        "report": lazy_screen("fieldlog.app.screens.report", "ReportScreen"),
     }
     """One mode per view. Only the end-of-shift view is imported at start; the others (with
     the printing and sync code they pull in) load the first time they are shown."""
