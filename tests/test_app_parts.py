@@ -44,7 +44,8 @@ class TestKeymap:
         assert len(ids) == len(set(ids))
         assert all(k.area in AREAS for k in KEYS)
 
-    @pytest.mark.parametrize("area", ["today", "lookahead", "float", "journal", "sync"])
+    @pytest.mark.parametrize("area", ["today", "lookahead", "float", "journal", "sync",
+                                      "forecast"])
     def test_no_two_actions_share_a_key_on_one_view(self, area: str) -> None:
         # A view answers its own keys and the keys of "views" (plus Textual's Ctrl+Q/Ctrl+P).
         taken: dict[str, str] = {"ctrl+q": "quit", "ctrl+p": "palette", "ctrl+c": "quit"}
@@ -56,7 +57,7 @@ class TestKeymap:
                 taken[name] = k.id
 
     def test_every_view_has_a_number_key(self) -> None:
-        assert [key(f"views.{v}").keys for v in VIEWS] == ["1", "2", "3", "4", "5"]
+        assert [key(f"views.{v}").keys for v in VIEWS] == ["1", "2", "3", "4", "5", "6", "7"]
 
     @pytest.mark.parametrize(("keys", "words"), [
         ("question_mark,f1", "? F1"),

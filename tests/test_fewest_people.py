@@ -187,6 +187,7 @@ def test_reported_minimum_is_the_enumerated_minimum(case) -> None:
 def _check_plan(site, result, la, cals) -> None:
     """The plan's moves, recounted by the oracle: links, late finishes, forecast finish, load."""
     fewest = la.fewest
+    assert fewest.nodes <= fewest.budget
     moved = {m.activity: m for m in fewest.moves}
     places = {}
     for r in result.activities:
@@ -291,13 +292,26 @@ def test_crews_over_or_near_their_headcount_are_asked_about(available, peak, ask
           suppress_health_check=[HealthCheck.too_slow])
 @given(small_sites(durations=WORK_AND_MILESTONES))
 def test_repair_search_plans_keep_every_link(case) -> None:
-    """With the quick branch and bound switched off, every try goes through the repair
-    search first: its plans too are checked by the oracle (links, late finishes, forecast
+    """With the first round's branch and bound cut to one start, every try goes through the
+    repair search first: its plans too are checked by the oracle (links, late finishes, forecast
     finish, recounted load)."""
     site, progress, days = case
     result = compute_schedule(site, SUN, progress)
-    with mock.patch.object(fewest_module, "QUICK_NODES", 0):
+    with mock.patch.object(fewest_module, "QUICK_NODES", 1):
         la = build_lookahead(result, days=days, suggest_levelling=False)
     if la.fewest is None:
         return
     _check_plan(site, result, la, {n: OracleCalendar(spec) for n, spec in site.calendars.items()})
+
+
+def test_the_budget_is_never_overspent() -> None:
+    """However small the budget, the searches stop on it (a busy invented yard, 20 jobs)."""
+    site = make_site([act(f"J{k:02d}", 2 + k % 4, crew={"formers": 1 + k % 5})
+                      for k in range(20)], crews={"formers": 8},
+                     finish_by=date(2026, 3, 20))
+    result = compute_schedule(site, SUN)
+    la = build_lookahead(result, suggest_levelling=False, suggest_fewest=False)
+    early = {load.crew: max(load.early) for load in la.crews}
+    for budget in (0, 1, 7, 100, 1000):
+        f = fewest_people(result, la.days, early, la.rows, budget=budget)
+        assert f is not None and f.nodes <= budget

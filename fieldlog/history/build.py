@@ -87,6 +87,8 @@ def history_days(site: Site, entries: Sequence[Entry], first: date | None = None
         yield DayRun(record, prev.result, state)
     if prev is None:
         status = before.day if before else site.start - _DAY
+        if last is not None and last < status:
+            status = last  # a range that ends before the site starts: the plan as of then
         yield mover.start(status, before)
     if weeks is not None and week is not None:
         weeks.append(week.close())

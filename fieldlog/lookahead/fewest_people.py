@@ -44,15 +44,19 @@ from fieldlog.lookahead.positions import Network
 from fieldlog.schedule_result import ScheduleResult
 
 METHOD = "branch and bound with must-work and energy lower bounds"
-NODE_BUDGET = 20_000
-"""Starts the search may try over all crews of one lookahead; about a second at most on a
-10,000-activity site (tests/benchmarks/bench_fewest.py)."""
+NODE_BUDGET = 100_000
+"""Starts the searches may try or weigh over all crews of one lookahead: about 0.3 s of CPU
+when all of it is spent on a 10,000-activity site's first fortnight (200 movable activities,
+tests/benchmarks/bench_fewest.py)."""
 
 QUICK_NODES = 500
-"""Starts the first, quick branch and bound of each try may take."""
-REPAIR_STEPS = 2_000
-"""Starts the repair search may weigh per try before the branch and bound takes over (or a
-quarter of what is left, if more)."""
+"""Starts the branch and bound may take in a probe's first round."""
+REPAIR_STEPS = 1_000
+REPAIR_STEPS_EACH = 100
+"""Starts the repair search may weigh in a probe's first round: 100 per movable activity, at
+least 1,000; each later round doubles it (and quadruples the branch and bound's nodes). A small
+window spends little on repair when the branch and bound proves faster that no plan has fewer
+people; a busy one gets several tries at sliding."""
 
 CAUTION = (
     "A smaller crew is a suggestion, not a safe staffing level: the people needed for safe "
@@ -154,24 +158,29 @@ def fewest_people(result: ScheduleResult, days: Sequence[date], early_peaks: Map
 
 def _try(problem: Problem, caps: Mapping[str, int], plan: tuple[int, ...],
          left: int) -> tuple[tuple[int, ...] | None, bool, int]:
-    """One probe at ``caps``: a quick branch and bound (easy cases end here), then the repair
-    search from ``plan``, then the branch and bound with all that is left.
+    """One probe at ``caps``, in rounds of growing size until the budget is spent: the branch
+    and bound (it ends easy cases, and proves when no plan exists), then the repair search
+    from ``plan`` with a fresh seed. Small windows end in the first rounds; busy ones get
+    several repairs.
 
     Returns the plan found (or None), whether none can exist, and the starts used.
     """
     used = 0
-    quick = find_plan(problem, caps, min(left, QUICK_NODES))
-    used += quick.nodes
-    if quick.outcome is not Outcome.BUDGET:
-        return quick.starts, quick.outcome is Outcome.NONE, used
-    repaired, weighed = repair(problem, caps, plan, min(left - used,
-                                                        max(REPAIR_STEPS, left // 4)))
-    used += weighed
-    if repaired is not None:
-        return repaired, False, used
-    full = find_plan(problem, caps, left - used)
-    used += full.nodes
-    return full.starts, full.outcome is Outcome.NONE, used
+    nodes, steps = QUICK_NODES, max(REPAIR_STEPS, REPAIR_STEPS_EACH * len(problem.movables))
+    round_no = 0
+    while used < left:
+        search = find_plan(problem, caps, min(left - used, nodes))
+        used += search.nodes
+        if search.outcome is not Outcome.BUDGET:
+            return search.starts, search.outcome is Outcome.NONE, used
+        repaired, weighed = repair(problem, caps, plan, min(left - used, steps), round_no)
+        used += weighed
+        if repaired is not None:
+            return repaired, False, used
+        if not search.nodes and not weighed:
+            break  # neither search can take a step: nothing more to learn
+        nodes, steps, round_no = max(nodes * 4, 1), steps * 2, round_no + 1
+    return None, False, used
 
 
 def loads_of(problem: Problem, plan: Sequence[int]) -> dict[str, list[int]]:

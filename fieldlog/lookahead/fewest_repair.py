@@ -27,10 +27,11 @@ SEED = 20_260_301
 
 
 def repair(problem: Problem, caps: Mapping[str, int], plan: Sequence[int],
-           budget: int) -> tuple[tuple[int, ...] | None, int]:
+           budget: int, round_no: int = 0) -> tuple[tuple[int, ...] | None, int]:
     """A plan within ``caps`` found by sliding starts from ``plan``, and the starts weighed.
 
-    Returns ``(None, weighed)`` when the budget ran out first.
+    ``round_no`` varies the fixed seed, so a retry walks another way. Returns
+    ``(None, weighed)`` when the budget ran out first.
     """
     movables = problem.movables
     crews = [c for c in problem.crews if c in caps]
@@ -49,7 +50,7 @@ def repair(problem: Problem, caps: Mapping[str, int], plan: Sequence[int],
         out[t.pred].append((t.succ, t.floor))
     needs = [[(c, r) for c, r in m.crew.items() if c in cap] for m in movables]
     by_crew = {c: [i for i, m in enumerate(movables) if needs[i] and c in m.crew] for c in crews}
-    rng = random.Random(SEED)
+    rng = random.Random(SEED + round_no)
     weighed = 0
 
     def delta(i: int, k_from: int, k_to: int) -> int:
@@ -94,9 +95,11 @@ def repair(problem: Problem, caps: Mapping[str, int], plan: Sequence[int],
                 continue
             for k_to in allowed(i):
                 if k_to != k:
+                    if weighed == budget:
+                        return None, weighed
                     weighed += 1
                     moves.append((delta(i, k, k_to), rng.random(), i, k_to))
-        if weighed >= budget or not moves:
+        if not moves:
             return None, weighed
         if rng.random() < RANDOM_MOVE:
             _, _, i, k_to = rng.choice(moves)

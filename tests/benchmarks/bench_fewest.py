@@ -9,8 +9,9 @@ Two measurements, each printed as a ratio to a reference measured in the same ru
 recompute of the same site with its rows built, as in bench_lookahead.py), so the ratios hold
 on a slow or busy machine:
 
-1. the crewed synthetic site of bench_lookahead.py stood mid-job: the whole fewest-people
-   answer (problem, bounds, search) for its fortnight. Target: at most 1 s;
+1. the crewed synthetic site of bench_lookahead.py stood mid-job, and at its start (nothing
+   running, far more work free to move): the whole fewest-people answer (problem, bounds,
+   search) for the fortnight. Target: at most 1 s of CPU for either;
 2. 200 small random sites (12 activities, two invented crews, loose finish): how many answers
    are proven optimal and the slowest one. Target: each proven answer in at most 0.2 s of
    CPU time (wall time is printed too; on a shared machine it includes waiting for a core).
@@ -27,6 +28,7 @@ from types import MappingProxyType
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 from bench_lookahead import best_of, mid_job  # noqa: E402
+from synthetic import START  # noqa: E402
 
 from fieldlog.cpm import compute_schedule  # noqa: E402
 from fieldlog.lookahead import build_lookahead  # noqa: E402
@@ -60,6 +62,16 @@ def answer(result, la):
     return fewest_people(result, la.days, peaks, la.rows)
 
 
+def report(title: str, la, f) -> None:
+    """What the answer says, crew by crew."""
+    print(f"{title} from {la.days[0]}: {len(f.moves)} moves, "
+          f"{f.nodes} of {f.budget} starts tried")
+    for a in f.crews:
+        print(f"  {a.crew}: has {a.available}, early peak {a.early_peak}, plan {a.peak}, "
+              f"bound {a.bound.people} ({a.bound.reason}), "
+              f"{'optimal' if a.optimal else 'not proven'}")
+
+
 def main(argv: list[str]) -> None:
     n = int(argv[1]) if len(argv) > 1 else 10_000
     site, status, progress, result = mid_job(n)
@@ -68,17 +80,17 @@ def main(argv: list[str]) -> None:
     cpm = best_of(reps, lambda: compute_schedule(site, status, progress).activities)
     plain = best_of(reps, lambda: build_lookahead(result, suggest_fewest=False))
     big = best_of(reps, lambda: answer(result, la))
-    f = answer(result, la)
-    print(f"{n} activities, fortnight from {la.days[0]}: {len(f.moves)} moves, "
-          f"{f.nodes} of {f.budget} starts tried")
-    for a in f.crews:
-        print(f"  {a.crew}: has {a.available}, early peak {a.early_peak}, plan {a.peak}, "
-              f"bound {a.bound.people} ({a.bound.reason}), "
-              f"{'optimal' if a.optimal else 'not proven'}")
+    # the job's first fortnight: nothing running yet, so far more work may move
+    first = compute_schedule(site, START - timedelta(days=1))
+    first_la = build_lookahead(first, suggest_fewest=False)
+    opening = best_of(3, lambda: answer(first, first_la))
+    report(f"{n} activities, first fortnight", first_la, answer(first, first_la))
+    report(f"{n} activities, fortnight", la, answer(result, la))
     print(f"{'step':<34} {'wall ms':>8} {'x CPM':>7} {'cpu ms':>8} {'x CPM':>7}")
     for label, (wall, cpu) in (("CPM with rows (reference)", cpm),
                                ("lookahead, no fewest people", plain),
-                               ("fewest people, fortnight", big)):
+                               ("fewest people, fortnight", big),
+                               ("fewest people, first fortnight", opening)):
         print(f"{label:<34} {wall:8.1f} {wall / cpm[0]:7.2f} {cpu:8.1f} {cpu / cpm[1]:7.2f}")
 
     rng = random.Random(5)
@@ -108,11 +120,13 @@ def main(argv: list[str]) -> None:
           f"{slowest_proven * 1000:.1f} ms, slowest of all {slowest * 1000:.1f} ms "
           f"({slowest / small_cpm:.1f} x the slowest small CPM, {small_cpm * 1000:.1f} ms); "
           f"slowest cpu {slowest_cpu * 1000:.1f} ms")
-    ok_big = big[0] / 1000 <= BIG_TARGET_S
+    worst = max(big, opening)
+    ok_big = worst[1] / 1000 <= BIG_TARGET_S
     # verdict on CPU time: on the shared 2-core machine wall time includes waiting for a core
     ok_small = slowest_cpu <= SMALL_TARGET_S
-    print(f"target: 10k fortnight <= {BIG_TARGET_S:.0f} s: {big[0] / 1000:.3f} s "
-          f"{'OK' if ok_big else 'OVER'}; small windows proven <= {SMALL_TARGET_S} s: "
+    print(f"target: 10k fortnight <= {BIG_TARGET_S:.0f} s: {worst[1] / 1000:.3f} s cpu "
+          f"({worst[0] / 1000:.3f} s wall) {'OK' if ok_big else 'OVER'}; "
+          f"small windows proven <= {SMALL_TARGET_S} s: "
           f"{slowest_cpu:.3f} s cpu ({slowest_proven:.3f} s wall) {'OK' if ok_small else 'OVER'}")
 
 

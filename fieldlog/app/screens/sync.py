@@ -156,7 +156,7 @@ class SyncScreen(ViewScreen):
 
     def _synced(self, summary: SyncSummary, problem: str) -> None:
         self.query_one("#sync-summary", Static).update(Text(render_text(summary)))
-        # The folder is known now: the panel takes the keys again, so the view keys (1-5)
+        # The folder is known now: the panel takes the keys again, so the view keys (1-6)
         # switch views instead of typing into the folder, and s or Enter syncs again.
         self.query_one("#sync-panel").focus()
         words = "Sync done: look at the summary" if summary.has_problems else "Sync done"
