@@ -15,6 +15,9 @@ SAMPLE_SITE = ROOT / "sample_sites" / "kestrel-yard"
 def _isolated_home(tmp_path_factory: pytest.TempPathFactory, monkeypatch: pytest.MonkeyPatch):
     """Device ids and app state go to a fresh folder, never the real user data folder."""
     home = tmp_path_factory.mktemp("fieldlog-home")
+    # A device already set up: its author's name was given once (tests of the first-run
+    # question use a fresh FIELDLOG_HOME of their own).
+    (home / "device.toml").write_text('author = "T. Foreman"\n', encoding="utf-8")
     monkeypatch.setenv("FIELDLOG_HOME", str(home))
     # NO_COLOR changes Textual's rendering and breaks snapshots (libraries.md 1.2).
     monkeypatch.delenv("NO_COLOR", raising=False)

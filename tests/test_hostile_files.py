@@ -35,7 +35,13 @@ from fieldlog.cli import main
 try:
     code = main(sys.argv[1:])
 finally:
-    peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss  # KB on Linux
+    # VmHWM is this program's own peak; ru_maxrss also counts the parent's memory image
+    # replaced by exec (Linux keeps it), which made the bound depend on pytest's size.
+    try:
+        with open("/proc/self/status") as status:
+            peak = next(int(ln.split()[1]) for ln in status if ln.startswith("VmHWM:"))
+    except (OSError, StopIteration):
+        peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss  # KB on Linux
     with open(os.environ["RSS_OUT"], "w") as f:
         f.write(str(peak))
 sys.exit(code)

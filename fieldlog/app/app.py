@@ -31,6 +31,7 @@ from fieldlog.app.forms import Form
 from fieldlog.app.history_rows import summarize
 from fieldlog.app.plain import AsciiMarks
 from fieldlog.app.recording import record
+from fieldlog.app.screens.author import author_screen
 from fieldlog.app.screens.base import ViewScreen
 from fieldlog.app.screens.form import FormScreen
 from fieldlog.app.screens.help import HelpScreen
@@ -40,6 +41,7 @@ from fieldlog.calendars import HorizonExceeded
 from fieldlog.cli import shift_day
 from fieldlog.errors import FieldlogError
 from fieldlog.journal.entries import Entry
+from fieldlog.journal.keys import saved_author, take_warnings
 
 
 def lazy_screen(module: str, name: str) -> Callable[[], Screen]:
@@ -95,8 +97,15 @@ class FieldlogApp(App[None]):
         self._busy_note: Timer | None = None
 
     def on_mount(self) -> None:
-        """Open on the end-of-shift view."""
+        """Open on the end-of-shift view; on a device's first run, ask the author's name."""
         self.switch_mode("today")
+        try:
+            needs_name = saved_author() is None
+        except FieldlogError as exc:
+            self.set_status(exc.message, problem=True)
+            return
+        if needs_name:
+            self.push_screen(author_screen())
 
     def get_line_filters(self) -> Sequence[LineFilter]:
         """Plain mode: ASCII marks, and black and white whatever the terminal claims."""
@@ -135,6 +144,8 @@ class FieldlogApp(App[None]):
     def recorded(self, entry: Entry) -> None:
         """Say what was recorded and recompute."""
         self._pending = f"recorded {summarize(entry)} ({entry.id})"
+        for warning in take_warnings():  # a new signing key that could not be made private
+            self._pending += f" · {warning}"
         self.recompute()
 
     def ask(self, form: Form, kind: str, *, fixed: Mapping[str, Any] | None = None,

@@ -4,7 +4,8 @@ Steps, each safe to interrupt and repeat:
 
 1. check the two folders (the site must load; the target must exist);
 2. remove temporary files a sync that died long ago left behind;
-3. seed a target that has no site files yet;
+3. seed a target that has no site files yet, and carry the device key files (``devices/``,
+   :mod:`fieldlog.sync.devices`: copied when missing, never replaced);
 4. list both ``log/`` folders by content hash and plan what each side lacks;
 5. copy, each file through a checked temporary name, validating it as a journal first;
 6. keep both versions of every conflicting file;
@@ -35,6 +36,7 @@ from fieldlog.journal.names import parse_file_name
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.checks import JournalCheck, default_check
 from fieldlog.sync.conflicts import conflicts_folder, keep_aside
+from fieldlog.sync.devices import sync_devices
 from fieldlog.sync.holdings import Held, common_holdings
 from fieldlog.sync.losses import SideLosses, listing_holdings, vouchers
 from fieldlog.sync.plan import Conflict, Copy, Direction, LogPlan, plan_logs
@@ -109,6 +111,7 @@ def sync_site(site_folder: Path | str, target: Path | str,
     device = device_id(home)
     cleaned = _clean(site_folder, target, opts)
     seeded = seed_target(site_folder, target)
+    devices = sync_devices(site_folder, target)
 
     ours, theirs = (scan_log(site_folder, "site", max_bytes=opts.max_bytes),
                     scan_log(target, "target", max_bytes=opts.max_bytes))
@@ -145,7 +148,7 @@ def sync_site(site_folder: Path | str, target: Path | str,
         received=tuple(c for c in done if c.direction is Direction.RECEIVE),
         unchanged=plan.unchanged, seeded=seeded, revision=revision,
         conflicts=tuple(conflicts), refused=tuple(refused), skipped=tuple(skipped),
-        cleaned=cleaned, bytes_copied=copied_bytes, restored=tuple(restored),
+        cleaned=cleaned, bytes_copied=copied_bytes, devices=devices, restored=tuple(restored),
         lost=tuple(lost), receipt=receipt.written,
         receipt_problems=tuple(dict.fromkeys((*vouch.problems, *receipt.problems))),
     )
