@@ -103,3 +103,14 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 130
     except BrokenPipeError:
         return EXIT_OK
+    finally:
+        _print_key_warnings()
+
+
+def _print_key_warnings() -> None:
+    """Say once on stderr that a new signing key could not be made owner-only (only when a
+    command made one: the key module is not even imported otherwise)."""
+    keys = sys.modules.get("fieldlog.journal.keys")
+    if keys is not None:
+        for warning in keys.take_warnings():
+            print(f"fieldlog: warning: {warning}", file=sys.stderr)

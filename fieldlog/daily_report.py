@@ -15,12 +15,12 @@ order, ``\\n`` line ends, so the same log always prints the same bytes.
 
 from __future__ import annotations
 
-import textwrap
 from collections.abc import Iterable, Mapping
 from datetime import date
 
 from fieldlog.journal import Entry
 from fieldlog.progress import Status
+from fieldlog.text_fit import fit, right, wrap
 from fieldlog.words import working_days
 from fieldlog.workspace import SiteState
 
@@ -44,7 +44,11 @@ def _stop(text: str) -> str:
 
 
 class _Page:
-    """Lines of the report, with headings and wrapped text that never pass 80 columns."""
+    """Lines of the report, with headings and wrapped text that never pass 80 columns.
+
+    Widths are display cells (:mod:`fieldlog.text_fit`), not characters: a crew
+    company or a note in Chinese, or with an emoji, takes two cells a character on paper.
+    """
 
     def __init__(self) -> None:
         self.lines: list[str] = []
@@ -57,9 +61,7 @@ class _Page:
         self.add(title.upper())
 
     def wrap(self, text: str, indent: int = 2, hang: int = 4) -> None:
-        self.lines += textwrap.wrap(text, WIDTH, initial_indent=" " * indent,
-                                    subsequent_indent=" " * (indent + hang),
-                                    break_on_hyphens=False) or [""]
+        self.lines += wrap(text, WIDTH, indent=" " * (indent + hang), first=" " * indent)
 
     def none(self) -> None:
         self.add("  none recorded")
@@ -76,7 +78,8 @@ def render_daily_report(state: SiteState, day: date) -> str:
     p = _Page()
     p.add("=" * WIDTH)
     title = "DAILY REPORT"
-    p.add(f"{title}{site.name[:WIDTH - len(title) - 2]:>{WIDTH - len(title)}}")
+    name = fit(site.name, WIDTH - len(title) - 2).rstrip()
+    p.add(title + right(name, WIDTH - len(title)))
     rev = f"Schedule revision {site.revision}"
     when = day.strftime("%A %d %B %Y")
     p.add(f"{when}{rev:>{WIDTH - len(when)}}")
@@ -187,8 +190,8 @@ def _crews(p: _Page, todays: list[Entry]) -> None:
         unknown = unknown or h is None
         hours += h or 0.0
         heads += f["headcount"]
-        p.add(f"  {f['trade'][:18]:<18} {f.get('company', '')[:34]:<34} {f['headcount']:>7} "
-              f"{'-' if h is None else _n(h):>8}")
+        p.add(f"  {fit(f['trade'], 18, '')} {fit(f.get('company', ''), 34, '')} "
+              f"{f['headcount']:>7} {'-' if h is None else _n(h):>8}")
     p.add(f"  {'Total':<53} {heads:>7} {_n(hours) + ('+' if unknown else ''):>8}")
 
 
@@ -217,7 +220,7 @@ def _work(p: _Page, todays: list[Entry], state: SiteState) -> None:
     p.add(f"    {'ID':<10} {'Activity':<28} {'Started':<11} {'Left':>4} {'Fcst finish':<11} "
           f"{'TF':>4}")
     for r in sorted(running, key=lambda r: (r.total_float or 0, r.id)):
-        p.add(f"    {r.id[:10]:<10} {r.name[:28]:<28} {_short(r.actual_start):<11} "
+        p.add(f"    {fit(r.id, 10, '')} {fit(r.name, 28, '')} {_short(r.actual_start):<11} "
               f"{r.remaining:>4} {_short(r.early_finish):<11} {_tf(r.total_float):>4}")
 
 

@@ -15,6 +15,7 @@ from functools import lru_cache
 
 from fieldlog.progress import Status
 from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.text_fit import fit, width
 from fieldlog.words import working_days
 
 FORMATS = ("text", "json", "csv")
@@ -115,7 +116,7 @@ _MARK = {Status.FINISHED: "done", Status.IN_PROGRESS: "on", Status.NOT_STARTED: 
 
 def _text(result: ScheduleResult) -> str:
     site = result.site
-    idw = max([10, *(len(r.id) for r in result.activities)])
+    idw = max([10, *(width(r.id) for r in result.activities)])
     head = (f"{'':2}{'ID':<{idw}} {'Activity':<30} {'State':<5} {'Start':<9} {'Finish':<9} "
             f"{'Late fin':<9} {'TF':>4} {'FF':>3} {'Rem':>3}")
     lines = [
@@ -130,7 +131,7 @@ def _text(result: ScheduleResult) -> str:
         flag = ("!" if r.late else "*" if r.critical else " ") + (">" if r.on_driving_path else " ")
         start = r.actual_start if r.status is not Status.NOT_STARTED else r.early_start
         lines.append(
-            f"{flag}{r.id:<{idw}} {_clip(r.name, 30):<30} {_MARK[r.status]:<5} {_d(start):<9} "
+            f"{flag}{fit(r.id, idw)} {fit(r.name, 30)} {_MARK[r.status]:<5} {_d(start):<9} "
             f"{_d(r.actual_finish or r.early_finish):<9} {_d(r.late_finish):<9} "
             f"{_n(r.total_float):>4} {_n(r.free_float):>3} {r.remaining:>3}"
         )
@@ -142,11 +143,6 @@ def _text(result: ScheduleResult) -> str:
     for o in result.out_of_sequence:
         lines.append(f"Out of sequence: {o.describe()}")
     return "\n".join(line.rstrip() for line in lines) + "\n"
-
-
-def _clip(text: str, width: int) -> str:
-    """``text`` cut to ``width`` with a visible '~' where it was cut."""
-    return text if len(text) <= width else text[: width - 1] + "~"
 
 
 def _finish_line(result: ScheduleResult) -> str:

@@ -7,21 +7,28 @@ start before the grid was finished (an out-of-sequence start), readiness items o
 cleared, deliveries, inspections, instructions, notes, a near miss, and a correction.
 
 Every entry goes through :func:`fieldlog.journal.record_entry`, exactly as ``fieldlog record``
-and the app write them (so the same checks apply). The device ids, authors and ``written``
-times are fixed, so running the script again gives byte-identical files::
+and the app write them (so the same checks apply), and is signed. The device ids, authors,
+``written`` times and signing keys are fixed (each sample device's key is derived from a fixed
+seed here; Ed25519 signatures are deterministic), so running the script again gives
+byte-identical files. Only the public keys are shipped, in the sample's ``devices/`` folder;
+the private keys exist only while this script runs::
 
-    python sample_sites/make_sample_log.py          # rewrites sample_sites/kestrel-yard/log/
+    python sample_sites/make_sample_log.py   # rewrites sample_sites/kestrel-yard/log/, devices/
 
 Every name, company and event here is invented.
 """
 
 from __future__ import annotations
 
+import hashlib
 import shutil
 from datetime import UTC, date, datetime, timedelta
 from pathlib import Path
 
+from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
+
 from fieldlog.journal import record_entry
+from fieldlog.journal.registry import devices_folder
 from fieldlog.site_files import load_site
 
 SITE = Path(__file__).resolve().parent / "kestrel-yard"
@@ -224,6 +231,12 @@ TABLET_LOG: dict[date, list[tuple]] = {
 }
 
 
+def sample_key(device: str) -> Ed25519PrivateKey:
+    """The sample device's signing key, from a fixed seed: for the invented demo only."""
+    seed = hashlib.sha256(b"fieldlog sample site demo key, not secret: " + device.encode())
+    return Ed25519PrivateKey.from_private_bytes(seed.digest())
+
+
 def _clock(day: date, hour: int, minute: int):
     """Written times: from HH:MM UTC on ``day``, one minute per entry."""
     now = datetime(day.year, day.month, day.day, hour, minute, tzinfo=UTC)
@@ -238,8 +251,9 @@ def _clock(day: date, hour: int, minute: int):
 def write(site_folder: Path = SITE) -> int:
     """Rewrite the sample journal; returns the number of entries written."""
     log = site_folder / "log"
-    if log.exists():
-        shutil.rmtree(log)
+    for folder in (log, devices_folder(site_folder)):
+        if folder.exists():
+            shutil.rmtree(folder)
     site = load_site(site_folder)
     labels: dict[str, str] = {}
     count = 0
@@ -255,7 +269,8 @@ def write(site_folder: Path = SITE) -> int:
                 # A correction describes the day of the entry it corrects (day=None).
                 entry = record_entry(site_folder, site, kind,
                                      None if kind == "correction" else day, fields,
-                                     today=day, author=author, device=device, clock=clock)
+                                     today=day, author=author, device=device, clock=clock,
+                                     key=sample_key(device))
                 if len(item) == 3:
                     labels[item[2]] = entry.id
                 count += 1
@@ -265,4 +280,4 @@ def write(site_folder: Path = SITE) -> int:
 
 
 if __name__ == "__main__":
-    print(f"{write()} entries written to {SITE / 'log'}")
+    print(f"{write()} signed entries written to {SITE / 'log'}")

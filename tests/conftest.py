@@ -15,6 +15,9 @@ SAMPLE_SITE = ROOT / "sample_sites" / "kestrel-yard"
 def _isolated_home(tmp_path_factory: pytest.TempPathFactory, monkeypatch: pytest.MonkeyPatch):
     """Device ids and app state go to a fresh folder, never the real user data folder."""
     home = tmp_path_factory.mktemp("fieldlog-home")
+    # A device already set up: its author's name was given once (tests of the first-run
+    # question use a fresh FIELDLOG_HOME of their own).
+    (home / "device.toml").write_text('author = "T. Foreman"\n', encoding="utf-8")
     monkeypatch.setenv("FIELDLOG_HOME", str(home))
     # NO_COLOR changes Textual's rendering and breaks snapshots (libraries.md 1.2).
     monkeypatch.delenv("NO_COLOR", raising=False)
@@ -27,3 +30,14 @@ def sample_site(tmp_path: Path) -> Path:
     target = tmp_path / "kestrel-yard"
     shutil.copytree(SAMPLE_SITE, target)
     return target
+
+
+@pytest.fixture
+def synced_sample(sample_site: Path, tmp_path: Path) -> tuple[Path, Path]:
+    """A scratch copy of the sample site after one clean sync with an empty office folder."""
+    from tests.sync_helpers import sync
+
+    office = tmp_path / "office"
+    office.mkdir()
+    assert sync(sample_site, office).exit_code == 0
+    return sample_site, office

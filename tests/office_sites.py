@@ -79,6 +79,7 @@ def make_sites(root: Path, count: int, home: Path) -> list[Path]:
         (folder / "log").mkdir()
         for path in day_files[: k % len(day_files) + 1]:
             shutil.copyfile(path, folder / "log" / path.name)
+        shutil.copytree(template / "devices", folder / "devices")  # the key that signed them
         sites.append(folder)
     shutil.rmtree(template)
     return sites

@@ -7,12 +7,15 @@ file, and a fixed clock and author keep the bytes (and so conflict-copy names) r
 
 from __future__ import annotations
 
+import hashlib
 import os
 from datetime import UTC, date, datetime
 from pathlib import Path
 from typing import Any
 
-from fieldlog.journal import record_entry
+from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
+
+from fieldlog.journal import device_id, record_entry
 from fieldlog.site_files import load_site
 from fieldlog.sync import SyncOptions, SyncSummary, sync_site
 
@@ -67,12 +70,20 @@ def append_entry(site: Path, day: date, device: str | None, note: str, *,
                  fields: dict[str, Any] | None = None) -> Path:
     """Record one entry (a note by default) through the journal; returns the day file.
 
-    ``device`` None takes the device id of the data folder ``home``.
+    ``device`` None takes the device id of the data folder ``home``. Each device signs with a
+    key derived from its id, so the files (and the golden summary's conflict-copy names,
+    which hash them) are the same on every run.
     """
+    device = device or device_id(home)
     entry = record_entry(site, load_site(site), kind, day, fields or {"text": note},
                          today=TODAY, author="Test Foreman", device=device,
-                         clock=lambda: WRITTEN, home=home)
+                         clock=lambda: WRITTEN, home=home, key=fixed_key(device))
     return site / "log" / journal_name(day, entry.device)
+
+
+def fixed_key(device: str) -> Ed25519PrivateKey:
+    """A test device's signing key, the same on every run (test data only)."""
+    return Ed25519PrivateKey.from_private_bytes(hashlib.sha256(device.encode()).digest())
 
 
 def tree(folder: Path, *, receipts: bool = True) -> dict[str, bytes | str]:

@@ -76,7 +76,7 @@ class TestKeymap:
             assert record <= ids, screen.__name__
 
     def test_every_view_has_a_number_key(self) -> None:
-        assert [key(f"views.{v}").keys for v in VIEWS] == ["1", "2", "3", "4", "5", "6"]
+        assert [key(f"views.{v}").keys for v in VIEWS] == ["1", "2", "3", "4", "5", "6", "7"]
 
     @pytest.mark.parametrize(("keys", "words"), [
         ("question_mark,f1", "? F1"),

@@ -78,3 +78,15 @@ def test_weather_form_80x24(snap_compare, app: FieldlogApp) -> None:
 
 def test_help_80x24(snap_compare, app: FieldlogApp) -> None:
     assert snap_compare(app, press=["question_mark"], terminal_size=(80, 24))
+
+
+def test_report_80x24(snap_compare, app: FieldlogApp) -> None:
+    assert snap_compare(app, press=["7"], terminal_size=(80, 24), run_before=_settle)
+
+
+def test_lookahead_plain_80x24(snap_compare, tmp_path: Path) -> None:
+    fix_device()
+    folder = write_site(tmp_path / "plain")
+    log(folder, "started", MON, {"activity": "EXC-010"}, today=MON)
+    plain = make_app(folder, TUE, plain=True)
+    assert snap_compare(plain, press=["2"], terminal_size=(80, 24), run_before=_settle)

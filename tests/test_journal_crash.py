@@ -95,10 +95,14 @@ def _writer(folder, out_fd: int, start_at: int) -> None:  # pragma: no cover - c
 def test_sigkill_a_fast_writer_many_times(tmp_path):
     folder = make_site(tmp_path / "site")
     rnd = random.Random(7)
-    landed: set[str] = set()
-    attempted: set[str] = set()
+    # The first entry makes the device's key and registers it; the kills then strike the
+    # entry writes themselves, as on a device in use.
+    record_entry(folder, load_site(folder), "note", date(2026, 9, 8), {"text": "f0"},
+                 today=date(2026, 9, 25), author=AUTHOR, device=DEVICE, clock=FixedClock())
+    landed: set[str] = {"f0"}
+    attempted: set[str] = {"f0"}
     mid_write = rounds = 0
-    next_i = 0
+    next_i = 1
     deadline = time.perf_counter() + 2.5
     while time.perf_counter() < deadline:
         r, w = os.pipe()

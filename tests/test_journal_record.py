@@ -301,9 +301,14 @@ def test_cli_record_forms(folder, capsys):
 
 def test_cli_in_a_real_process(folder, tmp_path):
     home = tmp_path / "home"
-    r = run_cli("record", str(folder), "started", "EXC-010", "--on", "2026-09-08",
-                "--today", "2026-09-25", home=home)
+    args = ("record", str(folder), "started", "EXC-010", "--on", "2026-09-08",
+            "--today", "2026-09-25")
+    r = run_cli(*args, home=home)  # a fresh device, no terminal, no --author
+    assert r.returncode == 2 and r.stdout == "" and r.stderr.count("\n") == 1
+    assert "--author NAME" in r.stderr and not (folder / "log").exists()
+    r = run_cli(*args, "--author", "Q. Leadhand", home=home)
     assert r.returncode == 0 and re.fullmatch(r"[a-z0-9-]+\.1\n", r.stdout), r.stderr
+    assert 'author = "Q. Leadhand"' in (home / "device.toml").read_text()  # kept: asked once
     before = log_bytes(folder)
     r = run_cli("record", str(folder), "started", "EXC-010", "--on", "2026-09-30",
                 "--today", "2026-09-25", home=home)
@@ -347,7 +352,13 @@ def test_the_sample_journal_is_what_the_generator_writes(tmp_path):
         sys.path.remove(str(ROOT / "sample_sites"))
     assert make_sample_log.write(copy) > 90
     assert log_bytes(copy) == log_bytes(sample)
+    devices = sorted((sample / "devices").iterdir())
+    assert [p.name for p in devices] == ["site-laptop-1.toml", "tablet-2.toml"]
+    assert all(p.read_bytes() == (copy / "devices" / p.name).read_bytes() for p in devices)
+    assert not any(b"PRIVATE" in p.read_bytes() for p in devices)  # public halves only
     assert verify(sample) == []
+    journal = read_journal(sample)
+    assert journal.unsigned == 0 and journal.signed == len(journal.entries) > 90
 
 
 def test_a_milestone_is_reached_not_started(sample_site):

@@ -129,7 +129,7 @@ for i in range(n):
                          ids=["same device", "two devices"])
 def test_two_processes_writing_at_once_both_land(site, devices):
     n = 15
-    env = {**os.environ, "FIELDLOG_HOME": str(site.parent / "home")}
+    env = dict(os.environ)  # this test's FIELDLOG_HOME: the key that wrote "before" signs on
     procs = [subprocess.Popen([sys.executable, "-c", WRITER, str(site), tag, str(n), dev],
                               cwd=ROOT, env=env, stderr=subprocess.PIPE)
              for tag, dev in zip(("a", "b"), devices, strict=True)]

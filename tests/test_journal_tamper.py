@@ -54,7 +54,8 @@ def test_one_changed_byte_is_named(site):
     data = path.read_bytes()
     i = data.index(b'"third"') + 1
     path.write_bytes(data[:i] + b"T" + data[i + 1:])  # "third" -> "Third": one byte
-    assert problems(site) == {(DAY_FILE, f"{DEVICE}.4", "edited")}
+    assert problems(site) == {(DAY_FILE, f"{DEVICE}.4", "edited"),
+                              (DAY_FILE, f"{DEVICE}.4", "forged")}
     with pytest.raises(JournalError, match=f"entry {DEVICE}.4: edited"):
         check_journal_bytes(DAY_FILE, path.read_bytes())
 
@@ -97,7 +98,9 @@ def test_an_edit_with_a_recomputed_hash_breaks_the_next_link(site):
     assert new_hash == entry_hash(row)
     rest[1] = rest[1].replace('"second"', '"SECOND"').replace(old_hash, new_hash)
     write_blocks(site, head, rest)
-    assert problems(site) == {(DAY_FILE, f"{DEVICE}.4", "removed")}
+    # The chain names the next entry; the signature, made over the old hash, names this one.
+    assert problems(site) == {(DAY_FILE, f"{DEVICE}.4", "removed"),
+                              (DAY_FILE, f"{DEVICE}.3", "forged")}
 
 
 def test_stray_and_broken_files_are_named(site):

@@ -133,11 +133,14 @@ def test_classes_equal_all_some_none_of_the_enumerated_schedules(p: Problem) -> 
             elif found.total == 0:
                 if not row.late:
                     continue  # no schedule meets the late dates: nothing to compare with
-                expected = Cell.MUST if early.first <= o <= early.last else Cell.CANNOT
+                expected = (Cell.MUST if early.first <= o <= early.last else
+                            Cell.DONE if o > early.last else Cell.CANNOT)
             elif runs[o] == found.total:
                 expected = Cell.MUST
             elif runs[o] > 0:
                 expected = Cell.MAY
+            elif o > early.last:  # after the earliest run and in no run: after every run
+                expected = Cell.DONE
             else:
                 expected = Cell.CANNOT
             assert cell is expected, (row.id, day, cell, expected, runs[o], found.total)
@@ -154,7 +157,7 @@ def test_every_may_and_cannot_day_has_a_reason(p: Problem) -> None:
     la = build_lookahead(result, items, p.data_date - timedelta(days=1), 30)
     for row in la.rows:
         for cell, k in zip(row.cells, row.why, strict=True):
-            if cell in (Cell.MAY, Cell.CANNOT) or row.late and cell is Cell.MUST:
+            if cell in (Cell.MAY, Cell.CANNOT, Cell.DONE) or row.late and cell is Cell.MUST:
                 assert k is not None and row.reasons[k], (row.id, cell)
             if cell is Cell.OFF:
                 assert k is None

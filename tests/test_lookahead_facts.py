@@ -22,6 +22,7 @@ from fieldlog.readiness import OpenItem
 SUN = date(2026, 3, 1)
 MON = date(2026, 3, 2)
 M, Y, N, X = Cell.MUST, Cell.MAY, Cell.CANNOT, Cell.OFF  # X: a day off
+D = Cell.DONE  # after the late finish: nothing left to do
 
 
 def _row(la, aid):
@@ -65,14 +66,14 @@ def test_day_d_runs_from_end_of_d_minus_1_to_end_of_d() -> None:
     site = make_site([act("A", 1), act("B", 1)], [Link("A", "B")])
     la = build_lookahead(compute_schedule(site, SUN))
     assert la.days[0] == MON
-    assert _row(la, "A").cells[:3] == (M, N, N)
-    assert _row(la, "B").cells[:3] == (N, M, N)
+    assert _row(la, "A").cells[:3] == (M, D, D)
+    assert _row(la, "B").cells[:3] == (N, M, D)
 
 
 def test_cells_of_a_small_chain() -> None:
     """The whole pattern of a worked example, by hand from the rule (DEVELOPERS.md)."""
     la = build_lookahead(compute_schedule(_chain_site(), SUN), days=7)
-    assert _row(la, "A").cells == (M, M, M, N, N, X, X)
+    assert _row(la, "A").cells == (M, M, M, D, D, X, X)  # finished by Wednesday: done after
     assert _row(la, "B").cells == (N, N, N, M, M, X, X)
     assert _row(la, "C").cells == (N, N, N, Y, Y, X, X)
     assert _row(la, "D").cells == (N, N, N, N, N, X, X)  # Monday 9th, outside this window
@@ -101,7 +102,7 @@ def test_negative_float_is_late_and_must_on_its_earliest_days() -> None:
     la = build_lookahead(compute_schedule(site, SUN), days=7)
     a = _row(la, "A")
     assert a.late and a.total_float == -2
-    assert a.cells == (M, M, M, N, N, X, X)
+    assert a.cells == (M, M, M, D, D, X, X)
     assert a.reasons[a.why[0]].startswith("late: 2 working days behind")
     assert la.finish_float == -2
 
@@ -115,8 +116,8 @@ def test_in_progress_work_uses_its_remaining_dates() -> None:
     la = build_lookahead(compute_schedule(site, SUN, progress), days=5)
     a = _row(la, "A")
     assert a.status.value == "in progress"
-    assert a.cells == (M, M, N, N, N)
-    assert _row(la, "B").cells == (N, N, M, N, N)
+    assert a.cells == (M, M, D, D, D)
+    assert _row(la, "B").cells == (N, N, M, D, D)
 
 
 def test_readiness_item_holds_and_explains() -> None:
@@ -145,7 +146,7 @@ def test_milestone_falls_on_its_date() -> None:
     """A milestone takes no working time: MUST on its one date when it has no float."""
     site = make_site([act("A", 2), act("M", 0, "Slab handed over")], [Link("A", "M")])
     m = _row(build_lookahead(compute_schedule(site, SUN), days=5), "M")
-    assert m.cells == (N, M, N, N, N)
+    assert m.cells == (N, M, D, D, D)  # reached on Tuesday: done after
 
 
 def test_days_before_the_data_date_are_past() -> None:

@@ -14,6 +14,7 @@ file come from outside the code under test.
 
 from __future__ import annotations
 
+import os
 import shutil
 import tomllib
 from collections.abc import Callable
@@ -23,8 +24,17 @@ from pathlib import Path
 import pytest
 
 from fieldlog.cli import main
+from fieldlog.journal.keys import public_hex
+from fieldlog.journal.registry import DeviceRecord, key_file_bytes
+from fieldlog.sync.audit import known_device
 from fieldlog.sync.receipt_files import home_folder
-from tests.sync_helpers import append_entry, sync
+from tests.sync_helpers import append_entry, fixed_key, sync
+
+
+def key_file(device: str) -> bytes:
+    """A device key file as fieldlog writes it, for the key ``append_entry`` signs with."""
+    return key_file_bytes(DeviceRecord(device, public_hex(fixed_key(device).public_key()),
+                                       "Test Foreman", date(2026, 9, 28), 1))
 
 
 def last_entries(site: Path) -> dict[str, tuple[int, str]]:
@@ -68,8 +78,29 @@ def synced(sample_site: Path, tmp_path: Path) -> tuple[Path, Path, dict[str, tup
     expected = last_entries(sample_site)
     summary = sync(sample_site, office)
     assert summary.exit_code == 0 and summary.receipt == "receipt 1 in " + (
-        f"receipts/{next((office / 'receipts').iterdir()).name}")
+        f"receipts/{own_chain(office).name}")
+    # The sample's own devices sync with the office too, as every real device does, so the
+    # office knows the devices whose keys are in devices/ (a key it never heard of is named).
+    for device in (LAPTOP, TABLET):
+        home = tmp_path / f"home-{device}"
+        home.mkdir()
+        (home / "device.toml").write_text(f'device = "{device}"\n')
+        assert sync(sample_site, office, home=home).exit_code == 0
+    summary = sync(sample_site, office)  # this device's next receipt knows them
+    assert summary.exit_code == 0
     return sample_site, office, expected
+
+
+def own_chain(office: Path) -> Path:
+    """This device's receipt chain in the office folder."""
+    return office / "receipts" / f"{known_device(Path(os.environ['FIELDLOG_HOME']))}.toml"
+
+
+def own_copy(site: Path) -> Path:
+    """This device's copy of its receipt chain in the site folder."""
+    this = known_device(Path(os.environ["FIELDLOG_HOME"]))
+    (copy,) = (site / "receipts").glob(f"{this}.*.toml")
+    return copy
 
 
 def verify(capsys: pytest.CaptureFixture[str], *args: str) -> tuple[int, str]:
@@ -125,14 +156,14 @@ def test_tail_removal_is_found_against_the_office_copy(synced, capsys, case, _is
 
 def test_edited_receipt_is_a_finding_everywhere_it_is_kept(synced, capsys):
     site, office, _ = synced
-    chain = next((office / "receipts").iterdir())
+    chain = own_chain(office)
     text = chain.read_text(encoding="utf-8")
     chain.write_text(text.replace("seq = 3\n", "seq = 2\n"), encoding="utf-8")  # tablet-2
     code, out = verify(capsys, office)
     assert code == 1 and f"receipts/{chain.name}: receipt 1: edited" in out
     code, out = verify(capsys, site, "--office", office)
     assert code == 1 and f"office receipts/{chain.name}: receipt 1: edited" in out
-    copy = next((site / "receipts").iterdir())
+    copy = own_copy(site)
     copy.write_text(copy.read_text(encoding="utf-8").replace('number = 1', 'number = 2'))
     code, out = verify(capsys, site)
     assert code == 1 and f"receipts/{copy.name}: receipt 2: edited" in out
@@ -140,18 +171,18 @@ def test_edited_receipt_is_a_finding_everywhere_it_is_kept(synced, capsys):
 
 def test_receipts_removed_from_the_end_of_the_office_chain(synced, capsys):
     site, office, _ = synced
-    chain = next((office / "receipts").iterdir())
+    chain = own_chain(office)
     one_receipt = chain.read_bytes()
-    append_entry(site, date(2026, 9, 28), None, "late delivery noted")  # receipt 2 follows
-    assert sync(site, office).receipt.startswith("receipt 2 in ")
+    append_entry(site, date(2026, 9, 28), None, "late delivery noted")  # receipt 3 follows
+    assert sync(site, office).receipt.startswith("receipt 3 in ")
     chain.write_bytes(one_receipt)
     code, out = verify(capsys, site, "--office", office)
     assert code == 1
-    assert f"office receipts/{chain.name}: holds 1 receipts" in out
-    assert "receipts 2 to 2 were removed from it" in out
+    assert f"office receipts/{chain.name}: holds 2 receipts" in out
+    assert "receipts 3 to 3 were removed from it" in out
     again = sync(site, office)
     assert again.exit_code == 1
-    assert any("had lost receipts 2 to 2" in p for p in again.receipt_problems)
+    assert any("had lost receipts 3 to 3" in p for p in again.receipt_problems)
     assert verify(capsys, site, "--office", office)[0] == 0
 
 
@@ -174,10 +205,10 @@ def test_a_device_key_the_office_never_heard_from_is_named(synced, capsys, tmp_p
     """A key planted in devices/ verifies its own entries; only the office can tell."""
     site, office, _ = synced
     devices = site / "devices"
-    devices.mkdir()
-    this = (_isolated_home / "device.toml").read_text().split('"')[1]
-    (devices / f"{this}.toml").write_text("# this device's own key\n")
-    (devices / "tab-planted-1.toml").write_text("# someone else's key\n")
+    this = known_device(_isolated_home)
+    assert this is not None
+    (devices / f"{this}.toml").write_bytes(key_file(this))
+    (devices / "tab-planted-1.toml").write_bytes(key_file("tab-planted-1"))
     for args in ((site,), (site, "--office", office)):
         code, out = verify(capsys, *args)
         assert code == 1
@@ -199,6 +230,5 @@ def test_a_device_key_the_office_never_heard_from_is_named(synced, capsys, tmp_p
 
 
 def test_a_site_that_never_synced_names_no_device(sample_site, capsys):
-    (sample_site / "devices").mkdir()
-    (sample_site / "devices" / "tab-planted-1.toml").write_text("# a key\n")
+    (sample_site / "devices" / "tab-planted-1.toml").write_bytes(key_file("tab-planted-1"))
     assert verify(capsys, sample_site)[0] == 0

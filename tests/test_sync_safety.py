@@ -327,7 +327,9 @@ def test_case_only_name_collision_is_a_conflict(tmp_path):
     (office / "log" / "2026-03-02_TAB-NORTH.toml").write_text('[[entry]]\nnote = "upper"\n')
     site_before, office_before = tree(site), tree(office)
     summary = sync(site, office)
-    assert (tree(site), tree(office)) == (site_before, office_before)
+    assert summary.devices.sent == ("tab-north.toml",)  # the device's key file travels
+    office_logs = {k: v for k, v in tree(office).items() if not k.startswith("devices/")}
+    assert (tree(site), office_logs) == (site_before, office_before)
     (conflict,) = summary.conflicts
     assert "differ only in case" in conflict.reason
     assert "2026-03-02_TAB-NORTH.toml" in conflict.reason

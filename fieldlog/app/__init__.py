@@ -18,7 +18,7 @@ Layout of the package (pure Python first, then the Textual side):
 * ``printing``: write the lookahead sheet to a file; print it when a printer is set up.
 * ``keymap``: every key as data with a stable id (bindings, help overlay, command palette).
 * ``app``: the App, the write-then-recompute loop and :func:`~fieldlog.app.app.make_app`.
-* ``screens/``: one module per view (today, lookahead, float_list, history, sync) and per
+* ``screens/``: one module per view (today, lookahead, float_list, history, sync, report) and per
   overlay (form, pick, help); ``widgets/``: the shared bars and the fast row list.
 * ``commands``: the command palette provider; ``app.tcss``: the styles.
 """

@@ -1,4 +1,4 @@
-"""The Textual app: six views over one site, and the write-then-recompute loop.
+"""The Textual app: seven views over one site, and the write-then-recompute loop.
 
 Every action that records something follows the same path:
 
@@ -31,6 +31,7 @@ from fieldlog.app.forms import DayContext, Form
 from fieldlog.app.history_rows import summarize
 from fieldlog.app.plain import AsciiMarks
 from fieldlog.app.recording import DAY_FIELD, entry_fields, record
+from fieldlog.app.screens.author import author_screen
 from fieldlog.app.screens.base import ViewScreen
 from fieldlog.app.screens.form import FormScreen, Submit
 from fieldlog.app.screens.help import HelpScreen
@@ -41,6 +42,7 @@ from fieldlog.cli import shift_day
 from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import FieldlogError
 from fieldlog.journal.entries import Entry
+from fieldlog.journal.keys import saved_author, take_warnings
 
 
 def lazy_screen(module: str, name: str) -> Callable[[], Screen]:
@@ -75,6 +77,7 @@ class FieldlogApp(App[None]):
         "journal": lazy_screen("fieldlog.app.screens.history", "JournalScreen"),
         "sync": lazy_screen("fieldlog.app.screens.sync", "SyncScreen"),
         "forecast": lazy_screen("fieldlog.app.screens.forecast", "ForecastScreen"),
+        "report": lazy_screen("fieldlog.app.screens.report", "ReportScreen"),
     }
     """One mode per view. Only the end-of-shift view is imported at start; the others (with
     the printing and sync code they pull in) load the first time they are shown."""
@@ -100,8 +103,15 @@ class FieldlogApp(App[None]):
         """Forms closed with Esc, by draft key: reopened with what was typed."""
 
     def on_mount(self) -> None:
-        """Open on the end-of-shift view."""
+        """Open on the end-of-shift view; on a device's first run, ask the author's name."""
         self.switch_mode("today")
+        try:
+            needs_name = saved_author() is None
+        except FieldlogError as exc:
+            self.set_status(exc.message, problem=True)
+            return
+        if needs_name:
+            self.push_screen(author_screen())
 
     def get_line_filters(self) -> Sequence[LineFilter]:
         """Plain mode: ASCII marks, and black and white whatever the terminal claims."""
@@ -142,6 +152,8 @@ class FieldlogApp(App[None]):
     def recorded(self, entry: Entry, note: str = "") -> None:
         """Say what was recorded, for which day (always with its year), and recompute."""
         self._pending = f"recorded for {long_day(entry.day)}: {summarize(entry)} ({entry.id})"
+        for warning in take_warnings():  # a new signing key that could not be made private
+            self._pending += f" · {warning}"
         other_day = f"for {long_day(entry.day)}" if entry.day != self.session.today else ""
         self._alert = " · ".join(a for a in (note, other_day) if a)
         self.recompute()

@@ -38,6 +38,7 @@ AREAS: dict[str, str] = {
     "journal": "Journal",
     "sync": "Office sync",
     "forecast": "History (how the forecast moved)",
+    "report": "Daily report",
     "moving": "Moving around",
 }
 """Area id -> heading in the help overlay, in the order shown."""
@@ -49,6 +50,7 @@ VIEWS: dict[str, str] = {
     "journal": "Journal",
     "sync": "Sync",
     "forecast": "History",
+    "report": "Report",
 }
 """View (screen mode) id -> short name used in the view strip and palette."""
 
@@ -93,18 +95,22 @@ class Key:
 KEYS: tuple[Key, ...] = (
     # -- anywhere ---------------------------------------------------------------------------------
     Key("views.today", "1", "view('today')", "Today",
-        "show today's activities and the day's record (end of shift)", show=False),
+        "show today's activities and the day's record (end of shift)", show=False, priority=True),
     Key("views.lookahead", "2", "view('lookahead')", "2 wks",
-        "show the two-week lookahead: what must, may and cannot run each day", show=False),
+        "show the two-week lookahead: what must, may and cannot run each day", show=False,
+        priority=True),
     Key("views.float", "3", "view('float')", "Float",
-        "show every activity with its dates and float", show=False),
+        "show every activity with its dates and float", show=False, priority=True),
     Key("views.journal", "4", "view('journal')", "Journal",
-        "show the journal, newest first, and correct an entry", show=False),
+        "show the journal, newest first, and correct an entry", show=False, priority=True),
     Key("views.sync", "5", "view('sync')", "Sync",
-        "show the office sync status and sync now", show=False),
+        "show the office sync status and sync now", show=False, priority=True),
     Key("views.forecast", "6", "view('forecast')", "History",
         "show how the forecast finish moved day by day, why, and plan reliability per week",
-        show=False),
+        show=False, priority=True),
+    Key("views.report", "7", "view('report')", "Report",
+        "show the printable daily report of the shift (, and . for other days)", show=False,
+        priority=True),
     Key("views.help", "question_mark,f1", "help", "Help",
         "list every key (this overlay)", display="?"),
     Key("views.reload", "f5", "reload", "Reload",
@@ -170,6 +176,8 @@ KEYS: tuple[Key, ...] = (
     # -- journal ----------------------------------------------------------------------------------
     Key("journal.correct", "c", "correct", "Correct",
         "correct the selected entry: a new entry replaces it, with a reason (nothing is erased)"),
+    Key("journal.report", "d", "day_report", "Day report",
+        "show the daily report of the selected entry's day"),
     Key("journal.verify", "v", "verify", "Check",
         "check the log files for entries altered or removed outside fieldlog"),
     # -- sync -------------------------------------------------------------------------------------
@@ -177,12 +185,19 @@ KEYS: tuple[Key, ...] = (
         "send the field log to the office folder and bring new schedule revisions back "
         "(in the folder box, letters type and Enter syncs)"),
     Key("sync.leave", "escape", "leave_folder", "Leave box",
-        "leave the folder box, so the view keys 1-6 work again", display="Esc", show=False),
+        "leave the folder box, so the view keys 1-7 work again", display="Esc", show=False),
     # -- forecast history ---------------------------------------------------------------------
     Key("forecast.day", "d", "group('day')", "By day", "one line per logged day"),
     Key("forecast.week", "w", "group('week')", "By week",
         "one line per week (Monday to Sunday)"),
     Key("forecast.month", "m", "group('month')", "By month", "one line per month"),
+    # -- daily report -----------------------------------------------------------------------------
+    Key("report.print", "p", "print_report", "Print",
+        "write the daily report shown to prints/; print it if a printer is set up"),
+    Key("report.earlier", "comma", "shift_day(-1)", "Day back",
+        "show the daily report of the day before", display=",", show=False),
+    Key("report.later", "full_stop", "shift_day(1)", "Day on",
+        "show the daily report of the day after (up to the shift)", display=".", show=False),
     # -- moving around (handled by the widgets; listed for the help overlay) ---------------------
     Key("moving.rows", "up,down", "", "", "move between rows",
         display="Up/Down", bound=False),

@@ -1,4 +1,4 @@
-"""Write the lookahead sheet to a file, and hand it to the system printer when there is one.
+"""Write the lookahead sheet or a daily report to a file, and print it when there is a printer.
 
 The file always comes first: a sheet on disk can be printed from anywhere, a print job that
 failed leaves nothing. Printing never fails hard: when no printer is set up, or the print
@@ -19,6 +19,7 @@ import shutil
 import subprocess
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
+from datetime import date
 from pathlib import Path
 
 from fieldlog.durable import make_folder, refuse_links
@@ -49,22 +50,36 @@ def sheet_path(folder: Path, look: Lookahead) -> Path:
     return folder / PRINTS_FOLDER / f"lookahead-{look.days[0].isoformat()}.txt"
 
 
+def report_path(folder: Path, day: date) -> Path:
+    """Where the daily report of ``day`` is written: one file per day."""
+    return folder / PRINTS_FOLDER / f"daily-report-{day.isoformat()}.txt"
+
+
+def write_print(path: Path, text: str, what: str) -> Path:
+    """Write ``text`` to ``path`` in the prints folder; a link there is refused, not followed.
+
+    Raises:
+        FieldlogError: the file cannot be written (read-only stick, disk full, a link).
+    """
+    try:
+        make_folder(path.parent)
+        refuse_links(path)
+        path.write_text(text, encoding="utf-8", newline="\n")
+    except OSError as exc:
+        raise FieldlogError(f"cannot write the {what}: {exc.strerror}", file=path,
+                            fix="check the site folder is writable and the disk has room, and "
+                            "that prints/ is a real folder, not a link") from exc
+    return path
+
+
 def write_sheet(look: Lookahead, folder: Path) -> Path:
     """Write the printable sheet under ``folder/prints/`` and return its path.
 
     Raises:
         FieldlogError: the file cannot be written (read-only stick, disk full).
     """
-    path = sheet_path(folder, look)
-    text = render_text(look, SHEET_WIDTH)
-    try:
-        make_folder(path.parent)
-        refuse_links(path)
-        path.write_text(text, encoding="utf-8", newline="\n")
-    except OSError as exc:
-        raise FieldlogError(f"cannot write the lookahead sheet: {exc.strerror}", file=path,
-                            fix="check the site folder is writable and the disk has room") from exc
-    return path
+    return write_print(sheet_path(folder, look), render_text(look, SHEET_WIDTH),
+                       "lookahead sheet")
 
 
 Runner = Callable[..., subprocess.CompletedProcess]
@@ -124,13 +139,20 @@ def deliver_sheet(look: Lookahead, folder: Path, *, printer: Printer | None = No
     Raises:
         FieldlogError: the sheet could not be written (printing problems are only reported).
     """
-    path = write_sheet(look, folder)
+    return deliver(write_sheet(look, folder), folder, "sheet", printer=printer, detect=detect,
+                   run=run)
+
+
+def deliver(path: Path, folder: Path, noun: str, *, printer: Printer | None = None,
+            detect: bool = True, run: Runner = subprocess.run) -> str:
+    """Print a file already written under ``folder`` when a printer is set up; in words
+    naming the file as ``noun`` ("sheet", "report")."""
     where = path.relative_to(folder) if path.is_relative_to(folder) else path
     if printer is None and detect:
         printer = find_printer(run=run)
     if printer is None:
-        return f"No printer set up: sheet saved as {where} (print it from any machine)"
+        return f"No printer set up: {noun} saved as {where} (print it from any machine)"
     problem = send_to_printer(path, printer, run)
     if problem:
-        return f"Not printed ({problem}): sheet saved as {where}"
-    return f"Printed on the {printer.name}; sheet saved as {where}"
+        return f"Not printed ({problem}): {noun} saved as {where}"
+    return f"Printed on the {printer.name}; {noun} saved as {where}"

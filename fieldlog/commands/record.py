@@ -14,6 +14,10 @@ can never disagree::
 
 The new entry's id goes to stdout. A refused entry is one line on stderr and exit code 2;
 nothing is written then.
+
+Every entry carries its author's name, asked once per device: on a terminal ``record`` asks
+for it the first time; otherwise give ``--author NAME`` once. It is kept in fieldlog's data
+folder with the device's signing key (the login name is never used).
 """
 
 from __future__ import annotations
@@ -29,6 +33,7 @@ from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, record_entry
 from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import FieldSpec
+from fieldlog.journal.keys import MAX_AUTHOR, check_author, save_author, saved_author
 from fieldlog.site_files import load_site
 
 VERBS = {
@@ -80,7 +85,9 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
                        "correction, the corrected entry's day)")
         f.add_argument("--today", type=iso_date, metavar="DATE",
                        help="today's date (default: the computer's date)")
-        f.add_argument("--author", metavar="NAME", help="who records it")
+        f.add_argument("--author", metavar="NAME", help="who records it (asked once per "
+                       "device and kept; give it here the first time on a machine without "
+                       "a terminal)")
         f.set_defaults(run=run, kind=kind)
 
 
@@ -121,6 +128,7 @@ def run(args: argparse.Namespace) -> int:
             fields[key.strip().replace("-", "_")] = value
     device = device_id()  # first: a data folder that cannot be written is the one error shown
     site = load_site(args.site)
+    author = _author(args.author)
     day = None
     if args.on is not None:
         try:
@@ -128,7 +136,34 @@ def run(args: argparse.Namespace) -> int:
         except DayProblem as exc:
             raise EntryRefused(f"--on: {exc}", fix="e.g. --on yesterday") from None
     entry = record_entry(args.site, site, kind, day, fields, today=today,
-                         author=args.author, device=device, site_name=args.site)
+                         author=author, device=device, site_name=args.site)
     print(entry.id)
     print(f"fieldlog: recorded {entry.kind} for {long_day(entry.day)}", file=sys.stderr)
     return 0
+
+
+def _author(given: str | None) -> str:
+    """The author for this entry: ``--author``, else the kept name, else asked on a terminal.
+
+    The first name given on a device is kept for it.
+
+    Raises:
+        EntryRefused: no name given, none kept, and no terminal to ask on (or a bad name).
+    """
+    kept = saved_author()
+    if given is not None:
+        name = check_author(given)
+    elif kept is not None:
+        return kept
+    elif sys.stdin.isatty() and sys.stderr.isatty():
+        sys.stderr.write(f"Your name, as it will stand on every entry from this device "
+                         f"(1-{MAX_AUTHOR} characters): ")
+        sys.stderr.flush()
+        name = check_author(sys.stdin.readline())
+    else:
+        raise EntryRefused("no author name is set for this device",
+                           fix="give your name once with --author NAME; it is kept for this "
+                           "device")
+    if kept is None:
+        save_author(name)
+    return name

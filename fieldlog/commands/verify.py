@@ -1,15 +1,19 @@
 """``fieldlog verify SITE``: is the field log exactly as fieldlog wrote it, and consistent?
 
-Prints every integrity finding (an edited, removed, reordered or misfiled entry, a file that
-is not a journal file) with its file and entry id, then every contradiction the log holds
-(finish before start, two devices disagreeing on a start, progress on an activity the schedule
-no longer has ...), which are fixed by recording a correction, and every sync conflict copy.
+Prints every integrity finding (a forged entry: unsigned, signed with a key the site does not
+register for its device, or changed after it was signed; an edited, removed, reordered or
+misfiled entry; a file that is not a journal or key file) with its file and entry id, then
+every contradiction the log holds (finish before start, two devices disagreeing on a start,
+progress on an activity the schedule no longer has ...), which are fixed by recording a
+correction, and every sync conflict copy.
 
 Then the log is checked against the office receipts that vouch for it (this device's copies;
 with ``--office FOLDER`` the office's own chain): an entry removed from the end of the log
 after a sync, which the hash chain alone cannot show, is named with its device, entry and file,
 and a device key in ``devices/`` of a device the office never heard from itself is named too.
-Exit code 1 when anything is found, 0 when the log is clean.
+Then the registered devices with their authors. Exit code 1 when anything is found, 0 when
+the log is clean; a log written before its devices signed is clean but says how many entries
+are unsigned ("unsigned, chain intact").
 """
 
 from __future__ import annotations
@@ -72,14 +76,26 @@ def run(args: argparse.Namespace) -> int:
         print("Against the office receipts (what both sides held at a sync):")
         for line in receipt_lines:
             print(f"  {line}")
+    for record in journal.devices.values():
+        print(f"device {record.device}: {record.author}, key registered {record.registered}, "
+              f"signs from entry {record.signed_from}")
     n_entries = len(journal.entries)
     if findings or contradictions or conflicts or receipt_lines:
+        forged = f", {journal.forged} forged entr{'y' if journal.forged == 1 else 'ies'} " \
+            "not used" if journal.forged else ""
         print(f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
               f"{len(conflicts)} sync conflict(s), {len(receipt_lines)} receipt finding(s) in "
-              f"{len(journal.files)} file(s), {n_entries} entries")
+              f"{len(journal.files)} file(s), {n_entries} entries used{forged}")
         return 1
-    print(f"log intact: {len(journal.files)} file(s), {n_entries} entries, chains unbroken, "
-          "no contradictions")
+    if journal.unsigned:
+        print(f"{journal.unsigned} of {n_entries} entries are unsigned: written before this "
+              "site's devices signed their entries, so only the hash chain vouches for them")
+        print(f"unsigned, chain intact: {len(journal.files)} file(s), {n_entries} entries, "
+              f"{journal.signed} signed, {journal.unsigned} unsigned, chains unbroken, "
+              "no contradictions")
+        return 0
+    print(f"log intact: {len(journal.files)} file(s), {n_entries} entries, every one signed "
+          "by its device's registered key, chains unbroken, no contradictions")
     return 0
 
 

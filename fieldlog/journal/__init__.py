@@ -18,6 +18,13 @@ Integrity (:mod:`~fieldlog.journal.filecheck`, :mod:`~fieldlog.journal.verify`)
     :func:`verify` lists every edited, removed, reordered or misfiled entry and every stray
     file; :func:`check_journal_bytes` refuses a single file (for sync, before it lands).
 
+Signatures (:mod:`~fieldlog.journal.keys`, :mod:`~fieldlog.journal.registry`,
+:mod:`~fieldlog.journal.signing`)
+    Every entry is signed (``sig``) with its device's Ed25519 key; the public keys are
+    registered in the site's ``devices/`` folder. A forged entry (no key, wrong key, bad
+    signature, changed content, unsigned where the device signs) is a finding and is left out
+    of :attr:`Journal.entries`, so nothing downstream ever uses it.
+
 Replay (:mod:`~fieldlog.journal.replay`, :mod:`~fieldlog.journal.corrections`)
     :func:`replay` folds the entries up to a status date into per-activity progress, lost days
     per calendar, open readiness items and problems (contradictions, never dropped; a problem
@@ -27,7 +34,8 @@ Replay (:mod:`~fieldlog.journal.replay`, :mod:`~fieldlog.journal.corrections`)
     activity's progress.
 
 Device (:mod:`~fieldlog.journal.device`)
-    :func:`device_id` is this machine's id, kept in ``$FIELDLOG_HOME`` or the user data folder.
+    :func:`device_id` is this machine's id, kept in ``$FIELDLOG_HOME`` or the user data folder,
+    with the author's name (:func:`~fieldlog.journal.keys.save_author`, asked once).
 
 Recording (:mod:`~fieldlog.journal.record`): how the app adds an entry
     Call :func:`record_entry`; it is exactly what ``fieldlog record`` does::
@@ -36,7 +44,7 @@ Recording (:mod:`~fieldlog.journal.record`): how the app adds an entry
 
         try:
             entry = record_entry(folder, site, "remaining", day, {"activity": "FND-020",
-                                 "days": 3}, today=today, author="J. Foreman")
+                                 "days": 3}, today=today)   # the kept author
         except EntryRefused as exc:      # bad input: show exc.message; nothing was written
             ...
         except JournalError as exc:      # disk full, read-only stick: show exc.message

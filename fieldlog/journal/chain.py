@@ -32,8 +32,13 @@ def _tag(value: Any) -> Any:
 
 
 def canonical(content: Mapping[str, Any]) -> bytes:
-    """The bytes that are hashed: ``content`` without ``hash``, as canonical JSON."""
-    body = {k: v for k, v in content.items() if k != "hash"}
+    """The bytes that are hashed: ``content`` without ``hash`` and ``sig``, as canonical JSON.
+
+    The signature is made over the hash (:mod:`fieldlog.journal.signing`), so it cannot be part
+    of what is hashed; leaving it out also keeps the hashes of unsigned older entries as they
+    were.
+    """
+    body = {k: v for k, v in content.items() if k not in ("hash", "sig")}
     return json.dumps(body, sort_keys=True, separators=(",", ":"), ensure_ascii=False,
                       allow_nan=False, default=_tag).encode("utf-8")
 

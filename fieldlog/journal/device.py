@@ -9,12 +9,11 @@ its own id, so devices never contend for a file.
 
 The id is the machine's host name made safe (``a-z``, ``0-9``, ``-``), cut short, plus six
 random hex digits so that two laptops both called "site-office" still differ. It is stored in
-``device.toml`` next to an optional default ``author``.
+``device.toml`` next to the ``author`` (see :mod:`fieldlog.journal.keys`).
 """
 
 from __future__ import annotations
 
-import getpass
 import os
 import re
 import secrets
@@ -47,7 +46,8 @@ def fieldlog_home() -> Path:
     return base / "fieldlog"
 
 
-def _settings(home: Path) -> dict:
+def read_settings(home: Path) -> dict:
+    """device.toml as a table (empty when it does not exist yet)."""
     raw = read_bytes(home / DEVICE_FILE, "settings")
     if not raw:
         return {}
@@ -66,7 +66,7 @@ def device_id(home: Path | None = None) -> str:
         JournalError: the data folder cannot be written, or holds an invalid id.
     """
     home = home or fieldlog_home()
-    found = _settings(home).get("device")
+    found = read_settings(home).get("device")
     if found is not None:
         return _checked(found, home)
     try:
@@ -76,7 +76,7 @@ def device_id(home: Path | None = None) -> str:
                            fix=f"set {HOME_ENV} to a folder you can write") from exc
     try:
         with device_lock(home, "device-settings"):
-            settings = _settings(home)  # another process may have made it meanwhile
+            settings = read_settings(home)  # another process may have made it meanwhile
             if "device" not in settings:
                 settings["device"] = new_device_id(socket.gethostname())
                 atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
@@ -100,14 +100,3 @@ def new_device_id(hostname: str) -> str:
     """A fresh id from a host name: ``"Site Office #2"`` -> ``"site-office-2-3fa9c1"``."""
     slug = re.sub(r"[^a-z0-9]+", "-", hostname.lower()).strip("-")[:17].strip("-")
     return f"{slug or 'device'}-{secrets.token_hex(3)}"
-
-
-def default_author(home: Path | None = None) -> str:
-    """The ``author`` in device.toml, else the login name of whoever runs fieldlog."""
-    found = _settings(home or fieldlog_home()).get("author")
-    if isinstance(found, str) and found.strip():
-        return found.strip()
-    try:
-        return getpass.getuser()
-    except (KeyError, OSError):  # no login name in this environment (some containers)
-        return "unknown"

@@ -60,6 +60,8 @@ TEMPERATURE_UNITS = ("C", "F")
 HEADER_KEYS = ("id", "seq", "kind", "day", "written", "author", "device")
 """Keys every entry has, before its kind's fields; ``prev`` and ``hash`` come last."""
 CHAIN_KEYS = ("prev", "hash")
+SIG_KEY = "sig"
+"""The entry's Ed25519 signature (hex), written last; absent on entries of older fieldlogs."""
 
 
 def _f(name: str, type_: str, help_: str, **kw: Any) -> FieldSpec:
@@ -294,6 +296,9 @@ class Entry:
     fields: Mapping[str, Any] = field(default_factory=lambda: MappingProxyType({}))
     prev: str = ""
     hash: str = ""
+    sig: str = ""
+    """Ed25519 signature over ``hash`` (see :mod:`fieldlog.journal.signing`); ``""`` when
+    the entry was written by a fieldlog that did not sign yet."""
     file: str = ""
     position: int = 0
 

@@ -31,6 +31,7 @@ from fieldlog.journal.entries import (
     CHAIN_KEYS,
     HEADER_KEYS,
     KINDS,
+    SIG_KEY,
     Entry,
     FieldProblem,
     check_fields,
@@ -38,6 +39,9 @@ from fieldlog.journal.entries import (
 from fieldlog.journal.names import parse_file_name
 
 _HEX64 = re.compile(r"^[0-9a-f]{64}$")
+_HEX128 = re.compile(r"^[0-9a-f]{128}$")
+CONTENT_EDITED = "its values no longer match its hash"
+"""The detail of an ``edited`` finding about an entry's own content (not its chain link)."""
 
 
 @dataclass(frozen=True)
@@ -53,9 +57,11 @@ class Finding:
     ``not TOML`` or ``bad name``."""
     detail: str
     line: int | None = None
+    folder: str = "log"
+    """The site sub-folder the file is in: ``log`` or ``devices`` (key files)."""
 
     def __str__(self) -> str:
-        where = f"log/{self.file}" if self.file else "log"
+        where = f"{self.folder}/{self.file}" if self.file else self.folder
         if self.line is not None:
             where += f", line {self.line}"
         what = f"entry {self.entry_id}: " if self.entry_id else ""
@@ -120,8 +126,7 @@ def check_bytes(name: str, data: bytes) -> FileCheck:
                                     f"the file for {day} on device {device}", line))
         ok = entry_hash(row) == entry.hash
         if not ok:
-            findings.append(Finding(name, entry.id, "edited",
-                                    "its values no longer match its hash", line))
+            findings.append(Finding(name, entry.id, "edited", CONTENT_EDITED, line))
         entries.append(entry)
     findings += _chain(name, entries, lines)
     return FileCheck(name, tuple(entries), tuple(findings))
@@ -173,15 +178,19 @@ def _entry(name: str, position: int, row: Any) -> tuple[Entry | None, str]:
         return None, "prev is not a hash"
     if not isinstance(row["hash"], str) or not _HEX64.match(row["hash"]):
         return None, "hash is not a SHA-256 hex digest"
-    raw = {k: v for k, v in row.items() if k not in HEADER_KEYS and k not in CHAIN_KEYS}
+    sig = row.get(SIG_KEY, "")
+    if not isinstance(sig, str) or not (sig == "" or _HEX128.match(sig)):
+        return None, "sig is not an Ed25519 signature (128 hex digits)"
+    raw = {k: v for k, v in row.items()
+           if k not in HEADER_KEYS and k not in CHAIN_KEYS and k != SIG_KEY}
     try:
         fields = check_fields(kind, raw)
     except FieldProblem as exc:
         return None, str(exc)
     return Entry(
         id=eid, seq=seq, kind=kind, day=day, written=written, author=author, device=device,
-        fields=MappingProxyType(fields), prev=row["prev"], hash=row["hash"], file=name,
-        position=position,
+        fields=MappingProxyType(fields), prev=row["prev"], hash=row["hash"], sig=sig,
+        file=name, position=position,
     ), ""
 
 

@@ -9,7 +9,7 @@ prints and which replay turns into problems, so every screen and report shows th
 from __future__ import annotations
 
 from collections import OrderedDict
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from datetime import date
 from pathlib import Path
@@ -19,6 +19,8 @@ from fieldlog.guarded_read import read_capped
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.filecheck import FileCheck, Finding, check_bytes
 from fieldlog.journal.names import LOG_DIR, is_working_file
+from fieldlog.journal.registry import DeviceRecord, read_registry
+from fieldlog.journal.signing import check_signatures
 
 
 class EntryList(tuple):
@@ -41,8 +43,16 @@ class Journal:
     """Every entry read from a site's log folder, in replay order."""
 
     entries: EntryList = field(default_factory=EntryList)
+    """The entries that may be used: forged and content-edited entries are left out (they
+    are in :attr:`findings`)."""
     files: tuple[str, ...] = ()
     """Journal file names found, sorted."""
+    devices: Mapping[str, DeviceRecord] = field(default_factory=dict)
+    """The site's registered device keys (``devices/``), by device id."""
+    signed: int = 0
+    unsigned: int = 0
+    """Entries kept although unsigned: written before this site's devices signed."""
+    forged: int = 0
 
     @property
     def findings(self) -> tuple[Finding, ...]:
@@ -143,12 +153,16 @@ def read_journal(folder: Path | str) -> Journal:
             damaged content is reported as findings instead.
     """
     checks = scan(folder)
+    registry = read_registry(folder)
     entries = [e for c in checks for e in c.entries]
     entries.sort(key=Entry.sort_key)
-    findings = [f for c in checks for f in c.findings]
+    findings = [*registry.findings, *(f for c in checks for f in c.findings)]
     findings += cross_file_findings(entries)
+    signatures = check_signatures(entries, registry, findings)
+    findings += signatures.findings
     files = tuple(c.name for c in checks if c.entries)
-    return Journal(EntryList(entries, findings), files)
+    return Journal(EntryList(signatures.kept, findings), files, registry.devices,
+                   signatures.signed, signatures.unsigned, signatures.forged)
 
 
 def cross_file_findings(entries: Iterable[Entry]) -> list[Finding]:

@@ -18,18 +18,22 @@ from types import MappingProxyType
 from typing import Any
 
 import tomli_w
+from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 
 from fieldlog.bounds import MAX_COUNTER
 from fieldlog.durable import make_folder
-from fieldlog.errors import JournalError
+from fieldlog.errors import EntryRefused, JournalError
 from fieldlog.journal.chain import entry_hash
-from fieldlog.journal.device import default_author, device_id
+from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
 from fieldlog.journal.filecheck import FileCheck
+from fieldlog.journal.keys import check_author, device_key, public_hex, saved_author
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
+from fieldlog.journal.registry import DeviceRecord, register
 from fieldlog.journal.replay import correction_base, replay
 from fieldlog.journal.rules import check_day, check_entry, refuse
+from fieldlog.journal.signing import sign
 from fieldlog.journal.store import (
     atomic_write,
     device_lock,
@@ -67,6 +71,7 @@ def record_entry(
     clock: Clock = utc_now,
     home: Path | None = None,
     site_name: str | None = None,
+    key: Ed25519PrivateKey | None = None,
 ) -> Entry:
     """Check an entry against the schedule and the log, then append it to the journal.
 
@@ -80,19 +85,23 @@ def record_entry(
             A correction takes ``supersedes``, ``reason``, optionally ``withdraw=True``, and
             any fields of the corrected kind as replacement values.
         today: the real date, read once by the caller; later days are refused.
-        author: who records it (default: device.toml's author, else the login name).
+        author: who records it (default: the name kept for this device, see
+            :func:`fieldlog.journal.keys.save_author`; never the login name).
         device: device id (default: this machine's, see :mod:`fieldlog.journal.device`).
         clock: gives the ``written`` time; tests and the sample generator pass a fixed one.
         home: fieldlog's data folder (default ``$FIELDLOG_HOME`` or the user data folder).
         site_name: how the user named the site folder, for the fixes in error messages.
+        key: the device's signing key (default: this machine's, made on first use; the
+            sample generator passes keys derived from a fixed seed).
 
     Returns:
         The entry as written, with its id.
 
     Raises:
-        EntryRefused: the entry is wrong; nothing was written.
+        EntryRefused: the entry is wrong, or no author name is known; nothing was written.
         JournalError: the log cannot be written (full or read-only disk, a damaged day file,
-            another writer holding the lock too long); the log is as it was.
+            another writer holding the lock too long, another key registered for this
+            device); the log is as it was.
     """
     folder = Path(folder)
     site_name = site_name or str(folder)
@@ -105,7 +114,8 @@ def record_entry(
         check_day(day, today, site.start)
         clean = _shape(kind, fields)
     device = device or device_id(home)
-    author = _author(author or default_author(home))
+    author = check_author(author) if author is not None else _kept_author(home)
+    key = key or device_key(home).private
     log = log_folder(folder)
     try:
         make_folder(log)
@@ -119,7 +129,8 @@ def record_entry(
             assert day is not None  # set to ``day or today`` above for every other kind
             view = replay(site, journal.entries, _FAR_FUTURE)
             check_entry(site, view, kind, day, clean, site_name)
-        return _append(log, journal, device, kind, day, clean, author, clock)
+        return _append(log, journal, device, kind, day, clean, author, clock,
+                       _Signer(key, folder, today))
 
 
 def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
@@ -129,11 +140,29 @@ def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
         raise refuse(f"{kind}: {exc}") from None
 
 
-def _author(author: str) -> str:
-    author = author.strip()
-    if not author or len(author) > 100 or any(ord(c) < 32 for c in author):
-        raise refuse(f"author {author!r} is not a usable name", fix="give --author NAME")
-    return author
+def _kept_author(home: Path | None) -> str:
+    found = saved_author(home)
+    if found is None:
+        raise EntryRefused("no author name is set for this device",
+                           fix="give your name once with --author NAME (it is kept for this "
+                           "device); the app asks for it when it first opens")
+    return found
+
+
+class _Signer:
+    """Registers the device's key in the site (once) and signs each entry's hash."""
+
+    def __init__(self, key: Ed25519PrivateKey, folder: Path, today: date) -> None:
+        self.key, self.folder, self.today = key, folder, today
+
+    def register(self, device: str, author: str, seq: int) -> None:
+        """Write ``devices/<device>.toml`` unless it is there with this key already."""
+        register(self.folder, DeviceRecord(device, public_hex(self.key.public_key()), author,
+                                           self.today, seq))
+
+    def sign(self, entry_hash: str) -> str:
+        """The signature of an entry whose hash is ``entry_hash``."""
+        return sign(self.key, entry_hash)
 
 
 def _correction(site: Site, journal: Journal, day: date | None, fields: Mapping[str, Any],
@@ -193,7 +222,7 @@ def _next_seq(log: Path, journal: Journal, device: str) -> int:
 
 
 def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
-            fields: dict[str, Any], author: str, clock: Clock) -> Entry:
+            fields: dict[str, Any], author: str, clock: Clock, signer: _Signer) -> Entry:
     name = file_name(day, device)
     path = log / name
     remove_stale_temps(log, name)
@@ -213,12 +242,14 @@ def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
         if check.entries:
             prev = max(check.entries, key=lambda e: e.seq).hash
     seq = _next_seq(log, journal, device)
+    signer.register(device, author, seq)  # before the device's first signed entry lands
     written = clock().astimezone(UTC).replace(microsecond=0)
     entry = Entry(id=f"{device}.{seq}", seq=seq, kind=kind, day=day, written=written,
                   author=author, device=device, fields=MappingProxyType(dict(fields)),
                   prev=prev)
     body = entry.stored()
     body["hash"] = entry_hash(body)
+    body["sig"] = signer.sign(body["hash"])
     block = b"[[entry]]\n" + tomli_w.dumps(body).encode("utf-8")
     # A new file opens with a warning comment; entries are kept one blank line apart.
     sep = FILE_HEADER + b"\n" if not old else (b"\n" if old.endswith(b"\n") else b"\n\n")
@@ -231,6 +262,7 @@ def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
                            file=path, fix="report this as a fieldlog bug, with the entry")
     new = old + sep + block
     atomic_write(path, new)
-    written_entry = replace(entry, hash=body["hash"], file=name, position=count)
+    written_entry = replace(entry, hash=body["hash"], sig=body["sig"], file=name,
+                            position=count)
     remember(name, new, FileCheck(name, (*check.entries, written_entry), check.findings))
     return written_entry

@@ -7,8 +7,10 @@ working day d:
 * MUST when LS <= d <= EF: the activity runs on d in *every* schedule that keeps the links and
   meets the late dates, so if it is not running on d the job slips;
 * MAY when ES <= d <= LF and not MUST: it runs on d in *some* such schedule (it has float);
+* DONE after its late finish: it is finished by then in every such schedule, so there is
+  nothing left to do (never shown as CANNOT, which would read as if it were held back);
 * CANNOT otherwise: its predecessors (or a readiness item, or a date in the schedule) keep it
-  back, or running then would be past its late finish;
+  back;
 * OFF on the days its calendar does not work.
 
 Why the rule is exact: with float >= 0 the early dates form the earliest schedule and the late
@@ -19,8 +21,8 @@ the latest placement, [LS, EF], and for some start when d lies in their union, [
 ``tests/test_lookahead_exact.py`` checks this against brute-force enumeration.
 
 Negative float means no schedule meets the late dates: the activity is late, its ES..EF days
-are MUST (it has to run on every day it possibly can) and it is flagged. Days before the data
-date are in the past: nothing unfinished can be planned there.
+are MUST (it has to run on every day it possibly can), the days after EF are DONE, and it is
+flagged. Days before the data date are in the past: nothing unfinished can be planned there.
 
 Alongside each class this module records *why* (a :class:`Why` per day), so that the reasons a
 foreman can act on ("waiting on ...", "n days of float") are attached to the cells they explain.
@@ -42,6 +44,8 @@ class Cell(StrEnum):
     MUST = "must"
     MAY = "may"
     CANNOT = "cannot"
+    DONE = "done"
+    """After its late finish (its early finish when late): finished by then."""
     OFF = "off"
 
 
@@ -57,7 +61,7 @@ class Why(IntEnum):
     FLOAT = 3
     """A MAY day: the activity has float."""
     AFTER_LATE_FINISH = 4
-    """After the late finish: running then would delay the job."""
+    """After the late finish: finished by then, or the job is delayed (a DONE day)."""
     LATE = 5
     """A MUST day of an activity with negative float."""
 
@@ -132,7 +136,7 @@ def classify(
         >>> classify([True] * 5, w, es=1, ef=2, ls=2, lf=3, late=False).cells
         ... # doctest: +NORMALIZE_WHITESPACE
         (<Cell.CANNOT: 'cannot'>, <Cell.MAY: 'may'>, <Cell.MUST: 'must'>, <Cell.MAY: 'may'>,
-         <Cell.CANNOT: 'cannot'>)
+         <Cell.DONE: 'done'>)
     """
     cells: list[Cell] = []
     why: list[Why] = []
@@ -152,7 +156,7 @@ def classify(
                 cells.append(Cell.MUST)
                 why.append(Why.LATE)
             else:
-                cells.append(Cell.CANNOT)
+                cells.append(Cell.DONE)
                 why.append(Why.AFTER_LATE_FINISH)
         elif ls <= o <= ef:
             cells.append(Cell.MUST)
@@ -161,7 +165,7 @@ def classify(
             cells.append(Cell.MAY)
             why.append(Why.FLOAT)
         else:
-            cells.append(Cell.CANNOT)
+            cells.append(Cell.DONE)
             why.append(Why.AFTER_LATE_FINISH)
         o += 1
     return Pattern.of(tuple(cells), tuple(why))

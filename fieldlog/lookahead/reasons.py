@@ -126,7 +126,7 @@ class ReasonWriter:
 
     def _after_late_finish(self, r: ActivityResult) -> str:
         assert r.late_finish is not None  # open work, which always has late dates
-        return f"to be finished by its late finish {date_text(r.late_finish)}"
+        return f"done by then: to be finished by its late finish {date_text(r.late_finish)}"
 
     def _late(self, r: ActivityResult) -> str:
         assert r.total_float is not None and r.late_finish is not None

@@ -3,7 +3,8 @@
 JSON (the contract in DEVELOPERS.md, Contracts, extended, never broken)::
 
     {"from": "2026-03-09", "days": ["2026-03-09", ...],
-     "activities": [{"id", "name", "cells": ["must" | "may" | "cannot" | "off", one per day],
+     "activities": [{"id", "name",
+                     "cells": ["must" | "may" | "cannot" | "done" | "off", one per day],
                      "reasons": [...], "late": bool, "total_float", ...}],
      "crews": [{"crew", "available", "must": [...], "most": [...], ...}], ...}
 

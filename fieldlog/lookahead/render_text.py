@@ -24,8 +24,8 @@ from fieldlog.lookahead import fewest_text
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
 from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
-from fieldlog.lookahead.text_fit import abbreviate, fit, right, to_ascii, width, wrap
 from fieldlog.progress import Status
+from fieldlog.text_fit import abbreviate, fit, right, to_ascii, width, wrap
 
 WIDTHS = (80, 132)
 PAGE_LINES = 60
@@ -45,13 +45,16 @@ class Glyphs:
     must: str
     may: str
     cannot: str
+    done: str
+    """After the late finish: nothing left to do."""
     rule: str
     cut: str
     """Ends a name that had to be shortened."""
 
 
-UNICODE = Glyphs(must="\u2588", may="\u2591", cannot="\u00b7", rule="\u2500", cut="\u2026")
-ASCII = Glyphs(must="#", may=":", cannot=".", rule="-", cut="~")
+UNICODE = Glyphs(must="\u2588", may="\u2591", cannot="\u00b7", done="-", rule="\u2500",
+                 cut="\u2026")
+ASCII = Glyphs(must="#", may=":", cannot=".", done="-", rule="-", cut="~")
 
 
 @dataclass(frozen=True)
@@ -196,7 +199,9 @@ class _Sheet:
     def _footer(self, page: int, pages: int) -> list[str]:
         g, w = self.g, self.lay.cell_w
         legend = (f"{g.must * w} must run, or the job slips", f"{g.may * w} may run (has float)",
-                  f"{self._cell(Cell.CANNOT).strip()} cannot run", "blank: not a working day",
+                  f"{self._cell(Cell.CANNOT).strip()} cannot run",
+                  f"{self._cell(Cell.DONE).strip()} done (after its late finish)",
+                  "blank: not a working day",
                   "! late (negative float)", "? readiness item to chase", "~ already running",
                   "TF total float, working days", "crew: people per day, ! over")
         lines = ["", *_pack(legend, self.lay.width), *self._wrap(CAUTION)]
@@ -245,6 +250,8 @@ class _Sheet:
             return self.g.may * w
         if cell is Cell.CANNOT:
             return _centre(self.g.cannot, w)
+        if cell is Cell.DONE:
+            return _centre(self.g.done, w)
         return " " * w
 
     def _row(self, row: ActivityRow) -> str:

@@ -8,8 +8,9 @@ conflict or refused file with what to do about it. Counts come first so a glance
 from __future__ import annotations
 
 import json
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
+from fieldlog.sync.devices import DeviceSync
 from fieldlog.sync.plan import Copy
 from fieldlog.sync.revision import RevisionChange, RevisionStatus
 from fieldlog.sync.scan import Refusal
@@ -52,17 +53,22 @@ class SyncSummary:
     receipt_problems: tuple[str, ...] = ()
     """Receipts files that do not verify, were restored, or are links."""
 
+    devices: DeviceSync = field(default_factory=DeviceSync)
+    """Device key files carried (``devices/``) and any that differ between the sides."""
+
     @property
     def has_problems(self) -> bool:
         """True when a person should look: conflicts, refusals, skipped files, schedules,
         restored or lost entries, receipts that do not verify."""
         return bool(self.conflicts or self.refused or self.skipped or self.revision.is_problem
-                    or self.restored or self.lost or self.receipt_problems)
+                    or self.restored or self.lost or self.receipt_problems
+                    or self.devices.has_problems)
 
     @property
     def changed_anything(self) -> bool:
         """True when either folder was written to."""
         return bool(self.sent or self.received or self.seeded or self.cleaned or self.receipt
+                    or self.devices.sent or self.devices.received
                     or self.revision.status is RevisionStatus.BROUGHT_IN
                     or any(r.kept for r in self.conflicts))
 
@@ -87,6 +93,7 @@ def render_text(s: SyncSummary) -> str:
     lines = []
     if s.seeded:
         lines.append(f"{'seeded':<11}target was empty: copied {', '.join(s.seeded)} from the site")
+    lines.extend(_device_lines(s.devices))
     lines.append(f"{'sent':<11}{_files(s.sent)} to the target")
     lines.append(f"{'received':<11}{_files(s.received)} from the target")
     lines.append(f"{'unchanged':<11}{s.unchanged} journal "
@@ -131,6 +138,20 @@ def render_text(s: SyncSummary) -> str:
     return "\n".join(lines) + "\n"
 
 
+def _device_lines(d: DeviceSync) -> list[str]:
+    """Lines about key files, only when something happened to them."""
+    pad = " " * 11
+    lines = []
+    if d.sent or d.received:
+        lines.append(f"{'keys':<11}{len(d.sent)} device key file(s) sent, {len(d.received)} "
+                     "received")
+    for c in d.conflicts:
+        lines.append(f"{'KEY CLASH':<11}{c}")
+    lines.extend(f"{pad}- {r.describe()}" for r in d.refused)
+    lines.extend(f"{pad}- {name} changed while syncing; run sync again" for name in d.skipped)
+    return lines
+
+
 def _revision_line(r: RevisionChange) -> str:
     if r.status is RevisionStatus.SAME:
         return f"revision {r.site_revision} on both sides"
@@ -164,6 +185,11 @@ def render_json(s: SyncSummary) -> str:
                       for c in s.conflicts],
         "refused": [{"side": r.side, "path": r.path, "reason": r.reason} for r in s.refused],
         "skipped": list(s.skipped),
+        "devices": {"sent": list(s.devices.sent), "received": list(s.devices.received),
+                    "conflicts": list(s.devices.conflicts),
+                    "refused": [{"side": r.side, "path": r.path, "reason": r.reason}
+                                for r in s.devices.refused],
+                    "skipped": list(s.devices.skipped)},
         "restored": list(s.restored),
         "lost": list(s.lost),
         "receipt": {"written": s.receipt, "problems": list(s.receipt_problems)},

@@ -3,7 +3,7 @@
 A view paints itself from the app's current :class:`~fieldlog.app.session.Snapshot`. The app
 repaints only the view on screen after a recompute; the others repaint when they are shown
 again (they compare the snapshot's version with the one they last painted), so recording an
-entry costs one view's repaint, not five.
+entry costs one view's repaint, not seven.
 """
 
 from __future__ import annotations
@@ -15,7 +15,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding, BindingType
 from textual.screen import Screen
 from textual.widget import Widget
-from textual.widgets import Footer
+from textual.widgets import Footer, Input
 
 from fieldlog.app.keymap import keys_for
 from fieldlog.app.session import Snapshot
@@ -101,9 +101,18 @@ class ViewScreen(Screen[None]):
 
     # -- keys every view has ------------------------------------------------------------------
 
-    def action_view(self, view: str) -> None:
-        """Switch to another view."""
-        self.app.switch_mode(view)
+    async def action_view(self, view: str) -> None:
+        """Switch to another view, and only then take the next key.
+
+        The view keys are priority keys (run by the app in typing order) and the switch is
+        awaited, so the keys typed right after ``3`` go to the Float view, even the first time
+        it loads; before, they reached the view being left (where ``f`` records a finish).
+        """
+        await self.app.switch_mode(view)
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        """In a text box a digit is typed, not a view key."""
+        return not (action == "view" and isinstance(self.focused, Input))
 
     def action_help(self) -> None:
         """Open the help overlay."""

@@ -184,8 +184,9 @@ class FloatScreen(RecordView):
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         """While the search box has the cursor, ``/`` is a character to type, not a key."""
-        return not (action == "search"
-                    and self.focused is self.query_one("#float-search", Input))
+        if action == "search" and self.focused is self.query_one("#float-search", Input):
+            return False
+        return super().check_action(action, parameters)
 
     @on(Input.Changed, "#float-search")
     def _typed(self, event: Input.Changed) -> None:

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from typing import ClassVar
 
+from rich.console import Group
 from rich.table import Table
 from rich.text import Text
 from textual.app import ComposeResult
@@ -57,20 +58,25 @@ def quick_start() -> Table:
     return table
 
 
-def key_table() -> Table:
-    """All keys, grouped by area, as a two-column table."""
-    table = Table(box=None, show_header=False, pad_edge=False, expand=True)
-    table.add_column("key", no_wrap=True, width=14)
-    table.add_column("what it does", ratio=1)
+def key_table() -> Group:
+    """All keys, grouped by area: each area's heading on its own line, then its keys.
+
+    The heading is a title over its area's table, not a cell of the key column (14 wide),
+    so a heading longer than that ("Two weeks (lookahead)") is never cut at 80 columns.
+    """
+    parts: list[Table | Text] = []
     for area, heading in AREAS.items():
         keys = [k for k in KEYS if k.area == area]
         if not keys:
             continue
-        table.add_row(Text(heading, style="bold underline"), "")
+        table = Table(box=None, show_header=False, pad_edge=False, expand=True, title=heading,
+                      title_justify="left", title_style="bold underline")
+        table.add_column("key", no_wrap=True, width=14)
+        table.add_column("what it does", ratio=1)
         for k in keys:
             table.add_row(Text(k.shown_key, style="bold"), Text(k.help))
-        table.add_row("", "")
-    return table
+        parts += [table, Text("")]
+    return Group(*parts)
 
 
 class HelpScreen(ModalScreen[None]):

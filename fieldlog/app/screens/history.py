@@ -161,6 +161,17 @@ class JournalScreen(ViewScreen):
 
     # -- keys -----------------------------------------------------------------------------------
 
+    async def action_day_report(self) -> None:
+        """Show the daily report of the selected entry's day (the Report view)."""
+        row = self.selected()
+        if row is None:
+            self.say("No entry is selected: the journal is empty", problem=True)
+            return
+        await self.app.switch_mode("report")
+        show_day = getattr(self.app.screen, "show_day", None)
+        if show_day is not None:
+            show_day(row.entry.day)
+
     def action_correct(self) -> None:
         """Correct the selected entry with a new entry that supersedes it.
 

@@ -37,7 +37,7 @@ def glyphs(sheet: Glyphs) -> Mapping[Cell, str]:
     """Two characters per day cell, the printed sheet's own marks: each class has its own
     shape (solid, shaded, dotted, blank), so no colour is needed."""
     return {Cell.MUST: sheet.must * 2, Cell.MAY: sheet.may * 2, Cell.CANNOT: sheet.cannot * 2,
-            Cell.OFF: "  "}
+            Cell.DONE: sheet.done * 2, Cell.OFF: "  "}
 
 
 GLYPHS = glyphs(UNICODE)
@@ -46,18 +46,19 @@ PLAIN_GLYPHS = glyphs(ASCII)
 
 CELL_WORDS: Mapping[Cell, str] = {
     Cell.MUST: "MUST run", Cell.MAY: "may run", Cell.CANNOT: "cannot run",
-    Cell.OFF: "not a working day",
+    Cell.DONE: "done", Cell.OFF: "not a working day",
 }
 
 CELL_STYLES: Mapping[Cell, str] = {
-    Cell.MUST: "bold #f0a030", Cell.MAY: "#70b0e0", Cell.CANNOT: "dim", Cell.OFF: "",
+    Cell.MUST: "bold #f0a030", Cell.MAY: "#70b0e0", Cell.CANNOT: "dim", Cell.DONE: "dim",
+    Cell.OFF: "",
 }
 """Colour helps where there is colour; the glyphs carry the meaning without it."""
 
 def legend(marks: Mapping[Cell, str]) -> str:
     """Fits 80 columns, so the whole legend is on screen at the smallest size."""
     return (f"{marks[Cell.MUST]} MUST  {marks[Cell.MAY]} may  {marks[Cell.CANNOT]} cannot  "
-            "blank: no work day  !! late  ?? not ready  !? both")
+            f"{marks[Cell.DONE]} done  blank: day off  !! late  ?? not ready")
 
 
 LEGEND = legend(GLYPHS)

@@ -42,7 +42,8 @@ PROGRESS_KINDS = frozenset({"started", "finished", "remaining", "percent"})
 """Entry kinds shown in the activity list rather than in the day panel."""
 
 TOMORROW_WORDS: Mapping[Cell, str] = {
-    Cell.MUST: "MUST", Cell.MAY: "may", Cell.CANNOT: "cannot", Cell.OFF: "off",
+    Cell.MUST: "MUST", Cell.MAY: "may", Cell.CANNOT: "cannot", Cell.DONE: "done",
+    Cell.OFF: "off",
 }
 
 
