@@ -30,3 +30,14 @@ def sample_site(tmp_path: Path) -> Path:
     target = tmp_path / "kestrel-yard"
     shutil.copytree(SAMPLE_SITE, target)
     return target
+
+
+@pytest.fixture
+def synced_sample(sample_site: Path, tmp_path: Path) -> tuple[Path, Path]:
+    """A scratch copy of the sample site after one clean sync with an empty office folder."""
+    from tests.sync_helpers import sync
+
+    office = tmp_path / "office"
+    office.mkdir()
+    assert sync(sample_site, office).exit_code == 0
+    return sample_site, office

@@ -19,21 +19,13 @@ from tests.sync_helpers import sync, tree
 from tests.test_receipts import CASES, LAPTOP, device_files, last_entries
 
 
-@pytest.fixture
-def synced(sample_site: Path, tmp_path: Path) -> tuple[Path, Path]:
-    office = tmp_path / "office"
-    office.mkdir()
-    assert sync(sample_site, office).exit_code == 0
-    return sample_site, office
-
-
 def logs(folder: Path) -> dict[str, bytes]:
     return {k: v for k, v in tree(folder).items() if k.startswith("log/2")}  # type: ignore[misc]
 
 
 @pytest.mark.parametrize("case", list(CASES))
-def test_shrunk_site_is_restored_and_reported(synced, case):
-    site, office = synced
+def test_shrunk_site_is_restored_and_reported(synced_sample, case):
+    site, office = synced_sample
     expected = last_entries(site)
     tamper, devices = CASES[case]
     tamper(site)
@@ -51,8 +43,8 @@ def test_shrunk_site_is_restored_and_reported(synced, case):
 
 
 @pytest.mark.parametrize("case", ["last entry", "last day file", "whole log"])
-def test_shrunk_office_is_restored_and_reported(synced, case):
-    site, office = synced
+def test_shrunk_office_is_restored_and_reported(synced_sample, case):
+    site, office = synced_sample
     CASES[case][0](office)
     summary = sync(site, office)
     assert summary.exit_code == 1
@@ -60,8 +52,8 @@ def test_shrunk_office_is_restored_and_reported(synced, case):
     assert logs(site) == logs(office)
 
 
-def test_entries_lost_on_both_sides_are_reported_as_lost(synced, capsys):
-    site, office = synced
+def test_entries_lost_on_both_sides_are_reported_as_lost(synced_sample, capsys):
+    site, office = synced_sample
     for folder in (site, office):
         device_files(folder, LAPTOP)[-1].unlink()
     code = main(["sync", str(site), str(office)])
@@ -73,8 +65,8 @@ def test_entries_lost_on_both_sides_are_reported_as_lost(synced, capsys):
     assert "2 lost" in err and "Traceback" not in err
 
 
-def test_a_hole_is_a_restore_even_without_receipts(synced, _isolated_home):
-    site, office = synced
+def test_a_hole_is_a_restore_even_without_receipts(synced_sample, _isolated_home):
+    site, office = synced_sample
     shutil.rmtree(site / "receipts")
     shutil.rmtree(home_folder(_isolated_home, site))
     shutil.rmtree(office / "receipts")
@@ -87,9 +79,10 @@ def test_a_hole_is_a_restore_even_without_receipts(synced, _isolated_home):
     assert "although site-laptop-1.103 written after it is still there" in summary.restored[0]
 
 
-def test_new_entries_from_another_device_are_not_a_restore(synced, tmp_path, _isolated_home):
+def test_new_entries_from_another_device_are_not_a_restore(synced_sample, tmp_path,
+                                                           _isolated_home):
     """The office is ahead for a device this site never had: plain receiving, exit 0."""
-    site, office = synced
+    site, office = synced_sample
     other = tmp_path / "other-copy"
     shutil.copytree(site, other)
     shutil.rmtree(other / "receipts")

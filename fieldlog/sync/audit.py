@@ -23,12 +23,11 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from fieldlog.journal.device import DEVICE_FILE, device_id
+from fieldlog.journal.registry import DEVICES_DIR
 from fieldlog.sync.holdings import Held, Shortfall, shortfalls
 from fieldlog.sync.receipt_files import home_folder, office_path, read_file, read_folder
 from fieldlog.sync.receipts import RECEIPTS_DIR, ReceiptsFile
 
-DEVICES_DIR = "devices"
-"""The site's device key files, ``devices/<device>.toml`` (written by the journal's signing)."""
 _KEY_NAME = re.compile(r"^([a-z0-9][a-z0-9-]{4,22}[a-z0-9])\.toml$")
 
 

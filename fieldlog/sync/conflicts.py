@@ -63,13 +63,16 @@ def copy_name(original: str, sha256: str, *, long: bool = False) -> str:
 
 
 def keep_aside(
-    version: LogFile, dest_site: Path, check: Callable[[bytes], None]
+    version: LogFile, dest_site: Path, check: Callable[[bytes], None],
+    kept_in: str = CONFLICTS_DIR,
 ) -> tuple[str, bool]:
     """Save ``version`` as a conflict copy in ``dest_site``; returns (relative path, written).
 
     Args:
         version: the other side's copy of the file.
         dest_site: the site folder that keeps it aside.
+        kept_in: the folder of ``dest_site`` it goes to (``conflicts``, or ``quarantine`` for
+            a file with forged entries).
         check: called with the bytes before they land (raises to refuse them).
 
     Raises:
@@ -78,11 +81,11 @@ def keep_aside(
         LinkedFolder: the conflicts folder is a link.
         SyncError: the copy could not be written.
     """
-    folder = conflicts_folder(dest_site)
+    folder = dest_site / kept_in
     for long in (False, True):
         name = copy_name(version.name, version.sha256, long=long)
         dest = folder / name
-        rel = f"{CONFLICTS_DIR}/{name}"
+        rel = f"{kept_in}/{name}"
         if not os.path.lexists(dest):
             copy_verified(version.path, dest, version.sha256, replaces_sha256=None,
                           validate=check, make_folder=True)

@@ -37,6 +37,7 @@ from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.checks import JournalCheck, default_check
 from fieldlog.sync.conflicts import conflicts_folder, keep_aside
 from fieldlog.sync.devices import sync_devices
+from fieldlog.sync.forgery import QUARANTINE_DIR, ForgedEntries, SignatureCheck, signature_check
 from fieldlog.sync.holdings import Held, common_holdings
 from fieldlog.sync.losses import SideLosses, listing_holdings, vouchers
 from fieldlog.sync.plan import Conflict, Copy, Direction, LogPlan, plan_logs
@@ -91,6 +92,8 @@ class _Side:
     losses: SideLosses
     source: Held
     source_side: str
+    signatures: SignatureCheck
+    """The receiving side's key check (forged entries never land in its ``log/``)."""
 
 
 def sync_site(site_folder: Path | str, target: Path | str,
@@ -119,9 +122,9 @@ def sync_site(site_folder: Path | str, target: Path | str,
     vouch = vouchers(site_folder, target, home, device)
     sides = {
         Direction.RECEIVE: _Side(SideLosses.of("site", held_site, vouch.site), held_office,
-                                 "target"),
+                                 "target", signature_check(site_folder)),
         Direction.SEND: _Side(SideLosses.of("target", held_office, vouch.office), held_site,
-                              "site"),
+                              "site", signature_check(target)),
     }
     plan = plan_logs(ours.files, theirs.files, _is_prefix)
     refused = [*ours.refused, *theirs.refused]
@@ -203,13 +206,18 @@ def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalChec
         to_site = copy.direction is Direction.RECEIVE
         if ("site" if to_site else "target") in unusable:
             continue
-        dest_log = (site_folder if to_site else target) / LOG_DIR
+        dest_side = site_folder if to_site else target
+        side = sides[copy.direction]
         try:
             copied += copy_verified(
-                copy.source.path, dest_log / copy.name, copy.source.sha256,
+                copy.source.path, dest_side / LOG_DIR / copy.name, copy.source.sha256,
                 replaces_sha256=copy.replaces.sha256 if copy.replaces else None,
-                validate=partial(check, copy.name), make_folder=True,
+                validate=partial(_journal_and_keys, check, side.signatures, copy.name),
+                make_folder=True,
             )
+        except ForgedEntries as exc:
+            refused.append(_quarantine(copy, dest_side, "site" if to_site else "target",
+                                       partial(check, copy.name), exc))
         except JournalError as exc:
             refused.append(Refusal("target" if to_site else "site", f"{LOG_DIR}/{copy.name}",
                                    _not_journal(copy.name, exc)))
@@ -219,12 +227,33 @@ def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalChec
             _refuse_link(refused, "site" if to_site else "target", LOG_DIR)
         else:
             done.append(copy)
-            note = _restore_note(copy, sides[copy.direction])
+            note = _restore_note(copy, side)
             if note is not None:
                 restored.append(note)
         if opts.progress is not None:
             opts.progress(n, total, copied)
     return done, skipped, copied, restored
+
+
+def _journal_and_keys(check: JournalCheck, signatures: SignatureCheck, name: str,
+                      data: bytes) -> None:
+    """A sound journal file whose every entry is signed as the receiving side's keys say."""
+    check(name, data)
+    signatures(name, data)
+
+
+def _quarantine(copy: Copy, dest_side: Path, dest_name: str, check: Callable[[bytes], None],
+                exc: ForgedEntries) -> Refusal:
+    """Keep a file with forged entries in the receiving side's quarantine; the refusal line."""
+    from_side = "target" if dest_name == "site" else "site"
+    try:
+        rel, _ = keep_aside(copy.source, dest_side, check, kept_in=QUARANTINE_DIR)
+    except (SourceChanged, LinkedFolder) as why:
+        where = f"not kept ({why})"
+    else:
+        where = f"kept in {dest_name} {rel}, not in {LOG_DIR}/"
+    return Refusal(from_side, f"{LOG_DIR}/{copy.name}",
+                   f"holds forged entries: {exc.problem}; {where}")
 
 
 def _restore_note(copy: Copy, side: _Side) -> str | None:
