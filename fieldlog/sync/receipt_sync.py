@@ -111,7 +111,7 @@ def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
                                 "refreshed from the office")
             write_receipts(folder, target.name, data)
     except LinkedFolder as exc:
-        problems.append(f"{exc}; links are never followed; receipt not kept there")
+        problems.append(f"{exc}; the receipt is not kept there")
     return ReceiptOutcome(outcome_written, tuple(problems))
 
 
