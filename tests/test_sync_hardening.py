@@ -160,3 +160,19 @@ def test_own_temp_names_carry_host_and_pid(tmp_path):
     tmp = transfer.write_temp(tmp_path, b"x", transfer.sha256_bytes(b"x"))
     assert tmp.name.startswith(f"{transfer.TEMP_PREFIX}{transfer.THIS_HOST}-{os.getpid()}-")
     assert transfer.clean_stale_temps(tmp_path, time.time() + 10 * 86400.0) == 0  # pid alive
+
+
+@pytest.mark.parametrize("where", ["office", "site"])
+def test_a_receipts_folder_that_is_a_file_is_reported_not_a_traceback(pair, where):
+    site, office = pair
+    folder = (office if where == "office" else site) / "receipts"
+    for p in folder.iterdir():
+        p.unlink()
+    folder.rmdir()
+    folder.write_text("not a folder")
+    append_entry(site, TUE, "tab-north", "a new entry: a new receipt")
+    summary = sync(site, office)
+    assert summary.exit_code == 1
+    assert any("is a file, not a folder" in p or "not a plain file" in p
+               for p in summary.receipt_problems), summary.receipt_problems
+    assert folder.read_text() == "not a folder"

@@ -41,6 +41,7 @@ from fieldlog.journal.device import device_id, fieldlog_home
 from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.git_remote import GitRemote, branch_for
 from fieldlog.sync.git_tree import overlay_tree, write_tree
+from fieldlog.sync.receipt_sync import copy_office_chain
 from fieldlog.sync.run import SyncOptions, sync_site
 from fieldlog.sync.summary import SyncSummary
 
@@ -119,7 +120,8 @@ def sync_git(site_folder: Path | str, remote: GitRemote, options: SyncOptions, *
             summary = replace(summary, refused=(*summary.refused, *refused))
             tree = overlay_tree(repo, base_tree, files)
             if base_tree == tree:
-                return GitSyncResult(summary, branch.decode(), attempt, None)
+                return GitSyncResult(_kept(summary, site_folder, files, office, options.home),
+                                     branch.decode(), attempt, None)
             commit = _commit(repo, tree, head, identity, options.now, site.name)
             if before_push is not None:
                 before_push(attempt)
@@ -128,7 +130,8 @@ def sync_git(site_folder: Path | str, remote: GitRemote, options: SyncOptions, *
             except _Moved:
                 time.sleep(RETRY_PAUSE_S * attempt)  # let the other device finish its push
                 continue
-            return GitSyncResult(summary, branch.decode(), attempt, commit.decode())
+            return GitSyncResult(_kept(summary, site_folder, files, office, options.home),
+                                 branch.decode(), attempt, commit.decode())
         finally:
             shutil.rmtree(scratch, ignore_errors=False)
     raise SyncError(f"other devices kept pushing to {remote.shown} first ({MAX_ATTEMPTS} "
@@ -161,7 +164,18 @@ def _folder_sync(site_folder: Path, files: Path, options: SyncOptions,
     has_site = (files / SITE_FILE).is_file() and (files / SCHEDULE_FILE).is_file()
     if office and has_site:  # the branch plays the site: no device receipt to give
         return sync_site(files, site_folder, replace(options, receipts=False))
-    return sync_site(site_folder, files, options)
+    return sync_site(site_folder, files, replace(options, receipt_copies=False))
+
+
+def _kept(summary: SyncSummary, site_folder: Path, files: Path, office: bool,
+          home: Path | None) -> SyncSummary:
+    """After the branch holds the receipt: refresh this device's copies of its chain (never
+    before, so a push that loses the race leaves no copy ahead of the branch)."""
+    if office:
+        return summary
+    home = home or fieldlog_home()
+    problems = copy_office_chain(site_folder, files, home, device_id(home))
+    return replace(summary, receipt_problems=(*summary.receipt_problems, *problems))
 
 
 def _fetch(client: Any, path: str, repo: Any, branch: bytes, remote: GitRemote) -> bytes | None:

@@ -115,10 +115,15 @@ def write_receipts(folder: Path, name: str, data: bytes) -> None:
     """Write ``data`` as ``folder/name`` atomically; ``folder`` is made, never a link.
 
     Raises:
-        LinkedFolder: ``folder`` (or the file) is a link; nothing is written through it.
+        LinkedFolder: ``folder`` (or the file) is a link, or not a folder (a plain file);
+            nothing is written.
         SyncError: the file could not be written.
     """
     if os.path.islink(folder) or os.path.islink(folder / name):
-        raise LinkedFolder(f"{folder / name} is or is inside a link")
+        raise LinkedFolder(f"{folder / name} is or is inside a link (links are never followed)")
+    if os.path.lexists(folder) and not folder.is_dir():
+        raise LinkedFolder(f"{folder} is a file, not a folder")
+    if os.path.lexists(folder / name) and not (folder / name).is_file():
+        raise LinkedFolder(f"{folder / name} is not a plain file")
     folder.mkdir(parents=True, exist_ok=True)
     write_atomic(folder / name, data)

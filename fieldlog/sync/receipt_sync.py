@@ -53,8 +53,13 @@ class ReceiptOutcome:
 
 
 def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
-                 written: datetime | None, holds: tuple[Holding, ...]) -> ReceiptOutcome:
+                 written: datetime | None, holds: tuple[Holding, ...],
+                 keep_copies: bool = True) -> ReceiptOutcome:
     """Record in the office (and on this device) what both folders hold after a sync.
+
+    ``keep_copies=False`` leaves this device's copies alone: the git transport refreshes them
+    (:func:`copy_office_chain`) only once the office side is pushed, so a copy is never ahead
+    of what the office really holds.
 
     Raises:
         SyncError: a receipts file could not be written (the sync itself is complete).
@@ -98,21 +103,47 @@ def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
             return ReceiptOutcome()  # nothing held in common yet: nothing to vouch for
         if data != on_disk:
             write_receipts(path.parent, path.name, data)
-        chain = parse_receipts(label, data).chain
-        before = theirs.data if theirs is not None and theirs.receipts else None
-        for folder in (site_folder / RECEIPTS_DIR, home_folder(home, site_folder)):
-            target = folder / copy_name(device, chain)
-            held = target.read_bytes() if target.is_file() else None
-            if held == data:
-                continue
-            if before is not None and held != before:
-                problems.append(f"this device's copy {target} was "
-                                f"{'missing' if held is None else 'not the office chain'}; "
-                                "refreshed from the office")
-            write_receipts(folder, target.name, data)
     except LinkedFolder as exc:
-        problems.append(f"{exc}; links are never followed; receipt not kept there")
+        problems.append(f"{exc}; the receipt is not kept there")
+        return ReceiptOutcome(outcome_written, tuple(problems))
+    if keep_copies:
+        before = theirs.data if theirs is not None and theirs.receipts else None
+        problems += _keep_copies(site_folder, home, device, label, data, before)
     return ReceiptOutcome(outcome_written, tuple(problems))
+
+
+def copy_office_chain(site_folder: Path, office: Path, home: Path, device: str) -> list[str]:
+    """Refresh this device's copies from the office's chain (none there: nothing to do).
+
+    Returns:
+        Problems (a copy folder that is a link or a file).
+    """
+    path = office_path(office, device)
+    if not path.is_file() or path.is_symlink():
+        return []
+    return _keep_copies(site_folder, home, device, f"{RECEIPTS_DIR}/{path.name}",
+                        path.read_bytes(), None)
+
+
+def _keep_copies(site_folder: Path, home: Path, device: str, label: str, data: bytes,
+                 before: bytes | None) -> list[str]:
+    """Write ``data`` as this device's copies; a copy that was not ``before`` is reported."""
+    problems = []
+    chain = parse_receipts(label, data).chain
+    for folder in (site_folder / RECEIPTS_DIR, home_folder(home, site_folder)):
+        target = folder / copy_name(device, chain)
+        held = target.read_bytes() if target.is_file() else None
+        if held == data:
+            continue
+        if before is not None and held != before:
+            problems.append(f"this device's copy {target} was "
+                            f"{'missing' if held is None else 'not the office chain'}; "
+                            "refreshed from the office")
+        try:
+            write_receipts(folder, target.name, data)
+        except LinkedFolder as exc:
+            problems.append(f"{exc}; the receipt is not kept there")
+    return problems
 
 
 def _begins(shorter: ReceiptsFile, longer: ReceiptsFile) -> bool:

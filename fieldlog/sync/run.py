@@ -81,6 +81,9 @@ class SyncOptions:
     home: Path | None = None
     """This device's data folder (device id, receipt copies); None = :func:`fieldlog_home`."""
     receipts: bool = True
+    receipt_copies: bool = True
+    """Refresh this device's copies of the receipt chain in the sync itself. The git
+    transport sets False and refreshes them once its push has gone through."""
     """Give the target a receipt. False when the "site" side is not a device's copy (the git
     transport's office way round, where the branch's files play the site)."""
 
@@ -144,7 +147,7 @@ def sync_site(site_folder: Path | str, target: Path | str,
     written = (datetime.fromtimestamp(opts.now, UTC).replace(microsecond=0)
                if opts.now is not None else None)
     receipt = (give_receipt(site_folder, target, home, device, written,
-                            common_holdings(after_site, after_office))
+                            common_holdings(after_site, after_office), opts.receipt_copies)
                if opts.receipts else ReceiptOutcome())
     return SyncSummary(
         sent=tuple(c for c in done if c.direction is Direction.SEND),

@@ -13,6 +13,7 @@ lock, append, fsync, replace) and, as the reference measured in the same run, a 
 
 from __future__ import annotations
 
+import os
 import statistics
 import sys
 import tempfile
@@ -34,6 +35,9 @@ CLOCK = lambda: datetime(2026, 9, 8, 17, 0, tzinfo=UTC)  # noqa: E731
 
 def main(total: int) -> None:
     with tempfile.TemporaryDirectory() as tmp:
+        # Its own data folder: the device key the first append makes never lands in the
+        # user's real one.
+        os.environ["FIELDLOG_HOME"] = str(Path(tmp) / "home")
         folder = make_site(Path(tmp) / "site")
         site = load_site(folder)
         start = date(2026, 9, 7)
