@@ -5,7 +5,7 @@ there, no entry appears that was never attempted, and nothing half-written is vi
 temporary file may be left behind, which readers ignore and the next write removes).
 
 Two loops: the real command (``python -m fieldlog record``) killed at random points of its
-run, as the issue asks; and a forked in-process writer that appends as fast as it can and is
+run; and a forked in-process writer that appends as fast as it can and is
 killed every few milliseconds, which lands many more kills inside the write itself. Both print
 how many kills struck while a temporary file existed (mid-write); run with ``-s`` to see them.
 """

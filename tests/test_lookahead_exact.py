@@ -150,7 +150,7 @@ def test_classes_equal_all_some_none_of_the_enumerated_schedules(p: Problem) -> 
           suppress_health_check=[HealthCheck.too_slow])
 @given(problems())
 def test_every_may_and_cannot_day_has_a_reason(p: Problem) -> None:
-    """A reason for every MAY and CANNOT cell (the issue's rule), none for days off."""
+    """A reason for every MAY and CANNOT cell (a rule of the lookahead), none for days off."""
     items = _readiness(p)
     result = compute_schedule(p.site, p.status, p.progress,
                               holds={i.activity: i.expected + timedelta(days=1) for i in items})
