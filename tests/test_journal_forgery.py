@@ -16,6 +16,7 @@ import os
 import shutil
 import tomllib
 from collections.abc import Callable
+from datetime import date
 from pathlib import Path
 
 import pytest
@@ -299,7 +300,8 @@ def test_a_log_from_before_signing_says_unsigned_chain_intact(capsys, sample_sit
 
 def test_after_the_upgrade_a_device_signs_from_its_next_entry(capsys, sample_site):
     """The laptop records with a signing fieldlog: its old entries stay usable as unsigned;
-    the tablet, not yet registered, is a device without a key on a signing site."""
+    so do the tablet's, not yet registered, for the days up to the site's first signed day
+    (the partner's genuine old record must not turn into forgeries)."""
     strip_signatures(sample_site)
     home = Path(os.environ["FIELDLOG_HOME"])  # this machine is the sample's laptop
     (home / "device.toml").write_text(f'device = "{LAPTOP}"\nauthor = "R. Okafor"\n')
@@ -311,9 +313,26 @@ def test_after_the_upgrade_a_device_signs_from_its_next_entry(capsys, sample_sit
     assert journal.devices[LAPTOP].signed_from == old_top + 1
     assert sum(e.device == LAPTOP for e in journal.entries) == old_top + 1  # all still used
     code, out, _ = verify(capsys, sample_site)
+    assert code == 0, out
+    assert "forged" not in out
+    assert "106 of 107 entries are unsigned" in out
+
+
+def test_an_unregistered_device_after_the_site_began_signing_is_forged(capsys, sample_site):
+    """The same upgrade, then an unsigned tablet entry for a later day: forged."""
+    strip_signatures(sample_site)
+    home = Path(os.environ["FIELDLOG_HOME"])
+    (home / "device.toml").write_text(f'device = "{LAPTOP}"\nauthor = "R. Okafor"\n')
+    assert main(["record", str(sample_site), "note", "first signed entry", "--on",
+                 "2026-09-21", "--today", "2026-09-25"]) == 0
+    capsys.readouterr()
+    last = device_files(sample_site, TABLET)[-1]
+    late = [r for r in rows(last) if r["day"] > date(2026, 9, 21)]
+    assert late, "the sample's tablet logs after 21 Sep"
+    code, out, _ = verify(capsys, sample_site)
     assert code == 1
-    assert f"entry {TABLET}.1: forged: device {TABLET} has no registered key" in out
-    assert f"entry {LAPTOP}." not in out
+    assert (f"entry {late[0]['id']}: forged: device {TABLET} has no registered key" in out
+            and "since 2026-09-21" in out)
 
 
 def test_a_key_file_claiming_a_later_start_does_not_unsign_entries(capsys, sample_site):

@@ -15,10 +15,18 @@ app only ever see :attr:`Checked.kept`) when:
   against the registered key (another key, or a bad signature);
 * it is unsigned, yet its device has a key and signs from an earlier entry number
   (``signed_from``), or the device signed an earlier entry;
-* it is unsigned, its device has no key, and the site registers keys (an invented device).
+* it is unsigned, its device has no key, the site registers keys (an invented device), and
+  it describes a day after the site began signing.
 
 A site with no key files at all predates signing: its unsigned entries are kept, counted and
-said to be unsigned. An entry whose content does not match its hash is never used either.
+said to be unsigned. The same holds for a device not yet registered on a site that has begun
+signing, for the days up to and including the first day the site signed: the other device of
+a job that upgrades first must not turn its partner's genuine old record into forgeries.
+"Began signing" is the earliest day of a validly signed entry or of a key file's
+registration, whichever is earlier; moving it later would need a signed entry to move, so an
+edited key file cannot widen the window. Unsigned days before it are as open as any log
+from before signing; the office's receipts are what protect them.
+An entry whose content does not match its hash is never used either.
 """
 
 from __future__ import annotations
@@ -26,6 +34,7 @@ from __future__ import annotations
 import hashlib
 from collections.abc import Iterable
 from dataclasses import dataclass
+from datetime import date
 from functools import lru_cache
 
 from cryptography.exceptions import InvalidSignature
@@ -115,11 +124,12 @@ def check_signatures(entries: Iterable[Entry], registry: Registry,
     for e in entries:
         if e.sig:
             first_signed[e.device] = min(first_signed.get(e.device, e.seq), e.seq)
+    began = _signing_began(entries, registry)
     kept: list[Entry] = []
     out: list[Finding] = []
     signed = unsigned = 0
     for e in entries:
-        why = _forged_because(e, registry, (e.file, e.id) in edited, first_signed)
+        why = _forged_because(e, registry, (e.file, e.id) in edited, first_signed, began)
         if why is None:
             kept.append(e)
             if e.sig:
@@ -131,8 +141,18 @@ def check_signatures(entries: Iterable[Entry], registry: Registry,
     return Checked(tuple(kept), tuple(out), signed, unsigned, len(entries) - len(kept))
 
 
+def _signing_began(entries: list[Entry], registry: Registry) -> date | None:
+    """The first day this site signed: the earliest registration or validly signed entry."""
+    days = [record.registered for record in registry.devices.values()]
+    for e in entries:
+        record = registry.devices.get(e.device)
+        if e.sig and record is not None and signature_ok(record.public_key, e.hash, e.sig):
+            days.append(e.day)
+    return min(days, default=None)
+
+
 def _forged_because(e: Entry, registry: Registry, content_edited: bool,
-                    first_signed: dict[str, int]) -> str | None:
+                    first_signed: dict[str, int], began: date | None) -> str | None:
     """Why ``e`` is forged; None when it may be used; ``""`` when unusable but already
     reported (an unsigned older entry whose content no longer matches its hash)."""
     record = registry.devices.get(e.device)
@@ -158,7 +178,7 @@ def _forged_because(e: Entry, registry: Registry, content_edited: bool,
     if e.device in first_signed and first_signed[e.device] < e.seq:
         return (f"unsigned, yet device {e.device} signed an earlier entry "
                 f"({e.device}.{first_signed[e.device]}); it is not used")
-    if record is None and registry.in_use:
+    if record is None and registry.in_use and (began is None or e.day > began):
         return (f"device {e.device} has no registered key ({key_file}), and this site's "
-                "devices sign their entries; it is not used")
+                f"devices sign their entries since {began}; it is not used")
     return None
