@@ -73,15 +73,22 @@ def check_date(value: date, what: str, site_start: date | None = None) -> date:
     """
     day = value.date() if isinstance(value, datetime) else value
     if not EARLIEST_DATE <= day <= LATEST_DATE:
-        raise OutOfBounds(f"{what} {day.isoformat()} is outside {EARLIEST_DATE.isoformat()} to "
-                          f"{LATEST_DATE.isoformat()}", fix="check the year")
+        raise OutOfBounds(
+            f"{what} {day.isoformat()} is outside {EARLIEST_DATE.isoformat()} to "
+            f"{LATEST_DATE.isoformat()}",
+            fix="check the year",
+        )
     if site_start is not None:
-        low, high = _years_from(site_start, -SITE_SPAN_YEARS), _years_from(site_start,
-                                                                           SITE_SPAN_YEARS)
+        low, high = (
+            _years_from(site_start, -SITE_SPAN_YEARS),
+            _years_from(site_start, SITE_SPAN_YEARS),
+        )
         if not low <= day <= high:
             raise OutOfBounds(
                 f"{what} {day.isoformat()} is more than {SITE_SPAN_YEARS} years from the site "
-                f"start {site_start.isoformat()}", fix="check the year")
+                f"start {site_start.isoformat()}",
+                fix="check the year",
+            )
     return value
 
 
@@ -99,8 +106,10 @@ def check_days(value: int, what: str, *, low: int = 0) -> int:
     """
     if value > MAX_DAYS or value < low:
         bound = f"from {low} to {MAX_DAYS}" if low >= 0 else f"from -{MAX_DAYS} to {MAX_DAYS}"
-        raise OutOfBounds(f"{what} {value} is not {bound} working days",
-                          fix="check the number; it counts working days")
+        raise OutOfBounds(
+            f"{what} {value} is not {bound} working days",
+            fix="check the number; it counts working days",
+        )
     return value
 
 
@@ -111,8 +120,9 @@ def check_headcount(value: int, what: str) -> int:
         OutOfBounds: negative or above 100,000.
     """
     if not 0 <= value <= MAX_HEADCOUNT:
-        raise OutOfBounds(f"{what} {value} is not 0 to {MAX_HEADCOUNT:,} people",
-                          fix="check the number of people")
+        raise OutOfBounds(
+            f"{what} {value} is not 0 to {MAX_HEADCOUNT:,} people", fix="check the number of people"
+        )
     return value
 
 
@@ -123,8 +133,9 @@ def check_counter(value: int, what: str, *, low: int = 0) -> int:
         OutOfBounds: outside that range.
     """
     if not low <= value <= MAX_COUNTER:
-        raise OutOfBounds(f"{what} {shown(value)} is not {low} to {MAX_COUNTER:,}",
-                          fix="check the number")
+        raise OutOfBounds(
+            f"{what} {shown(value)} is not {low} to {MAX_COUNTER:,}", fix="check the number"
+        )
     return value
 
 
@@ -135,8 +146,9 @@ def check_text(value: str, what: str) -> str:
         OutOfBounds: longer than that.
     """
     if len(value) > MAX_TEXT:
-        raise OutOfBounds(f"{what} is {len(value):,} characters, more than {MAX_TEXT:,}",
-                          fix="shorten it")
+        raise OutOfBounds(
+            f"{what} is {len(value):,} characters, more than {MAX_TEXT:,}", fix="shorten it"
+        )
     return value
 
 
@@ -148,9 +160,11 @@ def check_size(size: int, kind: str, what: str) -> None:
     """
     cap = FILE_CAPS[kind]
     if size > cap:
-        raise OutOfBounds(f"{what} is {_megabytes(size)}, more than the {_megabytes(cap)} "
-                          "fieldlog reads", fix="this is not a file fieldlog wrote or expects; "
-                          "check where it came from and replace it with a good copy")
+        raise OutOfBounds(
+            f"{what} is {_megabytes(size)}, more than the {_megabytes(cap)} fieldlog reads",
+            fix="this is not a file fieldlog wrote or expects; "
+            "check where it came from and replace it with a good copy",
+        )
 
 
 def _megabytes(n: int) -> str:

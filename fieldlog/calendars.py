@@ -122,8 +122,10 @@ def build_calendar(
         CalendarError: unknown public-holiday region, or no working weekday at all.
     """
     if not spec.workdays:
-        raise CalendarError(f"calendar '{spec.name}' has no working days",
-                            fix="list at least one weekday in workdays")
+        raise CalendarError(
+            f"calendar '{spec.name}' has no working days",
+            fix="list at least one weekday in workdays",
+        )
     closed = set(spec.holidays)
     closed.update(extra_closed)
     if spec.public_holidays:
@@ -156,13 +158,15 @@ def public_holidays(region: str, first_year: int, last_year: int) -> set[date]:
     country, _, subdiv = region.strip().upper().partition("-")
     try:
         table = holidays.country_holidays(
-            country, subdiv=subdiv or None, years=range(first_year, last_year + 1),
+            country,
+            subdiv=subdiv or None,
+            years=range(first_year, last_year + 1),
             expand=False,
         )
     except (NotImplementedError, KeyError) as exc:
         raise CalendarError(
             f"public_holidays region '{region}' is not known",
-            fix="use a country code with optional subdivision, e.g. \"US-TX\" or \"GB-ENG\"",
+            fix='use a country code with optional subdivision, e.g. "US-TX" or "GB-ENG"',
         ) from exc
     return set(table)
 
@@ -182,8 +186,9 @@ def build_calendars(
 
 
 @lru_cache(maxsize=64)
-def _calendar_for(spec: CalendarSpec, origin: date, end: date,
-                  extra_closed: frozenset[date]) -> WorkCalendar:
+def _calendar_for(
+    spec: CalendarSpec, origin: date, end: date, extra_closed: frozenset[date]
+) -> WorkCalendar:
     """:func:`build_calendar`, remembered: a calendar is a value, and the app recomputes the
     same site after every entry (the public-holiday lookup alone takes milliseconds)."""
     return build_calendar(spec, origin, end, extra_closed)

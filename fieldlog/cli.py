@@ -18,8 +18,20 @@ from fieldlog import __version__
 from fieldlog.bounds import check_date, shown
 from fieldlog.errors import FieldlogError, OutOfBounds
 
-COMMANDS = ("schedule", "lookahead", "history", "record", "report", "verify", "sync", "sites",
-            "check", "export", "open", "demo")
+COMMANDS = (
+    "schedule",
+    "lookahead",
+    "history",
+    "record",
+    "report",
+    "verify",
+    "sync",
+    "sites",
+    "check",
+    "export",
+    "open",
+    "demo",
+)
 """Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
 
 EXIT_OK, EXIT_PROBLEM, EXIT_BAD_INPUT = 0, 1, 2
@@ -57,9 +69,11 @@ def shift_day(given: date | None, machine_today: date) -> date:
     if given is None:
         return machine_today
     if given > machine_today:
-        raise OutOfBounds(f"--today {given.isoformat()} is later than this computer's date "
-                          f"{machine_today.isoformat()}",
-                          fix="give today's date or an earlier one, or set the computer's clock")
+        raise OutOfBounds(
+            f"--today {given.isoformat()} is later than this computer's date "
+            f"{machine_today.isoformat()}",
+            fix="give today's date or an earlier one, or set the computer's clock",
+        )
     return given
 
 
@@ -79,8 +93,13 @@ def build_parser(only: str | None = None) -> argparse.ArgumentParser:
     return parser
 
 
-def _one_line_warning(message: Warning | str, category: type[Warning], filename: str,
-                      lineno: int, line: str | None = None) -> str:
+def _one_line_warning(
+    message: Warning | str,
+    category: type[Warning],
+    filename: str,
+    lineno: int,
+    line: str | None = None,
+) -> str:
     """Warnings (a site cache that cannot be written) as one diagnostic line on stderr."""
     return f"fieldlog: warning: {message}\n"
 

@@ -118,8 +118,9 @@ def compute_schedule(
             lo, hi = lo - timedelta(days=span), hi + timedelta(days=span)
 
 
-def _initial_range(site: Site, status: date, progress: Mapping[str, Progress],
-                   holds: Mapping[str, date]) -> tuple[date, date]:
+def _initial_range(
+    site: Site, status: date, progress: Mapping[str, Progress], holds: Mapping[str, date]
+) -> tuple[date, date]:
     """The first date range to build calendars over: every known date with a wide margin, and
     room for all the work after them. :func:`compute_schedule` widens it when a pass leaves it.
     """
@@ -132,9 +133,13 @@ def _initial_range(site: Site, status: date, progress: Mapping[str, Progress],
     return min(known) - timedelta(days=400), max(known) + timedelta(days=ahead)
 
 
-def schedule_on_calendars(site: Site, status_date: date, progress: Mapping[str, Progress],
-                          holds: Mapping[str, date],
-                          calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
+def schedule_on_calendars(
+    site: Site,
+    status_date: date,
+    progress: Mapping[str, Progress],
+    holds: Mapping[str, date],
+    calendars: Mapping[str, WorkCalendar],
+) -> ScheduleResult:
     """:func:`compute_schedule` on calendars the caller built (lost days already applied).
 
     For callers that schedule one site as of many days (the forecast history): building the
@@ -147,9 +152,13 @@ def schedule_on_calendars(site: Site, status_date: date, progress: Mapping[str, 
     return _run(site, status_date, progress, holds, calendars)
 
 
-def forecast_finish_on_calendars(site: Site, status_date: date,
-                                 progress: Mapping[str, Progress], holds: Mapping[str, date],
-                                 calendars: Mapping[str, WorkCalendar]) -> date:
+def forecast_finish_on_calendars(
+    site: Site,
+    status_date: date,
+    progress: Mapping[str, Progress],
+    holds: Mapping[str, date],
+    calendars: Mapping[str, WorkCalendar],
+) -> date:
     """The forecast finish alone (forward pass only): the same date as
     :func:`schedule_on_calendars` gives, at about half the cost.
 
@@ -159,9 +168,13 @@ def forecast_finish_on_calendars(site: Site, status_date: date,
     return _forward(site, status_date, progress, holds, calendars)[-1]
 
 
-def _forward(site: Site, status_date: date, progress: Mapping[str, Progress],
-             holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]
-             ) -> tuple[NetworkArrays, CalendarTables, _Fixed, Early, np.ndarray, int, date]:
+def _forward(
+    site: Site,
+    status_date: date,
+    progress: Mapping[str, Progress],
+    holds: Mapping[str, date],
+    calendars: Mapping[str, WorkCalendar],
+) -> tuple[NetworkArrays, CalendarTables, _Fixed, Early, np.ndarray, int, date]:
     """The forward pass and what it fixes: last working day of every activity and the finish."""
     net = network_arrays(site)
     tables = calendar_tables(calendars, net.calendar_names)
@@ -180,14 +193,22 @@ def _forward(site: Site, status_date: date, progress: Mapping[str, Progress],
 
 
 def _options(site: Site) -> dict[str, bool]:
-    return {"override": site.progress_override,
-            "lag_on_successor": site.lag_calendar is LagCalendar.SUCCESSOR}
+    return {
+        "override": site.progress_override,
+        "lag_on_successor": site.lag_calendar is LagCalendar.SUCCESSOR,
+    }
 
 
-def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
-         holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
+def _run(
+    site: Site,
+    status_date: date,
+    progress: Mapping[str, Progress],
+    holds: Mapping[str, date],
+    calendars: Mapping[str, WorkCalendar],
+) -> ScheduleResult:
     net, tables, fixed, early, last, finish_ord, finish = _forward(
-        site, status_date, progress, holds, calendars)
+        site, status_date, progress, holds, calendars
+    )
     start = fixed.start
     options = _options(site)
     fin, dur = start.finished, start.duration
@@ -206,16 +227,31 @@ def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
     on_path = np.zeros(net.size, dtype=bool)
     on_path[[net.index[aid] for aid in path]] = True
     columns = Columns(
-        site=site, net=net, tables=tables, progress=fixed.reported, finished=fin, remaining=dur,
-        early_start=early.start, early_finish=early.finish, late_start=late_start,
-        late_finish=late_finish, total_float=total_float, free_float=np.maximum(slack, 0),
-        critical=critical, on_driving_path=on_path,
-        driver=np.where(is_open, early.driver, -1), reason=fixed.reason, overdue=fixed.overdue,
+        site=site,
+        net=net,
+        tables=tables,
+        progress=fixed.reported,
+        finished=fin,
+        remaining=dur,
+        early_start=early.start,
+        early_finish=early.finish,
+        late_start=late_start,
+        late_finish=late_finish,
+        total_float=total_float,
+        free_float=np.maximum(slack, 0),
+        critical=critical,
+        on_driving_path=on_path,
+        driver=np.where(is_open, early.driver, -1),
+        reason=fixed.reason,
+        overdue=fixed.overdue,
         end_after=early.end_after,
     )
     ids = net.ids
     return ScheduleResult.deferred(
-        site=site, as_of=status_date, finish=finish, calendars=calendars,
+        site=site,
+        as_of=status_date,
+        finish=finish,
+        calendars=calendars,
         driving_path=tuple(path),
         lowest_float=tuple(ids[k] for k in np.flatnonzero(critical).tolist()),
         out_of_sequence=_out_of_sequence(site, net, fin, fixed.started)
@@ -239,8 +275,14 @@ class _Fixed:
     """(position, progress) of every activity the field reported on."""
 
 
-def _starting_point(site: Site, net: NetworkArrays, tables: CalendarTables, status_date: date,
-                    progress: Mapping[str, Progress], holds: Mapping[str, date]) -> _Fixed:
+def _starting_point(
+    site: Site,
+    net: NetworkArrays,
+    tables: CalendarTables,
+    status_date: date,
+    progress: Mapping[str, Progress],
+    holds: Mapping[str, date],
+) -> _Fixed:
     """What dates and progress fix before the passes.
 
     Open work starts no earlier than the later of the site start and the data date (on its
@@ -272,8 +314,9 @@ def _starting_point(site: Site, net: NetworkArrays, tables: CalendarTables, stat
             first_day = p.actual_start or p.actual_finish
             done.append((at, first_day.toordinal(), p.actual_finish.toordinal() + 1))
         elif p.actual_start is not None:
-            duration[at], overdue[at] = remaining_at(p, int(duration[at]), cals[cal[at]],
-                                                     status_date)
+            duration[at], overdue[at] = remaining_at(
+                p, int(duration[at]), cals[cal[at]], status_date
+            )
             going.append((at, p.actual_start.toordinal()))
     if done:
         k, first, after = (np.array(v, dtype=np.int64) for v in zip(*done, strict=True))
@@ -300,15 +343,27 @@ def _starting_point(site: Site, net: NetworkArrays, tables: CalendarTables, stat
             b = cals[cal[j]].pos(when)
             if b > floor[j]:
                 floor[j], reason[j] = b, READINESS
-    start = Start(duration=duration, floor=floor, finished=finished, in_progress=in_progress,
-                  actual_start=actual_start, actual_finish=actual_finish)
+    start = Start(
+        duration=duration,
+        floor=floor,
+        finished=finished,
+        in_progress=in_progress,
+        actual_start=actual_start,
+        actual_finish=actual_finish,
+    )
     started = in_progress.copy()
     started[[k for k, p in reported if p.actual_start and p.actual_finish]] = True
     return _Fixed(start, reason, overdue, started, reported)
 
 
-def _late_bounds(site: Site, net: NetworkArrays, tables: CalendarTables, early: Early,
-                 is_open: np.ndarray, finish: date) -> tuple[np.ndarray, np.ndarray]:
+def _late_bounds(
+    site: Site,
+    net: NetworkArrays,
+    tables: CalendarTables,
+    early: Early,
+    is_open: np.ndarray,
+    finish: date,
+) -> tuple[np.ndarray, np.ndarray]:
     """Latest finish and free slack each open activity gets from dates alone.
 
     The backward pass starts at ``finish_by`` (or the forecast finish), tightened by finish
@@ -330,8 +385,9 @@ def _late_bounds(site: Site, net: NetworkArrays, tables: CalendarTables, early: 
     return latest, slack
 
 
-def _out_of_sequence(site: Site, net: NetworkArrays, finished: np.ndarray,
-                     started: np.ndarray) -> tuple[OutOfSequence, ...]:
+def _out_of_sequence(
+    site: Site, net: NetworkArrays, finished: np.ndarray, started: np.ndarray
+) -> tuple[OutOfSequence, ...]:
     """Links whose successor moved on before the predecessor allowed, in file order.
 
     See :data:`fieldlog.schedule_result.OUT_OF_SEQUENCE_KINDS`: the successor's side is its
@@ -345,12 +401,20 @@ def _out_of_sequence(site: Site, net: NetworkArrays, finished: np.ndarray,
         return ()
     treatment = "progress override" if site.progress_override else "retained logic"
     links = site.links
-    return tuple(OutOfSequence(links[k], OUT_OF_SEQUENCE_KINDS[links[k].type], treatment)
-                 for k in found)
+    return tuple(
+        OutOfSequence(links[k], OUT_OF_SEQUENCE_KINDS[links[k].type], treatment) for k in found
+    )
 
 
-def _driving_path(site: Site, net: NetworkArrays, finished: np.ndarray, last: np.ndarray,
-                  finish_ord: int, total_float: np.ndarray, driver: np.ndarray) -> list[str]:
+def _driving_path(
+    site: Site,
+    net: NetworkArrays,
+    finished: np.ndarray,
+    last: np.ndarray,
+    finish_ord: int,
+    total_float: np.ndarray,
+    driver: np.ndarray,
+) -> list[str]:
     """Walk driving links back from the open activity that finishes last.
 
     Of several open activities ending on the finish day the one with the least float is taken,

@@ -46,8 +46,9 @@ class CalendarTables:
         _check(points, self.length[cal])
         return self.work[cal, points]
 
-    def move(self, points: np.ndarray, after: np.ndarray, frm: np.ndarray,
-             to: np.ndarray) -> np.ndarray:
+    def move(
+        self, points: np.ndarray, after: np.ndarray, frm: np.ndarray, to: np.ndarray
+    ) -> np.ndarray:
         """Points of calendars ``frm`` as points of calendars ``to``, by the date they mean.
 
         ``after`` (bool per point): the point stands for "after the working day before it" (a
@@ -56,8 +57,9 @@ class CalendarTables:
         day = self.ordinals(frm, points - after) + after
         return self.before[to, day - self.origin]
 
-    def move_back(self, points: np.ndarray, after: np.ndarray, frm: np.ndarray,
-                  to: np.ndarray) -> np.ndarray:
+    def move_back(
+        self, points: np.ndarray, after: np.ndarray, frm: np.ndarray, to: np.ndarray
+    ) -> np.ndarray:
         """Inverse of :meth:`move`: the latest point of ``to`` that moves to ``<=`` the point."""
         at = ~after
         day = self.ordinals(frm, points) + at
@@ -84,8 +86,9 @@ def _check(index: np.ndarray, limit: np.ndarray | int) -> None:
         raise HorizonExceeded("calendar tables")
 
 
-def calendar_tables(calendars: Mapping[str, WorkCalendar],
-                    names: tuple[str, ...]) -> CalendarTables:
+def calendar_tables(
+    calendars: Mapping[str, WorkCalendar], names: tuple[str, ...]
+) -> CalendarTables:
     """The tables for ``calendars`` in the order of ``names`` (remembered per calendar set)."""
     return _tables(tuple(calendars[name] for name in names))
 
@@ -102,9 +105,11 @@ def _tables(calendars: tuple[WorkCalendar, ...]) -> CalendarTables:
     for k, c in enumerate(calendars):
         work[k, : len(c.work)] = c.work
     return CalendarTables(
-        calendars=calendars, origin=origins.pop(),
+        calendars=calendars,
+        origin=origins.pop(),
         work=work,
         length=np.array([len(c.work) for c in calendars], dtype=np.uint64),
         before=np.array([c.before for c in calendars], dtype=np.int64).reshape(
-            len(calendars), spans.pop()),
+            len(calendars), spans.pop()
+        ),
     )

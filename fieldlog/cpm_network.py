@@ -80,8 +80,11 @@ class NetworkArrays:
         plain Python sort costs more than the whole recompute on a large site.
         """
         ids = self.ids
-        edges = zip(map(ids.__getitem__, self.pred.tolist()),
-                    map(ids.__getitem__, self.succ.tolist()), strict=True)
+        edges = zip(
+            map(ids.__getitem__, self.pred.tolist()),
+            map(ids.__getitem__, self.succ.tolist()),
+            strict=True,
+        )
         # The links are in level order here, not file order; the sort does not depend on
         # link order (it takes released activities in file order).
         order, cycle = topological_order(ids, edges)
@@ -109,10 +112,12 @@ def _build(site: Site) -> NetworkArrays:
     number = {name: k for k, name in enumerate(calendar_names)}
     calendar = np.array([number[a.calendar] for a in acts], dtype=np.int64)
     duration = np.array([a.duration for a in acts], dtype=np.int64)
-    snb = np.array([a.start_not_before.toordinal() if a.start_not_before else 0 for a in acts],
-                   dtype=np.int64)
-    fna = np.array([a.finish_not_after.toordinal() if a.finish_not_after else 0 for a in acts],
-                   dtype=np.int64)
+    snb = np.array(
+        [a.start_not_before.toordinal() if a.start_not_before else 0 for a in acts], dtype=np.int64
+    )
+    fna = np.array(
+        [a.finish_not_after.toordinal() if a.finish_not_after else 0 for a in acts], dtype=np.int64
+    )
 
     pred = np.array([index[lk.pred] for lk in links], dtype=np.int64)
     succ = np.array([index[lk.succ] for lk in links], dtype=np.int64)
@@ -124,13 +129,23 @@ def _build(site: Site) -> NetworkArrays:
     pred, succ, lag = pred[fwd], succ[fwd], lag[fwd]
     types = [links[k].type for k in fwd.tolist()]
     return NetworkArrays(
-        size=n, ids=ids, index=index, calendar_names=calendar_names, calendar=calendar,
-        duration=duration, start_not_before=snb, finish_not_after=fna, level=level,
+        size=n,
+        ids=ids,
+        index=index,
+        calendar_names=calendar_names,
+        calendar=calendar,
+        duration=duration,
+        start_not_before=snb,
+        finish_not_after=fna,
+        level=level,
         total_work=int(duration.sum() + lag[lag > 0].sum()),
-        link=fwd, pred=pred, succ=succ,
+        link=fwd,
+        pred=pred,
+        succ=succ,
         reads_start=np.array([t in _READS_START for t in types], dtype=bool),
         bounds_finish=np.array([t in _BOUNDS_FINISH for t in types], dtype=bool),
-        lag=lag, cross=calendar[pred] != calendar[succ],
+        lag=lag,
+        cross=calendar[pred] != calendar[succ],
         by_pred=np.lexsort((pred, level[pred])),
     )
 

@@ -86,8 +86,17 @@ class _Levels:
 
     def bounds(self) -> list[tuple[int, int, int, int, int, int]]:
         """``(first link, end link, first target, end target, first cross, end cross)``."""
-        return list(zip(self.links[:-1], self.links[1:], self.segs[:-1], self.segs[1:],
-                        self.cross[:-1], self.cross[1:], strict=True))
+        return list(
+            zip(
+                self.links[:-1],
+                self.links[1:],
+                self.segs[:-1],
+                self.segs[1:],
+                self.cross[:-1],
+                self.cross[1:],
+                strict=True,
+            )
+        )
 
 
 def _levels(owner: np.ndarray, level: np.ndarray, cross: np.ndarray) -> _Levels:
@@ -105,8 +114,11 @@ def _levels(owner: np.ndarray, level: np.ndarray, cross: np.ndarray) -> _Levels:
     return _Levels(
         targets=targets,
         starts=first - np.repeat(level_first, np.diff(seg_bounds)),
-        links=link_bounds.tolist(), segs=seg_bounds.tolist(), cross=cross_bounds.tolist(),
-        cross_at=cross_at, cross_in=cross_at - np.repeat(level_first, np.diff(cross_bounds)),
+        links=link_bounds.tolist(),
+        segs=seg_bounds.tolist(),
+        cross=cross_bounds.tolist(),
+        cross_at=cross_at,
+        cross_in=cross_at - np.repeat(level_first, np.diff(cross_bounds)),
     )
 
 
@@ -136,8 +148,14 @@ def _position(packed: np.ndarray, shift: int) -> np.ndarray:
     return mask - (packed & mask)
 
 
-def forward(net: NetworkArrays, tables: CalendarTables, start: Start, *, override: bool,
-            lag_on_successor: bool) -> Early:
+def forward(
+    net: NetworkArrays,
+    tables: CalendarTables,
+    start: Start,
+    *,
+    override: bool,
+    lag_on_successor: bool,
+) -> Early:
     """Early start and finish points, the driving link and the milestone reading flags."""
     n = net.size
     fin, run, dur, floor = start.finished, start.in_progress, start.duration, start.floor
@@ -162,8 +180,9 @@ def forward(net: NetworkArrays, tables: CalendarTables, start: Start, *, overrid
     x_add = (lag[xs] if lag_on_successor else 0) - finish_shift[xs]
     t_floor, t_dur = floor[lv.targets], dur[lv.targets]
     milestone = t_dur == 0
-    has_milestone = (np.logical_or.reduceat(milestone, lv.segs[:-1]).tolist()
-                     if milestone.size else [])
+    has_milestone = (
+        np.logical_or.reduceat(milestone, lv.segs[:-1]).tolist() if milestone.size else []
+    )
     shift, tie = _tie_bits(owner.size)
 
     points = np.stack([floor, floor + dur, start.actual_start])
@@ -178,8 +197,10 @@ def forward(net: NetworkArrays, tables: CalendarTables, start: Start, *, overrid
         bound += add[a:b]
         if c1 > c0:
             x = lv.cross_in[c0:c1]
-            bound[x] = tables.move(bound[x], flag_flat[x_source[c0:c1]], x_from[c0:c1],
-                                   x_to[c0:c1]) + x_add[c0:c1]
+            bound[x] = (
+                tables.move(bound[x], flag_flat[x_source[c0:c1]], x_from[c0:c1], x_to[c0:c1])
+                + x_add[c0:c1]
+            )
         bound <<= shift
         bound |= tie[a:b]
         top = np.maximum.reduceat(bound, lv.starts[s0:s1])
@@ -202,9 +223,17 @@ def forward(net: NetworkArrays, tables: CalendarTables, start: Start, *, overrid
     return Early(points[0], points[1], driver, flags[0], flags[1])
 
 
-def backward(net: NetworkArrays, tables: CalendarTables, start: Start, early: Early,
-             latest: np.ndarray, slack: np.ndarray, *, override: bool,
-             lag_on_successor: bool) -> tuple[np.ndarray, np.ndarray]:
+def backward(
+    net: NetworkArrays,
+    tables: CalendarTables,
+    start: Start,
+    early: Early,
+    latest: np.ndarray,
+    slack: np.ndarray,
+    *,
+    override: bool,
+    lag_on_successor: bool,
+) -> tuple[np.ndarray, np.ndarray]:
     """Late finish points and free slack of open work.
 
     Args:
@@ -259,8 +288,10 @@ def backward(net: NetworkArrays, tables: CalendarTables, start: Start, early: Ea
         bound += add[a:b]
         if c1 > c0:
             x = lv.cross_in[c0:c1]
-            bound[x] = tables.move_back(bound[x], x_after[c0:c1], x_from[c0:c1],
-                                        x_to[c0:c1]) + x_add[c0:c1]
+            bound[x] = (
+                tables.move_back(bound[x], x_after[c0:c1], x_from[c0:c1], x_to[c0:c1])
+                + x_add[c0:c1]
+            )
         who = lv.targets[s0:s1]
         lf = np.minimum(np.minimum.reduceat(bound, lv.starts[s0:s1]), t_latest[s0:s1])
         late[1, who] = lf

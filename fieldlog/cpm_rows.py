@@ -100,23 +100,57 @@ class Columns:
                 early_start[k] = p.actual_start or p.actual_finish
                 early_finish[k] = actual_finish[k] = p.actual_finish
         with _collector_paused():
-            return tuple(map(
-                _row, self.net.ids, names, calendars, durations, status, early_start.tolist(),
-                early_finish.tolist(), late_start.tolist(), late_finish.tolist(),
-                total_float.tolist(), free_float.tolist(), self.critical.tolist(),
-                self.on_driving_path.tolist(), actual_start, actual_finish,
-                np.where(fin, 0, dur).tolist(), percent, driving.tolist(), driven_by.tolist(),
-                self.overdue.tolist(), after.tolist(),
-            ))
+            return tuple(
+                map(
+                    _row,
+                    self.net.ids,
+                    names,
+                    calendars,
+                    durations,
+                    status,
+                    early_start.tolist(),
+                    early_finish.tolist(),
+                    late_start.tolist(),
+                    late_finish.tolist(),
+                    total_float.tolist(),
+                    free_float.tolist(),
+                    self.critical.tolist(),
+                    self.on_driving_path.tolist(),
+                    actual_start,
+                    actual_finish,
+                    np.where(fin, 0, dur).tolist(),
+                    percent,
+                    driving.tolist(),
+                    driven_by.tolist(),
+                    self.overdue.tolist(),
+                    after.tolist(),
+                )
+            )
 
 
-def _row(id: str, name: str, calendar: str, duration: int, status: Status,
-         early_start: date | None, early_finish: date | None, late_start: date | None,
-         late_finish: date | None, total_float: int | None, free_float: int | None,
-         critical: bool, on_driving_path: bool, actual_start: date | None,
-         actual_finish: date | None, remaining: int, percent: float | None,
-         driving: Link | None, driven_by: str, overdue: bool,
-         after_work: bool) -> ActivityResult:
+def _row(
+    id: str,
+    name: str,
+    calendar: str,
+    duration: int,
+    status: Status,
+    early_start: date | None,
+    early_finish: date | None,
+    late_start: date | None,
+    late_finish: date | None,
+    total_float: int | None,
+    free_float: int | None,
+    critical: bool,
+    on_driving_path: bool,
+    actual_start: date | None,
+    actual_finish: date | None,
+    remaining: int,
+    percent: float | None,
+    driving: Link | None,
+    driven_by: str,
+    overdue: bool,
+    after_work: bool,
+) -> ActivityResult:
     """An :class:`ActivityResult` from every field, without the generated ``__init__``.
 
     The frozen ``__init__`` sets each field through ``object.__setattr__``; a dict display
@@ -124,15 +158,33 @@ def _row(id: str, name: str, calendar: str, duration: int, status: Status,
     value (tests compare both ways of building).
     """
     result = _new(ActivityResult)
-    _set(result, "__dict__", {
-        "id": id, "name": name, "calendar": calendar, "duration": duration, "status": status,
-        "early_start": early_start, "early_finish": early_finish, "late_start": late_start,
-        "late_finish": late_finish, "total_float": total_float, "free_float": free_float,
-        "critical": critical, "on_driving_path": on_driving_path, "actual_start": actual_start,
-        "actual_finish": actual_finish, "remaining": remaining, "percent": percent,
-        "driving": driving, "driven_by": driven_by, "overdue": overdue,
-        "after_work": after_work,
-    })
+    _set(
+        result,
+        "__dict__",
+        {
+            "id": id,
+            "name": name,
+            "calendar": calendar,
+            "duration": duration,
+            "status": status,
+            "early_start": early_start,
+            "early_finish": early_finish,
+            "late_start": late_start,
+            "late_finish": late_finish,
+            "total_float": total_float,
+            "free_float": free_float,
+            "critical": critical,
+            "on_driving_path": on_driving_path,
+            "actual_start": actual_start,
+            "actual_finish": actual_finish,
+            "remaining": remaining,
+            "percent": percent,
+            "driving": driving,
+            "driven_by": driven_by,
+            "overdue": overdue,
+            "after_work": after_work,
+        },
+    )
     return result
 
 
@@ -166,7 +218,12 @@ def _site_columns(site: Site) -> tuple[list[str], list[str], list[int], np.ndarr
         links = np.empty(len(site.links), dtype=object)
         links[:] = site.links
         preds = np.array([lk.pred for lk in site.links], dtype=object)
-        cached = ([a.name for a in site.activities], [a.calendar for a in site.activities],
-                  [a.duration for a in site.activities], links, preds)
+        cached = (
+            [a.name for a in site.activities],
+            [a.calendar for a in site.activities],
+            [a.duration for a in site.activities],
+            links,
+            preds,
+        )
         object.__setattr__(site, "_cpm_row_columns", cached)
     return cached

@@ -25,9 +25,11 @@ from fieldlog.words import working_days
 from fieldlog.workspace import SiteState
 
 WIDTH = 80
-CAUTION = ("A schedule is a plan, not a permit: excavation, lifting, concrete and access work "
-           "go ahead only under their own permits and method statements. Local codes, the "
-           "contract and licensed professionals govern.")
+CAUTION = (
+    "A schedule is a plan, not a permit: excavation, lifting, concrete and access work "
+    "go ahead only under their own permits and method statements. Local codes, the "
+    "contract and licensed professionals govern."
+)
 
 
 def _d(day: date | None) -> str:
@@ -94,11 +96,16 @@ def render_daily_report(state: SiteState, day: date) -> str:
     _work(p, todays, state)
     _schedule(p, state)
     _readiness(p, todays, state, day)
-    for kind, title in (("plant", "Plant and equipment"), ("delivery", "Deliveries"),
-                        ("inspection", "Inspections and tests"),
-                        ("visitor", "Visitors"), ("instruction", "Instructions received"),
-                        ("incident", "Incidents"), ("safety", "Safety observations"),
-                        ("note", "Notes")):
+    for kind, title in (
+        ("plant", "Plant and equipment"),
+        ("delivery", "Deliveries"),
+        ("inspection", "Inspections and tests"),
+        ("visitor", "Visitors"),
+        ("instruction", "Instructions received"),
+        ("incident", "Incidents"),
+        ("safety", "Safety observations"),
+        ("note", "Notes"),
+    ):
         p.heading(title)
         items = [e for e in todays if e.kind == kind]
         for e in items:
@@ -190,15 +197,21 @@ def _crews(p: _Page, todays: list[Entry]) -> None:
         unknown = unknown or h is None
         hours += h or 0.0
         heads += f["headcount"]
-        p.add(f"  {fit(f['trade'], 18, '')} {fit(f.get('company', ''), 34, '')} "
-              f"{f['headcount']:>7} {'-' if h is None else _n(h):>8}")
+        p.add(
+            f"  {fit(f['trade'], 18, '')} {fit(f.get('company', ''), 34, '')} "
+            f"{f['headcount']:>7} {'-' if h is None else _n(h):>8}"
+        )
     p.add(f"  {'Total':<53} {heads:>7} {_n(hours) + ('+' if unknown else ''):>8}")
 
 
 def _work(p: _Page, todays: list[Entry], state: SiteState) -> None:
     p.heading("Work on activities")
-    labels = {"started": "Started", "finished": "Finished", "remaining": "Remaining",
-              "percent": "Complete"}
+    labels = {
+        "started": "Started",
+        "finished": "Finished",
+        "remaining": "Remaining",
+        "percent": "Complete",
+    }
     items = [e for e in todays if e.kind in labels]
     for e in items:
         aid = e.fields["activity"]
@@ -217,11 +230,14 @@ def _work(p: _Page, todays: list[Entry], state: SiteState) -> None:
     if not running:
         p.add("    none")
         return
-    p.add(f"    {'ID':<10} {'Activity':<28} {'Started':<11} {'Left':>4} {'Fcst finish':<11} "
-          f"{'TF':>4}")
+    p.add(
+        f"    {'ID':<10} {'Activity':<28} {'Started':<11} {'Left':>4} {'Fcst finish':<11} {'TF':>4}"
+    )
     for r in sorted(running, key=lambda r: (r.total_float or 0, r.id)):
-        p.add(f"    {fit(r.id, 10, '')} {fit(r.name, 28, '')} {_short(r.actual_start):<11} "
-              f"{r.remaining:>4} {_short(r.early_finish):<11} {_tf(r.total_float):>4}")
+        p.add(
+            f"    {fit(r.id, 10, '')} {fit(r.name, 28, '')} {_short(r.actual_start):<11} "
+            f"{r.remaining:>4} {_short(r.early_finish):<11} {_tf(r.total_float):>4}"
+        )
 
 
 def _short(day: date | None) -> str:
@@ -244,18 +260,29 @@ def _schedule(p: _Page, state: SiteState) -> None:
     text = f"Forecast finish {_d(sched.finish)}"
     if state.site.finish_by is not None and sched.finish_float is not None:
         ff = sched.finish_float
-        text += (f"; required {_d(state.site.finish_by)}: "
-                 + (f"{working_days(ff)} to spare" if ff >= 0 else f"LATE by {working_days(-ff)}"))
+        text += f"; required {_d(state.site.finish_by)}: " + (
+            f"{working_days(ff)} to spare" if ff >= 0 else f"LATE by {working_days(-ff)}"
+        )
     p.wrap(text + ".", 2, 4)
     driving = [sched.by_id[a] for a in sched.driving_path if sched.by_id[a].is_open][:3]
     if driving:
-        p.wrap("Controlling work (driving path): " + "; ".join(
-            f"{r.id} {r.name} ({r.status.value}, total float {_tf(r.total_float)})"
-            for r in driving) + ".", 2, 4)
+        p.wrap(
+            "Controlling work (driving path): "
+            + "; ".join(
+                f"{r.id} {r.name} ({r.status.value}, total float {_tf(r.total_float)})"
+                for r in driving
+            )
+            + ".",
+            2,
+            4,
+        )
     late = sorted((r for r in sched.activities if r.late), key=lambda r: (r.total_float, r.id))
     if late:
-        p.wrap("Late (negative float): " + ", ".join(
-            f"{r.id} ({r.total_float})" for r in late) + ".", 2, 4)
+        p.wrap(
+            "Late (negative float): " + ", ".join(f"{r.id} ({r.total_float})" for r in late) + ".",
+            2,
+            4,
+        )
     for o in sched.out_of_sequence:
         p.wrap(f"Out of sequence: {o.describe()}.", 2, 4)
 
@@ -267,8 +294,11 @@ def _readiness(p: _Page, todays: list[Entry], state: SiteState, day: date) -> No
         if e.kind == "need":
             f = e.fields
             exp = f"expected {_d(f['expected'])}" if f.get("expected") else "no expected date"
-            p.wrap(f"Opened: {f['activity']} needs {f['what']} ({f['category']}), {exp}. "
-                   f"[{e.id}]", 2, 4)
+            p.wrap(
+                f"Opened: {f['activity']} needs {f['what']} ({f['category']}), {exp}. [{e.id}]",
+                2,
+                4,
+            )
             any_line = True
         elif e.kind == "cleared":
             item = state.replay.current.get(e.fields["item"], e.fields["item"])
@@ -280,9 +310,12 @@ def _readiness(p: _Page, todays: list[Entry], state: SiteState, day: date) -> No
     for item in state.replay.readiness:
         flag = item.flag(day)
         exp = f"expected {_d(item.expected)}" if item.expected else "no expected date"
-        p.wrap(f"Still open: {item.activity} needs {item.what} ({item.kind}), opened "
-               f"{_d(item.opened)}, {exp}" + (" - CHASE" if flag else "")
-               + f". [{item.entry_id}]", 2, 4)
+        p.wrap(
+            f"Still open: {item.activity} needs {item.what} ({item.kind}), opened "
+            f"{_d(item.opened)}, {exp}" + (" - CHASE" if flag else "") + f". [{item.entry_id}]",
+            2,
+            4,
+        )
         any_line = True
     if not any_line:
         p.none()
@@ -296,25 +329,42 @@ def _describe(e: Entry, state: SiteState) -> str:
     if e.kind == "delivery":
         bits = (f["what"], f.get("quantity"), f.get("supplier") and f"from {f['supplier']}")
     elif e.kind == "inspection":
-        bits = (f["what"], f"result: {f['result']}", f.get("inspector") and
-                f"by {f['inspector']}", f.get("reference") and f"ref. {f['reference']}")
+        bits = (
+            f["what"],
+            f"result: {f['result']}",
+            f.get("inspector") and f"by {f['inspector']}",
+            f.get("reference") and f"ref. {f['reference']}",
+        )
     elif e.kind == "visitor":
         t_in, t_out = f.get("time_in"), f.get("time_out")
-        bits = (f["name"], f.get("company"), f.get("purpose"),
-                f"in {t_in:%H:%M}" if t_in else None, f"out {t_out:%H:%M}" if t_out else None)
+        bits = (
+            f["name"],
+            f.get("company"),
+            f.get("purpose"),
+            f"in {t_in:%H:%M}" if t_in else None,
+            f"out {t_out:%H:%M}" if t_out else None,
+        )
     elif e.kind == "plant":
-        bits = (f"{f['count']} x {f['what']}" if f.get("count") else f["what"],
-                f.get("supplier") and f"from {f['supplier']}",
-                f"{_n(f['hours_worked'])} h worked" if "hours_worked" in f else None,
-                ("BROKE DOWN" + (f", {_n(f['hours_down'])} h out of use"
-                                 if "hours_down" in f else "")) if f.get("broken_down")
-                else None)
+        bits = (
+            f"{f['count']} x {f['what']}" if f.get("count") else f["what"],
+            f.get("supplier") and f"from {f['supplier']}",
+            f"{_n(f['hours_worked'])} h worked" if "hours_worked" in f else None,
+            ("BROKE DOWN" + (f", {_n(f['hours_down'])} h out of use" if "hours_down" in f else ""))
+            if f.get("broken_down")
+            else None,
+        )
     elif e.kind == "instruction":
-        bits = (f"{f['form'].upper()} from {f['given_by']}", f.get("reference") and
-                f"ref. {f['reference']}", f"\"{f['text']}\"")
+        bits = (
+            f"{f['form'].upper()} from {f['given_by']}",
+            f.get("reference") and f"ref. {f['reference']}",
+            f'"{f["text"]}"',
+        )
     elif e.kind == "incident":
-        bits = (f["text"], "INJURY" if f.get("injury") else "no injury",
-                f.get("reported_to") and f"reported to {f['reported_to']}")
+        bits = (
+            f["text"],
+            "INJURY" if f.get("injury") else "no injury",
+            f.get("reported_to") and f"reported to {f['reported_to']}",
+        )
     elif e.kind == "safety":
         bits = (f["text"], f.get("action") and f"action: {f['action']}")
     else:
@@ -326,21 +376,36 @@ def _describe(e: Entry, state: SiteState) -> str:
 def _corrections(p: _Page, raw: list[Entry], superseded: Mapping[str, Entry]) -> None:
     p.heading("Corrections")
     items = [e for e in raw if e.kind == "correction"]
-    later = sorted({c.id: c for e in raw if e.id in superseded
-                    for c in (superseded[e.id],) if c.day != e.day}.values(),
-                   key=Entry.sort_key)
+    later = sorted(
+        {
+            c.id: c
+            for e in raw
+            if e.id in superseded
+            for c in (superseded[e.id],)
+            if c.day != e.day
+        }.values(),
+        key=Entry.sort_key,
+    )
     for c in items:
         f = c.fields
         what = "withdrawn" if f.get("withdraw") else "replaced"
-        changes = [f"{k} = {v}" for k, v in f.items()
-                   if k not in ("supersedes", "reason", "corrects", "withdraw")]
-        text = f"{f['supersedes']} ({f['corrects']}) {what} by {c.id}, written " \
-               f"{c.written:%d %b %Y %H:%M} UTC: {f['reason']}"
+        changes = [
+            f"{k} = {v}"
+            for k, v in f.items()
+            if k not in ("supersedes", "reason", "corrects", "withdraw")
+        ]
+        text = (
+            f"{f['supersedes']} ({f['corrects']}) {what} by {c.id}, written "
+            f"{c.written:%d %b %Y %H:%M} UTC: {f['reason']}"
+        )
         if changes:
             text += "; now " + ", ".join(changes)
         p.wrap(_stop(text), 2, 4)
     for c in later:
-        p.wrap(f"{c.fields['supersedes']} was moved to {_d(c.day)} by {c.id}: "
-               f"{c.fields['reason']}.", 2, 4)
+        p.wrap(
+            f"{c.fields['supersedes']} was moved to {_d(c.day)} by {c.id}: {c.fields['reason']}.",
+            2,
+            4,
+        )
     if not items and not later:
         p.none()

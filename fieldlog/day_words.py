@@ -47,8 +47,9 @@ def earliest_day(site_start: date) -> date:
     return site_start - YEAR_BEFORE_START
 
 
-def parse_day(text: str, today: date, *, earliest: date | None = None,
-              latest: date | None = None) -> date:
+def parse_day(
+    text: str, today: date, *, earliest: date | None = None, latest: date | None = None
+) -> date:
     """The day ``text`` names, as of ``today``.
 
     Args:
@@ -77,11 +78,14 @@ def parse_day(text: str, today: date, *, earliest: date | None = None,
         raise DayProblem(f"'{text.strip()}' is not a day: type {HELP}")
     if latest is not None and day > latest:
         bound = f"today ({long_day(latest)})" if latest == today else long_day(latest)
-        raise DayProblem(f"{long_day(day)} is after {bound}: "
-                         "a day that has not happened yet cannot be recorded")
+        raise DayProblem(
+            f"{long_day(day)} is after {bound}: a day that has not happened yet cannot be recorded"
+        )
     if earliest is not None and day < earliest:
-        raise DayProblem(f"{long_day(day)} is before {long_day(earliest)}, a year before the "
-                         "site start: check the year")
+        raise DayProblem(
+            f"{long_day(day)} is before {long_day(earliest)}, a year before the "
+            "site start: check the year"
+        )
     return day
 
 

@@ -90,8 +90,7 @@ def refuse_links(*paths: Path) -> None:
     """Raise ``OSError(ELOOP)`` naming the first of ``paths`` that is a symbolic link."""
     for path in paths:
         if path.is_symlink():
-            raise OSError(errno.ELOOP, "is a link; fieldlog never writes through a link",
-                          str(path))
+            raise OSError(errno.ELOOP, "is a link; fieldlog never writes through a link", str(path))
 
 
 def make_folder(folder: Path) -> None:

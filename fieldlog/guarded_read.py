@@ -35,7 +35,8 @@ from fieldlog.bounds import FILE_CAPS, MAX_NESTING, check_size
 from fieldlog.errors import OutOfBounds, UnreadableToml
 
 _STRINGS_AND_COMMENTS = re.compile(
-    r'"""[\s\S]*?"""|\'\'\'[\s\S]*?\'\'\'|"(?:[^"\\\n]++|\\.)*+"|\'[^\'\n]*+\'|#[^\n]*+')
+    r'"""[\s\S]*?"""|\'\'\'[\s\S]*?\'\'\'|"(?:[^"\\\n]++|\\.)*+"|\'[^\'\n]*+\'|#[^\n]*+'
+)
 """TOML strings (all four kinds) and comments: what may hold brackets that are not nesting."""
 _DOTTED_KEY = re.compile(r"\.(?:[ \t]*+[\w-]*+[ \t]*+\.){" + str(MAX_NESTING - 1) + "}")
 """A key of more than MAX_NESTING dotted parts (``a.b.c...``): MAX_NESTING dots with only key
@@ -69,8 +70,9 @@ def read_capped(path: Path, kind: str, *, follow_links: bool = True) -> bytes:
     try:
         info = os.fstat(fd)
         if not stat.S_ISREG(info.st_mode):
-            raise OutOfBounds(f"{path.name} is not a plain file",
-                              fix="replace it with the file itself")
+            raise OutOfBounds(
+                f"{path.name} is not a plain file", fix="replace it with the file itself"
+            )
         check_size(info.st_size, kind, path.name)
         cap = FILE_CAPS[kind]
         chunks, total = [], 0
@@ -87,8 +89,10 @@ def read_capped(path: Path, kind: str, *, follow_links: bool = True) -> bytes:
 
 
 def _link(path: Path) -> OutOfBounds:
-    return OutOfBounds(f"{path.name} is a link; fieldlog never follows links here",
-                       fix="replace the link with the file itself")
+    return OutOfBounds(
+        f"{path.name} is a link; fieldlog never follows links here",
+        fix="replace the link with the file itself",
+    )
 
 
 def loads(raw: bytes | str, kind: str, what: str, *, bom: bool = False) -> dict[str, Any]:
@@ -140,14 +144,20 @@ def check_nesting(text: str) -> None:
     deep = _DOTTED_KEY.search(code)
     if deep:
         at = text.find(deep[0][:40])
-        raise UnreadableToml(f"a key has more than {MAX_NESTING} dotted parts",
-                             line=text.count("\n", 0, at) + 1 if at >= 0 else None,
-                             fix="this is not a file fieldlog wrote or expects")
+        raise UnreadableToml(
+            f"a key has more than {MAX_NESTING} dotted parts",
+            line=text.count("\n", 0, at) + 1 if at >= 0 else None,
+            fix="this is not a file fieldlog wrote or expects",
+        )
     brackets = code.encode("utf-8").translate(None, _NOT_BRACKETS)
-    if len(brackets) > MAX_NESTING and max(accumulate(map(_STEP.__getitem__, brackets))) \
-            > MAX_NESTING:
-        raise UnreadableToml(f"arrays or tables are nested more than {MAX_NESTING} deep",
-                             fix="this is not a file fieldlog wrote or expects")
+    if (
+        len(brackets) > MAX_NESTING
+        and max(accumulate(map(_STEP.__getitem__, brackets))) > MAX_NESTING
+    ):
+        raise UnreadableToml(
+            f"arrays or tables are nested more than {MAX_NESTING} deep",
+            fix="this is not a file fieldlog wrote or expects",
+        )
 
 
 def _first_words(exc: BaseException) -> str:

@@ -21,8 +21,19 @@ from fieldlog.words import working_days
 FORMATS = ("text", "json", "csv")
 
 CSV_COLUMNS = (
-    "id", "name", "status", "early_start", "early_finish", "late_start", "late_finish",
-    "total_float", "free_float", "critical", "actual_start", "actual_finish", "remaining",
+    "id",
+    "name",
+    "status",
+    "early_start",
+    "early_finish",
+    "late_start",
+    "late_finish",
+    "total_float",
+    "free_float",
+    "critical",
+    "actual_start",
+    "actual_finish",
+    "remaining",
 )
 
 
@@ -42,22 +53,33 @@ def _iso(d: date | None) -> str | None:
 def activity_json(r: ActivityResult) -> dict:
     """One activity as the JSON contract has it (ISO dates, null where none)."""
     return {
-        "id": r.id, "name": r.name, "status": r.status.value,
-        "early_start": _iso(r.early_start), "early_finish": _iso(r.early_finish),
-        "late_start": _iso(r.late_start), "late_finish": _iso(r.late_finish),
-        "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
-        "actual_start": _iso(r.actual_start), "actual_finish": _iso(r.actual_finish),
+        "id": r.id,
+        "name": r.name,
+        "status": r.status.value,
+        "early_start": _iso(r.early_start),
+        "early_finish": _iso(r.early_finish),
+        "late_start": _iso(r.late_start),
+        "late_finish": _iso(r.late_finish),
+        "total_float": r.total_float,
+        "free_float": r.free_float,
+        "critical": r.critical,
+        "actual_start": _iso(r.actual_start),
+        "actual_finish": _iso(r.actual_finish),
         "remaining": r.remaining,
-        "driving_path": r.on_driving_path, "driven_by": r.driven_by,
-        "calendar": r.calendar, "overdue_update": r.overdue,
+        "driving_path": r.on_driving_path,
+        "driven_by": r.driven_by,
+        "calendar": r.calendar,
+        "overdue_update": r.overdue,
     }
 
 
 def schedule_json(result: ScheduleResult) -> dict:
     """The ``fieldlog schedule --format json`` document."""
     return {
-        "site": result.site.name, "revision": result.site.revision,
-        "as_of": result.as_of.isoformat(), "data_date": result.data_date.isoformat(),
+        "site": result.site.name,
+        "revision": result.site.revision,
+        "as_of": result.as_of.isoformat(),
+        "data_date": result.data_date.isoformat(),
         "finish": result.finish.isoformat(),
         "finish_by": _iso(result.site.finish_by),
         "finish_float": result.finish_float,
@@ -117,8 +139,10 @@ _MARK = {Status.FINISHED: "done", Status.IN_PROGRESS: "on", Status.NOT_STARTED: 
 def _text(result: ScheduleResult) -> str:
     site = result.site
     idw = max([10, *(width(r.id) for r in result.activities)])
-    head = (f"{'':2}{'ID':<{idw}} {'Activity':<30} {'State':<5} {'Start':<9} {'Finish':<9} "
-            f"{'Late fin':<9} {'TF':>4} {'FF':>3} {'Rem':>3}")
+    head = (
+        f"{'':2}{'ID':<{idw}} {'Activity':<30} {'State':<5} {'Start':<9} {'Finish':<9} "
+        f"{'Late fin':<9} {'TF':>4} {'FF':>3} {'Rem':>3}"
+    )
     lines = [
         f"{site.name} - schedule revision {site.revision}",
         f"Status as of end of {result.as_of:%a %d %b %Y}; data date {result.data_date:%a %d %b %Y}",
@@ -150,8 +174,10 @@ def _finish_line(result: ScheduleResult) -> str:
     if result.site.finish_by is not None and result.finish_float is not None:
         ff = result.finish_float
         state = "on time" if ff >= 0 else "LATE"
-        text += (f"; required {result.site.finish_by:%a %d %b %Y}: {state}, "
-                 f"{working_days(abs(ff))} {'to spare' if ff >= 0 else 'behind'}")
+        text += (
+            f"; required {result.site.finish_by:%a %d %b %Y}: {state}, "
+            f"{working_days(abs(ff))} {'to spare' if ff >= 0 else 'behind'}"
+        )
     return text
 
 

@@ -106,16 +106,19 @@ class OutOfSequence:
         """One line for reports."""
         if self.link is None:
             return f"{self.activity} {self.kind}; {self.treatment}"
-        return (f"{self.link.succ} {self.kind} {self.link.pred} ({self.link.type.value}); "
-                f"{self.treatment}")
+        return (
+            f"{self.link.succ} {self.kind} {self.link.pred} ({self.link.type.value}); "
+            f"{self.treatment}"
+        )
 
 
 NO_START_KIND = "finished, no start recorded"
 NO_START_TREATMENT = "its finish day is taken as its start; record the start as a correction"
 
 
-def finished_without_start(site: Site, progress: Mapping[str, Progress]
-                           ) -> tuple[OutOfSequence, ...]:
+def finished_without_start(
+    site: Site, progress: Mapping[str, Progress]
+) -> tuple[OutOfSequence, ...]:
     """Work (not a milestone) recorded finished while no start was ever recorded.
 
     A daily log that shows a finish with no start is incomplete, and in a delay dispute that
@@ -166,25 +169,44 @@ class ScheduleResult:
         return open_driving != set(self.lowest_float)
 
     @classmethod
-    def assemble(cls, *, site: Site, as_of: date, finish: date,
-                 results: Sequence[ActivityResult], calendars: Mapping[str, WorkCalendar],
-                 out_of_sequence: tuple[OutOfSequence, ...],
-                 driving_path: tuple[str, ...]) -> ScheduleResult:
+    def assemble(
+        cls,
+        *,
+        site: Site,
+        as_of: date,
+        finish: date,
+        results: Sequence[ActivityResult],
+        calendars: Mapping[str, WorkCalendar],
+        out_of_sequence: tuple[OutOfSequence, ...],
+        driving_path: tuple[str, ...],
+    ) -> ScheduleResult:
         """Freeze results that are already marked critical / on the driving path."""
         return cls(
-            site=site, as_of=as_of, finish=finish,
+            site=site,
+            as_of=as_of,
+            finish=finish,
             finish_float=finish_float(site, finish, calendars),
-            activities=tuple(results), driving_path=driving_path,
+            activities=tuple(results),
+            driving_path=driving_path,
             lowest_float=tuple(r.id for r in results if r.critical),
-            out_of_sequence=out_of_sequence, calendars=MappingProxyType(dict(calendars)),
+            out_of_sequence=out_of_sequence,
+            calendars=MappingProxyType(dict(calendars)),
             by_id=MappingProxyType({r.id: r for r in results}),
         )
 
     @classmethod
-    def deferred(cls, *, site: Site, as_of: date, finish: date,
-                 calendars: Mapping[str, WorkCalendar], driving_path: tuple[str, ...],
-                 lowest_float: tuple[str, ...], out_of_sequence: tuple[OutOfSequence, ...],
-                 rows: Callable[[], Sequence[ActivityResult]]) -> ScheduleResult:
+    def deferred(
+        cls,
+        *,
+        site: Site,
+        as_of: date,
+        finish: date,
+        calendars: Mapping[str, WorkCalendar],
+        driving_path: tuple[str, ...],
+        lowest_float: tuple[str, ...],
+        out_of_sequence: tuple[OutOfSequence, ...],
+        rows: Callable[[], Sequence[ActivityResult]],
+    ) -> ScheduleResult:
         """A result whose rows ``rows()`` builds on first read of ``activities``/``by_id``.
 
         For the engine: building 10,000 dated row objects costs as much as the passes, and
@@ -192,10 +214,15 @@ class ScheduleResult:
         """
         result = object.__new__(cls)
         result.__dict__.update(
-            site=site, as_of=as_of, finish=finish,
-            finish_float=finish_float(site, finish, calendars), driving_path=driving_path,
-            lowest_float=lowest_float, out_of_sequence=out_of_sequence,
-            calendars=MappingProxyType(dict(calendars)), _rows=rows,
+            site=site,
+            as_of=as_of,
+            finish=finish,
+            finish_float=finish_float(site, finish, calendars),
+            driving_path=driving_path,
+            lowest_float=lowest_float,
+            out_of_sequence=out_of_sequence,
+            calendars=MappingProxyType(dict(calendars)),
+            _rows=rows,
         )
         return result
 
@@ -229,12 +256,14 @@ def critical_threshold(total_floats: Iterable[int]) -> int:
     return max(0, min(total_floats, default=0))
 
 
-OUT_OF_SEQUENCE_KINDS: Mapping[LinkType, str] = MappingProxyType({
-    LinkType.FS: "started before predecessor finished",
-    LinkType.SS: "started before predecessor started",
-    LinkType.FF: "finished before predecessor finished",
-    LinkType.SF: "finished before predecessor started",
-})
+OUT_OF_SEQUENCE_KINDS: Mapping[LinkType, str] = MappingProxyType(
+    {
+        LinkType.FS: "started before predecessor finished",
+        LinkType.SS: "started before predecessor started",
+        LinkType.FF: "finished before predecessor finished",
+        LinkType.SF: "finished before predecessor started",
+    }
+)
 """How a link's successor moved on too early, by link type (the :attr:`OutOfSequence.kind`).
 
 Definitions follow the GAO Schedule Assessment Guide's page on out-of-sequence logic; the SF
@@ -243,15 +272,19 @@ and SS, its finish for FF and SF; the predecessor side its finish for FS and FF,
 SS and SF."""
 
 
-def find_out_of_sequence(site: Site, progress: Sequence[Progress],
-                         override: bool) -> tuple[OutOfSequence, ...]:
+def find_out_of_sequence(
+    site: Site, progress: Sequence[Progress], override: bool
+) -> tuple[OutOfSequence, ...]:
     """Links whose successor has moved on while the predecessor has not (as of the status date).
 
     ``progress`` is in the order of ``site.activities``. See :data:`OUT_OF_SEQUENCE_KINDS`.
     The engine finds the same links with arrays (``fieldlog.cpm``); tests compare the two.
     """
-    moved = {a.id: p for a, p in zip(site.activities, progress, strict=True)
-             if p.actual_start or p.actual_finish}
+    moved = {
+        a.id: p
+        for a, p in zip(site.activities, progress, strict=True)
+        if p.actual_start or p.actual_finish
+    }
     if not moved:
         return ()
     treatment = "progress override" if override else "retained logic"

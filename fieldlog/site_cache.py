@@ -62,7 +62,11 @@ _MAGIC = b"fieldlog-site-cache\n"
 _PREFIX, _SUFFIX, _TEMP_SUFFIX = "site-", ".pickle", ".tmp"
 _STALE_TEMP_SECONDS = 3600.0
 _SHAPING_MODULES = (
-    "site_cache.py", "site_files.py", "site_schema.py", "toml_file.py", "model.py",
+    "site_cache.py",
+    "site_files.py",
+    "site_schema.py",
+    "toml_file.py",
+    "model.py",
 )
 """Source files whose code decides what a cached Site holds (all in this package)."""
 
@@ -97,8 +101,12 @@ def cache_key(site_raw: bytes, schedule_raw: bytes) -> str | None:
         return None
     h = hashlib.sha256()
     # Lengths keep the two files apart: "ab" + "c" and "a" + "bc" must not share a key.
-    for part in (f"{FORMAT}|{__version__}|{sys.version}|{code}".encode(),
-                 len(site_raw).to_bytes(8, "big"), site_raw, schedule_raw):
+    for part in (
+        f"{FORMAT}|{__version__}|{sys.version}|{code}".encode(),
+        len(site_raw).to_bytes(8, "big"),
+        site_raw,
+        schedule_raw,
+    ):
         h.update(part)
     return h.hexdigest()
 
@@ -152,7 +160,7 @@ def _decode(data: bytes, key: str) -> Site | None:
     if not data.startswith(header) or len(data) < digest_end:
         return None  # another format, version or key, or cut short in the header
     payload = data[digest_end:]
-    if hashlib.sha256(payload).digest() != data[len(header):digest_end]:
+    if hashlib.sha256(payload).digest() != data[len(header) : digest_end]:
         return None  # truncated or damaged: a flipped digit must never become a duration
     # Unpickling a tree of ~40,000 small immutable values creates no reference cycles, but
     # every allocation counts towards the cycle collector, which then runs again and again
@@ -175,8 +183,7 @@ def _decode(data: bytes, key: str) -> Site | None:
 def write_entry(path: Path, key: str, site: Site) -> None:
     """Store ``site`` in ``path`` atomically, then keep only the :data:`KEEP` newest entries."""
     payload = _pickle(site)
-    data = b"".join((_MAGIC, key.encode("ascii"), b"\n", hashlib.sha256(payload).digest(),
-                     payload))
+    data = b"".join((_MAGIC, key.encode("ascii"), b"\n", hashlib.sha256(payload).digest(), payload))
     folder = path.parent
     temp: Path | None = None
     try:
@@ -190,8 +197,10 @@ def write_entry(path: Path, key: str, site: Site) -> None:
         os.replace(temp, path)
         temp = None
     except OSError as exc:
-        _warn(f"cannot write the site cache in {folder}: {exc.strerror}; the site loads "
-              f"as usual, only slower (set {_home_env()} to a folder you can write)")
+        _warn(
+            f"cannot write the site cache in {folder}: {exc.strerror}; the site loads "
+            f"as usual, only slower (set {_home_env()} to a folder you can write)"
+        )
         return
     finally:
         if temp is not None:
@@ -208,8 +217,11 @@ def _prune(folder: Path, keep: Path) -> None:
             for item in it:
                 if item.name.startswith(_PREFIX) and item.name.endswith(_SUFFIX):
                     entries.append((item.stat().st_mtime, Path(item.path)))
-                elif (item.name.startswith(f".{_PREFIX}") and item.name.endswith(_TEMP_SUFFIX)
-                      and now - item.stat().st_mtime > _STALE_TEMP_SECONDS):
+                elif (
+                    item.name.startswith(f".{_PREFIX}")
+                    and item.name.endswith(_TEMP_SUFFIX)
+                    and now - item.stat().st_mtime > _STALE_TEMP_SECONDS
+                ):
                     _remove(Path(item.path))  # left by a process that was killed mid-write
     except FileNotFoundError:
         return  # an entry vanished while listing: another process is pruning

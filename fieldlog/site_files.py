@@ -25,7 +25,13 @@ from fieldlog.toml_file import (
 )
 
 __all__ = [
-    "MAX_LAG", "SCHEDULE_FILE", "SITE_FILE", "TomlFile", "build_site", "load_site", "parse_toml",
+    "MAX_LAG",
+    "SCHEDULE_FILE",
+    "SITE_FILE",
+    "TomlFile",
+    "build_site",
+    "load_site",
+    "parse_toml",
     "read_toml",
 ]
 
@@ -39,8 +45,11 @@ def load_site(folder: Path | str) -> Site:
     """
     folder = Path(folder)
     if not folder.is_dir():
-        raise SiteError("not a site folder", file=folder,
-                        fix=f"give the folder that holds {SITE_FILE} and {SCHEDULE_FILE}")
+        raise SiteError(
+            "not a site folder",
+            file=folder,
+            fix=f"give the folder that holds {SITE_FILE} and {SCHEDULE_FILE}",
+        )
     site_raw = read_file_bytes(folder / SITE_FILE)
     schedule_raw = read_file_bytes(folder / SCHEDULE_FILE)
     return _load_bytes(folder, site_raw, schedule_raw)
@@ -59,12 +68,12 @@ def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
     validated Site in the user's cache folder, so only the first command after an office
     revision pays for the parse.
     """
-    return cached_site(site_raw, schedule_raw, partial(
-        _parse_and_build, folder, site_raw, schedule_raw))
+    return cached_site(
+        site_raw, schedule_raw, partial(_parse_and_build, folder, site_raw, schedule_raw)
+    )
 
 
 def _parse_and_build(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
-    return build_site(parse_toml(folder / SITE_FILE, site_raw),
-                      parse_toml(folder / SCHEDULE_FILE, schedule_raw))
-
-
+    return build_site(
+        parse_toml(folder / SITE_FILE, site_raw), parse_toml(folder / SCHEDULE_FILE, schedule_raw)
+    )

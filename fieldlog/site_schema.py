@@ -38,7 +38,14 @@ _SITE_KEYS = {"name", "start", "finish_by", "calendar", "progress_override", "la
 _CALENDAR_KEYS = {"workdays", "holidays", "public_holidays"}
 _CREW_KEYS = {"available"}
 _ACTIVITY_KEYS = {
-    "id", "name", "duration", "calendar", "after", "start_not_before", "finish_not_after", "crew",
+    "id",
+    "name",
+    "duration",
+    "calendar",
+    "after",
+    "start_not_before",
+    "finish_not_after",
+    "crew",
 }
 _LINK_KEYS = {"from", "to", "type", "lag"}
 _ID_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,31}$")
@@ -56,8 +63,11 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
     default_cal = head.get("calendar")
     if default_cal is None:
         if len(calendars) != 1:
-            raise site_file.error("[site] has no 'calendar'", line=site_file.line_of(r"^\[site\]"),
-                                  fix='add calendar = "<name of one [calendars.NAME]>"')
+            raise site_file.error(
+                "[site] has no 'calendar'",
+                line=site_file.line_of(r"^\[site\]"),
+                fix='add calendar = "<name of one [calendars.NAME]>"',
+            )
         default_cal = next(iter(calendars))
     if default_cal not in calendars:
         raise site_file.error(
@@ -67,8 +77,10 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
         )
     override = head.get("progress_override", False)
     if not isinstance(override, bool):
-        raise site_file.error("[site] progress_override must be true or false",
-                              line=site_file.line_of(r"^\s*progress_override\s*="))
+        raise site_file.error(
+            "[site] progress_override must be true or false",
+            line=site_file.line_of(r"^\s*progress_override\s*="),
+        )
     lag_cal_text = head.get("lag_calendar", "successor")
     try:
         lag_calendar = LagCalendar(lag_cal_text)
@@ -83,17 +95,25 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
     if finish_by is not None and finish_by < start:
         raise site_file.error(
             f"finish_by {finish_by} is before the site start {start}",
-            line=site_file.line_of(r"^\s*finish_by\s*="), fix="correct one of the two dates",
+            line=site_file.line_of(r"^\s*finish_by\s*="),
+            fix="correct one of the two dates",
         )
     ids = [a.id for a in activities]
     _, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in links))
     if cycle:
         raise DependencyLoopError(cycle, file=schedule_file.path)
     return Site(
-        name=name, start=start, calendar=default_cal,
-        calendars=MappingProxyType(calendars), crews=MappingProxyType(crews),
-        revision=revision, activities=tuple(activities), links=tuple(links),
-        finish_by=finish_by, progress_override=override, lag_calendar=lag_calendar,
+        name=name,
+        start=start,
+        calendar=default_cal,
+        calendars=MappingProxyType(calendars),
+        crews=MappingProxyType(crews),
+        revision=revision,
+        activities=tuple(activities),
+        links=tuple(links),
+        finish_by=finish_by,
+        progress_override=override,
+        lag_calendar=lag_calendar,
     )
 
 
@@ -103,7 +123,7 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
 def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
     tables = _table(f, f.data, "calendars", required=True)
     if not tables:
-        raise f.error("no calendars defined", fix='add [calendars.weekdays] with workdays = [...]')
+        raise f.error("no calendars defined", fix="add [calendars.weekdays] with workdays = [...]")
     out: dict[str, CalendarSpec] = {}
     for cname, body in tables.items():
         _bounded(f, bounds.check_text, cname, "a calendar name", line=None)
@@ -113,26 +133,32 @@ def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
         _no_unknown(f, body, _CALENDAR_KEYS, where)
         days = body.get("workdays")
         if not isinstance(days, list) or not days:
-            raise f.error(f"{where} needs workdays, e.g. [\"mon\", \"tue\", \"wed\"]",
-                          line=f.line_of(rf"^\[calendars\.{re.escape(cname)}\]"))
+            raise f.error(
+                f'{where} needs workdays, e.g. ["mon", "tue", "wed"]',
+                line=f.line_of(rf"^\[calendars\.{re.escape(cname)}\]"),
+            )
         weekdays = set()
         for d in days:
             key = str(d).strip().lower()[:3]
             if key not in WEEKDAY_NAMES:
-                raise f.error(f"{where} workdays has {bounds.shown(d)}, not a weekday",
-                              line=f.line_of(r"^\s*workdays\s*="),
-                              fix="use mon, tue, wed, thu, fri, sat, sun")
+                raise f.error(
+                    f"{where} workdays has {bounds.shown(d)}, not a weekday",
+                    line=f.line_of(r"^\s*workdays\s*="),
+                    fix="use mon, tue, wed, thu, fri, sat, sun",
+                )
             weekdays.add(WEEKDAY_NAMES.index(key))
         hol = body.get("holidays", [])
         if not isinstance(hol, list):
-            raise f.error(f"{where} holidays must be a list of dates",
-                          line=f.line_of(r"^\s*holidays\s*="))
-        holidays = frozenset(_as_date(f, h, f"{where} holidays", site_start=start)
-                             for h in hol)
+            raise f.error(
+                f"{where} holidays must be a list of dates", line=f.line_of(r"^\s*holidays\s*=")
+            )
+        holidays = frozenset(_as_date(f, h, f"{where} holidays", site_start=start) for h in hol)
         region = body.get("public_holidays")
         if region is not None and (not isinstance(region, str) or len(region) > 10):
-            raise f.error(f"{where} public_holidays must be a region code like \"GB-ENG\"",
-                          line=f.line_of(r"^\s*public_holidays\s*="))
+            raise f.error(
+                f'{where} public_holidays must be a region code like "GB-ENG"',
+                line=f.line_of(r"^\s*public_holidays\s*="),
+            )
         out[cname] = CalendarSpec(cname, frozenset(weekdays), holidays, region)
     return out
 
@@ -148,22 +174,29 @@ def _crews(f: TomlFile) -> dict[str, Crew]:
         available = body.get("available")
         crew_line = partial(f.line_of, rf"^\[crews\.{re.escape(cname)}\]")
         if not isinstance(available, int) or isinstance(available, bool) or available < 0:
-            raise f.error(f"{where} available must be a whole number of people, 0 or more",
-                          line=crew_line)
+            raise f.error(
+                f"{where} available must be a whole number of people, 0 or more", line=crew_line
+            )
         _bounded(f, bounds.check_headcount, available, f"{where} available", line=crew_line)
         out[cname] = Crew(cname, available)
     return out
 
 
 def _schedule(
-    f: TomlFile, calendars: dict[str, CalendarSpec], crews: dict[str, Crew], default_cal: str,
+    f: TomlFile,
+    calendars: dict[str, CalendarSpec],
+    crews: dict[str, Crew],
+    default_cal: str,
     start: date,
 ) -> tuple[int, list[Activity], list[Link]]:
     _no_unknown(f, f.data, {"revision", "activity", "link"}, "top level")
     revision = f.data.get("revision")
     if not isinstance(revision, int) or isinstance(revision, bool) or revision < 0:
-        raise f.error("revision must be a whole number (the office's revision counter)",
-                      line=f.line_of(r"^\s*revision\s*="), fix="add revision = 1 at the top")
+        raise f.error(
+            "revision must be a whole number (the office's revision counter)",
+            line=f.line_of(r"^\s*revision\s*="),
+            fix="add revision = 1 at the top",
+        )
     _bounded(f, bounds.check_counter, revision, "revision", line=f.line_of(r"^\s*revision\s*="))
     rows = f.data.get("activity", [])
     if not isinstance(rows, list):
@@ -185,53 +218,111 @@ def _schedule(
         seen[aid] = nth + 1
         line = partial(f.line_of_id, aid, nth)
         if nth:
-            raise f.error(f"duplicate activity id '{aid}'", line=line, activity=aid,
-                          fix="give every activity its own id")
+            raise f.error(
+                f"duplicate activity id '{aid}'",
+                line=line,
+                activity=aid,
+                fix="give every activity its own id",
+            )
         _no_unknown(f, row, _ACTIVITY_KEYS, f"activity '{aid}'", line=line, activity=aid)
         name = row.get("name")
         if not isinstance(name, str) or not name.strip():
-            raise f.error(f"activity '{aid}' has no name", line=line, activity=aid,
-                          fix='add name = "what the crew does"')
+            raise f.error(
+                f"activity '{aid}' has no name",
+                line=line,
+                activity=aid,
+                fix='add name = "what the crew does"',
+            )
         _bounded(f, bounds.check_text, name, f"activity '{aid}' name", line=line, activity=aid)
         duration = row.get("duration")
         if not isinstance(duration, int) or isinstance(duration, bool):
-            raise f.error(f"activity '{aid}' duration must be a whole number of working days",
-                          line=line, activity=aid, fix="e.g. duration = 5 (0 for a milestone)")
+            raise f.error(
+                f"activity '{aid}' duration must be a whole number of working days",
+                line=line,
+                activity=aid,
+                fix="e.g. duration = 5 (0 for a milestone)",
+            )
         if duration < 0:
-            raise f.error(f"activity '{aid}' has a negative duration ({duration})",
-                          line=line, activity=aid, fix="use 0 for a milestone or a positive number")
-        _bounded(f, bounds.check_days, duration, f"activity '{aid}' duration", activity=aid,
-                 line=partial(f.key_line, "duration", line))
+            raise f.error(
+                f"activity '{aid}' has a negative duration ({duration})",
+                line=line,
+                activity=aid,
+                fix="use 0 for a milestone or a positive number",
+            )
+        _bounded(
+            f,
+            bounds.check_days,
+            duration,
+            f"activity '{aid}' duration",
+            activity=aid,
+            line=partial(f.key_line, "duration", line),
+        )
         cal = row.get("calendar", default_cal)
         if cal not in calendars:
-            raise f.error(f"activity '{aid}' uses unknown calendar '{cal}'", line=line,
-                          activity=aid, fix=f"use one of: {', '.join(calendars)}")
+            raise f.error(
+                f"activity '{aid}' uses unknown calendar '{cal}'",
+                line=line,
+                activity=aid,
+                fix=f"use one of: {', '.join(calendars)}",
+            )
         crew = row.get("crew", {})
         if not isinstance(crew, dict):
-            raise f.error(f"activity '{aid}' crew must be a table like {{ carpenters = 4 }}",
-                          line=line, activity=aid)
+            raise f.error(
+                f"activity '{aid}' crew must be a table like {{ carpenters = 4 }}",
+                line=line,
+                activity=aid,
+            )
         for cname, count in crew.items():
             if cname not in crews:
-                raise f.error(f"activity '{aid}' uses unknown crew '{cname}'", line=line,
-                              activity=aid,
-                              fix=f"define [crews.{cname}] in {SITE_FILE} or use one of: "
-                              f"{', '.join(crews) or '(none defined)'}")
+                raise f.error(
+                    f"activity '{aid}' uses unknown crew '{cname}'",
+                    line=line,
+                    activity=aid,
+                    fix=f"define [crews.{cname}] in {SITE_FILE} or use one of: "
+                    f"{', '.join(crews) or '(none defined)'}",
+                )
             if not isinstance(count, int) or isinstance(count, bool) or count < 0:
-                raise f.error(f"activity '{aid}' crew '{cname}' must be a whole headcount",
-                              line=line, activity=aid)
-            _bounded(f, bounds.check_headcount, count, f"activity '{aid}' crew '{cname}'",
-                     line=line, activity=aid)
+                raise f.error(
+                    f"activity '{aid}' crew '{cname}' must be a whole headcount",
+                    line=line,
+                    activity=aid,
+                )
+            _bounded(
+                f,
+                bounds.check_headcount,
+                count,
+                f"activity '{aid}' crew '{cname}'",
+                line=line,
+                activity=aid,
+            )
         where = f"activity '{aid}'"
-        activities.append(Activity(
-            id=aid, name=name.strip(), duration=duration, calendar=cal,
-            start_not_before=_date(f, row, "start_not_before", where, activity=aid,
-                                   line=partial(f.key_line, "start_not_before", line),
-                                   site_start=start),
-            finish_not_after=_date(f, row, "finish_not_after", where, activity=aid,
-                                   line=partial(f.key_line, "finish_not_after", line),
-                                   site_start=start),
-            crew=MappingProxyType(dict(crew)),
-        ))
+        activities.append(
+            Activity(
+                id=aid,
+                name=name.strip(),
+                duration=duration,
+                calendar=cal,
+                start_not_before=_date(
+                    f,
+                    row,
+                    "start_not_before",
+                    where,
+                    activity=aid,
+                    line=partial(f.key_line, "start_not_before", line),
+                    site_start=start,
+                ),
+                finish_not_after=_date(
+                    f,
+                    row,
+                    "finish_not_after",
+                    where,
+                    activity=aid,
+                    line=partial(f.key_line, "finish_not_after", line),
+                    site_start=start,
+                ),
+                crew=MappingProxyType(dict(crew)),
+            )
+        )
         after = row.get("after", [])
         if not isinstance(after, list) or not all(isinstance(p, str) for p in after):
             raise f.error(f"activity '{aid}' after must be a list of ids", line=line, activity=aid)
@@ -239,12 +330,18 @@ def _schedule(
     known = {a.id for a in activities}
     for link in links:
         if link.pred not in known:
-            raise f.error(f"activity '{link.succ}' is after unknown activity '{link.pred}'",
-                          line=f.line_of_id(link.succ), activity=link.succ,
-                          fix="correct the id in 'after' or add that activity")
+            raise f.error(
+                f"activity '{link.succ}' is after unknown activity '{link.pred}'",
+                line=f.line_of_id(link.succ),
+                activity=link.succ,
+                fix="correct the id in 'after' or add that activity",
+            )
         if link.pred == link.succ:
-            raise f.error(f"activity '{link.succ}' is after itself", line=f.line_of_id(link.succ),
-                          activity=link.succ)
+            raise f.error(
+                f"activity '{link.succ}' is after itself",
+                line=f.line_of_id(link.succ),
+                activity=link.succ,
+            )
     links.extend(_typed_links(f, known))
     return revision, activities, links
 
@@ -264,23 +361,41 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
             if not isinstance(value, str):
                 raise f.error(f"[[link]] needs '{key}' (an activity id)", line=line)
             if value not in known:
-                raise f.error(f"[[link]] {key} unknown activity '{value}'", line=line,
-                              activity=value, fix="correct the id or add that activity")
+                raise f.error(
+                    f"[[link]] {key} unknown activity '{value}'",
+                    line=line,
+                    activity=value,
+                    fix="correct the id or add that activity",
+                )
         if pred == succ:
             raise f.error(f"[[link]] from '{pred}' to itself", line=line, activity=pred)
         kind = str(row.get("type", "FS")).upper()
         try:
             link_type = LinkType(kind)
         except ValueError:
-            raise f.error(f"[[link]] {pred} -> {succ} has unknown type "
-                          f"{bounds.shown(row.get('type'))}",
-                          line=line, activity=succ, fix="use FS, SS, FF or SF") from None
+            raise f.error(
+                f"[[link]] {pred} -> {succ} has unknown type {bounds.shown(row.get('type'))}",
+                line=line,
+                activity=succ,
+                fix="use FS, SS, FF or SF",
+            ) from None
         lag = row.get("lag", 0)
         if not isinstance(lag, int) or isinstance(lag, bool):
-            raise f.error(f"[[link]] {pred} -> {succ} lag must be whole working days",
-                          line=line, activity=succ, fix="e.g. lag = 2, or lag = -1 for a lead")
-        _bounded(f, bounds.check_days, lag, f"[[link]] {pred} -> {succ} lag", low=-MAX_LAG,
-                 line=line, activity=succ)
+            raise f.error(
+                f"[[link]] {pred} -> {succ} lag must be whole working days",
+                line=line,
+                activity=succ,
+                fix="e.g. lag = 2, or lag = -1 for a lead",
+            )
+        _bounded(
+            f,
+            bounds.check_days,
+            lag,
+            f"[[link]] {pred} -> {succ} lag",
+            low=-MAX_LAG,
+            line=line,
+            activity=succ,
+        )
         out.append(Link(str(pred), str(succ), link_type, lag))
     return out
 
@@ -296,15 +411,26 @@ def _table(f: TomlFile, data: dict[str, Any], key: str, *, required: bool = Fals
     return value
 
 
-def _no_unknown(f: TomlFile, table: dict[str, Any], allowed: set[str], where: str,
-                *, line: Line = None, activity: str | None = None) -> None:
+def _no_unknown(
+    f: TomlFile,
+    table: dict[str, Any],
+    allowed: set[str],
+    where: str,
+    *,
+    line: Line = None,
+    activity: str | None = None,
+) -> None:
     """Refuse keys not in ``allowed``; ``line`` is the table's first line, when known."""
     for key in table:
         if key not in allowed:
             raise f.error(
-                f"unknown key '{key}' in {where}", activity=activity,
-                line=(f.key_line(key, line) if line is not None
-                      else f.line_of(rf"^\s*{re.escape(key)}\s*=")),
+                f"unknown key '{key}' in {where}",
+                activity=activity,
+                line=(
+                    f.key_line(key, line)
+                    if line is not None
+                    else f.line_of(rf"^\s*{re.escape(key)}\s*=")
+                ),
                 fix=f"check the spelling; allowed keys: {', '.join(sorted(allowed))}",
             )
 
@@ -317,8 +443,16 @@ def _string(f: TomlFile, table: dict[str, Any], key: str, where: str) -> str:
     return _bounded(f, bounds.check_text, value.strip(), f"{where} {key}", line=line)
 
 
-def _bounded(f: TomlFile, check: Callable[..., Any], value: Any, what: str, *, line: Line,
-             activity: str | None = None, **limits: Any) -> Any:
+def _bounded(
+    f: TomlFile,
+    check: Callable[..., Any],
+    value: Any,
+    what: str,
+    *,
+    line: Line,
+    activity: str | None = None,
+    **limits: Any,
+) -> Any:
     """``check(value, what, **limits)`` from :mod:`fieldlog.bounds`, located in ``f``."""
     try:
         return check(value, what, **limits)
@@ -327,28 +461,65 @@ def _bounded(f: TomlFile, check: Callable[..., Any], value: Any, what: str, *, l
 
 
 @overload
-def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: Literal[True],
-          line: Line = None, activity: str | None = None,
-          site_start: date | None = None) -> date: ...
+def _date(
+    f: TomlFile,
+    table: dict[str, Any],
+    key: str,
+    where: str,
+    *,
+    required: Literal[True],
+    line: Line = None,
+    activity: str | None = None,
+    site_start: date | None = None,
+) -> date: ...
 @overload
-def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *,
-          required: Literal[False] = False, line: Line = None,
-          activity: str | None = None, site_start: date | None = None) -> date | None: ...
-def _date(f: TomlFile, table: dict[str, Any], key: str, where: str, *, required: bool = False,
-          line: Line = None, activity: str | None = None,
-          site_start: date | None = None) -> date | None:
+def _date(
+    f: TomlFile,
+    table: dict[str, Any],
+    key: str,
+    where: str,
+    *,
+    required: Literal[False] = False,
+    line: Line = None,
+    activity: str | None = None,
+    site_start: date | None = None,
+) -> date | None: ...
+def _date(
+    f: TomlFile,
+    table: dict[str, Any],
+    key: str,
+    where: str,
+    *,
+    required: bool = False,
+    line: Line = None,
+    activity: str | None = None,
+    site_start: date | None = None,
+) -> date | None:
     """The date at ``key``; None when it is absent, unless ``required`` (then it refuses)."""
     value = table.get(key)
     if value is None:
         if required:
             raise f.error(f"{where} needs {key} (a date like 2026-03-02)", line=line)
         return None
-    return _as_date(f, value, f"{where} {key}", activity=activity, site_start=site_start,
-                    line=line or partial(f.line_of, rf"^\s*{key}\s*="))
+    return _as_date(
+        f,
+        value,
+        f"{where} {key}",
+        activity=activity,
+        site_start=site_start,
+        line=line or partial(f.line_of, rf"^\s*{key}\s*="),
+    )
 
 
-def _as_date(f: TomlFile, value: Any, what: str, *, line: Line = None,
-             activity: str | None = None, site_start: date | None = None) -> date:
+def _as_date(
+    f: TomlFile,
+    value: Any,
+    what: str,
+    *,
+    line: Line = None,
+    activity: str | None = None,
+    site_start: date | None = None,
+) -> date:
     """A date from TOML (or ISO text), in fieldlog's range and near the site start."""
     day: date | None = None
     if isinstance(value, datetime):
@@ -361,8 +532,18 @@ def _as_date(f: TomlFile, value: Any, what: str, *, line: Line = None,
         except ValueError:
             day = None
     if day is None:
-        raise f.error(f"{what} {bounds.shown(value)} is not a date", activity=activity,
-                      line=line or partial(f.line_of, re.escape(str(value)[:40])),
-                      fix="write dates as YYYY-MM-DD, e.g. 2026-03-02")
-    return _bounded(f, bounds.check_date, day, what, site_start=site_start, activity=activity,
-                    line=line or partial(f.line_of, re.escape(day.isoformat())))
+        raise f.error(
+            f"{what} {bounds.shown(value)} is not a date",
+            activity=activity,
+            line=line or partial(f.line_of, re.escape(str(value)[:40])),
+            fix="write dates as YYYY-MM-DD, e.g. 2026-03-02",
+        )
+    return _bounded(
+        f,
+        bounds.check_date,
+        day,
+        what,
+        site_start=site_start,
+        activity=activity,
+        line=line or partial(f.line_of, re.escape(day.isoformat())),
+    )

@@ -27,8 +27,13 @@ def _extends(ch: str) -> bool:
     """True for a character that belongs to the picture before it: accents, variation
     selectors, skin-tone modifiers, tag characters, the joiner itself."""
     code = ord(ch)
-    return (unicodedata.combining(ch) != 0 or unicodedata.category(ch) in ("Mn", "Me", "Mc")
-            or 0x1F3FB <= code <= 0x1F3FF or 0xE0020 <= code <= 0xE007F or ch == ZWJ)
+    return (
+        unicodedata.combining(ch) != 0
+        or unicodedata.category(ch) in ("Mn", "Me", "Mc")
+        or 0x1F3FB <= code <= 0x1F3FF
+        or 0xE0020 <= code <= 0xE007F
+        or ch == ZWJ
+    )
 
 
 def _regional(ch: str) -> bool:
@@ -44,10 +49,24 @@ def _cells(cluster: str) -> int:
         return 0
     return 2 if unicodedata.east_asian_width(base) in ("W", "F") else 1
 
+
 _ASCII_SUBSTITUTES = {
-    "\u2018": "'", "\u2019": "'", "\u201c": '"', "\u201d": '"', "\u2013": "-", "\u2014": "-",
-    "\u2026": "...", "\u00a0": " ", "\u00df": "ss", "\u00e6": "ae", "\u00c6": "AE",
-    "\u00f8": "o", "\u00d8": "O", "\u0142": "l", "\u0141": "L", "\u00b0": "deg",
+    "\u2018": "'",
+    "\u2019": "'",
+    "\u201c": '"',
+    "\u201d": '"',
+    "\u2013": "-",
+    "\u2014": "-",
+    "\u2026": "...",
+    "\u00a0": " ",
+    "\u00df": "ss",
+    "\u00e6": "ae",
+    "\u00c6": "AE",
+    "\u00f8": "o",
+    "\u00d8": "O",
+    "\u0142": "l",
+    "\u0141": "L",
+    "\u00b0": "deg",
 }
 
 
@@ -62,8 +81,11 @@ def to_ascii(text: str) -> str:
         elif ch in _ASCII_SUBSTITUTES:
             out.append(_ASCII_SUBSTITUTES[ch])
         else:
-            base = "".join(c for c in unicodedata.normalize("NFKD", ch)
-                           if c.isascii() and not unicodedata.combining(c))
+            base = "".join(
+                c
+                for c in unicodedata.normalize("NFKD", ch)
+                if c.isascii() and not unicodedata.combining(c)
+            )
             out.append(base or "?")
     return "".join(out)
 
@@ -190,7 +212,7 @@ def wrap(text: str, columns: int, indent: str = "", first: str = "") -> list[str
         while width(prefix) + width(word) > columns:
             piece = _head(word, columns - width(prefix))
             lines.append(prefix + piece)
-            prefix, word = indent, word[len(piece):]
+            prefix, word = indent, word[len(piece) :]
         line = word
     lines.append((prefix + line).rstrip())
     return lines

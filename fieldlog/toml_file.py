@@ -78,8 +78,14 @@ class TomlFile:
                 out.setdefault(m[1], []).append(number)
         return out
 
-    def error(self, problem: str, *, line: Line = None, activity: str | None = None,
-              fix: str | None = None) -> SiteError:
+    def error(
+        self,
+        problem: str,
+        *,
+        line: Line = None,
+        activity: str | None = None,
+        fix: str | None = None,
+    ) -> SiteError:
         """A :class:`SiteError` located in this file (``line`` may be a finder, see Line)."""
         if callable(line):
             line = line()
@@ -105,7 +111,8 @@ def read_file_bytes(path: Path) -> bytes:
         return read_capped(path, _kind(path))
     except FileNotFoundError:
         raise SiteError(
-            f"{path.name} is missing", file=path,
+            f"{path.name} is missing",
+            file=path,
             fix=f"a site folder needs {SITE_FILE} and {SCHEDULE_FILE}; check the folder name",
         ) from None
     except OutOfBounds as exc:
@@ -133,7 +140,9 @@ def parse_toml(path: Path, raw: bytes) -> TomlFile:
         if exc.problem.startswith("not UTF-8"):
             raise SiteError(exc.problem, file=path, fix="save the file as UTF-8") from None
         raise SiteError(
-            f"TOML syntax error: {exc.problem}", file=path, line=exc.line,
+            f"TOML syntax error: {exc.problem}",
+            file=path,
+            line=exc.line,
             fix=exc.fix or "correct the line (quotes, brackets, '=' between key and value)",
         ) from None
     return TomlFile(path, *text_and_data)

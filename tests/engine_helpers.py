@@ -70,8 +70,9 @@ def make_site(
         aid, duration = row[0], row[1]
         cal = row[2] if len(row) > 2 and row[2] else calendar
         extra = row[3] if len(row) > 3 else {}
-        acts.append(Activity(id=aid, name=f"Activity {aid}", duration=duration, calendar=cal,
-                             **extra))
+        acts.append(
+            Activity(id=aid, name=f"Activity {aid}", duration=duration, calendar=cal, **extra)
+        )
     made_links = []
     for row in links:
         pred, succ = row[0], row[1]
@@ -79,11 +80,17 @@ def make_site(
         lag = row[3] if len(row) > 3 else 0
         made_links.append(Link(pred, succ, kind, lag))
     return Site(
-        name="Test yard", start=start, calendar=calendar,
+        name="Test yard",
+        start=start,
+        calendar=calendar,
         calendars=MappingProxyType({c.name: c for c in calendars}),
         crews=MappingProxyType({"groundworks": Crew("groundworks", 6)}),
-        revision=1, activities=tuple(acts), links=tuple(made_links), finish_by=finish_by,
-        progress_override=progress_override, lag_calendar=lag_calendar,
+        revision=1,
+        activities=tuple(acts),
+        links=tuple(made_links),
+        finish_by=finish_by,
+        progress_override=progress_override,
+        lag_calendar=lag_calendar,
     )
 
 
@@ -125,8 +132,7 @@ def weekmask(spec: CalendarSpec) -> str:
 def np_calendar(spec: CalendarSpec, extra: Iterable[date] = ()) -> np.busdaycalendar:
     """The same calendar as a numpy busdaycalendar (the outside reference)."""
     hol = sorted({*spec.holidays, *extra})
-    return np.busdaycalendar(weekmask=weekmask(spec),
-                             holidays=[np.datetime64(d, "D") for d in hol])
+    return np.busdaycalendar(weekmask=weekmask(spec), holidays=[np.datetime64(d, "D") for d in hol])
 
 
 def np_date(value: np.datetime64) -> date:

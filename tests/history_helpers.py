@@ -22,11 +22,17 @@ class Log:
 
     def add(self, kind: str, day: date, **fields: Any) -> Entry:
         n = len(self.entries) + 1
-        e = Entry(id=f"{DEVICE}.{n}", seq=n, kind=kind, day=day,
-                  written=datetime(day.year, day.month, day.day, 17, 0, tzinfo=UTC),
-                  author="T. Foreman", device=DEVICE,
-                  fields=MappingProxyType({k: v for k, v in fields.items() if v is not None}),
-                  position=n)
+        e = Entry(
+            id=f"{DEVICE}.{n}",
+            seq=n,
+            kind=kind,
+            day=day,
+            written=datetime(day.year, day.month, day.day, 17, 0, tzinfo=UTC),
+            author="T. Foreman",
+            device=DEVICE,
+            fields=MappingProxyType({k: v for k, v in fields.items() if v is not None}),
+            position=n,
+        )
         self.entries.append(e)
         return e
 

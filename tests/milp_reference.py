@@ -23,8 +23,12 @@ from scipy import optimize, sparse
 
 def minimum(problem: dict, crew: str, caps: dict[str, int]) -> int:
     """The smallest peak of ``crew`` with every other crew within ``caps``."""
-    movables, ties, days, crews = (problem["movables"], problem["ties"], problem["days"],
-                                   problem["crews"])
+    movables, ties, days, crews = (
+        problem["movables"],
+        problem["ties"],
+        problem["days"],
+        problem["crews"],
+    )
     index = [(i, k) for i, m in enumerate(movables) for k in range(len(m["starts"]))]
     col = {v: j for j, v in enumerate(index)}
     peak = len(index)
@@ -64,10 +68,12 @@ def minimum(problem: dict, crew: str, caps: dict[str, int]) -> int:
             r += 1
     cost = np.zeros(peak + 1)
     cost[peak] = 1
-    res = optimize.milp(cost, constraints=optimize.LinearConstraint(a.tocsr(), lo, hi),
-                        integrality=np.ones(peak + 1),
-                        bounds=optimize.Bounds(np.zeros(peak + 1),
-                                               np.r_[np.ones(peak), np.inf]))
+    res = optimize.milp(
+        cost,
+        constraints=optimize.LinearConstraint(a.tocsr(), lo, hi),
+        integrality=np.ones(peak + 1),
+        bounds=optimize.Bounds(np.zeros(peak + 1), np.r_[np.ones(peak), np.inf]),
+    )
     if res.status != 0:
         raise RuntimeError(f"HiGHS did not solve it: {res.message}")
     return round(res.fun)

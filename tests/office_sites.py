@@ -31,10 +31,21 @@ def _day(n: int) -> date:
 
 TEMPLATE = (
     (0, "started", {"activity": "A000000"}),
-    (0, "crew", {"trade": "groundworks", "company": "Invented Earthworks", "headcount": 4,
-                 "hours": 32}),
-    (0, "need", {"activity": "A000003", "what": "pump booking", "category": "equipment",
-                 "expected": _day(3)}),
+    (
+        0,
+        "crew",
+        {"trade": "groundworks", "company": "Invented Earthworks", "headcount": 4, "hours": 32},
+    ),
+    (
+        0,
+        "need",
+        {
+            "activity": "A000003",
+            "what": "pump booking",
+            "category": "equipment",
+            "expected": _day(3),
+        },
+    ),
     (1, "weather", {"conditions": "heavy rain", "stopped": True}),
     (1, "lost-time", {"cause": "weather", "whole_day": True, "note": "site flooded"}),
     (2, "crew", {"trade": "groundworks", "headcount": 5, "hours": 40}),
@@ -58,9 +69,18 @@ def write_template(folder: Path, home: Path) -> Path:
         values = dict(fields)
         if values.get("item") == "ref:need0":
             values["item"] = needs[0]
-        entry = record_entry(folder, site, kind, _day(n), values, today=TODAY,
-                             author="Test Foreman", device=DEVICE, clock=lambda: WRITTEN,
-                             home=home)
+        entry = record_entry(
+            folder,
+            site,
+            kind,
+            _day(n),
+            values,
+            today=TODAY,
+            author="Test Foreman",
+            device=DEVICE,
+            clock=lambda: WRITTEN,
+            home=home,
+        )
         if kind == "need":
             needs.append(entry.id)
     return folder
@@ -74,8 +94,12 @@ def make_sites(root: Path, count: int, home: Path) -> list[Path]:
     for k in range(count):
         folder = write_site_folder(synthetic_site(ACTIVITIES, seed=k), root / f"site-{k:03}")
         toml = folder / "site.toml"
-        toml.write_text(toml.read_text(encoding="utf-8").replace(
-            'name = "Synthetic works"', f'name = "Synthetic works {k}"'), encoding="utf-8")
+        toml.write_text(
+            toml.read_text(encoding="utf-8").replace(
+                'name = "Synthetic works"', f'name = "Synthetic works {k}"'
+            ),
+            encoding="utf-8",
+        )
         (folder / "log").mkdir()
         for path in day_files[: k % len(day_files) + 1]:
             shutil.copyfile(path, folder / "log" / path.name)

@@ -109,8 +109,9 @@ def compute_schedule(
             lo, hi = lo - timedelta(days=span), hi + timedelta(days=span)
 
 
-def _initial_range(site: Site, status: date, progress: Mapping[str, Progress],
-                   holds: Mapping[str, date]) -> tuple[date, date]:
+def _initial_range(
+    site: Site, status: date, progress: Mapping[str, Progress], holds: Mapping[str, date]
+) -> tuple[date, date]:
     known = [site.start, status]
     known += [d for d in (site.finish_by,) if d]
     for p in progress.values():
@@ -150,8 +151,13 @@ def _network(site: Site) -> tuple[list[int], list[list[_Edge]], list[list[_Edge]
     return cached
 
 
-def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
-         holds: Mapping[str, date], calendars: Mapping[str, WorkCalendar]) -> ScheduleResult:
+def _run(
+    site: Site,
+    status_date: date,
+    progress: Mapping[str, Progress],
+    holds: Mapping[str, date],
+    calendars: Mapping[str, WorkCalendar],
+) -> ScheduleResult:
     acts = site.activities
     n = len(acts)
     order, preds, succs, _ = _network(site)
@@ -175,7 +181,7 @@ def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
 
     dur = [a.duration for a in acts]  # planned, or remaining for work in progress
     overdue = [False] * n
-    start_pt = [0] * n     # actual start point for started work (what SS/SF links see)
+    start_pt = [0] * n  # actual start point for started work (what SS/SF links see)
     es = [0] * n
     ef = [0] * n
     driver: list[Link | str] = ["site start"] * n
@@ -315,16 +321,33 @@ def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
     for k, a in enumerate(acts):
         p, st = prog[k], status[k]
         if st is FIN:
-            results.append(make({
-                "id": a.id, "name": a.name, "calendar": a.calendar, "duration": a.duration,
-                "status": st, "early_start": p.actual_start or p.actual_finish,
-                "early_finish": p.actual_finish, "late_start": None, "late_finish": None,
-                "total_float": None, "free_float": None, "critical": False,
-                "on_driving_path": a.id in on_path, "actual_start": p.actual_start,
-                "actual_finish": p.actual_finish, "remaining": 0, "percent": p.percent,
-                "driving": None, "driven_by": "actual dates", "overdue": False,
-                "after_work": False,
-            }))
+            results.append(
+                make(
+                    {
+                        "id": a.id,
+                        "name": a.name,
+                        "calendar": a.calendar,
+                        "duration": a.duration,
+                        "status": st,
+                        "early_start": p.actual_start or p.actual_finish,
+                        "early_finish": p.actual_finish,
+                        "late_start": None,
+                        "late_finish": None,
+                        "total_float": None,
+                        "free_float": None,
+                        "critical": False,
+                        "on_driving_path": a.id in on_path,
+                        "actual_start": p.actual_start,
+                        "actual_finish": p.actual_finish,
+                        "remaining": 0,
+                        "percent": p.percent,
+                        "driving": None,
+                        "driven_by": "actual dates",
+                        "overdue": False,
+                        "after_work": False,
+                    }
+                )
+            )
             continue
         d = dur[k]
         days = cal[k].dates  # every index below was range-checked above (last_ord, proj_pt, ls)
@@ -338,20 +361,42 @@ def _run(site: Site, status_date: date, progress: Mapping[str, Progress],
         drv = driver[k]
         tf = lf[k] - ef[k]
         is_link = type(drv) is not str
-        results.append(make({
-            "id": a.id, "name": a.name, "calendar": a.calendar, "duration": a.duration,
-            "status": st, "early_start": e_start, "early_finish": e_finish,
-            "late_start": l_start, "late_finish": l_finish, "total_float": tf,
-            "free_float": free[k], "critical": tf <= threshold,
-            "on_driving_path": a.id in on_path, "actual_start": p.actual_start,
-            "actual_finish": None, "remaining": d, "percent": p.percent,
-            "driving": drv if is_link else None, "driven_by": drv.pred if is_link else drv,
-            "overdue": overdue[k], "after_work": d == 0 and end_after[k],
-        }))
+        results.append(
+            make(
+                {
+                    "id": a.id,
+                    "name": a.name,
+                    "calendar": a.calendar,
+                    "duration": a.duration,
+                    "status": st,
+                    "early_start": e_start,
+                    "early_finish": e_finish,
+                    "late_start": l_start,
+                    "late_finish": l_finish,
+                    "total_float": tf,
+                    "free_float": free[k],
+                    "critical": tf <= threshold,
+                    "on_driving_path": a.id in on_path,
+                    "actual_start": p.actual_start,
+                    "actual_finish": None,
+                    "remaining": d,
+                    "percent": p.percent,
+                    "driving": drv if is_link else None,
+                    "driven_by": drv.pred if is_link else drv,
+                    "overdue": overdue[k],
+                    "after_work": d == 0 and end_after[k],
+                }
+            )
+        )
     out_of_sequence = find_out_of_sequence(site, prog, override) if progress else ()
     return _assemble(
-        site=site, as_of=status_date, finish=finish, results=results, calendars=calendars,
-        out_of_sequence=out_of_sequence, driving_path=tuple(path),
+        site=site,
+        as_of=status_date,
+        finish=finish,
+        results=results,
+        calendars=calendars,
+        out_of_sequence=out_of_sequence,
+        driving_path=tuple(path),
     )
 
 
@@ -371,9 +416,16 @@ def _move_back(q: int, frm: WorkCalendar, to: WorkCalendar, after: bool) -> int:
     return to.pos_ordinal(frm.day_ordinal(q) + 1) - 1
 
 
-def _driving_path(order: list[int], status: list[Status], last_ord: list[int], ef: list[int],
-                  lf: list[int], driver: list[Link | str], finish_ord: int,
-                  acts: tuple) -> list[str]:
+def _driving_path(
+    order: list[int],
+    status: list[Status],
+    last_ord: list[int],
+    ef: list[int],
+    lf: list[int],
+    driver: list[Link | str],
+    finish_ord: int,
+    acts: tuple,
+) -> list[str]:
     """Walk driving links back from the open activity that finishes last.
 
     Of several open activities ending on the finish day the one with the least float is taken,
@@ -383,8 +435,11 @@ def _driving_path(order: list[int], status: list[Status], last_ord: list[int], e
     """
     best = None
     for k in order:
-        if last_ord[k] == finish_ord and status[k] is not Status.FINISHED and (
-                best is None or lf[k] - ef[k] <= lf[best] - ef[best]):
+        if (
+            last_ord[k] == finish_ord
+            and status[k] is not Status.FINISHED
+            and (best is None or lf[k] - ef[k] <= lf[best] - ef[best])
+        ):
             best = k
     if best is None:
         return []
@@ -412,19 +467,31 @@ def _make_result(values: dict[str, object]) -> ActivityResult:
     return ActivityResult(**values)  # type: ignore[arg-type]
 
 
-def _assemble(*, site: Site, as_of: date, finish: date, results: Sequence[ActivityResult],
-              calendars: Mapping[str, WorkCalendar], out_of_sequence: tuple[OutOfSequence, ...],
-              driving_path: tuple[str, ...]) -> ScheduleResult:
+def _assemble(
+    *,
+    site: Site,
+    as_of: date,
+    finish: date,
+    results: Sequence[ActivityResult],
+    calendars: Mapping[str, WorkCalendar],
+    out_of_sequence: tuple[OutOfSequence, ...],
+    driving_path: tuple[str, ...],
+) -> ScheduleResult:
     """Freeze results that are already marked critical / on the driving path."""
     finish_float = None
     if site.finish_by is not None:
         c = calendars[site.calendar]
         finish_float = c.count(finish + timedelta(days=1), site.finish_by + timedelta(days=1))
     return ScheduleResult(
-        site=site, as_of=as_of, finish=finish, finish_float=finish_float,
-        activities=tuple(results), driving_path=driving_path,
+        site=site,
+        as_of=as_of,
+        finish=finish,
+        finish_float=finish_float,
+        activities=tuple(results),
+        driving_path=driving_path,
         lowest_float=tuple(r.id for r in results if r.critical),
-        out_of_sequence=out_of_sequence, calendars=MappingProxyType(dict(calendars)),
+        out_of_sequence=out_of_sequence,
+        calendars=MappingProxyType(dict(calendars)),
         by_id=MappingProxyType({r.id: r for r in results}),
     )
 
@@ -434,14 +501,18 @@ def critical_threshold(total_floats: Iterable[int]) -> int:
     return max(0, min(total_floats, default=0))
 
 
-def find_out_of_sequence(site: Site, progress: Sequence[Progress],
-                         override: bool) -> tuple[OutOfSequence, ...]:
+def find_out_of_sequence(
+    site: Site, progress: Sequence[Progress], override: bool
+) -> tuple[OutOfSequence, ...]:
     """Links whose successor has moved on while the predecessor has not (as of the status date).
 
     Definitions follow the GAO Schedule Assessment Guide's page on out-of-sequence logic.
     """
-    moved = {a.id: p for a, p in zip(site.activities, progress, strict=True)
-             if p.actual_start or p.actual_finish}
+    moved = {
+        a.id: p
+        for a, p in zip(site.activities, progress, strict=True)
+        if p.actual_start or p.actual_finish
+    }
     if not moved:
         return ()
     treatment = "progress override" if override else "retained logic"
@@ -465,9 +536,14 @@ def find_out_of_sequence(site: Site, progress: Sequence[Progress],
     # Work recorded finished with no start recorded (a milestone is only ever reached).
     for a, p in zip(site.activities, progress, strict=True):
         if p.actual_finish and not p.actual_start and a.duration > 0:
-            found.append(OutOfSequence(None, "finished, no start recorded", "its finish day "
-                                       "is taken as its start; record the start as a "
-                                       "correction", a.id))
+            found.append(
+                OutOfSequence(
+                    None,
+                    "finished, no start recorded",
+                    "its finish day is taken as its start; record the start as a correction",
+                    a.id,
+                )
+            )
     return tuple(found)
 
 

@@ -50,8 +50,11 @@ def schedule_toml(revision: int, ids: tuple[str, ...] = ("A10", "A20", "A30")) -
     return "".join(parts)
 
 
-def make_site(folder: Path, revision: int = 1, ids: tuple[str, ...] = ("A10", "A20", "A30"),
-              ) -> Path:
+def make_site(
+    folder: Path,
+    revision: int = 1,
+    ids: tuple[str, ...] = ("A10", "A20", "A30"),
+) -> Path:
     """Create a valid site folder (site.toml, schedule.toml, empty log/)."""
     folder.mkdir(parents=True, exist_ok=True)
     (folder / "site.toml").write_text(SITE_TOML, encoding="utf-8")
@@ -65,9 +68,16 @@ def journal_name(day: date, device: str) -> str:
     return f"{day.isoformat()}_{device}.toml"
 
 
-def append_entry(site: Path, day: date, device: str | None, note: str, *,
-                 home: Path | None = None, kind: str = "note",
-                 fields: dict[str, Any] | None = None) -> Path:
+def append_entry(
+    site: Path,
+    day: date,
+    device: str | None,
+    note: str,
+    *,
+    home: Path | None = None,
+    kind: str = "note",
+    fields: dict[str, Any] | None = None,
+) -> Path:
     """Record one entry (a note by default) through the journal; returns the day file.
 
     ``device`` None takes the device id of the data folder ``home``. Each device signs with a
@@ -75,9 +85,19 @@ def append_entry(site: Path, day: date, device: str | None, note: str, *,
     which hash them) are the same on every run.
     """
     device = device or device_id(home)
-    entry = record_entry(site, load_site(site), kind, day, fields or {"text": note},
-                         today=TODAY, author="Test Foreman", device=device,
-                         clock=lambda: WRITTEN, home=home, key=fixed_key(device))
+    entry = record_entry(
+        site,
+        load_site(site),
+        kind,
+        day,
+        fields or {"text": note},
+        today=TODAY,
+        author="Test Foreman",
+        device=device,
+        clock=lambda: WRITTEN,
+        home=home,
+        key=fixed_key(device),
+    )
     return site / "log" / journal_name(day, entry.device)
 
 

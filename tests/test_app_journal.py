@@ -58,7 +58,10 @@ async def test_newest_first_and_correct_a_value(tmp_path: Path):
         assert len(corrections) == 1
         c = corrections[0]
         assert (c.fields["supersedes"], c.fields["reason"], c.fields["days"]) == (
-            wrong, "wrong count", 2)
+            wrong,
+            "wrong count",
+            2,
+        )
         # The old entry stays, marked; the schedule uses the corrected value: 2 as of Monday,
         # so 1 left after Tuesday.
         assert row_texts(table, wrong)[3] == f"replaced by {c.id}"

@@ -104,8 +104,9 @@ async def test_the_cursor_follows_the_activity_through_every_resort(tmp_path):
         await pilot.press("f")
         await settle(app, pilot)
         assert [e.fields["activity"] for e in entries_of(folder, "finished")] == [
-            "EXC-010", "DRN-010"]
-
+            "EXC-010",
+            "DRN-010",
+        ]
 
 
 async def test_the_cursor_follows_the_activity_in_float_two_weeks_and_journal(tmp_path):
@@ -159,7 +160,9 @@ async def test_start_work_that_is_not_ready_through_find_and_it_says_so(tmp_path
         words = "FRM-010 started OUT OF SEQUENCE: CON-010 not finished"
         await settled_after_menu(app, pilot, lambda: words in screen_text(app))
         assert [e.fields["activity"] for e in entries_of(folder, "started")] == [
-            "EXC-010", "FRM-010"]
+            "EXC-010",
+            "FRM-010",
+        ]
 
 
 async def test_record_keys_work_in_float_and_two_weeks(tmp_path):
@@ -189,8 +192,13 @@ async def test_record_keys_work_in_float_and_two_weeks(tmp_path):
 async def test_a_readiness_item_of_work_not_on_today_is_listed_and_cleared(tmp_path):
     """Found: an item could be cleared only from its own activity's row on Today."""
     folder = started_site(tmp_path)
-    need = log(folder, "need", MON, {"activity": "FRM-010", "what": "frame drawings",
-                                     "category": "drawings"}, today=MON)
+    need = log(
+        folder,
+        "need",
+        MON,
+        {"activity": "FRM-010", "what": "frame drawings", "category": "drawings"},
+        today=MON,
+    )
     app = make_app(folder, TUE)
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("y")
@@ -247,8 +255,13 @@ async def test_a_day_typed_in_words_is_echoed_with_its_year(tmp_path):
 async def test_crews_same_as_the_last_day_with_one_key_then_edit(tmp_path):
     folder = started_site(tmp_path)
     for trade, n, hours in (("groundworks", 4, 32.0), ("concrete", 3, 24.0)):
-        log(folder, "crew", MON, {"trade": trade, "headcount": n, "hours": hours,
-                                  "company": "Tarn Civils (invented)"}, today=MON)
+        log(
+            folder,
+            "crew",
+            MON,
+            {"trade": trade, "headcount": n, "hours": hours, "company": "Tarn Civils (invented)"},
+            today=MON,
+        )
     app = make_app(folder, TUE)
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("c")
@@ -257,7 +270,9 @@ async def test_crews_same_as_the_last_day_with_one_key_then_edit(tmp_path):
         await settle(app, pilot)
     today = [e.fields for e in entries_of(folder, "crew") if e.day == TUE]
     assert [(f["trade"], f["headcount"], f.get("hours")) for f in today] == [
-        ("groundworks", 4, 32.0), ("concrete", 5, None)]  # changed: the hours were others'
+        ("groundworks", 4, 32.0),
+        ("concrete", 5, None),
+    ]  # changed: the hours were others'
 
 
 async def test_plant_breakdown_visitor_times_lost_cause_and_a_note_of_lines(tmp_path):
@@ -292,8 +307,13 @@ async def test_plant_breakdown_visitor_times_lost_cause_and_a_note_of_lines(tmp_
         await settle(app, pilot)
 
     (plant,) = entries_of(folder, "plant")
-    assert plant.fields == {"what": "13 t excavator", "hours_worked": 5.0, "broken_down": True,
-                            "hours_down": 3.0, "activity": "EXC-010"}
+    assert plant.fields == {
+        "what": "13 t excavator",
+        "hours_worked": 5.0,
+        "broken_down": True,
+        "hours_down": 3.0,
+        "activity": "EXC-010",
+    }
     assert entries_of(folder, "lost-time")[0].fields["cause"] == "plant-breakdown"
     (note,) = entries_of(folder, "note")
     assert note.fields["text"] == "pump on hire\nback Thursday"

@@ -98,16 +98,25 @@ def fix_device() -> None:
     """Give this test's fieldlog home a fixed device id and author."""
     home = Path(os.environ["FIELDLOG_HOME"])
     home.mkdir(parents=True, exist_ok=True)
-    (home / "device.toml").write_text(f'device = "{DEVICE}"\nauthor = "{AUTHOR}"\n',
-                                      encoding="utf-8")
+    (home / "device.toml").write_text(
+        f'device = "{DEVICE}"\nauthor = "{AUTHOR}"\n', encoding="utf-8"
+    )
 
 
-def log(folder: Path, kind: str, day: date | None, fields: dict[str, Any], *,
-        today: date) -> Entry:
+def log(folder: Path, kind: str, day: date | None, fields: dict[str, Any], *, today: date) -> Entry:
     """Record an entry as the app does, written at 17:00 UTC on ``today``."""
     written = datetime(today.year, today.month, today.day, 17, 0, tzinfo=UTC)
-    return record_entry(folder, load_site(folder), kind, day, fields, today=today,
-                        device=DEVICE, author=AUTHOR, clock=lambda: written)
+    return record_entry(
+        folder,
+        load_site(folder),
+        kind,
+        day,
+        fields,
+        today=today,
+        device=DEVICE,
+        author=AUTHOR,
+        clock=lambda: written,
+    )
 
 
 class TestTheTestSite:
@@ -121,13 +130,21 @@ class TestTheTestSite:
         # By hand: EXC Mon 2 - Wed 4; CON Thu 5 - Fri 6; FRM Mon 9 - Thu 12 (the finish);
         # DRN Thu 5 - Mon 9 with late finish Thu 12, so 3 working days of float (Tue-Thu).
         assert (r["EXC-010"].early_start, r["EXC-010"].early_finish) == (
-            date(2026, 3, 2), date(2026, 3, 4))
+            date(2026, 3, 2),
+            date(2026, 3, 4),
+        )
         assert (r["CON-010"].early_start, r["CON-010"].early_finish) == (
-            date(2026, 3, 5), date(2026, 3, 6))
+            date(2026, 3, 5),
+            date(2026, 3, 6),
+        )
         assert (r["FRM-010"].early_start, r["FRM-010"].early_finish) == (
-            date(2026, 3, 9), date(2026, 3, 12))
+            date(2026, 3, 9),
+            date(2026, 3, 12),
+        )
         assert (r["DRN-010"].early_start, r["DRN-010"].early_finish) == (
-            date(2026, 3, 5), date(2026, 3, 9))
+            date(2026, 3, 5),
+            date(2026, 3, 9),
+        )
         assert r["DRN-010"].total_float == 3
         assert [r[a].total_float for a in ("EXC-010", "CON-010", "FRM-010")] == [0, 0, 0]
         assert state.schedule.finish == date(2026, 3, 12)
@@ -144,8 +161,15 @@ def screen_text(app: Any) -> str:
     from rich.console import Console
 
     w, h = app.size
-    console = Console(width=w, height=h, file=io.StringIO(), record=True, force_terminal=True,
-                      color_system=None, legacy_windows=False)
+    console = Console(
+        width=w,
+        height=h,
+        file=io.StringIO(),
+        record=True,
+        force_terminal=True,
+        color_system=None,
+        legacy_windows=False,
+    )
     console.print(app.screen._compositor.render_update(full=True))
     return console.export_text(styles=False)
 

@@ -31,10 +31,25 @@ def app(tmp_path: Path) -> FieldlogApp:
     fix_device()
     folder = write_site(tmp_path / "site")
     log(folder, "started", MON, {"activity": "EXC-010"}, today=MON)
-    log(folder, "weather", MON, {"conditions": "showers", "high": 9.0, "low": 3.0,
-                                 "unit": "C"}, today=MON)
-    log(folder, "need", MON, {"activity": "FRM-010", "what": "timber frame drawings rev B",
-                              "category": "drawings", "expected": date(2026, 3, 6)}, today=MON)
+    log(
+        folder,
+        "weather",
+        MON,
+        {"conditions": "showers", "high": 9.0, "low": 3.0, "unit": "C"},
+        today=MON,
+    )
+    log(
+        folder,
+        "need",
+        MON,
+        {
+            "activity": "FRM-010",
+            "what": "timber frame drawings rev B",
+            "category": "drawings",
+            "expected": date(2026, 3, 6),
+        },
+        today=MON,
+    )
     log(folder, "crew", TUE, {"trade": "groundworks", "headcount": 4}, today=TUE)
     return make_app(folder, TUE)
 

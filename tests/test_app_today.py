@@ -156,8 +156,12 @@ def _state_of(app) -> dict:
     table = app.screen.query_one("#shift-table", RowList)
     rows = [row_texts(table, k) for k in table.keys]
     day = str(app.screen.query_one("#day-record").render())
-    return {"finish": app.snapshot.state.schedule.finish, "rows": rows, "day": day,
-            "entries": [e.id for e in app.snapshot.state.journal.entries]}
+    return {
+        "finish": app.snapshot.state.schedule.finish,
+        "rows": rows,
+        "day": day,
+        "entries": [e.id for e in app.snapshot.state.journal.entries],
+    }
 
 
 async def test_touch_only_tap_a_row_then_its_action(tmp_path: Path):
@@ -176,7 +180,8 @@ async def test_touch_only_tap_a_row_then_its_action(tmp_path: Path):
         await pilot.click(options, offset=(5, 1 + finished))  # below the list's top border
         await settle(app, pilot)
         assert [(e.fields["activity"], e.day) for e in entries_of(folder, "finished")] == [
-            ("EXC-010", TUE)]
+            ("EXC-010", TUE)
+        ]
 
 
 async def test_open_and_clear_a_readiness_item(tmp_path: Path):
@@ -194,8 +199,11 @@ async def test_open_and_clear_a_readiness_item(tmp_path: Path):
         await pilot.press("ctrl+s")
         await settle(app, pilot)
         (need,) = entries_of(folder, "need")
-        assert need.fields == {"activity": "EXC-010", "what": "dewatering pump",
-                               "category": "equipment"}
+        assert need.fields == {
+            "activity": "EXC-010",
+            "what": "dewatering pump",
+            "category": "equipment",
+        }
         assert "!! EXC-010 needs dewatering pump (equipment), no expected date" in screen_text(app)
 
         await pilot.press("y", "enter")  # open items come first: clear it

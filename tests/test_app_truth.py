@@ -71,8 +71,10 @@ async def test_text_typed_and_pasted_is_recorded_exactly(site: Path):
     app = make_app(site, TUE)
     typed = "lift ok " + WORKER + " " + FAMILY + " "
     async with app.run_test(size=(80, 24)) as pilot:
-        for key, name, paste in (("w", "conditions", FLAG + "\nline 2"),
-                                 ("n", "text", FLAG + "\nline 2")):
+        for key, name, paste in (
+            ("w", "conditions", FLAG + "\nline 2"),
+            ("n", "text", FLAG + "\nline 2"),
+        ):
             await pilot.press(key)
             await pilot.pause()
             field = app.screen.query_one(f"#field-{name}")
@@ -86,9 +88,11 @@ async def test_text_typed_and_pasted_is_recorded_exactly(site: Path):
             await settle(app, pilot)
     journal = read_journal(site).entries
     assert [e.fields["conditions"] for e in journal if e.kind == "weather"] == [
-        typed + FLAG + " / line 2"]  # one line: the paste's line break shows as " / "
+        typed + FLAG + " / line 2"
+    ]  # one line: the paste's line break shows as " / "
     assert [e.fields["text"] for e in journal if e.kind == "note"] == [
-        typed + FLAG + "\nline 2"]  # a note has lines: the paste keeps them
+        typed + FLAG + "\nline 2"
+    ]  # a note has lines: the paste keeps them
 
 
 async def test_sync_view_words_match_its_keys(site: Path, tmp_path: Path):
@@ -153,8 +157,8 @@ async def test_plain_mode_draws_ascii_only(site: Path):
 
 
 async def test_daily_report_view_is_the_commands_report_and_prints_it(
-        site: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
-        capsys: pytest.CaptureFixture) -> None:
+    site: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture
+) -> None:
     no_tools = tmp_path / "no-tools"
     no_tools.mkdir()
     monkeypatch.setenv("PATH", str(no_tools))  # no print command: the file only
@@ -226,7 +230,7 @@ async def test_two_weeks_shows_work_after_its_finish_as_done(site: Path):
         after = [c for d, c in zip(look.days, exc.cells, strict=True) if d > exc.late_finish]
         assert after and Cell.CANNOT not in after and Cell.DONE in after
         table = app.screen.query_one("#look-table", DataTable)
-        cells = [str(c).strip() for c in table.get_row("EXC-010")[3:3 + len(look.days)]]
+        cells = [str(c).strip() for c in table.get_row("EXC-010")[3 : 3 + len(look.days)]]
         assert GLYPHS[Cell.CANNOT] not in cells[1:]  # Thursday on: done, not cannot
         table.move_cursor(row=table.get_row_index("EXC-010"), column=4)  # Thursday
         await pilot.pause()
@@ -234,7 +238,7 @@ async def test_two_weeks_shows_work_after_its_finish_as_done(site: Path):
 
 
 async def test_keys_typed_with_a_view_key_go_to_the_new_view(site: Path):
-    """"3/fnd" in one burst, the Float view not loaded yet: the search gets "fnd", and the
+    """ "3/fnd" in one burst, the Float view not loaded yet: the search gets "fnd", and the
     "f" never reaches Today (where it would record a finish)."""
     app = make_app(site, TUE)
     async with app.run_test(size=(80, 24)) as pilot:

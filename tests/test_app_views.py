@@ -85,8 +85,9 @@ def fake_print_tools(folder: Path, default: str | None) -> Path:
     """``lp`` that records its arguments, and ``lpstat -d`` naming ``default`` (or none)."""
     folder.mkdir()
     calls = folder / "calls.txt"
-    answer = (f"system default destination: {default}" if default
-              else "no system default destination")
+    answer = (
+        f"system default destination: {default}" if default else "no system default destination"
+    )
     tools = {
         "lp": f'#!/bin/sh\necho "$@" >> "{calls}"\necho "request id is {default}-1"\n',
         "lpstat": f'#!/bin/sh\necho "{answer}"\n',
@@ -100,7 +101,8 @@ def fake_print_tools(folder: Path, default: str | None) -> Path:
 
 @pytest.mark.parametrize("default", ["site-office-laser", None])
 async def test_print_writes_the_sheet_and_uses_the_printer_if_any(
-        site: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch, default: str | None):
+    site: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch, default: str | None
+):
     calls = fake_print_tools(tmp_path / "bin", default)
     monkeypatch.setenv("PATH", str(tmp_path / "bin"))
     monkeypatch.delenv("PRINTER", raising=False)
@@ -172,7 +174,8 @@ async def test_sync_with_an_office_folder(site: Path, tmp_path: Path):
         assert "1 journal file (1 new, 0 grown) to the target" in text
         assert "No open conflicts" in text
         assert sorted(p.name for p in (office / "log").glob("*.toml")) == sorted(
-            p.name for p in (site / "log").glob("*.toml"))
+            p.name for p in (site / "log").glob("*.toml")
+        )
 
 
 @pytest.mark.parametrize("size", [(80, 24), (132, 40)])

@@ -49,25 +49,56 @@ def _refused(capsys: pytest.CaptureFixture, *argv: str) -> str:
 
 SITE_CASES = [
     # (file, old text, text at the limit, text one past, words in the refusal)
-    ("site.toml", "start = 2026-09-07\nfinish_by = 2026-10-16", "start = 1900-01-01",
-     "start = 1899-12-31",
-     "outside 1900-01-01 to 2199-12-31"),
-    ("site.toml", "finish_by = 2026-10-16", "finish_by = 2076-09-07",
-     "finish_by = 2076-09-08", "more than 50 years from the site start"),
-    ("site.toml", "available = 6", "available = 100000", "available = 100001",
-     "not 0 to 100,000 people"),
-    ("schedule.toml", "revision = 3", "revision = 2147483647", "revision = 2147483648",
-     "revision 2147483648 is not 0 to 2,147,483,647"),
-    ("schedule.toml", "duration = 4", "duration = 3650", "duration = 3651",
-     "duration 3651 is not from 0 to 3650 working days"),
-    ("schedule.toml", 'name = "Excavate base"', 'name = "' + "x" * 4000 + '"',
-     'name = "' + "x" * 4001 + '"', "4,001 characters, more than 4,000"),
+    (
+        "site.toml",
+        "start = 2026-09-07\nfinish_by = 2026-10-16",
+        "start = 1900-01-01",
+        "start = 1899-12-31",
+        "outside 1900-01-01 to 2199-12-31",
+    ),
+    (
+        "site.toml",
+        "finish_by = 2026-10-16",
+        "finish_by = 2076-09-07",
+        "finish_by = 2076-09-08",
+        "more than 50 years from the site start",
+    ),
+    (
+        "site.toml",
+        "available = 6",
+        "available = 100000",
+        "available = 100001",
+        "not 0 to 100,000 people",
+    ),
+    (
+        "schedule.toml",
+        "revision = 3",
+        "revision = 2147483647",
+        "revision = 2147483648",
+        "revision 2147483648 is not 0 to 2,147,483,647",
+    ),
+    (
+        "schedule.toml",
+        "duration = 4",
+        "duration = 3650",
+        "duration = 3651",
+        "duration 3651 is not from 0 to 3650 working days",
+    ),
+    (
+        "schedule.toml",
+        'name = "Excavate base"',
+        'name = "' + "x" * 4000 + '"',
+        'name = "' + "x" * 4001 + '"',
+        "4,001 characters, more than 4,000",
+    ),
 ]
 
 
-@pytest.mark.parametrize("name, old, at_limit, past, words", SITE_CASES,
-                         ids=["start", "finish_by", "headcount", "revision", "duration",
-                              "name"])
+@pytest.mark.parametrize(
+    "name, old, at_limit, past, words",
+    SITE_CASES,
+    ids=["start", "finish_by", "headcount", "revision", "duration", "name"],
+)
 def test_site_bounds(tmp_path, capsys, name, old, at_limit, past, words):
     folder = make_site(tmp_path / "site")
     _edit(folder, name, old, at_limit)
@@ -78,8 +109,7 @@ def test_site_bounds(tmp_path, capsys, name, old, at_limit, past, words):
     assert words in err and name in err and "line " in err
 
 
-@pytest.mark.parametrize("lag, ok", [(3650, True), (3651, False), (-3650, True),
-                                     (-3651, False)])
+@pytest.mark.parametrize("lag, ok", [(3650, True), (3651, False), (-3650, True), (-3651, False)])
 def test_lag_bound(tmp_path, capsys, lag, ok):
     folder = make_site(tmp_path / "site")
     _edit(folder, "schedule.toml", 'after = ["CUR-010"]', "")
@@ -95,14 +125,19 @@ def test_lag_bound(tmp_path, capsys, lag, ok):
 RECORD_CASES = [
     # (arguments, at the limit, one past, words in the refusal)
     (["remaining", "EXC-010"], "3650", "3651", "days 3651 is above 3650"),
-    (["crew", "--trade", "groundworks", "--headcount"], "100000", "100001",
-     "headcount 100001 is above 100000"),
+    (
+        ["crew", "--trade", "groundworks", "--headcount"],
+        "100000",
+        "100001",
+        "headcount 100001 is above 100000",
+    ),
     (["note"], "x" * 4000, "x" * 4001, "4,001 characters, more than 4,000"),
 ]
 
 
-@pytest.mark.parametrize("args, at_limit, past, words", RECORD_CASES,
-                         ids=["remaining", "headcount", "text"])
+@pytest.mark.parametrize(
+    "args, at_limit, past, words", RECORD_CASES, ids=["remaining", "headcount", "text"]
+)
 def test_record_bounds(tmp_path, capsys, args, at_limit, past, words):
     folder = make_site(tmp_path / "site")
     common = ["--on", "2026-09-08", "--today", TODAY, "--author", AUTHOR]
@@ -114,8 +149,10 @@ def test_record_bounds(tmp_path, capsys, args, at_limit, past, words):
     assert words in err
 
 
-@pytest.mark.parametrize("day, ok", [("1900-01-01", True), ("1899-12-31", False),
-                                     ("2199-12-31", True), ("2200-01-01", False)])
+@pytest.mark.parametrize(
+    "day, ok",
+    [("1900-01-01", True), ("1899-12-31", False), ("2199-12-31", True), ("2200-01-01", False)],
+)
 def test_command_line_dates(tmp_path, capsys, day, ok):
     folder = make_site(tmp_path / "site")
     code, _, err = _run(capsys, "schedule", str(folder), "--as-of", day, "--format", "json")
@@ -129,8 +166,19 @@ def test_command_line_dates(tmp_path, capsys, day, ok):
 
 def test_entry_day_decades_from_the_start_is_refused(tmp_path, capsys):
     folder = make_site(tmp_path / "site")
-    err = _refused(capsys, "record", str(folder), "note", "hello", "--on", "1976-09-06",
-                   "--today", TODAY, "--author", AUTHOR)
+    err = _refused(
+        capsys,
+        "record",
+        str(folder),
+        "note",
+        "hello",
+        "--on",
+        "1976-09-06",
+        "--today",
+        TODAY,
+        "--author",
+        AUTHOR,
+    )
     # The day parser's bound for the day an entry describes (a year before the site start,
     # see fieldlog.day_words) is tighter than the 50 years any site date may lie from it.
     assert "Mon 06 Sep 1976 is before Sat 06 Sep 2025, a year before the site start" in err
@@ -139,8 +187,9 @@ def test_entry_day_decades_from_the_start_is_refused(tmp_path, capsys):
 def test_today_later_than_the_machine_date_is_refused(tmp_path, capsys):
     folder = make_site(tmp_path / "site")
     tomorrow = (date.today() + timedelta(days=1)).isoformat()
-    err = _refused(capsys, "record", str(folder), "note", "hello", "--today", tomorrow,
-                   "--author", AUTHOR)
+    err = _refused(
+        capsys, "record", str(folder), "note", "hello", "--today", tomorrow, "--author", AUTHOR
+    )
     assert "later than this computer's date" in err
     assert not (folder / "log").exists()
 
@@ -164,8 +213,10 @@ def test_app_factory_refuses_a_day_after_the_machine_date(tmp_path):
 def test_finish_with_no_start_is_out_of_sequence(tmp_path, capsys):
     folder = make_site(tmp_path / "site")
     common = ["--today", TODAY, "--author", AUTHOR]
-    assert _run(capsys, "record", str(folder), "finished", "EXC-010", "--on", "2026-09-10",
-                *common)[0] == 0
+    assert (
+        _run(capsys, "record", str(folder), "finished", "EXC-010", "--on", "2026-09-10", *common)[0]
+        == 0
+    )
     code, out, err = _run(capsys, "schedule", str(folder), "--format", "json")
     assert code == 0, err
     assert "EXC-010 finished, no start recorded" in out
@@ -180,13 +231,13 @@ def test_corrupt_device_settings_are_one_line(tmp_path, capsys, monkeypatch):
     (home / DEVICE_FILE).write_bytes(b"device = " + b"[" * 10_000)
     monkeypatch.setenv("FIELDLOG_HOME", str(home))
     folder = make_site(tmp_path / "site")
-    err = _refused(capsys, "record", str(folder), "note", "hi", "--today", TODAY,
-                   "--author", AUTHOR)
+    err = _refused(
+        capsys, "record", str(folder), "note", "hi", "--today", TODAY, "--author", AUTHOR
+    )
     assert DEVICE_FILE in err and "nested more than 32" in err
 
 
-@pytest.mark.parametrize("depth, ok", [(bounds.MAX_NESTING, True),
-                                       (bounds.MAX_NESTING + 1, False)])
+@pytest.mark.parametrize("depth, ok", [(bounds.MAX_NESTING, True), (bounds.MAX_NESTING + 1, False)])
 def test_nesting_bound(depth, ok):
     arrays = "x = " + "[" * depth + "]" * depth
     key = ".".join(["k"] * depth) + " = 1"
@@ -212,17 +263,22 @@ def test_size_caps_at_the_limit_and_one_past(kind):
 
 def test_a_200000_activity_schedule_is_within_its_cap():
     """About 150 bytes an activity (id, name, duration, a link or two) in this format."""
-    per_activity = len('[[activity]]\nid = "A000000"\nname = "Work package 199999"\n'
-                       'duration = 10\ncalendar = "allweek"\nafter = ["A000001", "A000002", '
-                       '"A000003"]\n\n')
+    per_activity = len(
+        '[[activity]]\nid = "A000000"\nname = "Work package 199999"\n'
+        'duration = 10\ncalendar = "allweek"\nafter = ["A000001", "A000002", '
+        '"A000003"]\n\n'
+    )
     assert 200_000 * per_activity < bounds.FILE_CAPS["schedule.toml"]
 
 
-@pytest.mark.parametrize("kind, at_limit, past", [
-    ("day", "2199-12-31", "2200-01-01"),
-    ("day", "1900-01-01", "1899-12-31"),
-    ("text", "x" * 4000, "x" * 4001),
-])
+@pytest.mark.parametrize(
+    "kind, at_limit, past",
+    [
+        ("day", "2199-12-31", "2200-01-01"),
+        ("day", "1900-01-01", "1899-12-31"),
+        ("text", "x" * 4000, "x" * 4001),
+    ],
+)
 def test_app_form_fields_use_the_same_bounds(kind, at_limit, past):
     """The app's forms refuse under the field what the command line refuses."""
     from fieldlog.app.forms import DAY, TEXT, DayContext, Field, read_field

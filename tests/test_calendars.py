@@ -27,8 +27,9 @@ END = date(2030, 1, 1)
 IN_RANGE = st.dates(min_value=date(2025, 3, 1), max_value=date(2027, 9, 30))
 
 weekday_sets = st.frozensets(st.integers(0, 6), min_size=1)
-holiday_sets = st.frozensets(st.dates(min_value=ORIGIN, max_value=END - timedelta(days=1)),
-                             max_size=40)
+holiday_sets = st.frozensets(
+    st.dates(min_value=ORIGIN, max_value=END - timedelta(days=1)), max_size=40
+)
 
 
 def _npd(d: date) -> np.datetime64:
@@ -36,8 +37,13 @@ def _npd(d: date) -> np.datetime64:
 
 
 @settings(max_examples=60, deadline=None)
-@given(workdays=weekday_sets, hols=holiday_sets, lost=holiday_sets, day=IN_RANGE,
-       offset=st.integers(-60, 60))
+@given(
+    workdays=weekday_sets,
+    hols=holiday_sets,
+    lost=holiday_sets,
+    day=IN_RANGE,
+    offset=st.integers(-60, 60),
+)
 def test_add_working_days_matches_numpy_busday_offset(workdays, hols, lost, day, offset):
     spec = CalendarSpec("c", workdays, hols)
     cal = build_calendar(spec, ORIGIN, END, extra_closed=lost)
@@ -64,8 +70,11 @@ def test_count_matches_numpy_busday_count(workdays, hols, a, b):
     assert cal.count(hi, lo) == -forward
     days = cal.working_days(lo, hi)
     # Reference: numpy.is_busday over every day of [lo, hi].
-    expected = [lo + timedelta(days=k) for k in range((hi - lo).days + 1)
-                if np.is_busday(_npd(lo + timedelta(days=k)), busdaycal=ref)]
+    expected = [
+        lo + timedelta(days=k)
+        for k in range((hi - lo).days + 1)
+        if np.is_busday(_npd(lo + timedelta(days=k)), busdaycal=ref)
+    ]
     assert days == expected
 
 
@@ -124,8 +133,10 @@ def test_a_calendar_without_working_days_is_refused():
 
 
 def test_lost_days_close_only_the_calendars_they_name():
-    specs = {"w": CalendarSpec("w", frozenset(range(5))),
-             "a": CalendarSpec("a", frozenset(range(7)))}
+    specs = {
+        "w": CalendarSpec("w", frozenset(range(5))),
+        "a": CalendarSpec("a", frozenset(range(7))),
+    }
     wet = date(2026, 3, 4)
     cals = build_calendars(specs, ORIGIN, END, {"w": [wet]})
     assert not cals["w"].is_working(wet)

@@ -38,8 +38,9 @@ def test_json_lists_every_check(capsys: pytest.CaptureFixture[str]) -> None:
     assert set(data["failed"]) == {c["number"] for c in data["checks"] if c["outcome"] == "fail"}
 
 
-def test_before_any_work_most_checks_are_within_the_mark(capsys: pytest.CaptureFixture[str]
-                                                           ) -> None:
+def test_before_any_work_most_checks_are_within_the_mark(
+    capsys: pytest.CaptureFixture[str],
+) -> None:
     """As of the day before the start nothing is due: missed tasks and BEI are n/a."""
     assert main(["check", str(SAMPLE_SITE), "--as-of", "2026-09-06", "--format", "json"]) == 1
     by_number = {c["number"]: c for c in json.loads(capsys.readouterr().out)["checks"]}
@@ -47,13 +48,17 @@ def test_before_any_work_most_checks_are_within_the_mark(capsys: pytest.CaptureF
     assert by_number[9]["outcome"] == "pass"
 
 
-@pytest.mark.parametrize("argv", [
-    ["check", "no-such-folder"],
-    ["check", str(SAMPLE_SITE), "--as-of", "2026-13-01"],
-    ["check", str(SAMPLE_SITE), "--format", "xml"],
-])
-def test_bad_input_is_exit_2_with_one_line(argv: list[str],
-                                          capsys: pytest.CaptureFixture[str]) -> None:
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["check", "no-such-folder"],
+        ["check", str(SAMPLE_SITE), "--as-of", "2026-13-01"],
+        ["check", str(SAMPLE_SITE), "--format", "xml"],
+    ],
+)
+def test_bad_input_is_exit_2_with_one_line(
+    argv: list[str], capsys: pytest.CaptureFixture[str]
+) -> None:
     with pytest.raises(SystemExit) as exc:
         code = main(argv)
         raise SystemExit(code)
@@ -69,13 +74,13 @@ def test_baseline_is_the_earliest_kept_revision(tmp_path: Path) -> None:
     history = site_dir / "schedule_history"
     history.mkdir()
     text = (SAMPLE_SITE / "schedule.toml").read_text(encoding="utf-8")
-    longer = text.replace('id = "SITE-010"\nname = "Site entrance, haul road, wash"\n'
-                          'duration = 3', 'id = "SITE-010"\nname = "Site entrance, haul road, '
-                          'wash"\nduration = 50')
+    longer = text.replace(
+        'id = "SITE-010"\nname = "Site entrance, haul road, wash"\nduration = 3',
+        'id = "SITE-010"\nname = "Site entrance, haul road, wash"\nduration = 50',
+    )
     assert longer != text
     (history / "schedule.r1.toml").write_text(longer, encoding="utf-8")
-    (history / "schedule.r2.0123abcd.toml").write_text(text.replace("revision = 1",
-                                                                    "revision = 2"))
+    (history / "schedule.r2.0123abcd.toml").write_text(text.replace("revision = 1", "revision = 2"))
     (history / "notes.toml").write_text("not a kept revision")
     assert earliest_history_file(site_dir) == history / "schedule.r1.toml"
     base = load_baseline(site_dir, load_site(site_dir))

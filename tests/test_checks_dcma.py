@@ -31,9 +31,18 @@ from fieldlog.schedule_result import ScheduleResult
 BEFORE = MONDAY - timedelta(days=1)
 
 
-def network(chain: int, parallels: tuple[int, ...] = (), dangling: int = 0, *,
-            link_type: str = "FS", lags: int = 0, leads: int = 0, other_types: int = 0,
-            extra: dict[str, dict] | None = None, finish_by: date | None = None) -> Site:
+def network(
+    chain: int,
+    parallels: tuple[int, ...] = (),
+    dangling: int = 0,
+    *,
+    link_type: str = "FS",
+    lags: int = 0,
+    leads: int = 0,
+    other_types: int = 0,
+    extra: dict[str, dict] | None = None,
+    finish_by: date | None = None,
+) -> Site:
     """Start milestone S, a chain C1..Cn of 5-day work, finish milestone F; optional parallel
     work P_j (S -> P_j -> F, given durations) and dangling work D_k (S -> D_k, no successor).
 
@@ -63,17 +72,22 @@ def network(chain: int, parallels: tuple[int, ...] = (), dangling: int = 0, *,
     return make_site(acts, links, finish_by=finish_by)
 
 
-def schedule(site: Site, as_of: date = BEFORE,
-             progress: dict[str, Progress] | None = None) -> ScheduleResult:
+def schedule(
+    site: Site, as_of: date = BEFORE, progress: dict[str, Progress] | None = None
+) -> ScheduleResult:
     return compute_schedule(site, as_of, progress or {})
 
 
 # --- 1-5: logic -------------------------------------------------------------------------------
 
-@pytest.mark.parametrize(("dangling", "outcome"), [
-    (1, Outcome.PASS),   # 1 of 20 = 5%: at the mark (GAO-16-89G: no more than 5%)
-    (2, Outcome.FAIL),   # 2 of 20 = 10%
-])
+
+@pytest.mark.parametrize(
+    ("dangling", "outcome"),
+    [
+        (1, Outcome.PASS),  # 1 of 20 = 5%: at the mark (GAO-16-89G: no more than 5%)
+        (2, Outcome.FAIL),  # 2 of 20 = 10%
+    ],
+)
 def test_logic_at_and_past_the_mark(dangling: int, outcome: Outcome) -> None:
     site = network(18 - dangling, dangling=dangling)
     assert len(site.activities) == 20
@@ -126,10 +140,14 @@ def test_hard_constraints_at_and_past_five_percent(pinned: int, outcome: Outcome
 
 # --- 6-11: float, duration, dates, progress ---------------------------------------------------
 
-@pytest.mark.parametrize(("parallel", "counted"), [
-    (46, 0),  # chain 90 days; 46-day branch has 44 days' float: at the 44-day mark, not high
-    (45, 1),  # 45 days' float: high
-])
+
+@pytest.mark.parametrize(
+    ("parallel", "counted"),
+    [
+        (46, 0),  # chain 90 days; 46-day branch has 44 days' float: at the 44-day mark, not high
+        (45, 1),  # 45 days' float: high
+    ],
+)
 def test_high_float_day_mark(parallel: int, counted: int) -> None:
     site = network(18, (parallel,))
     found = dates.check_high_float(schedule(site))
@@ -154,11 +172,14 @@ def test_negative_float(days_short: int, outcome: Outcome) -> None:
     assert found.count == (0 if days_short == 0 else 12)
 
 
-@pytest.mark.parametrize(("durations", "outcome", "count"), [
-    ((44,), Outcome.PASS, 0),       # 44 days is at the mark, not over it
-    ((45,), Outcome.PASS, 1),       # 1 of 20 over: 5%
-    ((45, 45), Outcome.FAIL, 2),    # 2 of 20 over: 10%
-])
+@pytest.mark.parametrize(
+    ("durations", "outcome", "count"),
+    [
+        ((44,), Outcome.PASS, 0),  # 44 days is at the mark, not over it
+        ((45,), Outcome.PASS, 1),  # 1 of 20 over: 5%
+        ((45, 45), Outcome.FAIL, 2),  # 2 of 20 over: 10%
+    ],
+)
 def test_high_duration(durations: tuple[int, ...], outcome: Outcome, count: int) -> None:
     """DCMA 14-point, widely cited: at most 5% with a baseline duration over 44 days."""
     site = network(18 - len(durations) + 2, durations)
@@ -177,8 +198,9 @@ def test_invalid_dates_catch_an_actual_after_the_status_date() -> None:
 
 
 def test_resources_is_reported_without_a_mark() -> None:
-    site = make_site([("A", 2, None, {"crew": {"groundworks": 2}}), ("B", 3), ("M", 0)],
-                     [("A", "B"), ("B", "M")])
+    site = make_site(
+        [("A", 2, None, {"crew": {"groundworks": 2}}), ("B", 3), ("M", 0)], [("A", "B"), ("B", "M")]
+    )
     found = dates.check_resources(site, schedule(site))
     assert (found.outcome, found.items, found.population) == (Outcome.INFO, ("B",), 2)
 
@@ -210,8 +232,10 @@ def test_missed_tasks_share(open_: int, outcome: Outcome) -> None:
 def test_missed_tasks_finish_on_plan_is_not_missed_a_day_late_is() -> None:
     site = make_site([("A", 1), ("B", 1)], [("A", "B")])
     plan = planned_baseline(site, "plan")
-    on_time = {"A": Progress(MONDAY, MONDAY), "B": Progress(MONDAY + timedelta(days=1),
-                                                            MONDAY + timedelta(days=1))}
+    on_time = {
+        "A": Progress(MONDAY, MONDAY),
+        "B": Progress(MONDAY + timedelta(days=1), MONDAY + timedelta(days=1)),
+    }
     a_day_late = on_time | {"B": Progress(MONDAY + timedelta(days=2), MONDAY + timedelta(days=2))}
     as_of = MONDAY + timedelta(days=5)
     assert dates.check_missed_tasks(site, schedule(site, as_of, on_time), plan).count == 0
@@ -219,6 +243,7 @@ def test_missed_tasks_finish_on_plan_is_not_missed_a_day_late_is() -> None:
 
 
 # --- 12-14: critical path test, CPLI, BEI ----------------------------------------------------
+
 
 def _reschedule(as_of: date = BEFORE):
     return lambda changed: compute_schedule(changed, as_of, {})
@@ -235,8 +260,10 @@ def test_critical_path_test_fails_when_a_constraint_makes_dead_end_work_critical
     """A hard finish date makes dangling work 'critical' by float; delaying it does not move
     the finish, which is what the test is there to catch."""
     pinned = {"finish_not_after": MONDAY}
-    site = make_site([("S", 0), ("X", 2, None, pinned), ("C1", 5), ("C2", 5), ("F", 0)],
-                     [("S", "X"), ("S", "C1"), ("C1", "C2"), ("C2", "F")])
+    site = make_site(
+        [("S", 0), ("X", 2, None, pinned), ("C1", 5), ("C2", 5), ("F", 0)],
+        [("S", "X"), ("S", "C1"), ("C1", "C2"), ("C2", "F")],
+    )
     result = schedule(site)
     assert path.pick_test_activity(site, result) == "X"
     found = path.check_critical_path(site, result, _reschedule())
@@ -250,10 +277,13 @@ def test_cpli_worked_example() -> None:
         path.cpli(0, 0)
 
 
-@pytest.mark.parametrize(("days_short", "outcome"), [
-    (1, Outcome.PASS),   # (20 - 1) / 20 = 0.95: at the mark
-    (2, Outcome.FAIL),   # (20 - 2) / 20 = 0.90
-])
+@pytest.mark.parametrize(
+    ("days_short", "outcome"),
+    [
+        (1, Outcome.PASS),  # (20 - 1) / 20 = 0.95: at the mark
+        (2, Outcome.FAIL),  # (20 - 2) / 20 = 0.90
+    ],
+)
 def test_cpli_on_a_site(days_short: int, outcome: Outcome) -> None:
     site = network(4, finish_by=MONDAY + timedelta(days=19 - days_short))
     found = path.check_cpli(site, schedule(site), planned_baseline(site, "plan"))

@@ -89,28 +89,40 @@ def random_case(seed: int) -> tuple[Site, date, dict, dict, dict]:
                 lag = 0 if rng.random() < 0.6 else rng.randint(-3, 5)
                 links.append(Link(hidden[i], hidden[j], rng.choice(_TYPES), lag))
                 if rng.random() < 0.08:  # a second link between the same pair
-                    links.append(Link(hidden[i], hidden[j], rng.choice(_TYPES),
-                                      rng.randint(-2, 3)))
+                    links.append(Link(hidden[i], hidden[j], rng.choice(_TYPES), rng.randint(-2, 3)))
     rng.shuffle(acts)
     rng.shuffle(links)
 
-    finish_by = rng.choice((None, None, start + timedelta(days=rng.randint(5, 30)),
-                            start + timedelta(days=rng.randint(60, 140))))
+    finish_by = rng.choice(
+        (
+            None,
+            None,
+            start + timedelta(days=rng.randint(5, 30)),
+            start + timedelta(days=rng.randint(60, 140)),
+        )
+    )
     if rng.random() < 0.02:
         finish_by = start - timedelta(days=rng.randint(200, 700))
     site = Site(
-        name="Random yard", start=start, calendar=rng.choice(cals).name,
+        name="Random yard",
+        start=start,
+        calendar=rng.choice(cals).name,
         calendars=MappingProxyType({c.name: c for c in cals}),
-        crews=MappingProxyType({"crew": Crew("crew", 5)}), revision=1,
-        activities=tuple(acts), links=tuple(links), finish_by=finish_by,
+        crews=MappingProxyType({"crew": Crew("crew", 5)}),
+        revision=1,
+        activities=tuple(acts),
+        links=tuple(links),
+        finish_by=finish_by,
         progress_override=rng.random() < 0.5,
         lag_calendar=rng.choice((LagCalendar.SUCCESSOR, LagCalendar.PREDECESSOR)),
     )
 
-    lost = {c.name: [start + timedelta(days=rng.randint(0, 40)) for _ in range(rng.randint(0, 3))]
-            for c in cals if rng.random() < 0.4}
-    holds = {a.id: start + timedelta(days=rng.randint(-3, 40))
-             for a in acts if rng.random() < 0.08}
+    lost = {
+        c.name: [start + timedelta(days=rng.randint(0, 40)) for _ in range(rng.randint(0, 3))]
+        for c in cals
+        if rng.random() < 0.4
+    }
+    holds = {a.id: start + timedelta(days=rng.randint(-3, 40)) for a in acts if rng.random() < 0.08}
 
     if rng.random() < 0.3:
         return site, start - timedelta(days=1), {}, lost, holds
@@ -123,17 +135,21 @@ def random_case(seed: int) -> tuple[Site, date, dict, dict, dict]:
         if roll < p_done:
             finish = min(status, first + timedelta(days=rng.randint(0, 9)))
             begun = None if rng.random() < 0.08 else first
-            progress[aid] = Progress(actual_start=begun, actual_finish=finish,
-                                     percent=rng.choice((None, 100.0)))
+            progress[aid] = Progress(
+                actual_start=begun, actual_finish=finish, percent=rng.choice((None, 100.0))
+            )
         elif roll < p_done + p_run:
             remaining = as_of = None
             if rng.random() < 0.6:
                 remaining = rng.randint(0, 7)
                 if rng.random() < 0.8:
                     as_of = first + timedelta(days=rng.randint(0, max(0, (status - first).days)))
-            progress[aid] = Progress(actual_start=first, remaining=remaining,
-                                     remaining_as_of=as_of,
-                                     percent=rng.choice((None, 10.0, 55.5)))
+            progress[aid] = Progress(
+                actual_start=first,
+                remaining=remaining,
+                remaining_as_of=as_of,
+                percent=rng.choice((None, 10.0, 55.5)),
+            )
         elif roll < p_done + p_run + 0.05:
             progress[aid] = Progress(percent=rng.choice((None, 0.0)))
     if rng.random() < 0.1:
@@ -147,23 +163,35 @@ def assert_same(new: ScheduleResult, ref: ScheduleResult) -> None:
     for a, b in zip(new.activities, ref.activities, strict=True):
         assert type(a) is ActivityResult
         assert set(vars(a)) == set(_FIELDS)
-        diff = {f: (getattr(a, f), getattr(b, f)) for f in _FIELDS
-                if getattr(a, f) != getattr(b, f)
-                or type(getattr(a, f)) is not type(getattr(b, f))}
+        diff = {
+            f: (getattr(a, f), getattr(b, f))
+            for f in _FIELDS
+            if getattr(a, f) != getattr(b, f) or type(getattr(a, f)) is not type(getattr(b, f))
+        }
         assert not diff, f"{a.id}: (new, reference) {diff}"
     assert dict(new.by_id) == dict(ref.by_id)
     assert list(new.by_id) == list(ref.by_id)
-    for name in ("as_of", "finish", "finish_float", "driving_path", "lowest_float",
-                 "out_of_sequence", "data_date", "paths_differ"):
+    for name in (
+        "as_of",
+        "finish",
+        "finish_float",
+        "driving_path",
+        "lowest_float",
+        "out_of_sequence",
+        "data_date",
+        "paths_differ",
+    ):
         got, want = getattr(new, name), getattr(ref, name)
         assert got == want and type(got) is type(want), f"{name}: {got!r} != {want!r}"
-    assert {k: (c.origin, c.end) for k, c in new.calendars.items()} == \
-        {k: (c.origin, c.end) for k, c in ref.calendars.items()}
+    assert {k: (c.origin, c.end) for k, c in new.calendars.items()} == {
+        k: (c.origin, c.end) for k, c in ref.calendars.items()
+    }
     assert new == ref
 
 
-def both(site: Site, status: date, progress: dict, lost: dict, holds: dict
-         ) -> tuple[ScheduleResult, ScheduleResult]:
+def both(
+    site: Site, status: date, progress: dict, lost: dict, holds: dict
+) -> tuple[ScheduleResult, ScheduleResult]:
     """The schedule from the engine and from the reference."""
     new = compute_schedule(site, status, progress, lost_days=lost, holds=holds)
     ref = reference_cpm.compute_schedule(site, status, progress, lost_days=lost, holds=holds)
@@ -208,8 +236,11 @@ def test_the_benchmark_network_with_progress(done):
         if rng.random() < 0.8:
             progress[a.id] = Progress(actual_start=begun, actual_finish=begun + timedelta(3))
         else:
-            progress[a.id] = Progress(actual_start=begun, remaining=rng.randint(1, 9),
-                                      remaining_as_of=status - timedelta(days=2))
+            progress[a.id] = Progress(
+                actual_start=begun,
+                remaining=rng.randint(1, 9),
+                remaining_as_of=status - timedelta(days=2),
+            )
     assert_same(*both(site, status, progress, {"weekdays": [status + timedelta(2)]}, {}))
 
 
@@ -217,8 +248,16 @@ def test_results_are_plain_python_values():
     """Nothing numpy leaks out: JSON writers and equality with dates need plain values."""
     site, status, progress, lost, holds = random_case(5)
     result = compute_schedule(site, status, progress, lost_days=lost, holds=holds)
-    allowed = (str, int, float, bool, date, type(None), Link, *{type(r.status)
-                                                              for r in result.activities})
+    allowed = (
+        str,
+        int,
+        float,
+        bool,
+        date,
+        type(None),
+        Link,
+        *{type(r.status) for r in result.activities},
+    )
     for r in result.activities:
         for name in _FIELDS:
             assert type(getattr(r, name)) in allowed, (r.id, name, type(getattr(r, name)))

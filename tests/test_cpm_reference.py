@@ -43,8 +43,12 @@ def fs_networks(draw):
     n = draw(st.integers(1, 12))
     ids = [f"T{k}" for k in range(n)]
     durations = [draw(st.integers(0, 9)) for _ in ids]
-    links = [(ids[i], ids[j]) for i in range(n) for j in range(i + 1, n)
-             if draw(st.booleans()) and draw(st.booleans())]
+    links = [
+        (ids[i], ids[j])
+        for i in range(n)
+        for j in range(i + 1, n)
+        if draw(st.booleans()) and draw(st.booleans())
+    ]
     return ids, durations, links
 
 
@@ -164,8 +168,9 @@ def feasible_starts(acts, links, cals, floor_day, deadline, lag_on_succ):
             for p, _, kind, lag in preds[aid]:
                 i = index[p]
                 _, d_i, cname_i = acts[i]
-                b = link_bound(kind, lag, starts[i], starts[i] + d_i, cals[cname_i],
-                               cals[cname], lag_on_succ)
+                b = link_bound(
+                    kind, lag, starts[i], starts[i] + d_i, cals[cname_i], cals[cname], lag_on_succ
+                )
                 if kind in ("FS", "SS") and s < b or kind in ("FF", "SF") and s + d < b:
                     ok = False
                     break
@@ -205,8 +210,14 @@ def small_networks(draw, two_calendars: bool):
     for j in range(1, n):
         for i in range(j):
             if draw(st.integers(0, 2)) == 0:
-                links.append((ids[i], ids[j], draw(st.sampled_from(["FS", "SS", "FF", "SF"])),
-                              draw(st.integers(-2, 3))))
+                links.append(
+                    (
+                        ids[i],
+                        ids[j],
+                        draw(st.sampled_from(["FS", "SS", "FF", "SF"])),
+                        draw(st.integers(-2, 3)),
+                    )
+                )
     holiday = draw(st.one_of(st.none(), st.dates(MONDAY, MONDAY + timedelta(days=20))))
     slack = draw(st.one_of(st.none(), st.integers(-3, 4)))
     lag_on_succ = draw(st.booleans())
@@ -215,17 +226,23 @@ def small_networks(draw, two_calendars: bool):
 
 def _check_against_enumeration(network):
     acts, links, holiday, slack, lag_on_succ = network
-    weekdays = CalendarSpec("weekdays", WEEKDAYS.workdays,
-                            frozenset({holiday}) if holiday else frozenset())
+    weekdays = CalendarSpec(
+        "weekdays", WEEKDAYS.workdays, frozenset({holiday}) if holiday else frozenset()
+    )
     specs = [weekdays, MWFS]
     cals = {s.name: NumpyCalendar(s) for s in specs}
     # Reference finish: the least schedule's latest last day (by relaxation, not the engine).
     es = earliest_starts(acts, links, cals, MONDAY, lag_on_succ)
     finish = max(cals[c].day(es[a] + d - 1) for a, d, c in acts)
     finish_by = None if slack is None else finish + timedelta(days=slack)
-    site = make_site(acts, links, calendar="weekdays", calendars=specs, finish_by=finish_by,
-                     lag_calendar=LagCalendar.SUCCESSOR if lag_on_succ
-                     else LagCalendar.PREDECESSOR)
+    site = make_site(
+        acts,
+        links,
+        calendar="weekdays",
+        calendars=specs,
+        finish_by=finish_by,
+        lag_calendar=LagCalendar.SUCCESSOR if lag_on_succ else LagCalendar.PREDECESSOR,
+    )
     result = compute_schedule(site, before_start(site))
     assert result.finish == finish
     deadline = finish_by or finish
@@ -265,17 +282,34 @@ def test_hendrickson_nine_activity_example():
     project (precedence table in ch. 9, scheduled in ch. 10): duration 30, critical path
     A-C-F-I. Zero-based ES/EF/LS/LF/TF as tabulated for that example."""
     site = make_site(
-        [("A", 4), ("B", 3), ("C", 8), ("D", 7), ("E", 9), ("F", 12), ("G", 2), ("H", 5),
-         ("I", 6)],
-        [("A", "C"), ("A", "D"), ("B", "E"), ("C", "E"), ("B", "F"), ("C", "F"), ("D", "G"),
-         ("E", "G"), ("D", "H"), ("E", "H"), ("F", "I"), ("G", "I")],
+        [("A", 4), ("B", 3), ("C", 8), ("D", 7), ("E", 9), ("F", 12), ("G", 2), ("H", 5), ("I", 6)],
+        [
+            ("A", "C"),
+            ("A", "D"),
+            ("B", "E"),
+            ("C", "E"),
+            ("B", "F"),
+            ("C", "F"),
+            ("D", "G"),
+            ("E", "G"),
+            ("D", "H"),
+            ("E", "H"),
+            ("F", "I"),
+            ("G", "I"),
+        ],
         start=START,
     )
     result = compute_schedule(site, before_start(site))
     assert table(result, START) == {
-        "A": (0, 4, 0, 4, 0), "B": (0, 3, 9, 12, 9), "C": (4, 12, 4, 12, 0),
-        "D": (4, 11, 15, 22, 11), "E": (12, 21, 13, 22, 1), "F": (12, 24, 12, 24, 0),
-        "G": (21, 23, 22, 24, 1), "H": (21, 26, 25, 30, 4), "I": (24, 30, 24, 30, 0),
+        "A": (0, 4, 0, 4, 0),
+        "B": (0, 3, 9, 12, 9),
+        "C": (4, 12, 4, 12, 0),
+        "D": (4, 11, 15, 22, 11),
+        "E": (12, 21, 13, 22, 1),
+        "F": (12, 24, 12, 24, 0),
+        "G": (21, 23, 22, 24, 1),
+        "H": (21, 26, 25, 30, 4),
+        "I": (24, 30, 24, 30, 0),
     }
     assert (result.finish - START).days + 1 == 30
     assert result.driving_path == ("A", "C", "F", "I")
@@ -286,20 +320,60 @@ def test_precedence_example_with_start_to_start_links():
     """Fourteen-activity precedence diagramming module example (A-N, SS links on B, J, K).
     Values derived from the source's data (zero-based, no lags); not a published answer.
     Duration 38, critical path A-D-H-M-N."""
-    durations = {"A": 2, "B": 10, "C": 13, "D": 12, "E": 12, "F": 7, "G": 10, "H": 16, "I": 6,
-                 "J": 12, "K": 5, "L": 8, "M": 5, "N": 3}
-    links = [("A", "B", "SS"), ("A", "C"), ("A", "D"), ("B", "E"), ("B", "F"), ("D", "G"),
-             ("D", "H"), ("F", "I"), ("C", "J"), ("G", "J", "SS"), ("I", "K", "SS"),
-             ("E", "L"), ("I", "L"), ("K", "L"), ("H", "M"), ("G", "N"), ("J", "N"),
-             ("L", "N"), ("M", "N")]
+    durations = {
+        "A": 2,
+        "B": 10,
+        "C": 13,
+        "D": 12,
+        "E": 12,
+        "F": 7,
+        "G": 10,
+        "H": 16,
+        "I": 6,
+        "J": 12,
+        "K": 5,
+        "L": 8,
+        "M": 5,
+        "N": 3,
+    }
+    links = [
+        ("A", "B", "SS"),
+        ("A", "C"),
+        ("A", "D"),
+        ("B", "E"),
+        ("B", "F"),
+        ("D", "G"),
+        ("D", "H"),
+        ("F", "I"),
+        ("C", "J"),
+        ("G", "J", "SS"),
+        ("I", "K", "SS"),
+        ("E", "L"),
+        ("I", "L"),
+        ("K", "L"),
+        ("H", "M"),
+        ("G", "N"),
+        ("J", "N"),
+        ("L", "N"),
+        ("M", "N"),
+    ]
     site = make_site(list(durations.items()), links, start=START)
     result = compute_schedule(site, before_start(site))
     expected = {  # ES, EF, LS, LF, TF, FF
-        "A": (0, 2, 0, 2, 0, 0), "B": (0, 10, 4, 14, 4, 0), "C": (2, 15, 10, 23, 8, 0),
-        "D": (2, 14, 2, 14, 0, 0), "E": (10, 22, 15, 27, 5, 1), "F": (10, 17, 14, 21, 4, 0),
-        "G": (14, 24, 23, 33, 9, 1), "H": (14, 30, 14, 30, 0, 0), "I": (17, 23, 21, 27, 4, 0),
-        "J": (15, 27, 23, 35, 8, 8), "K": (17, 22, 22, 27, 5, 1), "L": (23, 31, 27, 35, 4, 4),
-        "M": (30, 35, 30, 35, 0, 0), "N": (35, 38, 35, 38, 0, 0),
+        "A": (0, 2, 0, 2, 0, 0),
+        "B": (0, 10, 4, 14, 4, 0),
+        "C": (2, 15, 10, 23, 8, 0),
+        "D": (2, 14, 2, 14, 0, 0),
+        "E": (10, 22, 15, 27, 5, 1),
+        "F": (10, 17, 14, 21, 4, 0),
+        "G": (14, 24, 23, 33, 9, 1),
+        "H": (14, 30, 14, 30, 0, 0),
+        "I": (17, 23, 21, 27, 4, 0),
+        "J": (15, 27, 23, 35, 8, 8),
+        "K": (17, 22, 22, 27, 5, 1),
+        "L": (23, 31, 27, 35, 4, 4),
+        "M": (30, 35, 30, 35, 0, 0),
+        "N": (35, 38, 35, 38, 0, 0),
     }
     got = table(result, START)
     assert {k: (*got[k], result.by_id[k].free_float) for k in got} == expected
@@ -313,8 +387,7 @@ def test_retained_logic_example(override, b_days):
     A in progress with 5 days remaining finishes on workday 155; B, started out of sequence
     against its FS link from A with 5 days remaining, runs 156-160 under retained logic.
     Under progress override B simply continues from the data date (151-155)."""
-    site = make_site([("A", 20), ("B", 10)], [("A", "B")], start=START,
-                     progress_override=override)
+    site = make_site([("A", 20), ("B", 10)], [("A", "B")], start=START, progress_override=override)
 
     def workday(n: int) -> date:  # seven-day calendar: workday 1 is the site start
         return START + timedelta(days=n - 1)
@@ -329,8 +402,9 @@ def test_retained_logic_example(override, b_days):
     assert (a.early_start, a.early_finish) == (workday(151), workday(155))
     assert (b.early_start, b.early_finish) == (workday(b_days[0]), workday(b_days[1]))
     assert len(result.out_of_sequence) == 1
-    assert result.out_of_sequence[0].treatment == ("progress override" if override
-                                                   else "retained logic")
+    assert result.out_of_sequence[0].treatment == (
+        "progress override" if override else "retained logic"
+    )
 
 
 def test_allweek_calendar_is_the_identity():

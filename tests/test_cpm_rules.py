@@ -45,9 +45,12 @@ def networks(draw):
     n = draw(st.integers(1, 8))
     ids = [f"N{k}" for k in range(n)]
     acts = [(a, draw(st.integers(0, 6)), draw(st.sampled_from([WK, "allweek"]))) for a in ids]
-    links = [(ids[i], ids[j], draw(st.sampled_from(["FS", "SS", "FF", "SF"])),
-              draw(st.integers(-2, 3)))
-             for j in range(n) for i in range(j) if draw(st.integers(0, 2)) == 0]
+    links = [
+        (ids[i], ids[j], draw(st.sampled_from(["FS", "SS", "FF", "SF"])), draw(st.integers(-2, 3)))
+        for j in range(n)
+        for i in range(j)
+        if draw(st.integers(0, 2)) == 0
+    ]
     return acts, links
 
 
@@ -91,9 +94,12 @@ def test_start_not_before_on_a_saturday_rolls_to_monday():
 
 def test_holiday_at_a_link_boundary_and_a_lag_ending_on_a_holiday():
     friday_off = CalendarSpec(WK, WEEKDAYS.workdays, frozenset({D("2026-03-06")}))
-    site = make_site([("A", 4, WK), ("B", 1, WK), ("C", 1, WK), ("D", 2, WK)],
-                     [("A", "B"), ("C", "D", "FS", 2)], calendar=WK,
-                     calendars=(friday_off, ALLWEEK))
+    site = make_site(
+        [("A", 4, WK), ("B", 1, WK), ("C", 1, WK), ("D", 2, WK)],
+        [("A", "B"), ("C", "D", "FS", 2)],
+        calendar=WK,
+        calendars=(friday_off, ALLWEEK),
+    )
     result = schedule(site)
     # A ends Thursday; Friday is a holiday, so B starts Monday.
     assert result.by_id["A"].early_finish == D("2026-03-05")
@@ -101,12 +107,17 @@ def test_holiday_at_a_link_boundary_and_a_lag_ending_on_a_holiday():
     # C ends Monday 2nd; a two-day lag runs Tue-Wed, D starts Thursday.
     assert result.by_id["D"].early_start == D("2026-03-05")
     # Reference: numpy.busday_offset(C's finish + 1 day, 2, roll="forward") with the holiday.
-    ref = np.busday_offset("2026-03-03", 2, roll="forward", weekmask="1111100",
-                           holidays=["2026-03-06"])
+    ref = np.busday_offset(
+        "2026-03-03", 2, roll="forward", weekmask="1111100", holidays=["2026-03-06"]
+    )
     assert result.by_id["D"].early_start == ref.astype(object)
     # A lag ending on the holiday: C2 ends Tue 3rd, lag 2 (Wed, Thu) -> Fri is off -> Monday.
-    site2 = make_site([("C", 2, WK), ("D", 1, WK)], [("C", "D", "FS", 2)], calendar=WK,
-                      calendars=(friday_off, ALLWEEK))
+    site2 = make_site(
+        [("C", 2, WK), ("D", 1, WK)],
+        [("C", "D", "FS", 2)],
+        calendar=WK,
+        calendars=(friday_off, ALLWEEK),
+    )
     assert schedule(site2).by_id["D"].early_start == D("2026-03-09")
 
 
@@ -122,8 +133,9 @@ def test_lag_on_successor_or_predecessor_calendar():
     """A five-day activity ends Friday; a seven-day successor waits two lag days."""
     acts = [("A", 5, WK), ("B", 3, "allweek")]
     on_succ = make_site(acts, [("A", "B", "FS", 2)], calendar=WK)
-    on_pred = make_site(acts, [("A", "B", "FS", 2)], calendar=WK,
-                        lag_calendar=LagCalendar.PREDECESSOR)
+    on_pred = make_site(
+        acts, [("A", "B", "FS", 2)], calendar=WK, lag_calendar=LagCalendar.PREDECESSOR
+    )
     # Successor's (seven-day) calendar: Sat, Sun are the lag, B starts Monday.
     assert schedule(on_succ).by_id["B"].early_start == D("2026-03-09")
     # Predecessor's (weekday) calendar: Mon, Tue are the lag, B starts Wednesday.
@@ -131,9 +143,12 @@ def test_lag_on_successor_or_predecessor_calendar():
 
 
 def test_cure_on_a_seven_day_calendar_runs_through_the_weekend():
-    site = make_site([("POUR", 1, WK), ("CURE", 3, "allweek"), ("STRIP", 1, WK)],
-                     [("POUR", "CURE"), ("CURE", "STRIP")], calendar=WK,
-                     start=D("2026-03-06"))  # a Friday
+    site = make_site(
+        [("POUR", 1, WK), ("CURE", 3, "allweek"), ("STRIP", 1, WK)],
+        [("POUR", "CURE"), ("CURE", "STRIP")],
+        calendar=WK,
+        start=D("2026-03-06"),
+    )  # a Friday
     result = schedule(site)
     assert dates(result.by_id["CURE"])[:2] == (D("2026-03-07"), D("2026-03-09"))
     assert result.by_id["STRIP"].early_start == D("2026-03-10")
@@ -144,8 +159,11 @@ def test_cure_on_a_seven_day_calendar_runs_through_the_weekend():
 
 
 def test_milestones_at_both_ends():
-    site = make_site([("START", 0, WK), ("A", 3, WK), ("B", 2, WK), ("DONE", 0, WK)],
-                     [("START", "A"), ("A", "B"), ("B", "DONE")], calendar=WK)
+    site = make_site(
+        [("START", 0, WK), ("A", 3, WK), ("B", 2, WK), ("DONE", 0, WK)],
+        [("START", "A"), ("A", "B"), ("B", "DONE")],
+        calendar=WK,
+    )
     result = schedule(site)
     start, done = result.by_id["START"], result.by_id["DONE"]
     assert dates(start) == (MONDAY,) * 4
@@ -159,8 +177,9 @@ def test_milestones_at_both_ends():
 
 def test_a_milestone_is_never_dated_before_the_site_start_or_the_data_date():
     # M follows A start-to-start: it falls at the start of A's first day, not the day before.
-    site = make_site([("A", 5, WK), ("M", 0, WK), ("B", 3, WK)],
-                     [("A", "M", "SS"), ("M", "B")], calendar=WK)
+    site = make_site(
+        [("A", 5, WK), ("M", 0, WK), ("B", 3, WK)], [("A", "M", "SS"), ("M", "B")], calendar=WK
+    )
     m = schedule(site).by_id["M"]
     assert m.early_start == MONDAY and m.late_start >= MONDAY
     # F follows A, which finished long ago: F falls on the data date.
@@ -171,16 +190,18 @@ def test_a_milestone_is_never_dated_before_the_site_start_or_the_data_date():
 
 
 def test_a_start_milestone_on_a_monday_does_not_start_seven_day_work_on_saturday():
-    site = make_site([("GO", 0, WK, {"start_not_before": D("2026-03-09")}),
-                      ("CURE", 2, "allweek")], [("GO", "CURE")], calendar=WK)
+    site = make_site(
+        [("GO", 0, WK, {"start_not_before": D("2026-03-09")}), ("CURE", 2, "allweek")],
+        [("GO", "CURE")],
+        calendar=WK,
+    )
     result = schedule(site)
     assert result.by_id["GO"].early_start == D("2026-03-09")
     assert result.by_id["CURE"].early_start == D("2026-03-09")
 
 
 def test_two_disconnected_chains():
-    site = make_site([("A1", 3), ("A2", 4), ("B1", 2), ("B2", 1)],
-                     [("A1", "A2"), ("B1", "B2")])
+    site = make_site([("A1", 3), ("A2", 4), ("B1", 2), ("B2", 1)], [("A1", "A2"), ("B1", "B2")])
     result = schedule(site)
     assert result.finish == MONDAY + timedelta(days=6)
     assert [result.by_id[k].total_float for k in ("A1", "A2", "B1", "B2")] == [0, 0, 4, 4]
@@ -205,8 +226,12 @@ def test_finish_by_on_a_non_working_day():
 
 
 def test_negative_float_when_finish_by_is_too_early():
-    site = make_site([("A", 5, WK), ("B", 5, WK), ("C", 2, WK)], [("A", "B")], calendar=WK,
-                     finish_by=D("2026-03-10"))
+    site = make_site(
+        [("A", 5, WK), ("B", 5, WK), ("C", 2, WK)],
+        [("A", "B")],
+        calendar=WK,
+        finish_by=D("2026-03-10"),
+    )
     result = schedule(site)
     a, b, c = (result.by_id[k] for k in "ABC")
     assert result.finish == D("2026-03-13")
@@ -225,8 +250,9 @@ def test_very_negative_float_widens_the_calendar_range():
 
 
 def test_finish_not_after_gives_negative_float_to_that_activity_only():
-    site = make_site([("A", 5, WK, {"finish_not_after": D("2026-03-04")}), ("B", 8, WK)],
-                     calendar=WK)
+    site = make_site(
+        [("A", 5, WK, {"finish_not_after": D("2026-03-04")}), ("B", 8, WK)], calendar=WK
+    )
     result = schedule(site)
     assert result.by_id["A"].total_float == -2
     assert result.by_id["B"].total_float == 0
@@ -292,9 +318,13 @@ def test_nothing_unfinished_is_forecast_before_the_data_date(network, status_off
     acts, links = network
     site = make_site(acts, links, calendar=WK)
     status = MONDAY + timedelta(days=status_offset)
-    progress = {acts[k][0]: Progress(actual_start=min(status, MONDAY), remaining=2,
-                                     remaining_as_of=min(status, MONDAY))
-                for k in started if k < len(acts)}
+    progress = {
+        acts[k][0]: Progress(
+            actual_start=min(status, MONDAY), remaining=2, remaining_as_of=min(status, MONDAY)
+        )
+        for k in started
+        if k < len(acts)
+    }
     result = schedule(site, status, progress)
     data_date = max(status + timedelta(days=1), MONDAY)
     for r in result.activities:
@@ -307,11 +337,18 @@ def test_nothing_unfinished_is_forecast_before_the_data_date(network, status_off
 
 @pytest.mark.parametrize("override", [False, True])
 def test_out_of_sequence_retained_logic_or_progress_override(override):
-    site = make_site([("FRAME", 5, WK), ("BOARD", 4, WK)], [("FRAME", "BOARD")], calendar=WK,
-                     progress_override=override)
-    p = {"FRAME": Progress(actual_start=MONDAY, remaining=3, remaining_as_of=D("2026-03-03")),
-         "BOARD": Progress(actual_start=D("2026-03-03"), remaining=3,
-                           remaining_as_of=D("2026-03-03"))}
+    site = make_site(
+        [("FRAME", 5, WK), ("BOARD", 4, WK)],
+        [("FRAME", "BOARD")],
+        calendar=WK,
+        progress_override=override,
+    )
+    p = {
+        "FRAME": Progress(actual_start=MONDAY, remaining=3, remaining_as_of=D("2026-03-03")),
+        "BOARD": Progress(
+            actual_start=D("2026-03-03"), remaining=3, remaining_as_of=D("2026-03-03")
+        ),
+    }
     result = schedule(site, D("2026-03-03"), p)
     frame, board = result.by_id["FRAME"], result.by_id["BOARD"]
     assert frame.early_finish == D("2026-03-06")
@@ -326,17 +363,23 @@ def test_out_of_sequence_retained_logic_or_progress_override(override):
 
 
 def test_out_of_sequence_kinds_for_each_link_type():
-    site = make_site([("A", 5), ("B", 5), ("C", 5), ("D", 5), ("E", 5)],
-                     [("A", "B", "SS"), ("A", "C", "FF"), ("A", "D", "SF"), ("A", "E")])
-    p = {"B": Progress(actual_start=MONDAY),
-         "C": Progress(actual_start=MONDAY, actual_finish=D("2026-03-04")),
-         "D": Progress(actual_start=MONDAY, actual_finish=D("2026-03-04")),
-         "E": Progress(actual_start=MONDAY)}
+    site = make_site(
+        [("A", 5), ("B", 5), ("C", 5), ("D", 5), ("E", 5)],
+        [("A", "B", "SS"), ("A", "C", "FF"), ("A", "D", "SF"), ("A", "E")],
+    )
+    p = {
+        "B": Progress(actual_start=MONDAY),
+        "C": Progress(actual_start=MONDAY, actual_finish=D("2026-03-04")),
+        "D": Progress(actual_start=MONDAY, actual_finish=D("2026-03-04")),
+        "E": Progress(actual_start=MONDAY),
+    }
     kinds = {o.link.succ: o.kind for o in schedule(site, D("2026-03-04"), p).out_of_sequence}
-    assert kinds == {"B": "started before predecessor started",
-                     "C": "finished before predecessor finished",
-                     "D": "finished before predecessor started",
-                     "E": "started before predecessor finished"}
+    assert kinds == {
+        "B": "started before predecessor started",
+        "C": "finished before predecessor finished",
+        "D": "finished before predecessor started",
+        "E": "started before predecessor finished",
+    }
 
 
 # --- readiness holds ---------------------------------------------------------------------------

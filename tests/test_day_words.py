@@ -19,12 +19,21 @@ MON = date(2026, 9, 28)
 FRI = date(2026, 9, 25)
 
 
-@pytest.mark.parametrize(("text", "day"), [
-    ("today", MON), ("TODAY ", MON), ("yesterday", MON - timedelta(days=1)),
-    ("-2", MON - timedelta(days=2)), ("-0", MON), ("fri", FRI), ("Friday", FRI),
-    ("mon", MON),                                  # today is Monday: "mon" is today
-    ("sun", date(2026, 9, 27)), ("2026-09-01", date(2026, 9, 1)),
-])
+@pytest.mark.parametrize(
+    ("text", "day"),
+    [
+        ("today", MON),
+        ("TODAY ", MON),
+        ("yesterday", MON - timedelta(days=1)),
+        ("-2", MON - timedelta(days=2)),
+        ("-0", MON),
+        ("fri", FRI),
+        ("Friday", FRI),
+        ("mon", MON),  # today is Monday: "mon" is today
+        ("sun", date(2026, 9, 27)),
+        ("2026-09-01", date(2026, 9, 1)),
+    ],
+)
 def test_words(text: str, day: date) -> None:
     assert parse_day(text, MON) == day
 
@@ -38,18 +47,26 @@ def test_every_weekday_name_for_four_years_of_todays() -> None:
     """Enumeration: the latest day up to today whose weekday name the calendar module gives."""
     for n in range(4 * 366):
         today = date(2025, 1, 1) + timedelta(days=n)
-        for k, abbr in enumerate(calendar.day_abbr):       # Mon..Sun, locale "C"
+        for k, abbr in enumerate(calendar.day_abbr):  # Mon..Sun, locale "C"
             day = parse_day(abbr, today)
             assert day.weekday() == k and 0 <= (today - day).days <= 6
             assert calendar.day_abbr[day.weekday()] == abbr
 
 
-@pytest.mark.parametrize(("text", "words"), [
-    ("", "no day given"), ("fr", "not a day"), ("someday", "not a day"),
-    ("2026-02-30", "not a day"), ("26-09-01", "not a day"), ("-99999999", "not a day"),
-    ("+1", "has not happened yet"), ("2026-09-29", r"after today \(Mon 28 Sep 2026\)"),
-    ("2024-01-01", "a year before the site start"),
-])
+@pytest.mark.parametrize(
+    ("text", "words"),
+    [
+        ("", "no day given"),
+        ("fr", "not a day"),
+        ("someday", "not a day"),
+        ("2026-02-30", "not a day"),
+        ("26-09-01", "not a day"),
+        ("-99999999", "not a day"),
+        ("+1", "has not happened yet"),
+        ("2026-09-29", r"after today \(Mon 28 Sep 2026\)"),
+        ("2024-01-01", "a year before the site start"),
+    ],
+)
 def test_refusals_are_one_line(text: str, words: str) -> None:
     with pytest.raises(DayProblem, match=words) as info:
         parse_day(text, MON, earliest=earliest_day(date(2026, 9, 7)), latest=MON)

@@ -30,8 +30,9 @@ from fieldlog.lookahead import build_lookahead
 from fieldlog.lookahead.fewest_problem import Problem, build_problem
 from fieldlog.model import Link
 
-pytestmark = pytest.mark.skipif(importlib.util.find_spec("scipy") is None,
-                                reason="scipy (test extra) is not installed")
+pytestmark = pytest.mark.skipif(
+    importlib.util.find_spec("scipy") is None, reason="scipy (test extra) is not installed"
+)
 REFERENCE = Path(__file__).with_name("milp_reference.py")
 SEEDS = (1, 3, 4)
 
@@ -48,18 +49,29 @@ def busy_site(seed: int, n: int = 24):
         if rng.random() < 0.3:
             crew["fixers"] = rng.randint(1, 4)
         acts.append(act(f"J{k:02d}", rng.randint(2, 5), crew=crew))
-    links = [Link(f"J{i:02d}", f"J{j:02d}") for j in range(n) for i in range(j)
-             if rng.random() < 0.04]
-    return make_site(acts, links, crews={"formers": 30, "fixers": 8}, start=START,
-                     finish_by=START + timedelta(days=rng.randint(12, 26)))
+    links = [
+        Link(f"J{i:02d}", f"J{j:02d}") for j in range(n) for i in range(j) if rng.random() < 0.04
+    ]
+    return make_site(
+        acts,
+        links,
+        crews={"formers": 30, "fixers": 8},
+        start=START,
+        finish_by=START + timedelta(days=rng.randint(12, 26)),
+    )
 
 
 def as_json(problem: Problem) -> dict:
-    return {"days": problem.days, "crews": list(problem.crews),
-            "fixed": {c: list(v) for c, v in problem.fixed_load.items()},
-            "movables": [{"crew": dict(m.crew), "starts": list(m.starts),
-                          "runs": [list(r) for r in m.runs]} for m in problem.movables],
-            "ties": [[t.pred, t.succ, list(t.floor)] for t in problem.ties]}
+    return {
+        "days": problem.days,
+        "crews": list(problem.crews),
+        "fixed": {c: list(v) for c, v in problem.fixed_load.items()},
+        "movables": [
+            {"crew": dict(m.crew), "starts": list(m.starts), "runs": [list(r) for r in m.runs]}
+            for m in problem.movables
+        ],
+        "ties": [[t.pred, t.succ, list(t.floor)] for t in problem.ties],
+    }
 
 
 def test_answers_against_the_milp_optimum() -> None:
@@ -76,8 +88,14 @@ def test_answers_against_the_milp_optimum() -> None:
             jobs.append({"problem": problem, "crew": answer.crew, "caps": dict(caps)})
             answers.append((seed, answer))
             caps[answer.crew] = answer.peak
-    done = subprocess.run([sys.executable, str(REFERENCE)], input=json.dumps(jobs),
-                          capture_output=True, text=True, timeout=120, check=True)
+    done = subprocess.run(
+        [sys.executable, str(REFERENCE)],
+        input=json.dumps(jobs),
+        capture_output=True,
+        text=True,
+        timeout=120,
+        check=True,
+    )
     for (seed, answer), best in zip(answers, json.loads(done.stdout), strict=True):
         assert answer.bound.people <= best <= answer.peak, (seed, answer.crew)
         if answer.optimal:

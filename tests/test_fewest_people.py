@@ -47,8 +47,10 @@ from fieldlog.model import CalendarSpec, Link, LinkType
 from fieldlog.progress import Status
 
 SUN = date(2026, 3, 1)
-CALS = (CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}), frozenset({date(2026, 3, 11)})),
-        CalendarSpec("sixday", frozenset({0, 1, 2, 3, 4, 5})))
+CALS = (
+    CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}), frozenset({date(2026, 3, 11)})),
+    CalendarSpec("sixday", frozenset({0, 1, 2, 3, 4, 5})),
+)
 MAX_COMBINATIONS = 1500
 
 
@@ -59,9 +61,16 @@ WORK_AND_MILESTONES = (0, 4)
 @st.composite
 def small_sites(draw, durations=WORK):
     """Levelling's random sites, smaller (enumeration stays quick), and a window length."""
-    site, progress = draw(crewed_networks(sizes=(2, 6), durations=durations, lags=(-1, 2),
-                                          link_odds=3, finish_days=(0, 12),
-                                          finish_from=date(2026, 3, 6)))
+    site, progress = draw(
+        crewed_networks(
+            sizes=(2, 6),
+            durations=durations,
+            lags=(-1, 2),
+            link_odds=3,
+            finish_days=(0, 12),
+            finish_from=date(2026, 3, 6),
+        )
+    )
     return site, progress, draw(st.integers(4, 10))
 
 
@@ -88,8 +97,12 @@ def _choices(result, la, cals) -> dict[str, list[Placement]]:
         if r.status is Status.FINISHED:
             continue
         here = _early_placement(r)
-        if (r.status is Status.NOT_STARTED and r.total_float > 0 and r.remaining > 0
-                and r.early_start.toordinal() <= window_end):
+        if (
+            r.status is Status.NOT_STARTED
+            and r.total_float > 0
+            and r.remaining > 0
+            and r.early_start.toordinal() <= window_end
+        ):
             c = cals[r.calendar]
             top = min(r.late_finish, result.finish).toordinal()
             options = []
@@ -150,8 +163,12 @@ def _enumerate(site, result, la, cals):
     return peaks
 
 
-@settings(max_examples=120, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
+@settings(
+    max_examples=120,
+    deadline=None,
+    derandomize=True,
+    suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much],
+)
 @given(small_sites())
 def test_reported_minimum_is_the_enumerated_minimum(case) -> None:
     """Brute force (every start combination): the answer is the true lexicographic minimum,
@@ -172,8 +189,9 @@ def test_reported_minimum_is_the_enumerated_minimum(case) -> None:
     fewest = la.fewest
     if fewest is None:
         return
-    allowed = [p for p in peaks
-               if all(p[c] <= max(site.crews[c].available, early[c]) for c in site.crews)]
+    allowed = [
+        p for p in peaks if all(p[c] <= max(site.crews[c].available, early[c]) for c in site.crews)
+    ]
     for answer in fewest.crews:
         best = min(p[answer.crew] for p in allowed)
         assert answer.optimal
@@ -209,8 +227,9 @@ def _check_plan(site, result, la, cals) -> None:
         assert answer.peak <= answer.early_peak
 
 
-@settings(max_examples=80, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.too_slow])
+@settings(
+    max_examples=80, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow]
+)
 @given(small_sites(durations=WORK_AND_MILESTONES))
 def test_plan_with_milestones_keeps_every_link(case) -> None:
     """Property, milestones included: the plan never breaks a link (the oracle's rule), never
@@ -229,10 +248,12 @@ def test_small_window_is_counted_by_hand() -> None:
     that starts with the first (SS) and must not finish before the second (FF). Early, both
     run Mon-Wed (8 people); the second can slide to Thu-Mon, finishing with the 6-day job, so
     the window Mon-Fri needs 4, and the first job's must work (4 a day) proves it."""
-    site = make_site([act("A1", 3, crew={"carpenters": 4}),
-                      act("A2", 3, crew={"carpenters": 4}), act("A3", 6)],
-                     [Link("A1", "A3", LinkType.SS), Link("A2", "A3", LinkType.FF)],
-                     crews={"carpenters": 6}, start=date(2026, 3, 2))
+    site = make_site(
+        [act("A1", 3, crew={"carpenters": 4}), act("A2", 3, crew={"carpenters": 4}), act("A3", 6)],
+        [Link("A1", "A3", LinkType.SS), Link("A2", "A3", LinkType.FF)],
+        crews={"carpenters": 6},
+        start=date(2026, 3, 2),
+    )
     result = compute_schedule(site, SUN)
     la = build_lookahead(result, days=5, suggest_levelling=False)
     assert la.fewest is not None
@@ -243,10 +264,16 @@ def test_small_window_is_counted_by_hand() -> None:
 
 
 def _hand_example():
-    site = make_site([act("A1", 3, crew={"carpenters": 4}),
-                      act("A2", 3, "Frame walls", crew={"carpenters": 4}), act("A3", 6)],
-                     [Link("A1", "A3", LinkType.SS), Link("A2", "A3", LinkType.FF)],
-                     crews={"carpenters": 6}, start=date(2026, 3, 2))
+    site = make_site(
+        [
+            act("A1", 3, crew={"carpenters": 4}),
+            act("A2", 3, "Frame walls", crew={"carpenters": 4}),
+            act("A3", 6),
+        ],
+        [Link("A1", "A3", LinkType.SS), Link("A2", "A3", LinkType.FF)],
+        crews={"carpenters": 6},
+        start=date(2026, 3, 2),
+    )
     result = compute_schedule(site, SUN)
     return result, build_lookahead(result, days=5, suggest_levelling=False)
 
@@ -274,22 +301,33 @@ def test_an_answer_cut_short_prints_its_bound_beside_it() -> None:
     assert f is not None
     (answer,) = f.crews
     assert (answer.peak, answer.optimal) == (8, False)
-    assert crew_line(answer) == ("carpenters: 8 people; no plan needs fewer than 4 (has 6; "
-                                 "8 if all work starts early)")
+    assert crew_line(answer) == (
+        "carpenters: 8 people; no plan needs fewer than 4 (has 6; 8 if all work starts early)"
+    )
     with pytest.raises(ValueError, match="cannot be negative"):
         fewest_people(result, la.days, {"carpenters": 8}, la.rows, budget=-1)
 
 
-@pytest.mark.parametrize(("available", "peak", "asked"), [
-    (10, 12, True), (10, 10, True), (10, 9, True), (10, 8, False), (3, 2, True),
-    (3, 1, False), (5, 0, False)])
+@pytest.mark.parametrize(
+    ("available", "peak", "asked"),
+    [
+        (10, 12, True),
+        (10, 10, True),
+        (10, 9, True),
+        (10, 8, False),
+        (3, 2, True),
+        (3, 1, False),
+        (5, 0, False),
+    ],
+)
 def test_crews_over_or_near_their_headcount_are_asked_about(available, peak, asked) -> None:
     """Near means within a tenth of the headcount, at least one person (our own rule)."""
     assert near_headcount(available, peak) is asked
 
 
-@settings(max_examples=60, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.too_slow])
+@settings(
+    max_examples=60, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow]
+)
 @given(small_sites(durations=WORK_AND_MILESTONES))
 def test_repair_search_plans_keep_every_link(case) -> None:
     """With the first round's branch and bound cut to one start, every try goes through the
@@ -306,9 +344,11 @@ def test_repair_search_plans_keep_every_link(case) -> None:
 
 def test_the_budget_is_never_overspent() -> None:
     """However small the budget, the searches stop on it (a busy invented yard, 20 jobs)."""
-    site = make_site([act(f"J{k:02d}", 2 + k % 4, crew={"formers": 1 + k % 5})
-                      for k in range(20)], crews={"formers": 8},
-                     finish_by=date(2026, 3, 20))
+    site = make_site(
+        [act(f"J{k:02d}", 2 + k % 4, crew={"formers": 1 + k % 5}) for k in range(20)],
+        crews={"formers": 8},
+        finish_by=date(2026, 3, 20),
+    )
     result = compute_schedule(site, SUN)
     la = build_lookahead(result, suggest_levelling=False, suggest_fewest=False)
     early = {load.crew: max(load.early) for load in la.crews}

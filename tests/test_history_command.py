@@ -24,14 +24,18 @@ def run(capsys: pytest.CaptureFixture[str], *args: str) -> tuple[int, str, str]:
     return code, out, err
 
 
-@pytest.mark.parametrize("args, name", [
-    (("--by", "day"), "history_day_80.txt"),
-    (("--by", "week", "--width", "132"), "history_week_132.txt"),
-    (("--by", "week", "--format", "json"), "history_week.json"),
-    (("--by", "day", "--format", "csv"), "history_day.csv"),
-])
-def test_golden_output(capsys: pytest.CaptureFixture[str], args: tuple[str, ...],
-                       name: str) -> None:
+@pytest.mark.parametrize(
+    "args, name",
+    [
+        (("--by", "day"), "history_day_80.txt"),
+        (("--by", "week", "--width", "132"), "history_week_132.txt"),
+        (("--by", "week", "--format", "json"), "history_week.json"),
+        (("--by", "day", "--format", "csv"), "history_day.csv"),
+    ],
+)
+def test_golden_output(
+    capsys: pytest.CaptureFixture[str], args: tuple[str, ...], name: str
+) -> None:
     code, out, err = run(capsys, "history", str(SAMPLE_SITE), *args)
     assert code == 0 and err == ""
     assert_golden(name, out)
@@ -60,24 +64,42 @@ def test_json_and_csv_add_up(capsys: pytest.CaptureFixture[str]) -> None:
 
 
 def test_from_to_cut_the_range(capsys: pytest.CaptureFixture[str]) -> None:
-    code, out, _ = run(capsys, "history", str(SAMPLE_SITE), "--from", "2026-09-14",
-                       "--to", "2026-09-18", "--format", "json")
+    code, out, _ = run(
+        capsys,
+        "history",
+        str(SAMPLE_SITE),
+        "--from",
+        "2026-09-14",
+        "--to",
+        "2026-09-18",
+        "--format",
+        "json",
+    )
     doc = json.loads(out)
     assert code == 0
     assert [w["status"] for w in doc["windows"]] == [
-        "2026-09-14", "2026-09-15", "2026-09-16", "2026-09-17", "2026-09-18"]
+        "2026-09-14",
+        "2026-09-15",
+        "2026-09-16",
+        "2026-09-17",
+        "2026-09-18",
+    ]
     assert doc["baseline"]["status"] == "2026-09-11"
 
 
-@pytest.mark.parametrize("args, words", [
-    (("--from", "2026-09-20", "--to", "2026-09-10"), "is after --to"),
-    (("--width", "20"), "outside 60-400"),
-    (("--width", "wide"), "not a whole number"),
-    (("--by", "year"), "invalid choice"),
-    (("--from", "2026-13-01"), "not a date"),
-])
-def test_bad_input_is_one_line_and_exit_2(capsys: pytest.CaptureFixture[str],
-                                          args: tuple[str, ...], words: str) -> None:
+@pytest.mark.parametrize(
+    "args, words",
+    [
+        (("--from", "2026-09-20", "--to", "2026-09-10"), "is after --to"),
+        (("--width", "20"), "outside 60-400"),
+        (("--width", "wide"), "not a whole number"),
+        (("--by", "year"), "invalid choice"),
+        (("--from", "2026-13-01"), "not a date"),
+    ],
+)
+def test_bad_input_is_one_line_and_exit_2(
+    capsys: pytest.CaptureFixture[str], args: tuple[str, ...], words: str
+) -> None:
     with pytest.raises(SystemExit) as raised:
         code = main(["history", str(SAMPLE_SITE), *args])
         raise SystemExit(code)

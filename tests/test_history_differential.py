@@ -28,8 +28,16 @@ def test_every_logged_day_matches_schedule_as_of(capsys: pytest.CaptureFixture[s
     assert [r.record.day for r in runs] == list(logged_days(journal.entries))
     assert len(runs) == 15
     for run in runs:
-        code = main(["schedule", str(SAMPLE_SITE), "--as-of", run.record.day.isoformat(),
-                     "--format", "json"])
+        code = main(
+            [
+                "schedule",
+                str(SAMPLE_SITE),
+                "--as-of",
+                run.record.day.isoformat(),
+                "--format",
+                "json",
+            ]
+        )
         out, _ = capsys.readouterr()
         assert code == 0
         assert render_schedule(run.result, "json") == out, run.record.day
@@ -43,12 +51,29 @@ def test_incremental_replay_matches_full_replay_with_corrections() -> None:
     a = log.add("started", d, activity="A")
     log.add("remaining", d + timedelta(days=1), activity="A", days=5)
     lost = log.add("lost-time", d + timedelta(days=2), cause="weather", whole_day=True)
-    log.add("need", d + timedelta(days=2), activity="B", what="rebar", category="material",
-            expected=d + timedelta(days=9))
-    log.add("correction", d + timedelta(days=3), supersedes=a.id, reason="started a day late",
-            corrects="started")
-    log.add("correction", d + timedelta(days=4), supersedes=lost.id, reason="not lost",
-            corrects="lost-time", withdraw=True)
+    log.add(
+        "need",
+        d + timedelta(days=2),
+        activity="B",
+        what="rebar",
+        category="material",
+        expected=d + timedelta(days=9),
+    )
+    log.add(
+        "correction",
+        d + timedelta(days=3),
+        supersedes=a.id,
+        reason="started a day late",
+        corrects="started",
+    )
+    log.add(
+        "correction",
+        d + timedelta(days=4),
+        supersedes=lost.id,
+        reason="not lost",
+        corrects="lost-time",
+        withdraw=True,
+    )
     log.add("finished", d + timedelta(days=6), activity="A")
     entries = log.sorted()
     days = logged_days(entries)

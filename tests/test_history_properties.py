@@ -34,8 +34,17 @@ from fieldlog.readiness import holds
 from tests.engine_helpers import make_site
 from tests.history_helpers import Log
 
-QUIET = {"weather", "crew", "note", "visitor", "delivery", "instruction", "safety",
-         "inspection", "incident"}
+QUIET = {
+    "weather",
+    "crew",
+    "note",
+    "visitor",
+    "delivery",
+    "instruction",
+    "safety",
+    "inspection",
+    "incident",
+}
 """Kinds that change neither progress, calendars nor readiness."""
 
 _DAY = timedelta(days=1)
@@ -44,13 +53,18 @@ _DAY = timedelta(days=1)
 @st.composite
 def site_and_log(draw: st.DrawFn) -> tuple[Site, list[Entry]]:
     n = draw(st.integers(2, 5))
-    acts = [(f"A{k}", draw(st.integers(1, 4)), draw(st.sampled_from(["allweek", "weekdays"])))
-            for k in range(n)]
-    links = [(f"A{p}", f"A{s}") for s in range(1, n) for p in range(s)
-             if draw(st.booleans())]
+    acts = [
+        (f"A{k}", draw(st.integers(1, 4)), draw(st.sampled_from(["allweek", "weekdays"])))
+        for k in range(n)
+    ]
+    links = [(f"A{p}", f"A{s}") for s in range(1, n) for p in range(s) if draw(st.booleans())]
     finish_by = draw(st.none() | st.integers(5, 25))
-    site = make_site(acts, links, start=date(2026, 3, 2),
-                     finish_by=None if finish_by is None else date(2026, 3, 2) + finish_by * _DAY)
+    site = make_site(
+        acts,
+        links,
+        start=date(2026, 3, 2),
+        finish_by=None if finish_by is None else date(2026, 3, 2) + finish_by * _DAY,
+    )
     log = Log()
     started: set[str] = set()
     finished: set[str] = set()
@@ -61,8 +75,21 @@ def site_and_log(draw: st.DrawFn) -> tuple[Site, list[Entry]]:
             continue
         for _ in range(draw(st.integers(1, 3))):
             aid = draw(st.sampled_from([a for a, _, _ in acts]))
-            what = draw(st.sampled_from(["start", "finish", "remaining", "lost", "hours",
-                                         "need", "clear", "note", "instruction"]))
+            what = draw(
+                st.sampled_from(
+                    [
+                        "start",
+                        "finish",
+                        "remaining",
+                        "lost",
+                        "hours",
+                        "need",
+                        "clear",
+                        "note",
+                        "instruction",
+                    ]
+                )
+            )
             if what == "start" and aid not in started:
                 log.add("started", day, activity=aid)
                 started.add(aid)
@@ -72,34 +99,60 @@ def site_and_log(draw: st.DrawFn) -> tuple[Site, list[Entry]]:
             elif what == "remaining" and aid in started and aid not in finished:
                 log.add("remaining", day, activity=aid, days=draw(st.integers(1, 5)))
             elif what == "lost":
-                log.add("lost-time", day, whole_day=True,
-                        cause=draw(st.sampled_from(["weather", "access", "client", "other"])))
+                log.add(
+                    "lost-time",
+                    day,
+                    whole_day=True,
+                    cause=draw(st.sampled_from(["weather", "access", "client", "other"])),
+                )
             elif what == "hours":
-                log.add("lost-time", day, hours=2.0, activities=[aid],
-                        cause=draw(st.sampled_from(["weather", "materials", "design"])))
+                log.add(
+                    "lost-time",
+                    day,
+                    hours=2.0,
+                    activities=[aid],
+                    cause=draw(st.sampled_from(["weather", "materials", "design"])),
+                )
             elif what == "need" and aid not in started:
-                needs.append(log.add("need", day, activity=aid, what="drawings rev B",
-                                     category=draw(st.sampled_from(["drawings", "material"])),
-                                     expected=day + draw(st.integers(1, 6)) * _DAY))
+                needs.append(
+                    log.add(
+                        "need",
+                        day,
+                        activity=aid,
+                        what="drawings rev B",
+                        category=draw(st.sampled_from(["drawings", "material"])),
+                        expected=day + draw(st.integers(1, 6)) * _DAY,
+                    )
+                )
             elif what == "clear" and needs:
                 log.add("cleared", day, item=needs.pop(0).id)
             elif what == "instruction":
-                log.add("instruction", day, text="move the stockpile", given_by="client (inv.)",
-                        form="verbal", activities=[aid])
+                log.add(
+                    "instruction",
+                    day,
+                    text="move the stockpile",
+                    given_by="client (inv.)",
+                    form="verbal",
+                    activities=[aid],
+                )
             else:
                 log.add("note", day, text="all quiet", activity=aid)
     return site, log.sorted()
 
 
-FAST = settings(max_examples=int(os.environ.get("FIELDLOG_HISTORY_EXAMPLES", "30")),
-                deadline=None, suppress_health_check=[HealthCheck.too_slow])
+FAST = settings(
+    max_examples=int(os.environ.get("FIELDLOG_HISTORY_EXAMPLES", "30")),
+    deadline=None,
+    suppress_health_check=[HealthCheck.too_slow],
+)
 """30 examples in the normal run (about 2 s); set FIELDLOG_HISTORY_EXAMPLES=400 for a longer
 search (last run: 400 each, all passed)."""
 
 
 def working_days_between(site: Site, a: date, b: date) -> int:
-    cal = build_calendar(site.calendars[site.calendar], site.start - 400 * _DAY,
-                         site.start + 4000 * _DAY)
+    cal = build_calendar(
+        site.calendars[site.calendar], site.start - 400 * _DAY, site.start + 4000 * _DAY
+    )
     return cal.count(a + _DAY, b + _DAY)
 
 
@@ -125,8 +178,11 @@ def test_a_quiet_day_moves_nothing(case: tuple) -> None:
         assert isinstance(run, DayRun)
         quiet = all(e.kind in QUIET for e in run.state.entries)
         d = run.record.day
-        due = any(r.is_open and (r.early_start <= d if r.status is Status.NOT_STARTED
-                                 else r.early_finish <= d) for r in prev.activities)
+        due = any(
+            r.is_open
+            and (r.early_start <= d if r.status is Status.NOT_STARTED else r.early_finish <= d)
+            for r in prev.activities
+        )
         # Work started out of sequence counts its remaining days down while it waits for its
         # predecessor (the engine's rule), so a quiet day can then gain time: left out here.
         if quiet and not prev.out_of_sequence:
@@ -145,10 +201,10 @@ def test_ppc_is_done_over_planned_counted_from_the_entries(case: tuple) -> None:
         monday, sunday = wk.first, wk.last
         status = monday - _DAY
         rp = replay(site, entries, status)
-        plan = compute_schedule(site, status, rp.progress, lost_days=rp.lost_days,
-                                holds=holds(rp.readiness, status))
-        look = build_lookahead(plan, rp.readiness, start=monday, days=7,
-                               suggest_levelling=False)
+        plan = compute_schedule(
+            site, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
+        )
+        look = build_lookahead(plan, rp.readiness, start=monday, days=7, suggest_levelling=False)
         planned = done = 0
         week = [e for e in entries if monday <= e.day <= sunday]
         for row in look.rows:

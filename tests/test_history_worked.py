@@ -64,14 +64,23 @@ def day(n: int) -> date:
 
 
 def worked_example() -> tuple:
-    site = make_site([("A", 2), ("B", 3), ("C", 2), ("FIN", 0)],
-                     [("A", "B"), ("B", "FIN"), ("C", "FIN")], finish_by=day(8))
+    site = make_site(
+        [("A", 2), ("B", 3), ("C", 2), ("FIN", 0)],
+        [("A", "B"), ("B", "FIN"), ("C", "FIN")],
+        finish_by=day(8),
+    )
     log = Log()
     log.add("started", day(2), activity="A")
     log.add("lost-time", day(3), cause="weather", whole_day=True, note="heavy rain")
     log.add("finished", day(4), activity="A")
-    log.add("instruction", day(4), text="hold B for the revised pour sequence",
-            given_by="client's engineer (invented)", form="written", activities=["B"])
+    log.add(
+        "instruction",
+        day(4),
+        text="hold B for the revised pour sequence",
+        given_by="client's engineer (invented)",
+        form="written",
+        activities=["B"],
+    )
     log.add("started", day(5), activity="C")
     log.add("note", day(5), text="B crew sent to another job", activity="B")
     log.add("lost-time", day(6), cause="access", whole_day=True, note="gate blocked")
@@ -88,8 +97,12 @@ def test_daily_windows_finish_float_and_movement() -> None:
     assert (h.baseline_finish, h.baseline_float) == (day(6), 2)
     got = [(w.status, w.finish, w.finish_float, w.movement) for w in h.windows]
     assert got == [
-        (day(2), day(6), 2, 0), (day(3), day(7), 1, 1), (day(4), day(7), 1, 0),
-        (day(5), day(8), 0, 1), (day(6), day(9), -1, 1), (day(7), day(9), -1, 0),
+        (day(2), day(6), 2, 0),
+        (day(3), day(7), 1, 1),
+        (day(4), day(7), 1, 0),
+        (day(5), day(8), 0, 1),
+        (day(6), day(9), -1, 1),
+        (day(7), day(9), -1, 0),
         (day(9), day(9), -1, 0),
     ]
 
@@ -101,8 +114,7 @@ def test_split_by_cause() -> None:
     assert split[day(3)] == {"weather": 1}
     assert split[day(5)] == {NOT_EXPLAINED: 1}
     assert split[day(6)] == {"access": 1}
-    assert {b: d for b, d in h.split.items() if d} == {"weather": 1, "access": 1,
-                                                        NOT_EXPLAINED: 1}
+    assert {b: d for b, d in h.split.items() if d} == {"weather": 1, "access": 1, NOT_EXPLAINED: 1}
     assert h.total_movement == 3
     assert "B did not start (planned to start 2026-03-05)" in h.windows[3].steps[0].what
 
@@ -117,10 +129,13 @@ def test_evidence_of_must_work() -> None:
     assert by_day[day(3)][0] == ("lost day", "weather: whole day lost - heavy rain")
 
 
-@pytest.mark.parametrize("by, expected", [
-    ("week", [(day(2), 3), (day(9), 0)]),
-    ("month", [(day(1), 3)]),
-])
+@pytest.mark.parametrize(
+    "by, expected",
+    [
+        ("week", [(day(2), 3), (day(9), 0)]),
+        ("month", [(day(1), 3)]),
+    ],
+)
 def test_weeks_and_months_add_up(by: str, expected: list) -> None:
     site, entries = worked_example()
     h = build_history(site, entries, by=by)
@@ -133,16 +148,22 @@ def test_ppc_by_week() -> None:
     h = build_history(site, entries)
     first, second = h.weeks
     assert [(a.activity, a.must, a.required, a.done) for a in first.assignments] == [
-        ("A", False, "finish", True), ("B", True, "finish", False),
-        ("C", False, "finish", True)]
+        ("A", False, "finish", True),
+        ("B", True, "finish", False),
+        ("C", False, "finish", True),
+    ]
     assert round(first.ppc or 0, 1) == 66.7 and (first.must_done, first.must_planned) == (0, 1)
     miss = first.assignments[1].reasons
-    assert miss == ("2026-03-04: instruction from client's engineer (invented): hold B for "
-                    "the revised pour sequence", "2026-03-05: note: B crew sent to another job",
-                    "2026-03-03: day lost on site (weather)",
-                    "2026-03-06: day lost on site (access)")
+    assert miss == (
+        "2026-03-04: instruction from client's engineer (invented): hold B for "
+        "the revised pour sequence",
+        "2026-03-05: note: B crew sent to another job",
+        "2026-03-03: day lost on site (weather)",
+        "2026-03-06: day lost on site (access)",
+    )
     assert [(a.activity, a.must, a.required, a.done) for a in second.assignments] == [
-        ("B", True, "finish", True)]
+        ("B", True, "finish", True)
+    ]
     assert second.ppc == 100.0
 
 

@@ -48,19 +48,25 @@ sys.exit(code)
 """
 
 
-def run_hostile(tmp_path: Path, *args: str,
-                home: Path | None = None) -> subprocess.CompletedProcess:
+def run_hostile(
+    tmp_path: Path, *args: str, home: Path | None = None
+) -> subprocess.CompletedProcess:
     """Run ``fieldlog ARGS`` in a child; assert time, memory and clean one-line output.
 
     Bad input (exit 2) is exactly one line on stderr; a problem found in the log (exit 1) is
     reported on stdout, one line per finding, with nothing or one line on stderr.
     """
     rss = tmp_path / "rss.txt"
-    env = {**os.environ, "RSS_OUT": str(rss),
-           "FIELDLOG_HOME": str(home or tmp_path / "home")}
+    env = {**os.environ, "RSS_OUT": str(rss), "FIELDLOG_HOME": str(home or tmp_path / "home")}
     t0 = time.perf_counter()
-    done = subprocess.run([sys.executable, "-c", _WRAPPER, *args], cwd=ROOT, env=env,
-                          capture_output=True, text=True, timeout=60)
+    done = subprocess.run(
+        [sys.executable, "-c", _WRAPPER, *args],
+        cwd=ROOT,
+        env=env,
+        capture_output=True,
+        text=True,
+        timeout=60,
+    )
     seconds = time.perf_counter() - t0
     assert seconds < MAX_SECONDS, f"took {seconds:.1f} s"
     peak_mb = int(rss.read_text()) / 1024
@@ -90,8 +96,10 @@ def _outside(tmp_path: Path) -> Path:
 
 
 def _snapshot(folder: Path) -> dict[str, bytes]:
-    return {str(p.relative_to(folder)): (p.read_bytes() if p.is_file() else b"")
-            for p in sorted(folder.rglob("*"))}
+    return {
+        str(p.relative_to(folder)): (p.read_bytes() if p.is_file() else b"")
+        for p in sorted(folder.rglob("*"))
+    }
 
 
 def _entry_file(site: Path, **changes) -> tuple[Path, bytes]:
@@ -112,7 +120,7 @@ def _entry_file(site: Path, **changes) -> tuple[Path, bytes]:
 def test_entry_numbered_a_billion_is_one_finding_not_a_billion_turns(tmp_path):
     site = make_site(tmp_path / "site")
     rec(site, "note", date(2026, 9, 8), text="first")  # seq 1, a file of its own
-    path, far = _entry_file(site, seq=10**9)            # seq 2 renumbered 1,000,000,000
+    path, far = _entry_file(site, seq=10**9)  # seq 2 renumbered 1,000,000,000
     path.write_bytes(far)
     done = run_hostile(tmp_path, "verify", str(site))
     assert done.returncode == 1
@@ -155,14 +163,18 @@ def test_day_9999_12_31_in_a_journal_file(tmp_path):
     one_line_with(done.stdout, "9999-12-31", "bad")
 
 
-@pytest.mark.parametrize("body", [
-    b"x = " + b"[" * 100_000 + b"]" * 100_000,   # 100,000 nested brackets
-    b"x = " + b"{ a = " * 100_000,               # 100,000 nested inline tables
-    b"a" + b".a" * 100_000 + b" = 1",            # a key of 100,001 dotted parts
-    b"[[entry]]\nseq = " + b"9" * 5000,          # a number too long to convert
-    b"[[entry]]\ntext = \"\x00\"",               # a NUL byte
-    b"[[entry]]\ntext = \"\xff\xfe\"",           # not UTF-8
-], ids=["brackets", "inline-tables", "dotted-key", "long-number", "nul", "not-utf8"])
+@pytest.mark.parametrize(
+    "body",
+    [
+        b"x = " + b"[" * 100_000 + b"]" * 100_000,  # 100,000 nested brackets
+        b"x = " + b"{ a = " * 100_000,  # 100,000 nested inline tables
+        b"a" + b".a" * 100_000 + b" = 1",  # a key of 100,001 dotted parts
+        b"[[entry]]\nseq = " + b"9" * 5000,  # a number too long to convert
+        b'[[entry]]\ntext = "\x00"',  # a NUL byte
+        b'[[entry]]\ntext = "\xff\xfe"',  # not UTF-8
+    ],
+    ids=["brackets", "inline-tables", "dotted-key", "long-number", "nul", "not-utf8"],
+)
 def test_unparseable_journal_file_is_a_finding(tmp_path, body):
     site = make_site(tmp_path / "site")
     (site / "log").mkdir()
@@ -185,13 +197,17 @@ def test_a_100_mb_journal_file_is_refused_unread(tmp_path):
 # --- site files ----------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize("name, body, words", [
-    ("schedule.toml", b"revision = 1\nx = " + b"[" * 100_000, "nested more than 32"),
-    ("schedule.toml", b"revision = " + b"7" * 5000, "cannot be read"),
-    ("schedule.toml", b"revision = 1\n\x00", "TOML syntax error"),
-    ("site.toml", b"\xc3\x28", "not UTF-8"),
-    ("schedule.toml", None, "100.0 MB"),
-], ids=["brackets", "long-number", "nul", "not-utf8", "100-MB"])
+@pytest.mark.parametrize(
+    "name, body, words",
+    [
+        ("schedule.toml", b"revision = 1\nx = " + b"[" * 100_000, "nested more than 32"),
+        ("schedule.toml", b"revision = " + b"7" * 5000, "cannot be read"),
+        ("schedule.toml", b"revision = 1\n\x00", "TOML syntax error"),
+        ("site.toml", b"\xc3\x28", "not UTF-8"),
+        ("schedule.toml", None, "100.0 MB"),
+    ],
+    ids=["brackets", "long-number", "nul", "not-utf8", "100-MB"],
+)
 def test_hostile_site_files(tmp_path, name, body, words):
     site = make_site(tmp_path / "site")
     if body is None:
@@ -241,8 +257,17 @@ def test_log_folder_linked_outside_is_never_written(tmp_path):
     outside = _outside(tmp_path)
     (site / "log").symlink_to(outside, target_is_directory=True)
     before = _snapshot(outside)
-    done = run_hostile(tmp_path, "record", str(site), "note", "hello", "--today", "2026-09-25",
-                       "--author", "P. Tester")
+    done = run_hostile(
+        tmp_path,
+        "record",
+        str(site),
+        "note",
+        "hello",
+        "--today",
+        "2026-09-25",
+        "--author",
+        "P. Tester",
+    )
     assert done.returncode == 2
     assert "link" in done.stderr
     assert _snapshot(outside) == before
@@ -264,8 +289,18 @@ def test_day_file_linked_to_a_system_file(tmp_path):
     home = tmp_path / "home"
     home.mkdir(exist_ok=True)
     (home / "device.toml").write_text(f'device = "{DEVICE}"\n')
-    done = run_hostile(tmp_path, "record", str(site), "note", "hello", "--today", "2026-09-25",
-                       "--author", "P. Tester", home=home)
+    done = run_hostile(
+        tmp_path,
+        "record",
+        str(site),
+        "note",
+        "hello",
+        "--today",
+        "2026-09-25",
+        "--author",
+        "P. Tester",
+        home=home,
+    )
     assert done.returncode == 2
     assert "link" in done.stderr
     assert _snapshot(outside) == before
@@ -276,8 +311,18 @@ def test_read_only_home_is_one_line(tmp_path):
     if not Path("/sys").is_dir() or os.access("/sys", os.W_OK) and _can_create(home):
         pytest.skip("no read-only folder to point FIELDLOG_HOME at")
     site = make_site(tmp_path / "site")
-    done = run_hostile(tmp_path, "record", str(site), "note", "hello", "--today", "2026-09-25",
-                       "--author", "P. Tester", home=home)
+    done = run_hostile(
+        tmp_path,
+        "record",
+        str(site),
+        "note",
+        "hello",
+        "--today",
+        "2026-09-25",
+        "--author",
+        "P. Tester",
+        home=home,
+    )
     assert done.returncode == 2
     assert "FIELDLOG_HOME" in done.stderr
 
@@ -298,10 +343,19 @@ def test_damaged_day_file_with_a_5000_digit_number_does_not_break_recording(tmp_
     home.mkdir()
     (home / "device.toml").write_text(f'device = "{DEVICE}"\n')
     (site / "log").mkdir()
-    (site / "log" / f"2026-09-08_{DEVICE}.toml").write_text("[[entry]]\nseq = " + "9" * 5000
-                                                           + "\n")
-    done = run_hostile(tmp_path, "record", str(site), "note", "hello", "--today", "2026-09-25",
-                       "--author", "P. Tester", home=home)
+    (site / "log" / f"2026-09-08_{DEVICE}.toml").write_text("[[entry]]\nseq = " + "9" * 5000 + "\n")
+    done = run_hostile(
+        tmp_path,
+        "record",
+        str(site),
+        "note",
+        "hello",
+        "--today",
+        "2026-09-25",
+        "--author",
+        "P. Tester",
+        home=home,
+    )
     assert done.returncode == 2
     assert "used every entry number" in done.stderr
 
@@ -320,5 +374,6 @@ def test_office_export_of_a_hostile_site_does_not_hang(tmp_path, hostile):
             f.truncate(100 * 1024 * 1024)
     done = run_hostile(tmp_path, "export", str(jobs), "--sqlite", str(tmp_path / "office.db"))
     assert done.returncode == 1
-    one_line_with(done.stdout, "schedule.toml", "not a plain file" if hostile == "fifo"
-                  else "100.0 MB")
+    one_line_with(
+        done.stdout, "schedule.toml", "not a plain file" if hostile == "fifo" else "100.0 MB"
+    )

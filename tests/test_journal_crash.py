@@ -26,8 +26,9 @@ from test_journal_helpers import AUTHOR, DEVICE, ROOT, FixedClock, make_site
 from fieldlog.journal import read_journal, record_entry, verify
 from fieldlog.site_files import load_site
 
-pytestmark = pytest.mark.skipif(not hasattr(signal, "SIGKILL") or not hasattr(os, "fork"),
-                                reason="needs POSIX signals and fork")
+pytestmark = pytest.mark.skipif(
+    not hasattr(signal, "SIGKILL") or not hasattr(os, "fork"), reason="needs POSIX signals and fork"
+)
 
 
 def _temps(folder) -> list[str]:
@@ -58,9 +59,26 @@ def test_sigkill_the_record_command_at_random_moments(tmp_path):
     def start(i: int) -> subprocess.Popen:
         day = f"2026-09-{8 + i % 3:02d}"
         return subprocess.Popen(
-            [sys.executable, "-m", "fieldlog", "record", str(folder), "note", f"n{i}",
-             "--on", day, "--today", "2026-09-25", "--author", AUTHOR],
-            cwd=ROOT, env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+            [
+                sys.executable,
+                "-m",
+                "fieldlog",
+                "record",
+                str(folder),
+                "note",
+                f"n{i}",
+                "--on",
+                day,
+                "--today",
+                "2026-09-25",
+                "--author",
+                AUTHOR,
+            ],
+            cwd=ROOT,
+            env=env,
+            stdout=subprocess.PIPE,
+            stderr=subprocess.PIPE,
+        )
 
     t0 = time.perf_counter()
     first = start(0)
@@ -77,8 +95,10 @@ def test_sigkill_the_record_command_at_random_moments(tmp_path):
             landed.add(f"n{i}")
         mid_write += bool(_temps(folder))
         _check(folder, landed, attempted)
-    print(f"\ncommand loop: 5 kills, {len(landed) - 1} finished first, "
-          f"{mid_write} struck mid-write; one run takes {full * 1000:.0f} ms")
+    print(
+        f"\ncommand loop: 5 kills, {len(landed) - 1} finished first, "
+        f"{mid_write} struck mid-write; one run takes {full * 1000:.0f} ms"
+    )
 
 
 def _writer(folder, out_fd: int, start_at: int) -> None:  # pragma: no cover - child process
@@ -86,8 +106,17 @@ def _writer(folder, out_fd: int, start_at: int) -> None:  # pragma: no cover - c
     clock = FixedClock()
     i = start_at
     while True:
-        record_entry(folder, site, "note", date(2026, 9, 8 + i % 3), {"text": f"f{i}"},
-                     today=date(2026, 9, 25), author=AUTHOR, device=DEVICE, clock=clock)
+        record_entry(
+            folder,
+            site,
+            "note",
+            date(2026, 9, 8 + i % 3),
+            {"text": f"f{i}"},
+            today=date(2026, 9, 25),
+            author=AUTHOR,
+            device=DEVICE,
+            clock=clock,
+        )
         os.write(out_fd, f"f{i}\n".encode())
         i += 1
 
@@ -97,8 +126,17 @@ def test_sigkill_a_fast_writer_many_times(tmp_path):
     rnd = random.Random(7)
     # The first entry makes the device's key and registers it; the kills then strike the
     # entry writes themselves, as on a device in use.
-    record_entry(folder, load_site(folder), "note", date(2026, 9, 8), {"text": "f0"},
-                 today=date(2026, 9, 25), author=AUTHOR, device=DEVICE, clock=FixedClock())
+    record_entry(
+        folder,
+        load_site(folder),
+        "note",
+        date(2026, 9, 8),
+        {"text": "f0"},
+        today=date(2026, 9, 25),
+        author=AUTHOR,
+        device=DEVICE,
+        clock=FixedClock(),
+    )
     landed: set[str] = {"f0"}
     attempted: set[str] = {"f0"}
     mid_write = rounds = 0
@@ -129,6 +167,8 @@ def test_sigkill_a_fast_writer_many_times(tmp_path):
         mid_write += bool(_temps(folder))
         rounds += 1
     _check(folder, landed, attempted)
-    print(f"\nfork loop: {rounds} kills, {len(landed)} entries reported written, "
-          f"{mid_write} kills struck mid-write")
+    print(
+        f"\nfork loop: {rounds} kills, {len(landed)} entries reported written, "
+        f"{mid_write} kills struck mid-write"
+    )
     assert rounds >= 10

@@ -36,12 +36,14 @@ FORGED_TEXT = "FORGED: concrete pour approved by the engineer"
 
 # -- an attacker's tools: read a day file, rewrite it with fresh hashes ----------------------
 
+
 def rows(path: Path) -> list[dict]:
     return tomllib.loads(path.read_text(encoding="utf-8"))["entry"]
 
 
-def write_rows(path: Path, entries: list[dict], *, rechain: bool = True,
-               key: Ed25519PrivateKey | None = None) -> None:
+def write_rows(
+    path: Path, entries: list[dict], *, rechain: bool = True, key: Ed25519PrivateKey | None = None
+) -> None:
     """Write ``entries`` as a journal file; with ``rechain``, recompute every prev and hash
     (and, given an attacker's ``key``, sign with it; otherwise keep whatever sig is there)."""
     prev = ""
@@ -72,12 +74,18 @@ def next_row(site: Path, device: str, **fields) -> tuple[Path, dict]:
     path = device_files(site, device)[-1]
     old = rows(path)
     top = max(r["seq"] for f in device_files(site, device) for r in rows(f))
-    row = {**{k: old[-1][k] for k in ("kind", "day", "written", "author", "device")},
-           "id": f"{device}.{top + 1}", "seq": top + 1, "kind": "note", **fields}
+    row = {
+        **{k: old[-1][k] for k in ("kind", "day", "written", "author", "device")},
+        "id": f"{device}.{top + 1}",
+        "seq": top + 1,
+        "kind": "note",
+        **fields,
+    }
     return path, row
 
 
 # -- the five forgeries a hash chain alone let through ----------------------------------------
+
 
 def append_with_next_number(site: Path) -> tuple[str, str]:
     path, row = next_row(site, LAPTOP, text=FORGED_TEXT)
@@ -86,8 +94,9 @@ def append_with_next_number(site: Path) -> tuple[str, str]:
 
 
 def edit_a_value_and_rechain(site: Path) -> tuple[str, str]:
-    path = next(p for p in device_files(site, LAPTOP)
-                if any(r["kind"] == "remaining" for r in rows(p)))
+    path = next(
+        p for p in device_files(site, LAPTOP) if any(r["kind"] == "remaining" for r in rows(p))
+    )
     entries = rows(path)
     target = next(r for r in entries if r["kind"] == "remaining")
     target["days"] += 5
@@ -105,10 +114,16 @@ def a_new_day_file(site: Path) -> tuple[str, str]:
 
 def a_file_from_an_invented_device(site: Path) -> tuple[str, str]:
     path = site / "log" / "2026-09-25_ghost-phone-7.toml"
-    row = {"id": "ghost-phone-7.1", "seq": 1, "kind": "finished", "day": rows(
-        device_files(site, LAPTOP)[-1])[0]["day"], "written": rows(
-        device_files(site, LAPTOP)[-1])[0]["written"], "author": "R. Okafor",
-        "device": "ghost-phone-7", "activity": "FND-020"}
+    row = {
+        "id": "ghost-phone-7.1",
+        "seq": 1,
+        "kind": "finished",
+        "day": rows(device_files(site, LAPTOP)[-1])[0]["day"],
+        "written": rows(device_files(site, LAPTOP)[-1])[0]["written"],
+        "author": "R. Okafor",
+        "device": "ghost-phone-7",
+        "activity": "FND-020",
+    }
     write_rows(path, [row])
     return path.name, row["id"]
 
@@ -125,9 +140,16 @@ def insert_mid_history_and_renumber(site: Path) -> tuple[str, str]:
             entries.append(r)
         if path == inserted_in:
             first = entries[0]
-            entries.insert(1, {**{k: first[k] for k in ("day", "written", "author", "device")},
-                               "id": f"{LAPTOP}.{seq}", "seq": seq, "kind": "note",
-                               "text": FORGED_TEXT})
+            entries.insert(
+                1,
+                {
+                    **{k: first[k] for k in ("day", "written", "author", "device")},
+                    "id": f"{LAPTOP}.{seq}",
+                    "seq": seq,
+                    "kind": "note",
+                    "text": FORGED_TEXT,
+                },
+            )
             entries.sort(key=lambda r: r["seq"])
         write_rows(path, entries)
     return inserted_in.name, f"{LAPTOP}.{seq}"
@@ -165,17 +187,26 @@ def test_verify_alone_names_each_forgery(capsys, sample_site, forge):
     assert entry not in {e.id for e in read_journal(sample_site).entries}  # never used
 
 
-@pytest.mark.parametrize(("forge", "unchanged"), [
-    (append_with_next_number, True), (a_file_from_an_invented_device, True),
-    # Renumbering makes every later entry of the device forged too: none of them is used.
-    (insert_mid_history_and_renumber, False)])
-def test_forged_entries_never_reach_the_schedule_or_the_report(capsys, sample_site, tmp_path,
-                                                               forge, unchanged):
+@pytest.mark.parametrize(
+    ("forge", "unchanged"),
+    [
+        (append_with_next_number, True),
+        (a_file_from_an_invented_device, True),
+        # Renumbering makes every later entry of the device forged too: none of them is used.
+        (insert_mid_history_and_renumber, False),
+    ],
+)
+def test_forged_entries_never_reach_the_schedule_or_the_report(
+    capsys, sample_site, tmp_path, forge, unchanged
+):
     clean = tmp_path / "clean"
     shutil.copytree(sample_site, clean)
     forge(sample_site)
-    for args in (["schedule", "--format", "json"], ["report", "--day", "2026-09-25"],
-                 ["lookahead", "--format", "json"]):
+    for args in (
+        ["schedule", "--format", "json"],
+        ["report", "--day", "2026-09-25"],
+        ["lookahead", "--format", "json"],
+    ):
         assert main([args[0], str(clean), *args[1:]]) == 0
         expected, _ = capsys.readouterr()
         assert main([args[0], str(sample_site), *args[1:]]) == 0
@@ -189,6 +220,7 @@ def test_forged_entries_never_reach_the_schedule_or_the_report(capsys, sample_si
 
 
 # -- the other tampering, each caught by verify alone ------------------------------------------
+
 
 def plain_edit(site: Path) -> tuple[str, str, str]:
     path = device_files(site, LAPTOP)[1]
@@ -240,8 +272,17 @@ def truncate_mid_entry(site: Path) -> tuple[str, str, str]:
     return path.name, "", "not TOML"
 
 
-TAMPERING = {f.__name__: f for f in (plain_edit, reorder, swap_between_devices,
-                                     swap_device_names, rename_a_file, truncate_mid_entry)}
+TAMPERING = {
+    f.__name__: f
+    for f in (
+        plain_edit,
+        reorder,
+        swap_between_devices,
+        swap_device_names,
+        rename_a_file,
+        truncate_mid_entry,
+    )
+}
 
 
 @pytest.mark.parametrize("tamper", TAMPERING.values(), ids=TAMPERING.keys())
@@ -254,7 +295,8 @@ def test_verify_names_other_tampering(capsys, sample_site, tamper):
 
 
 def test_a_planted_unsigned_entry_after_signed_ones_is_forged_even_if_its_chain_is_sound(
-        capsys, sample_site):
+    capsys, sample_site
+):
     """Appending with every hash right but no signature: 'unsigned after signed'."""
     file, entry = append_with_next_number(sample_site)
     _, out, _ = verify(capsys, sample_site)
@@ -266,8 +308,7 @@ def test_two_forgeries_through_a_real_process(sample_site):
     a_file_from_an_invented_device(sample_site)
     r = run_cli("verify", str(sample_site), home=sample_site.parent / "home")
     assert r.returncode == 1 and r.stderr == "" and "Traceback" not in r.stdout
-    assert "entry ghost-phone-7.1: forged: device ghost-phone-7 has no registered key" \
-        in r.stdout
+    assert "entry ghost-phone-7.1: forged: device ghost-phone-7 has no registered key" in r.stdout
     assert "does not match device site-laptop-1's registered key" in r.stdout
 
 
@@ -281,12 +322,15 @@ def test_json_schedule_still_reads_with_a_forged_log(capsys, sample_site):
 
 # -- a log written before devices signed --------------------------------------------------------
 
+
 def strip_signatures(site: Path) -> None:
     """The sample as an older fieldlog wrote it: no sig lines, no devices/ folder."""
     for path in (site / "log").glob("*.toml"):
         text = path.read_text(encoding="utf-8")
-        path.write_text("".join(ln for ln in text.splitlines(keepends=True)
-                                if not ln.startswith("sig = ")), encoding="utf-8")
+        path.write_text(
+            "".join(ln for ln in text.splitlines(keepends=True) if not ln.startswith("sig = ")),
+            encoding="utf-8",
+        )
     shutil.rmtree(site / "devices")
 
 
@@ -306,8 +350,21 @@ def test_after_the_upgrade_a_device_signs_from_its_next_entry(capsys, sample_sit
     home = Path(os.environ["FIELDLOG_HOME"])  # this machine is the sample's laptop
     (home / "device.toml").write_text(f'device = "{LAPTOP}"\nauthor = "R. Okafor"\n')
     old_top = max(e.seq for e in read_journal(sample_site).entries if e.device == LAPTOP)
-    assert main(["record", str(sample_site), "note", "first signed entry", "--on",
-                 "2026-09-25", "--today", "2026-09-25"]) == 0
+    assert (
+        main(
+            [
+                "record",
+                str(sample_site),
+                "note",
+                "first signed entry",
+                "--on",
+                "2026-09-25",
+                "--today",
+                "2026-09-25",
+            ]
+        )
+        == 0
+    )
     assert capsys.readouterr().out.strip() == f"{LAPTOP}.{old_top + 1}"
     journal = read_journal(sample_site)
     assert journal.devices[LAPTOP].signed_from == old_top + 1
@@ -323,16 +380,31 @@ def test_an_unregistered_device_after_the_site_began_signing_is_forged(capsys, s
     strip_signatures(sample_site)
     home = Path(os.environ["FIELDLOG_HOME"])
     (home / "device.toml").write_text(f'device = "{LAPTOP}"\nauthor = "R. Okafor"\n')
-    assert main(["record", str(sample_site), "note", "first signed entry", "--on",
-                 "2026-09-21", "--today", "2026-09-25"]) == 0
+    assert (
+        main(
+            [
+                "record",
+                str(sample_site),
+                "note",
+                "first signed entry",
+                "--on",
+                "2026-09-21",
+                "--today",
+                "2026-09-25",
+            ]
+        )
+        == 0
+    )
     capsys.readouterr()
     last = device_files(sample_site, TABLET)[-1]
     late = [r for r in rows(last) if r["day"] > date(2026, 9, 21)]
     assert late, "the sample's tablet logs after 21 Sep"
     code, out, _ = verify(capsys, sample_site)
     assert code == 1
-    assert (f"entry {late[0]['id']}: forged: device {TABLET} has no registered key" in out
-            and "since 2026-09-21" in out)
+    assert (
+        f"entry {late[0]['id']}: forged: device {TABLET} has no registered key" in out
+        and "since 2026-09-21" in out
+    )
 
 
 def test_a_key_file_claiming_a_later_start_does_not_unsign_entries(capsys, sample_site):
@@ -346,5 +418,7 @@ def test_a_key_file_claiming_a_later_start_does_not_unsign_entries(capsys, sampl
     path.write_text(text.replace(last_sig, ""), encoding="utf-8")
     last = rows(path)[-1]["id"]
     code, out, _ = verify(capsys, sample_site)
-    assert code == 1 and f"entry {last}: forged: unsigned, yet device {LAPTOP} signed an " \
-        "earlier entry" in out
+    assert (
+        code == 1
+        and f"entry {last}: forged: unsigned, yet device {LAPTOP} signed an earlier entry" in out
+    )

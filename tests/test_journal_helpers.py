@@ -100,19 +100,41 @@ class FixedClock:
         return self.now
 
 
-def rec(folder: Path, kind: str, day: date | None, device: str = DEVICE, clock=None,
-        today: date = TODAY, **fields) -> Entry:
+def rec(
+    folder: Path,
+    kind: str,
+    day: date | None,
+    device: str = DEVICE,
+    clock=None,
+    today: date = TODAY,
+    **fields,
+) -> Entry:
     """Record one entry on the test site the way the app does."""
     site = load_site(folder)
-    return record_entry(folder, site, kind, day, fields, today=today, author=AUTHOR,
-                        device=device, clock=clock or FixedClock())
+    return record_entry(
+        folder,
+        site,
+        kind,
+        day,
+        fields,
+        today=today,
+        author=AUTHOR,
+        device=device,
+        clock=clock or FixedClock(),
+    )
 
 
 def run_cli(*args: str, home: Path, timeout: float = 30) -> subprocess.CompletedProcess:
     """Run ``python -m fieldlog ARGS`` with ``FIELDLOG_HOME=home``."""
     env = {**os.environ, "FIELDLOG_HOME": str(home)}
-    return subprocess.run([sys.executable, "-m", "fieldlog", *args], capture_output=True,
-                          text=True, env=env, cwd=ROOT, timeout=timeout)
+    return subprocess.run(
+        [sys.executable, "-m", "fieldlog", *args],
+        capture_output=True,
+        text=True,
+        env=env,
+        cwd=ROOT,
+        timeout=timeout,
+    )
 
 
 def log_bytes(folder: Path) -> dict[str, bytes]:

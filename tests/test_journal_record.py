@@ -78,24 +78,32 @@ REFUSED = [
     ("weather", d(9), {"conditions": "rain", "hours_lost": 25}, "above 24"),
     ("crew", d(9), {"trade": "groundworks", "headcount": 2, "hours": 60}, "more than"),
     ("lost-time", d(9), {"cause": "rain", "whole_day": True}, "not one of"),
-    ("lost-time", d(9), {"cause": "weather", "whole_day": True, "calendars": ["nights"]},
-     "unknown calendar"),
+    (
+        "lost-time",
+        d(9),
+        {"cause": "weather", "whole_day": True, "calendars": ["nights"]},
+        "unknown calendar",
+    ),
     ("lost-time", d(9), {"cause": "weather"}, "whole day, or the hours"),
     ("need", d(9), {"activity": "CON-010", "what": "pump", "category": "pump"}, "not one of"),
-    ("need", d(9), {"activity": "CON-010", "what": "pump", "category": "equipment",
-                    "expected": d(8)}, "before"),
+    (
+        "need",
+        d(9),
+        {"activity": "CON-010", "what": "pump", "category": "equipment", "expected": d(8)},
+        "before",
+    ),
     ("cleared", d(9), {"item": f"{DEVICE}.77"}, "not a readiness item"),
     ("note", d(9), {"text": "   "}, "must be text"),
     ("note", d(9), {"text": "x", "colour": "red"}, "no field 'colour'"),
-    ("instruction", d(9), {"text": "stop", "given_by": "client", "form": "shouted"},
-     "not one of"),
+    ("instruction", d(9), {"text": "stop", "given_by": "client", "form": "shouted"}, "not one of"),
     ("visitor", d(9), {}, "needs name"),
     ("started", d(8), {"activity": "BLD-010", "note": "x"}, "no field"),
 ]
 
 
-@pytest.mark.parametrize(("kind", "day", "fields", "words"), REFUSED,
-                         ids=[f"{r[0]}-{r[3][:20]}" for r in REFUSED])
+@pytest.mark.parametrize(
+    ("kind", "day", "fields", "words"), REFUSED, ids=[f"{r[0]}-{r[3][:20]}" for r in REFUSED]
+)
 def test_bad_input_is_refused_and_nothing_is_written(folder, kind, day, fields, words):
     rec(folder, "started", d(8), activity="EXC-010")
     before = log_bytes(folder)
@@ -138,8 +146,15 @@ def test_corrections(folder):
 
 
 def test_clearing_a_readiness_item(folder):
-    need = rec(folder, "need", d(8), activity="CON-010", what="pump booking",
-               category="equipment", expected=d(15))
+    need = rec(
+        folder,
+        "need",
+        d(8),
+        activity="CON-010",
+        what="pump booking",
+        category="equipment",
+        expected=d(15),
+    )
     with pytest.raises(EntryRefused, match="opened on 2026-09-08"):
         rec(folder, "cleared", d(7), item=need.id)
     rec(folder, "cleared", d(9), item=need.id)
@@ -149,28 +164,64 @@ def test_clearing_a_readiness_item(folder):
 
 def test_every_kind_can_be_recorded_and_read_back(folder):
     samples = {
-        "weather": {"conditions": "showers", "high": 14, "low": 8, "precip_mm": 3.5,
-                    "wind": "light", "stopped": False},
-        "crew": {"trade": "groundworks", "company": "Tarn Civils (invented)", "headcount": 5,
-                 "hours": 42.5, "activities": "EXC-010"},
-        "lost-time": {"cause": "design", "hours": 2, "activities": ["EXC-010"],
-                      "note": "waiting for levels"},
+        "weather": {
+            "conditions": "showers",
+            "high": 14,
+            "low": 8,
+            "precip_mm": 3.5,
+            "wind": "light",
+            "stopped": False,
+        },
+        "crew": {
+            "trade": "groundworks",
+            "company": "Tarn Civils (invented)",
+            "headcount": 5,
+            "hours": 42.5,
+            "activities": "EXC-010",
+        },
+        "lost-time": {
+            "cause": "design",
+            "hours": 2,
+            "activities": ["EXC-010"],
+            "note": "waiting for levels",
+        },
         "need": {"activity": "CON-010", "what": "pump", "category": "equipment"},
         "delivery": {"what": "rebar", "quantity": "4 t", "supplier": "Hollin Steel (invented)"},
         "inspection": {"what": "formation", "result": "passed", "inspector": "engineer"},
-        "visitor": {"name": "A. Client", "purpose": "progress walk", "time_in": "09:15",
-                    "time_out": "11:40"},
-        "plant": {"what": "13 t excavator", "count": 1, "hours_worked": 5, "broken_down": True,
-                  "hours_down": 3, "supplier": "Brack Plant Hire (invented)",
-                  "activity": "EXC-010", "note": "hydraulic hose split"},
-        "instruction": {"text": "hold the pour", "given_by": "resident engineer",
-                        "form": "verbal", "reference": "none yet"},
+        "visitor": {
+            "name": "A. Client",
+            "purpose": "progress walk",
+            "time_in": "09:15",
+            "time_out": "11:40",
+        },
+        "plant": {
+            "what": "13 t excavator",
+            "count": 1,
+            "hours_worked": 5,
+            "broken_down": True,
+            "hours_down": 3,
+            "supplier": "Brack Plant Hire (invented)",
+            "activity": "EXC-010",
+            "note": "hydraulic hose split",
+        },
+        "instruction": {
+            "text": "hold the pour",
+            "given_by": "resident engineer",
+            "form": "verbal",
+            "reference": "none yet",
+        },
         "incident": {"text": "cut hand", "injury": True, "reported_to": "site manager"},
         "safety": {"text": "edge protection missing", "action": "barrier placed"},
-        "note": {"text": "line one\nline two with \"quotes\" and a tab\t"},
+        "note": {"text": 'line one\nline two with "quotes" and a tab\t'},
     }
-    assert set(samples) | {"started", "finished", "remaining", "percent", "cleared",
-                           "correction"} == set(KINDS)
+    assert set(samples) | {
+        "started",
+        "finished",
+        "remaining",
+        "percent",
+        "cleared",
+        "correction",
+    } == set(KINDS)
     for kind, fields in samples.items():
         rec(folder, kind, d(8), **fields)
     entries = read_journal(folder).entries
@@ -182,19 +233,25 @@ def test_every_kind_can_be_recorded_and_read_back(folder):
     assert verify(folder) == []
 
 
-@pytest.mark.parametrize(("kind", "fields", "words"), [
-    ("visitor", {"name": "A", "time_in": "11:00", "time_out": "09:00"}, "before time_in"),
-    ("visitor", {"name": "A", "time_in": "25:00"}, "not a time like 07:30"),
-    ("visitor", {"name": "A", "time_in": "9"}, "not a time like 07:30"),
-    ("plant", {"what": "pump", "hours_down": 2}, "say broken_down too"),
-    ("plant", {"what": "pump", "hours_worked": 20, "broken_down": True, "hours_down": 6},
-     "more than a day"),
-    ("plant", {"what": "pump", "count": 0}, "below 1"),
-    ("plant", {"what": "pump", "count": 501}, "above 500"),
-    ("lost-time", {"cause": "plant-breakdown", "hours": 25}, "above 24"),
-    ("remaining", {"activity": "EXC-010", "days": "1e9"}, "not a whole number"),
-    ("percent", {"activity": "EXC-010", "percent": "2,5"}, "not a number like 2.5"),
-])
+@pytest.mark.parametrize(
+    ("kind", "fields", "words"),
+    [
+        ("visitor", {"name": "A", "time_in": "11:00", "time_out": "09:00"}, "before time_in"),
+        ("visitor", {"name": "A", "time_in": "25:00"}, "not a time like 07:30"),
+        ("visitor", {"name": "A", "time_in": "9"}, "not a time like 07:30"),
+        ("plant", {"what": "pump", "hours_down": 2}, "say broken_down too"),
+        (
+            "plant",
+            {"what": "pump", "hours_worked": 20, "broken_down": True, "hours_down": 6},
+            "more than a day",
+        ),
+        ("plant", {"what": "pump", "count": 0}, "below 1"),
+        ("plant", {"what": "pump", "count": 501}, "above 500"),
+        ("lost-time", {"cause": "plant-breakdown", "hours": 25}, "above 24"),
+        ("remaining", {"activity": "EXC-010", "days": "1e9"}, "not a whole number"),
+        ("percent", {"activity": "EXC-010", "percent": "2,5"}, "not a number like 2.5"),
+    ],
+)
 def test_new_fields_have_bounds(folder, kind, fields, words):
     rec(folder, "started", d(7), activity="EXC-010")
     with pytest.raises(EntryRefused, match=words):
@@ -213,8 +270,16 @@ def test_device_id_is_made_once_outside_the_site(tmp_path, monkeypatch):
     assert DEVICE_RE.match(first) and device_id() == first
     assert (tmp_path / "home" / "device.toml").exists()
     folder = make_site(tmp_path / "site")
-    e = record_entry(folder, load_site(folder), "note", d(8), {"text": "x"}, today=TODAY,
-                     author=AUTHOR, clock=FixedClock())
+    e = record_entry(
+        folder,
+        load_site(folder),
+        "note",
+        d(8),
+        {"text": "x"},
+        today=TODAY,
+        author=AUTHOR,
+        clock=FixedClock(),
+    )
     assert e.device == first
 
 
@@ -249,27 +314,95 @@ def test_cli_record_forms(folder, capsys):
         ["started", "EXC-010", "--on", "2026-09-08"],
         ["remaining", "EXC-010", "3", "--on", "2026-09-08"],
         ["percent", "EXC-010", "40", "--on", "2026-09-08"],
-        ["weather", "--on", "2026-09-09", "--conditions", "rain", "--high", "12", "--low",
-         "6", "--precip-mm", "14", "--wind", "gusty", "--stopped", "--hours-lost", "6"],
-        ["lost-day", "--on", "2026-09-09", "--cause", "weather", "--activities", "EXC-010",
-         "--calendars", "weekdays"],
+        [
+            "weather",
+            "--on",
+            "2026-09-09",
+            "--conditions",
+            "rain",
+            "--high",
+            "12",
+            "--low",
+            "6",
+            "--precip-mm",
+            "14",
+            "--wind",
+            "gusty",
+            "--stopped",
+            "--hours-lost",
+            "6",
+        ],
+        [
+            "lost-day",
+            "--on",
+            "2026-09-09",
+            "--cause",
+            "weather",
+            "--activities",
+            "EXC-010",
+            "--calendars",
+            "weekdays",
+        ],
         ["lost-time", "--on", "2026-09-10", "--cause", "materials", "--hours", "2"],
-        ["crew", "--on", "2026-09-08", "--trade", "groundworks", "--headcount", "5",
-         "--hours", "40"],
-        ["need", "CON-010", "pump booking", "--kind", "equipment", "--expected", "2026-09-18",
-         "--on", "2026-09-08"],
+        [
+            "crew",
+            "--on",
+            "2026-09-08",
+            "--trade",
+            "groundworks",
+            "--headcount",
+            "5",
+            "--hours",
+            "40",
+        ],
+        [
+            "need",
+            "CON-010",
+            "pump booking",
+            "--kind",
+            "equipment",
+            "--expected",
+            "2026-09-18",
+            "--on",
+            "2026-09-08",
+        ],
         ["delivery", "rebar", "--quantity", "4 t", "--on", "2026-09-08"],
         ["inspection", "formation", "--result", "passed", "--on", "2026-09-08"],
         ["visitor", "A. Client", "--on", "2026-09-08"],
-        ["instruction", "hold the pour", "--from", "engineer", "--form", "verbal",
-         "--on", "2026-09-08"],
+        [
+            "instruction",
+            "hold the pour",
+            "--from",
+            "engineer",
+            "--form",
+            "verbal",
+            "--on",
+            "2026-09-08",
+        ],
         ["incident", "cut hand", "--injury", "--on", "2026-09-08"],
         ["safety", "edge protection", "--action", "fixed", "--on", "2026-09-08"],
         ["note", "quiet day", "--on", "2026-09-08"],
-        ["plant", "pump", "--hours-worked", "5", "--broken-down", "--hours-down", "2",
-         "--on", "2026-09-08"],
-        ["visitor", "B. Surveyor", "--time-in", "08:00", "--time-out", "9.30",
-         "--on", "2026-09-08"],
+        [
+            "plant",
+            "pump",
+            "--hours-worked",
+            "5",
+            "--broken-down",
+            "--hours-down",
+            "2",
+            "--on",
+            "2026-09-08",
+        ],
+        [
+            "visitor",
+            "B. Surveyor",
+            "--time-in",
+            "08:00",
+            "--time-out",
+            "9.30",
+            "--on",
+            "2026-09-08",
+        ],
         ["lost-day", "--on", "2026-09-09", "--cause", "labour", "--hours", "3"],
         ["finished", "EXC-010", "--on", "2026-09-11"],
     ]
@@ -277,22 +410,26 @@ def test_cli_record_forms(folder, capsys):
     for args in ok:
         code, out, err = _main(capsys, "record", s, *args, *today)
         # stderr only echoes the day, in full with its year (stdout is the entry id alone).
-        assert code == 0 and re.fullmatch(r"fieldlog: recorded \S+ for \w{3} \d\d \w{3} 2026\n",
-                                          err), (args, err)
+        assert code == 0 and re.fullmatch(
+            r"fieldlog: recorded \S+ for \w{3} \d\d \w{3} 2026\n", err
+        ), (args, err)
         ids.append(out.strip())
     entries = read_journal(folder).entries
     lost = {e.fields["cause"]: e.fields for e in entries if e.kind == "lost-time"}
     assert lost["weather"]["whole_day"] is True and lost["materials"]["whole_day"] is False
     code, _, err = _main(capsys, "record", s, "cleared", ids[7], "--on", "2026-09-12", *today)
     assert code == 0, err
-    code, _, err = _main(capsys, "record", s, "correct", ids[1], "--reason", "miscounted",
-                         "--set", "days=4", *today)
+    code, _, err = _main(
+        capsys, "record", s, "correct", ids[1], "--reason", "miscounted", "--set", "days=4", *today
+    )
     assert code == 0, err
     before = log_bytes(folder)
-    for bad in (["started", "NOPE", "--on", "2026-09-08"],
-                ["remaining", "EXC-010", "-2", "--on", "2026-09-09"],
-                ["finished", "BLD-010", "--on", "2026-09-30"],
-                ["correct", ids[0], "--reason", "x", "--set", "nonsense"]):
+    for bad in (
+        ["started", "NOPE", "--on", "2026-09-08"],
+        ["remaining", "EXC-010", "-2", "--on", "2026-09-09"],
+        ["finished", "BLD-010", "--on", "2026-09-30"],
+        ["correct", ids[0], "--reason", "x", "--set", "nonsense"],
+    ):
         code, out, err = _main(capsys, "record", s, *bad, *today)
         assert code == 2 and out == "" and len(err.splitlines()) == 1, bad
     assert log_bytes(folder) == before
@@ -301,8 +438,16 @@ def test_cli_record_forms(folder, capsys):
 
 def test_cli_in_a_real_process(folder, tmp_path):
     home = tmp_path / "home"
-    args = ("record", str(folder), "started", "EXC-010", "--on", "2026-09-08",
-            "--today", "2026-09-25")
+    args = (
+        "record",
+        str(folder),
+        "started",
+        "EXC-010",
+        "--on",
+        "2026-09-08",
+        "--today",
+        "2026-09-25",
+    )
     r = run_cli(*args, home=home)  # a fresh device, no terminal, no --author
     assert r.returncode == 2 and r.stdout == "" and r.stderr.count("\n") == 1
     assert "--author NAME" in r.stderr and not (folder / "log").exists()
@@ -310,17 +455,30 @@ def test_cli_in_a_real_process(folder, tmp_path):
     assert r.returncode == 0 and re.fullmatch(r"[a-z0-9-]+\.1\n", r.stdout), r.stderr
     assert 'author = "Q. Leadhand"' in (home / "device.toml").read_text()  # kept: asked once
     before = log_bytes(folder)
-    r = run_cli("record", str(folder), "started", "EXC-010", "--on", "2026-09-30",
-                "--today", "2026-09-25", home=home)
+    r = run_cli(
+        "record",
+        str(folder),
+        "started",
+        "EXC-010",
+        "--on",
+        "2026-09-30",
+        "--today",
+        "2026-09-25",
+        home=home,
+    )
     assert r.returncode == 2 and r.stdout == ""
     assert r.stderr.count("\n") == 1 and "after today" in r.stderr
     assert log_bytes(folder) == before
 
 
-@settings(max_examples=40, deadline=None,
-          suppress_health_check=[HealthCheck.function_scoped_fixture])
-@given(text=st.text(alphabet=st.characters(blacklist_categories=("Cs",)), min_size=1,
-                    max_size=200).filter(lambda t: t.strip()))
+@settings(
+    max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture]
+)
+@given(
+    text=st.text(
+        alphabet=st.characters(blacklist_categories=("Cs",)), min_size=1, max_size=200
+    ).filter(lambda t: t.strip())
+)
 def test_any_note_text_reads_back_exactly(folder, text):
     """Whatever a foreman types (quotes, backslashes, accents, emoji) survives the TOML
     round trip and keeps the chain intact."""
@@ -367,7 +525,13 @@ def test_a_milestone_is_reached_not_started(sample_site):
     assert site.activity("KEY-900").is_milestone
     before = sorted((sample_site / "log").glob("*.toml"))
     with pytest.raises(EntryRefused, match="is a milestone") as info:
-        record_entry(sample_site, site, "started", date(2026, 9, 25), {"activity": "KEY-900"},
-                     today=date(2026, 9, 25))
+        record_entry(
+            sample_site,
+            site,
+            "started",
+            date(2026, 9, 25),
+            {"activity": "KEY-900"},
+            today=date(2026, 9, 25),
+        )
     assert "finished KEY-900 --on 2026-09-25" in info.value.message
     assert sorted((sample_site / "log").glob("*.toml")) == before

@@ -44,10 +44,18 @@ class Log:
             while target.kind == "correction":
                 target = self.by_id(target.fields["supersedes"])
             fields["corrects"] = target.kind
-        e = Entry(id=f"{device}.{n}", seq=n, kind=kind, day=on,
-                  written=datetime(2026, 9, 30, tzinfo=UTC) + timedelta(minutes=len(self.entries)),
-                  author="T", device=device, fields=MappingProxyType(fields),
-                  file=f"{on}_{device}.toml", position=p)
+        e = Entry(
+            id=f"{device}.{n}",
+            seq=n,
+            kind=kind,
+            day=on,
+            written=datetime(2026, 9, 30, tzinfo=UTC) + timedelta(minutes=len(self.entries)),
+            author="T",
+            device=device,
+            fields=MappingProxyType(fields),
+            file=f"{on}_{device}.toml",
+            position=p,
+        )
         self.entries.append(e)
         return e
 
@@ -66,8 +74,12 @@ def test_later_days_win_and_later_days_are_ignored(tmp_path):
     log.add("remaining", day(10), activity="EXC-010", days=3)
     log.add("finished", day(14), activity="EXC-010")
     p = replay(s, log.entries, day(9)).progress["EXC-010"]
-    assert (p.actual_start, p.remaining, p.remaining_as_of, p.actual_finish) == \
-        (day(7), 5, day(8), None)
+    assert (p.actual_start, p.remaining, p.remaining_as_of, p.actual_finish) == (
+        day(7),
+        5,
+        day(8),
+        None,
+    )
     p = replay(s, log.entries, day(13)).progress["EXC-010"]
     assert (p.remaining, p.remaining_as_of, p.actual_finish) == (3, day(10), None)
     assert replay(s, log.entries, day(14)).progress["EXC-010"].actual_finish == day(14)
@@ -122,11 +134,9 @@ def test_correction_replaces_in_place_and_can_move_a_day(tmp_path):
 def test_withdrawal_and_withdrawing_a_withdrawal(tmp_path):
     s, log = site(tmp_path), Log()
     start = log.add("started", day(8), activity="EXC-010")
-    w = log.add("correction", day(8), supersedes=start.id, reason="wrong activity",
-                withdraw=True)
+    w = log.add("correction", day(8), supersedes=start.id, reason="wrong activity", withdraw=True)
     assert "EXC-010" not in replay(s, log.entries, day(9)).progress
-    log.add("correction", day(8), supersedes=w.id, reason="it was right after all",
-            withdraw=True)
+    log.add("correction", day(8), supersedes=w.id, reason="it was right after all", withdraw=True)
     assert replay(s, log.entries, day(9)).progress["EXC-010"].actual_start == day(8)
 
 
@@ -158,9 +168,16 @@ def test_contradictions_are_reported_with_both_entries(tmp_path):
     x = log.add("note", day(14), text="moved the spoil heap", activity="OLD-999")
     c1 = log.add("correction", day(14), supersedes=f.id, reason="a")
     c2 = log.add("correction", day(14), supersedes=f.id, reason="b", withdraw=True)
-    u = Entry(**{**c1.__dict__, "id": "laptop-a.99", "seq": 99,
-                 "fields": MappingProxyType({"supersedes": "laptop-a.98", "reason": "?",
-                                             "corrects": "note"})})
+    u = Entry(
+        **{
+            **c1.__dict__,
+            "id": "laptop-a.99",
+            "seq": 99,
+            "fields": MappingProxyType(
+                {"supersedes": "laptop-a.98", "reason": "?", "corrects": "note"}
+            ),
+        }
+    )
     rp = replay(s, [*log.entries, u], day(20))
     by_ids = {p.entry_ids: p.message for p in rp.problems}
     assert by_ids[(a.id, b.id)].startswith("EXC-010: two different actual starts")
@@ -190,23 +207,31 @@ def test_lost_days_per_calendar(tmp_path):
     log.add("lost-time", day(10), cause="materials", whole_day=False, hours=3.0)
     bad = log.add("lost-time", day(11), cause="other", whole_day=True, calendars=["nights"])
     rp = replay(s, log.entries, day(11))
-    assert rp.lost_days == {"allweek": frozenset({day(8)}),
-                            "weekdays": frozenset({day(8), day(9)})}
+    assert rp.lost_days == {"allweek": frozenset({day(8)}), "weekdays": frozenset({day(8), day(9)})}
     assert [p.entry_ids for p in rp.problems] == [(bad.id,)]
     assert replay(s, log.entries, day(8)).lost_days["weekdays"] == frozenset({day(8)})
 
 
 def test_readiness_items_open_and_clear(tmp_path):
     s, log = site(tmp_path), Log()
-    n1 = log.add("need", day(8), activity="CON-010", what="pump booking", category="equipment",
-                 expected=day(15))
-    n2 = log.add("need", day(8), activity="WAL-010", what="wall drawings rev B",
-                 category="drawings")
+    n1 = log.add(
+        "need",
+        day(8),
+        activity="CON-010",
+        what="pump booking",
+        category="equipment",
+        expected=day(15),
+    )
+    n2 = log.add(
+        "need", day(8), activity="WAL-010", what="wall drawings rev B", category="drawings"
+    )
     c = log.add("correction", day(8), supersedes=n1.id, reason="date moved", expected=day(16))
     log.add("cleared", day(11), item=n1.id)  # the original id still finds the corrected item
     rp = replay(s, log.entries, day(10))
     assert {(i.activity, i.expected, i.entry_id) for i in rp.readiness} == {
-        ("CON-010", day(16), c.id), ("WAL-010", None, n2.id)}
+        ("CON-010", day(16), c.id),
+        ("WAL-010", None, n2.id),
+    }
     rp = replay(s, log.entries, day(11))
     assert [i.entry_id for i in rp.readiness] == [n2.id]
     twice = log.add("cleared", day(12), item=c.id)

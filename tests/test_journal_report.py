@@ -36,39 +36,94 @@ def site(tmp_path_factory):
     r = lambda kind, day, **f: rec(folder, kind, day, clock=clock, **f)  # noqa: E731
     r("started", d(7), activity="EXC-010")
     r("weather", d(7), conditions="dry, bright", high=19, low=9)
-    pump = r("need", d(8), activity="CON-010", what="concrete pump booking",
-             category="equipment", expected=d(11))
+    pump = r(
+        "need",
+        d(8),
+        activity="CON-010",
+        what="concrete pump booking",
+        category="equipment",
+        expected=d(11),
+    )
     r("remaining", d(8), activity="EXC-010", days=2)
     r("finished", d(9), activity="EXC-010")
     # The 10th: rain, a short stoppage, two crews, an out-of-sequence start, and the rest.
-    r("weather", DAY, conditions="heavy rain until 11:00", high=14, low=8, precip_mm=17.5,
-      wind="gusty south-west", stopped=True, hours_lost=3)
-    r("lost-time", DAY, cause="weather", hours=3, activities=["BLD-010"],
-      note="pumped out the base before blinding")
-    crew = r("crew", DAY, trade="groundworks", company="Tarn Civils (invented)", headcount=6,
-             hours=39)
+    r(
+        "weather",
+        DAY,
+        conditions="heavy rain until 11:00",
+        high=14,
+        low=8,
+        precip_mm=17.5,
+        wind="gusty south-west",
+        stopped=True,
+        hours_lost=3,
+    )
+    r(
+        "lost-time",
+        DAY,
+        cause="weather",
+        hours=3,
+        activities=["BLD-010"],
+        note="pumped out the base before blinding",
+    )
+    crew = r(
+        "crew", DAY, trade="groundworks", company="Tarn Civils (invented)", headcount=6, hours=39
+    )
     r("crew", DAY, trade="steel fixers", company="Bexley Rebar (invented)", headcount=3)
     r("started", DAY, activity="BLD-010")
     r("remaining", DAY, activity="BLD-010", days=2)
     r("percent", DAY, activity="BLD-010", percent=40)
     r("started", DAY, activity="CON-010")
-    r("delivery", DAY, what="rebar for the base", quantity="3.2 t",
-      supplier="Hollin Steel (invented)", activity="BLD-010", note="ticket HS-4471")
-    r("inspection", DAY, what="formation and blinding", result="passed",
-      inspector="resident engineer", reference="IR-012")
-    r("visitor", DAY, name="M. Okoro", company="client's agent (invented)",
-      purpose="progress walk")
-    r("instruction", DAY, text="add a second sump pit at the north-east corner",
-      given_by="resident engineer", form="verbal", activities=["BLD-010"])
-    r("incident", DAY, text="excavator bucket struck the fence; no one near", injury=False,
-      reported_to="site manager")
+    r(
+        "delivery",
+        DAY,
+        what="rebar for the base",
+        quantity="3.2 t",
+        supplier="Hollin Steel (invented)",
+        activity="BLD-010",
+        note="ticket HS-4471",
+    )
+    r(
+        "inspection",
+        DAY,
+        what="formation and blinding",
+        result="passed",
+        inspector="resident engineer",
+        reference="IR-012",
+    )
+    r("visitor", DAY, name="M. Okoro", company="client's agent (invented)", purpose="progress walk")
+    r(
+        "instruction",
+        DAY,
+        text="add a second sump pit at the north-east corner",
+        given_by="resident engineer",
+        form="verbal",
+        activities=["BLD-010"],
+    )
+    r(
+        "incident",
+        DAY,
+        text="excavator bucket struck the fence; no one near",
+        injury=False,
+        reported_to="site manager",
+    )
     r("safety", DAY, text="edge protection gap at the ramp", action="barrier closed")
-    r("note", DAY, text="Pump booking confirmed for tomorrow morning; standby pump on site. "
-      "A long note wraps onto more lines so the report must keep it within eighty columns.")
+    r(
+        "note",
+        DAY,
+        text="Pump booking confirmed for tomorrow morning; standby pump on site. "
+        "A long note wraps onto more lines so the report must keep it within eighty columns.",
+    )
     r("need", DAY, activity="WAL-010", what="wall kicker drawings rev C", category="drawings")
     r("cleared", DAY, item=pump.id, note="booked for 06:30")
-    r("correction", None, supersedes=crew.id, reason="two labourers left at noon",
-      headcount=5, hours=35)
+    r(
+        "correction",
+        None,
+        supersedes=crew.id,
+        reason="two labourers left at noon",
+        headcount=5,
+        hours=35,
+    )
     rec(folder, "note", DAY, device=OTHER, clock=clock, text="Tablet: photos of the sump taken.")
     r("note", d(11), text="the 11th: must not appear in the report of the 10th")
     return folder
@@ -120,4 +175,3 @@ def test_report_holds_what_public_records_guides_require(site):
     assert not missing
     crews = text.split("CREWS ON SITE")[1].split("\n\n")[0]
     assert "Total" in crews and "35+" in crews  # 35 person-hours known, one crew's missing
-

@@ -34,6 +34,7 @@ def site(tmp_path):
 def _fail(code: int):
     def boom(*args, **kwargs):
         raise OSError(code, os.strerror(code))
+
     return boom
 
 
@@ -41,12 +42,15 @@ def _no_temps(folder) -> bool:
     return not [p for p in (folder / "log").iterdir() if p.name.endswith(".tmp")]
 
 
-@pytest.mark.parametrize(("call", "code", "words"), [
-    ("write", errno.ENOSPC, "the disk is full"),
-    ("fsync", errno.ENOSPC, "the disk is full"),
-    ("fsync", errno.EIO, "input/output error"),
-    ("replace", errno.EROFS, "read-only"),
-])
+@pytest.mark.parametrize(
+    ("call", "code", "words"),
+    [
+        ("write", errno.ENOSPC, "the disk is full"),
+        ("fsync", errno.ENOSPC, "the disk is full"),
+        ("fsync", errno.EIO, "input/output error"),
+        ("replace", errno.EROFS, "read-only"),
+    ],
+)
 def test_failed_write_leaves_the_log_as_it_was(site, monkeypatch, call, code, words):
     before = log_bytes(site)
     monkeypatch.setattr(os, call, _fail(code))
@@ -68,8 +72,9 @@ def test_read_only_folder_by_refused_temp_file(site, monkeypatch):
     assert log_bytes(site) == before
 
 
-@pytest.mark.skipif(not hasattr(os, "geteuid") or os.geteuid() == 0,
-                    reason="root ignores folder permissions")
+@pytest.mark.skipif(
+    not hasattr(os, "geteuid") or os.geteuid() == 0, reason="root ignores folder permissions"
+)
 def test_read_only_folder_for_real(site):
     log = site / "log"
     before = log_bytes(site)
@@ -102,9 +107,11 @@ def test_a_locked_target_is_retried(site, monkeypatch):
 
 def test_a_second_writer_waits_for_the_lock(site):
     log = site / "log"
-    with (store.device_lock(log, DEVICE),
-          pytest.raises(JournalError, match="still writing"),
-          store.device_lock(log, DEVICE, timeout=0.05)):
+    with (
+        store.device_lock(log, DEVICE),
+        pytest.raises(JournalError, match="still writing"),
+        store.device_lock(log, DEVICE, timeout=0.05),
+    ):
         pass  # pragma: no cover - the inner lock is never granted
     with store.device_lock(log, "other-device-9", timeout=0.05):
         pass  # another device's lock is independent
@@ -125,14 +132,21 @@ for i in range(n):
 """
 
 
-@pytest.mark.parametrize("devices", [(DEVICE, DEVICE), (DEVICE, "test-tablet-2")],
-                         ids=["same device", "two devices"])
+@pytest.mark.parametrize(
+    "devices", [(DEVICE, DEVICE), (DEVICE, "test-tablet-2")], ids=["same device", "two devices"]
+)
 def test_two_processes_writing_at_once_both_land(site, devices):
     n = 15
     env = dict(os.environ)  # this test's FIELDLOG_HOME: the key that wrote "before" signs on
-    procs = [subprocess.Popen([sys.executable, "-c", WRITER, str(site), tag, str(n), dev],
-                              cwd=ROOT, env=env, stderr=subprocess.PIPE)
-             for tag, dev in zip(("a", "b"), devices, strict=True)]
+    procs = [
+        subprocess.Popen(
+            [sys.executable, "-c", WRITER, str(site), tag, str(n), dev],
+            cwd=ROOT,
+            env=env,
+            stderr=subprocess.PIPE,
+        )
+        for tag, dev in zip(("a", "b"), devices, strict=True)
+    ]
     for p in procs:
         assert p.wait(timeout=120) == 0, p.stderr.read().decode()
     texts = sorted(e.fields["text"] for e in read_journal(site).entries)

@@ -24,10 +24,10 @@ SEP = "\n[[entry]]\n"
 @pytest.fixture
 def site(tmp_path):
     folder = make_site(tmp_path / "site")
-    rec(folder, "started", date(2026, 9, 7), activity="EXC-010")          # .1, other file
-    for text in ["first", "second", "third", "fourth"]:                   # .2 - .5
+    rec(folder, "started", date(2026, 9, 7), activity="EXC-010")  # .1, other file
+    for text in ["first", "second", "third", "fourth"]:  # .2 - .5
         rec(folder, "note", date(2026, 9, 8), text=text)
-    rec(folder, "note", date(2026, 9, 9), text="later")                   # .6, other file
+    rec(folder, "note", date(2026, 9, 9), text="later")  # .6, other file
     assert verify(folder) == []
     return folder
 
@@ -53,9 +53,11 @@ def test_one_changed_byte_is_named(site):
     path = site / "log" / DAY_FILE
     data = path.read_bytes()
     i = data.index(b'"third"') + 1
-    path.write_bytes(data[:i] + b"T" + data[i + 1:])  # "third" -> "Third": one byte
-    assert problems(site) == {(DAY_FILE, f"{DEVICE}.4", "edited"),
-                              (DAY_FILE, f"{DEVICE}.4", "forged")}
+    path.write_bytes(data[:i] + b"T" + data[i + 1 :])  # "third" -> "Third": one byte
+    assert problems(site) == {
+        (DAY_FILE, f"{DEVICE}.4", "edited"),
+        (DAY_FILE, f"{DEVICE}.4", "forged"),
+    }
     with pytest.raises(JournalError, match=f"entry {DEVICE}.4: edited"):
         check_journal_bytes(DAY_FILE, path.read_bytes())
 
@@ -64,7 +66,7 @@ def test_a_removed_entry_is_named(site):
     head, rest = blocks(site)
     data = write_blocks(site, head, rest[:1] + rest[2:])  # drop .3 ("second")
     found = problems(site)
-    assert ("", f"{DEVICE}.3", "removed") in found        # its number is missing
+    assert ("", f"{DEVICE}.3", "removed") in found  # its number is missing
     assert (DAY_FILE, f"{DEVICE}.4", "removed") in found  # its successor's chain is broken
     with pytest.raises(JournalError, match="removed"):
         check_journal_bytes(DAY_FILE, data)
@@ -80,8 +82,10 @@ def test_two_swapped_entries_are_named_and_nothing_else(site):
     head, rest = blocks(site)
     rest[1], rest[2] = rest[2].rstrip("\n") + "\n", rest[1]
     data = write_blocks(site, head, rest)
-    assert problems(site) == {(DAY_FILE, f"{DEVICE}.3", "reordered"),
-                              (DAY_FILE, f"{DEVICE}.4", "reordered")}
+    assert problems(site) == {
+        (DAY_FILE, f"{DEVICE}.3", "reordered"),
+        (DAY_FILE, f"{DEVICE}.4", "reordered"),
+    }
     with pytest.raises(JournalError, match="reordered"):
         check_journal_bytes(DAY_FILE, data)
 
@@ -99,8 +103,10 @@ def test_an_edit_with_a_recomputed_hash_breaks_the_next_link(site):
     rest[1] = rest[1].replace('"second"', '"SECOND"').replace(old_hash, new_hash)
     write_blocks(site, head, rest)
     # The chain names the next entry; the signature, made over the old hash, names this one.
-    assert problems(site) == {(DAY_FILE, f"{DEVICE}.4", "removed"),
-                              (DAY_FILE, f"{DEVICE}.3", "forged")}
+    assert problems(site) == {
+        (DAY_FILE, f"{DEVICE}.4", "removed"),
+        (DAY_FILE, f"{DEVICE}.3", "forged"),
+    }
 
 
 def test_stray_and_broken_files_are_named(site):
@@ -111,9 +117,12 @@ def test_stray_and_broken_files_are_named(site):
     (log / f"2026-09-11_{DEVICE}.toml").write_text("[[entry]\nid = 1\n")
     (log / ".~leftover.tmp").write_text("half an entr")  # a working file: ignored
     found = problems(site)
-    assert {("notes.txt", "", "bad name"), ("2026-09-10_Laptop.toml", "", "bad name"),
-            (f"2026-09-31_{DEVICE}.toml", "", "bad name"),
-            (f"2026-09-11_{DEVICE}.toml", "", "not TOML")} == found
+    assert {
+        ("notes.txt", "", "bad name"),
+        ("2026-09-10_Laptop.toml", "", "bad name"),
+        (f"2026-09-31_{DEVICE}.toml", "", "bad name"),
+        (f"2026-09-11_{DEVICE}.toml", "", "not TOML"),
+    } == found
 
 
 def test_a_misfiled_entry_is_named(site):

@@ -121,8 +121,9 @@ def test_out_file_holds_the_same_bytes(site: Path, tmp_path: Path, capsysbinary)
 
 
 def test_json_lists_every_unfinished_activity(site: Path, capsysbinary) -> None:
-    code, out, _ = _run(capsysbinary, str(site), "--as-of", "2026-09-06", "--format", "json",
-                        "--days", "10")
+    code, out, _ = _run(
+        capsysbinary, str(site), "--as-of", "2026-09-06", "--format", "json", "--days", "10"
+    )
     assert code == 0
     doc = json.loads(out)
     assert doc["from"] == "2026-09-07" and len(doc["days"]) == 10
@@ -151,25 +152,41 @@ def test_csv_has_one_row_per_activity_and_day(site: Path, capsysbinary) -> None:
 
 
 def test_from_moves_the_window(site: Path, capsysbinary) -> None:
-    code, out, _ = _run(capsysbinary, str(site), "--as-of", "2026-09-06", "--from",
-                        "2026-09-14", "--days", "7", "--format", "json")
+    code, out, _ = _run(
+        capsysbinary,
+        str(site),
+        "--as-of",
+        "2026-09-06",
+        "--from",
+        "2026-09-14",
+        "--days",
+        "7",
+        "--format",
+        "json",
+    )
     doc = json.loads(out)
     assert code == 0 and doc["days"][0] == "2026-09-14" and doc["to"] == "2026-09-20"
 
 
-@pytest.mark.parametrize(("args", "message"), [
-    (["--days", "0"], "--days must be 1 to"),
-    (["--days", "62"], "do not fit on a 80-column sheet"),
-])
+@pytest.mark.parametrize(
+    ("args", "message"),
+    [
+        (["--days", "0"], "--days must be 1 to"),
+        (["--days", "62"], "do not fit on a 80-column sheet"),
+    ],
+)
 def test_bad_window_exits_2_with_one_line(site: Path, capsysbinary, args, message) -> None:
     code, out, err = _run(capsysbinary, str(site), *args)
     assert code == 2 and out == b"" and message in err and len(err.splitlines()) == 1
 
 
-@pytest.mark.parametrize(("args", "message"), [
-    (["--width", "100"], "invalid choice"),
-    (["--from", "next week"], "is not a date"),
-])
+@pytest.mark.parametrize(
+    ("args", "message"),
+    [
+        (["--width", "100"], "invalid choice"),
+        (["--from", "next week"], "is not a date"),
+    ],
+)
 def test_bad_option_exits_2_with_one_line(site: Path, capsysbinary, args, message) -> None:
     with pytest.raises(SystemExit) as caught:
         main(["lookahead", str(site), *args])
@@ -184,9 +201,12 @@ def test_missing_site_exits_2(tmp_path: Path, capsysbinary) -> None:
 
 def test_core_lookahead_modules_never_import_textual_or_rich() -> None:
     """The core never imports textual (DEVELOPERS.md, Contracts), checked in a fresh interpreter."""
-    code = ("import sys, fieldlog.lookahead, fieldlog.lookahead.render_text, "
-            "fieldlog.lookahead.render_data, fieldlog.commands.lookahead; "
-            "print(sorted(m for m in sys.modules if m.split('.')[0] in ('textual', 'rich')))")
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True).stdout
+    code = (
+        "import sys, fieldlog.lookahead, fieldlog.lookahead.render_text, "
+        "fieldlog.lookahead.render_data, fieldlog.commands.lookahead; "
+        "print(sorted(m for m in sys.modules if m.split('.')[0] in ('textual', 'rich')))"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", code], capture_output=True, text=True, check=True
+    ).stdout
     assert out.strip() == "[]"

@@ -63,12 +63,16 @@ def problems(draw) -> Problem:
         if state != "done" and draw(st.integers(0, 4)) == 0:
             fna = data_date + timedelta(days=draw(st.integers(2, 20)))
         activities.append(act(aid, dur, calendar=cal, start_not_before=snb, finish_not_after=fna))
-        past = [d for d in (status - timedelta(days=j) for j in range(10))
-                if oracle[cal].is_working(d.toordinal())]
+        past = [
+            d
+            for d in (status - timedelta(days=j) for j in range(10))
+            if oracle[cal].is_working(d.toordinal())
+        ]
         if state == "running":
             started = draw(st.sampled_from(past))
-            progress[aid] = Progress(actual_start=started, remaining=draw(st.integers(1, 3)),
-                                     remaining_as_of=status)
+            progress[aid] = Progress(
+                actual_start=started, remaining=draw(st.integers(1, 3)), remaining_as_of=status
+            )
         elif state == "done":
             a, b = sorted(draw(st.lists(st.sampled_from(past), min_size=2, max_size=2)))
             progress[aid] = Progress(actual_start=a, actual_finish=b)
@@ -85,38 +89,51 @@ def problems(draw) -> Problem:
     if draw(st.integers(0, 2)) == 0:
         finish_by = data_date + timedelta(days=draw(st.integers(0, 20)))
     site = make_site(
-        activities, links, calendars=cals, start=data_date - timedelta(
-            days=draw(st.integers(-3, 10))),
-        finish_by=finish_by, lag_calendar=draw(st.sampled_from(list(LagCalendar))),
-        override=draw(st.booleans()))
+        activities,
+        links,
+        calendars=cals,
+        start=data_date - timedelta(days=draw(st.integers(-3, 10))),
+        finish_by=finish_by,
+        lag_calendar=draw(st.sampled_from(list(LagCalendar))),
+        override=draw(st.booleans()),
+    )
     return Problem(site, status, progress, holds)
 
 
 def _readiness(p: Problem) -> list[OpenItem]:
     """Open readiness items that hold the activities as ``p.holds`` says."""
-    return [OpenItem(aid, "drawings", "drawings", until - timedelta(days=1), p.status)
-            for aid, until in p.holds.items()]
+    return [
+        OpenItem(aid, "drawings", "drawings", until - timedelta(days=1), p.status)
+        for aid, until in p.holds.items()
+    ]
 
 
-@settings(max_examples=200, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.too_slow])
+@settings(
+    max_examples=200, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow]
+)
 @given(problems())
 def test_classes_equal_all_some_none_of_the_enumerated_schedules(p: Problem) -> None:
     """Brute force (outside oracle): MUST = runs in all schedules, MAY = in some, CANNOT =
     in none; with negative float no schedule meets the late dates and the late activity's
     MUST days are exactly its earliest possible days."""
     items = _readiness(p)
-    result = compute_schedule(p.site, p.status, p.progress,
-                              holds={i.activity: i.expected + timedelta(days=1) for i in items})
+    result = compute_schedule(
+        p.site,
+        p.status,
+        p.progress,
+        holds={i.activity: i.expected + timedelta(days=1) for i in items},
+    )
     found = enumerate_schedules(p)
     # The oracle and the engine agree on the job's earliest finish.
     assert found.finish == result.finish.toordinal()
 
     first = p.data_date - timedelta(days=2)  # two past days: always CANNOT or off
-    last = date.fromordinal(max(found.finish, p.site.finish_by.toordinal()
-                                if p.site.finish_by else 0)) + timedelta(days=3)
-    la = build_lookahead(result, items, first, max((last - first).days + 1, 7),
-                         suggest_levelling=False)
+    last = date.fromordinal(
+        max(found.finish, p.site.finish_by.toordinal() if p.site.finish_by else 0)
+    ) + timedelta(days=3)
+    la = build_lookahead(
+        result, items, first, max((last - first).days + 1, 7), suggest_levelling=False
+    )
     cals = {c: OracleCalendar(spec) for c, spec in p.site.calendars.items()}
     any_late = any(row.late for row in la.rows)
     assert any_late == (found.total == 0)
@@ -133,8 +150,13 @@ def test_classes_equal_all_some_none_of_the_enumerated_schedules(p: Problem) -> 
             elif found.total == 0:
                 if not row.late:
                     continue  # no schedule meets the late dates: nothing to compare with
-                expected = (Cell.MUST if early.first <= o <= early.last else
-                            Cell.DONE if o > early.last else Cell.CANNOT)
+                expected = (
+                    Cell.MUST
+                    if early.first <= o <= early.last
+                    else Cell.DONE
+                    if o > early.last
+                    else Cell.CANNOT
+                )
             elif runs[o] == found.total:
                 expected = Cell.MUST
             elif runs[o] > 0:
@@ -146,14 +168,19 @@ def test_classes_equal_all_some_none_of_the_enumerated_schedules(p: Problem) -> 
             assert cell is expected, (row.id, day, cell, expected, runs[o], found.total)
 
 
-@settings(max_examples=100, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.too_slow])
+@settings(
+    max_examples=100, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow]
+)
 @given(problems())
 def test_every_may_and_cannot_day_has_a_reason(p: Problem) -> None:
     """A reason for every MAY and CANNOT cell (a rule of the lookahead), none for days off."""
     items = _readiness(p)
-    result = compute_schedule(p.site, p.status, p.progress,
-                              holds={i.activity: i.expected + timedelta(days=1) for i in items})
+    result = compute_schedule(
+        p.site,
+        p.status,
+        p.progress,
+        holds={i.activity: i.expected + timedelta(days=1) for i in items},
+    )
     la = build_lookahead(result, items, p.data_date - timedelta(days=1), 30)
     for row in la.rows:
         for cell, k in zip(row.cells, row.why, strict=True):

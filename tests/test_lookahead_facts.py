@@ -32,9 +32,15 @@ def _row(la, aid):
 def _chain_site(**kw):
     # A(3) -> B(2) -> D(1); A -> C(1) -> D: C has 1 day of float.
     return make_site(
-        [act("A", 3, "Dig trench"), act("B", 2, "Lay duct"), act("C", 1, "Order lids"),
-         act("D", 1, "Backfill")],
-        [Link("A", "B"), Link("B", "D"), Link("A", "C"), Link("C", "D")], **kw)
+        [
+            act("A", 3, "Dig trench"),
+            act("B", 2, "Lay duct"),
+            act("C", 1, "Order lids"),
+            act("D", 1, "Backfill"),
+        ],
+        [Link("A", "B"), Link("B", "D"), Link("A", "C"), Link("C", "D")],
+        **kw,
+    )
 
 
 def test_zero_float_has_only_must_days() -> None:
@@ -82,16 +88,20 @@ def test_cells_of_a_small_chain() -> None:
 def test_reasons_name_the_predecessor_and_the_float() -> None:
     la = build_lookahead(compute_schedule(_chain_site(), SUN), days=7)
     c = _row(la, "C")
-    assert c.reasons[c.why[0]] == "waiting on A (Dig trench) to finish; earliest start Thu 05 " \
-                                  "Mar 2026"
-    assert c.reasons[c.why[3]] == "1 working day of float: start by Fri 06 Mar 2026, finish " \
-                                  "by Fri 06 Mar 2026"
+    assert (
+        c.reasons[c.why[0]] == "waiting on A (Dig trench) to finish; earliest start Thu 05 Mar 2026"
+    )
+    assert (
+        c.reasons[c.why[3]] == "1 working day of float: start by Fri 06 Mar 2026, finish "
+        "by Fri 06 Mar 2026"
+    )
     assert c.why[5] is None  # Saturday: off, nothing to explain
 
 
 def test_lags_and_link_types_in_reasons() -> None:
-    site = make_site([act("P", 2, "Pour slab"), act("Q", 2, "Strip forms")],
-                     [Link("P", "Q", LinkType.SS, 3)])
+    site = make_site(
+        [act("P", 2, "Pour slab"), act("Q", 2, "Strip forms")], [Link("P", "Q", LinkType.SS, 3)]
+    )
     q = _row(build_lookahead(compute_schedule(site, SUN)), "Q")
     assert q.reasons[q.why[0]].startswith("waiting on P (Pour slab) to start + 3 working days;")
 
@@ -109,10 +119,12 @@ def test_negative_float_is_late_and_must_on_its_earliest_days() -> None:
 
 def test_in_progress_work_uses_its_remaining_dates() -> None:
     """An activity started before the status date is classified on its remaining days."""
-    site = make_site([act("A", 5, "Form walls"), act("B", 1, "Inspect")], [Link("A", "B")],
-                     start=date(2026, 2, 23))
-    progress = {"A": Progress(actual_start=date(2026, 2, 24), remaining=2,
-                              remaining_as_of=SUN)}
+    site = make_site(
+        [act("A", 5, "Form walls"), act("B", 1, "Inspect")],
+        [Link("A", "B")],
+        start=date(2026, 2, 23),
+    )
+    progress = {"A": Progress(actual_start=date(2026, 2, 24), remaining=2, remaining_as_of=SUN)}
     la = build_lookahead(compute_schedule(site, SUN, progress), days=5)
     a = _row(la, "A")
     assert a.status.value == "in progress"
@@ -127,8 +139,9 @@ def test_readiness_item_holds_and_explains() -> None:
     result = compute_schedule(site, SUN, holds={"R": date(2026, 3, 5)})
     r = _row(build_lookahead(result, [item], days=7), "R")
     assert r.cells[:3] == (N, N, N)
-    assert r.reasons[r.why[0]] == ("needs rebar shop drawings rev B, expected Wed 04 Mar 2026; "
-                                   "earliest start Thu 05 Mar 2026")
+    assert r.reasons[r.why[0]] == (
+        "needs rebar shop drawings rev B, expected Wed 04 Mar 2026; earliest start Thu 05 Mar 2026"
+    )
     assert r.not_ready == ()
 
 
@@ -168,8 +181,15 @@ def test_finished_work_is_listed_apart_only_inside_the_window() -> None:
 
 def test_crew_load_must_and_most() -> None:
     """Must counts MUST cells only; most adds MAY; early is everything on early dates."""
-    site = make_site([act("A", 2, crew={"hands": 3}), act("B", 1, crew={"hands": 2}),
-                      act("C", 2, crew={"hands": 1})], [Link("A", "C")], crews={"hands": 4})
+    site = make_site(
+        [
+            act("A", 2, crew={"hands": 3}),
+            act("B", 1, crew={"hands": 2}),
+            act("C", 2, crew={"hands": 1}),
+        ],
+        [Link("A", "C")],
+        crews={"hands": 4},
+    )
     la = build_lookahead(compute_schedule(site, SUN), days=5, suggest_levelling=False)
     (hands,) = la.crews
     assert hands.must == (3, 3, 1, 1, 0)

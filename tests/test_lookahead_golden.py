@@ -36,8 +36,7 @@ def golden_site():
     """A small invented job: groundworks, concrete and a frame, with a cure on a 7-day
     calendar, one job in progress, one finished, a required finish, and a crunch on the
     groundworks crew."""
-    weekdays = CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}),
-                            frozenset({date(2026, 9, 21)}))
+    weekdays = CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}), frozenset({date(2026, 9, 21)}))
     allweek = CalendarSpec("allweek", frozenset(range(7)))
     acts = [
         act("MOB", 0, "Site set up, hoarding and welfare units"),
@@ -45,42 +44,76 @@ def golden_site():
         act("EXC-010", 5, "Excavate pad footings, grid A-C", crew={"groundworks": 4}),
         act("EXC-020", 4, "Excavate pad footings, grid D-F", crew={"groundworks": 3}),
         act("DRN-010", 4, "Lay foul drainage runs", crew={"groundworks": 3}),
-        act("DRN-020", 3, "Surface water soakaways", crew={"groundworks": 2},
-            finish_not_after=date(2026, 9, 18)),
+        act(
+            "DRN-020",
+            3,
+            "Surface water soakaways",
+            crew={"groundworks": 2},
+            finish_not_after=date(2026, 9, 18),
+        ),
         act("RBR-010", 2, "Fix footing rebar, grid A-C", crew={"steelfixers": 3}),
-        act("CON-010", 1, "Pour pad footings, grid A-C", crew={"concrete": 5},
-            start_not_before=date(2026, 9, 17)),
+        act(
+            "CON-010",
+            1,
+            "Pour pad footings, grid A-C",
+            crew={"concrete": 5},
+            start_not_before=date(2026, 9, 17),
+        ),
         act("CUR-010", 5, "Footing cure", calendar="allweek"),
         act("CON-020", 1, "Pour pad footings, grid D-F", crew={"concrete": 5}),
         act("DUC-010", 2, "Ducts for the incoming supply", crew={"groundworks": 2}),
         act("SLB-010", 3, "Sub-base and blinding", crew={"groundworks": 4}),
-        act("STL-010", 8, "Erect steel frame", crew={"erectors": 4},
-            finish_not_after=date(2026, 10, 6)),
+        act(
+            "STL-010",
+            8,
+            "Erect steel frame",
+            crew={"erectors": 4},
+            finish_not_after=date(2026, 10, 6),
+        ),
         act("HND", 0, "Frame handed to the cladding trade"),
     ]
     links = [
-        Link("MOB", "CLR-010"), Link("CLR-010", "EXC-010"), Link("CLR-010", "EXC-020"),
-        Link("EXC-010", "RBR-010", LinkType.SS, 2), Link("RBR-010", "CON-010"),
-        Link("EXC-010", "CON-010"), Link("CON-010", "CUR-010"), Link("EXC-020", "CON-020"),
-        Link("CON-020", "CUR-010", LinkType.FF), Link("CUR-010", "STL-010"),
-        Link("DRN-010", "DRN-020"), Link("DRN-010", "SLB-010", LinkType.FS, 1),
-        Link("DUC-010", "SLB-010"), Link("STL-010", "HND"), Link("SLB-010", "HND"),
+        Link("MOB", "CLR-010"),
+        Link("CLR-010", "EXC-010"),
+        Link("CLR-010", "EXC-020"),
+        Link("EXC-010", "RBR-010", LinkType.SS, 2),
+        Link("RBR-010", "CON-010"),
+        Link("EXC-010", "CON-010"),
+        Link("CON-010", "CUR-010"),
+        Link("EXC-020", "CON-020"),
+        Link("CON-020", "CUR-010", LinkType.FF),
+        Link("CUR-010", "STL-010"),
+        Link("DRN-010", "DRN-020"),
+        Link("DRN-010", "SLB-010", LinkType.FS, 1),
+        Link("DUC-010", "SLB-010"),
+        Link("STL-010", "HND"),
+        Link("SLB-010", "HND"),
         Link("DRN-020", "HND"),
     ]
-    site = make_site(acts, links, calendars=[weekdays, allweek], start=date(2026, 9, 1),
-                     crews={"groundworks": 7, "steelfixers": 4, "concrete": 5, "erectors": 6},
-                     finish_by=date(2026, 10, 16), name="Kingfisher Lane depot (invented)",
-                     revision=4)
+    site = make_site(
+        acts,
+        links,
+        calendars=[weekdays, allweek],
+        start=date(2026, 9, 1),
+        crews={"groundworks": 7, "steelfixers": 4, "concrete": 5, "erectors": 6},
+        finish_by=date(2026, 10, 16),
+        name="Kingfisher Lane depot (invented)",
+        revision=4,
+    )
     progress = {
         "MOB": Progress(actual_start=date(2026, 9, 1), actual_finish=date(2026, 9, 1)),
         "CLR-010": Progress(actual_start=date(2026, 9, 2), actual_finish=date(2026, 9, 4)),
         "EXC-010": Progress(actual_start=date(2026, 9, 7), remaining=2, remaining_as_of=STATUS),
-        "DRN-010": Progress(actual_start=date(2026, 9, 10), remaining=3,
-                            remaining_as_of=STATUS),
+        "DRN-010": Progress(actual_start=date(2026, 9, 10), remaining=3, remaining_as_of=STATUS),
     }
     readiness = [
-        OpenItem("DUC-010", "duct route sign-off from the supply company", "drawings",
-                 date(2026, 9, 16), date(2026, 9, 8)),
+        OpenItem(
+            "DUC-010",
+            "duct route sign-off from the supply company",
+            "drawings",
+            date(2026, 9, 16),
+            date(2026, 9, 8),
+        ),
         OpenItem("STL-010", "crane lift plan approved", "permit", None, date(2026, 9, 9)),
     ]
     return site, progress, readiness
@@ -93,12 +126,15 @@ def golden_lookahead():
     return build_lookahead(result, readiness)
 
 
-@pytest.mark.parametrize(("sheet_width", "ascii_only", "name"), [
-    (80, False, "lookahead_80.txt"),
-    (80, True, "lookahead_80_ascii.txt"),
-    (132, False, "lookahead_132.txt"),
-    (132, True, "lookahead_132_ascii.txt"),
-])
+@pytest.mark.parametrize(
+    ("sheet_width", "ascii_only", "name"),
+    [
+        (80, False, "lookahead_80.txt"),
+        (80, True, "lookahead_80_ascii.txt"),
+        (132, False, "lookahead_132.txt"),
+        (132, True, "lookahead_132_ascii.txt"),
+    ],
+)
 def test_sheet_matches_golden(sheet_width: int, ascii_only: bool, name: str) -> None:
     got = render_text(golden_lookahead(), sheet_width, ascii_only=ascii_only)
     data = got.encode("ascii" if ascii_only else "utf-8")
@@ -135,8 +171,9 @@ def test_every_page_keeps_the_sheet_rules(sheet_width, ascii_only, page_lines) -
 
 def test_sheet_flags_late_and_not_ready_rows() -> None:
     sheet = render_text(golden_lookahead(), 132)
-    rows = {line[2:12].strip(): line for line in sheet.splitlines() if line[:2] in ("! ", " ?",
-                                                                                   "!?")}
+    rows = {
+        line[2:12].strip(): line for line in sheet.splitlines() if line[:2] in ("! ", " ?", "!?")
+    }
     assert rows["STL-010"].startswith(" ?")  # no date for the lift plan
     assert rows["DRN-020"].startswith("! ")  # late against its finish-not-after
     assert "crane lift plan approved: no expected date" in sheet

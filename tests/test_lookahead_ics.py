@@ -31,14 +31,16 @@ def must_days(as_of: str = AS_OF, crew: str | None = None) -> set[tuple[str, dat
     """(activity, day) for every MUST cell of the lookahead, straight from the builder."""
     state = load_state(SAMPLE_SITE, date.fromisoformat(as_of))
     la = build_lookahead(state.schedule, state.replay.readiness)
-    return {(row.id, day) for row in la.rows for day, cell in zip(la.days, row.cells, strict=True)
-            if cell is Cell.MUST and (crew is None or row.crew.get(crew, 0) > 0)}
+    return {
+        (row.id, day)
+        for row in la.rows
+        for day, cell in zip(la.days, row.cells, strict=True)
+        if cell is Cell.MUST and (crew is None or row.crew.get(crew, 0) > 0)
+    }
 
 
-def run_ics(capsysbinary: pytest.CaptureFixture[bytes], *extra: str,
-            as_of: str = AS_OF) -> bytes:
-    assert main(["lookahead", str(SAMPLE_SITE), "--as-of", as_of, "--format", "ics",
-                 *extra]) == 0
+def run_ics(capsysbinary: pytest.CaptureFixture[bytes], *extra: str, as_of: str = AS_OF) -> bytes:
+    assert main(["lookahead", str(SAMPLE_SITE), "--as-of", as_of, "--format", "ics", *extra]) == 0
     return capsysbinary.readouterr().out
 
 
@@ -61,7 +63,8 @@ def test_events_are_exactly_the_must_days(capsysbinary: pytest.CaptureFixture[by
 
 
 def test_every_event_is_a_well_formed_all_day_event(
-        capsysbinary: pytest.CaptureFixture[bytes]) -> None:
+    capsysbinary: pytest.CaptureFixture[bytes],
+) -> None:
     data = run_ics(capsysbinary)
     uids = []
     for ev in events(data):
@@ -83,13 +86,18 @@ def test_sample_file_is_golden(capsysbinary: pytest.CaptureFixture[bytes]) -> No
 
 
 def test_a_later_status_keeps_the_uids_of_shared_days(
-        capsysbinary: pytest.CaptureFixture[bytes]) -> None:
+    capsysbinary: pytest.CaptureFixture[bytes],
+) -> None:
     """Re-import updates rather than duplicates: same activity and day, same UID; the later
     status has the higher SEQUENCE (RFC 5545 3.8.7.4)."""
-    earlier = {(str(e["uid"]).split(".")[0], e.decoded("dtstart")): e
-               for e in events(run_ics(capsysbinary, as_of="2026-09-24"))}
-    later = {(str(e["uid"]).split(".")[0], e.decoded("dtstart")): e
-             for e in events(run_ics(capsysbinary))}
+    earlier = {
+        (str(e["uid"]).split(".")[0], e.decoded("dtstart")): e
+        for e in events(run_ics(capsysbinary, as_of="2026-09-24"))
+    }
+    later = {
+        (str(e["uid"]).split(".")[0], e.decoded("dtstart")): e
+        for e in events(run_ics(capsysbinary))
+    }
     shared = earlier.keys() & later.keys()
     assert len(shared) >= 5
     for key in shared:
@@ -105,8 +113,22 @@ def test_one_crew(capsysbinary: pytest.CaptureFixture[bytes]) -> None:
 
 def test_per_crew_files(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     out = tmp_path / "phones"
-    assert main(["lookahead", str(SAMPLE_SITE), "--as-of", AS_OF, "--format", "ics",
-                 "--per-crew", "--out", str(out)]) == 0
+    assert (
+        main(
+            [
+                "lookahead",
+                str(SAMPLE_SITE),
+                "--as-of",
+                AS_OF,
+                "--format",
+                "ics",
+                "--per-crew",
+                "--out",
+                str(out),
+            ]
+        )
+        == 0
+    )
     files = sorted(p.name for p in out.iterdir())
     assert files and all(f.startswith("kestrel-yard-workshop-and-office-") for f in files)
     for path in out.iterdir():
@@ -115,14 +137,18 @@ def test_per_crew_files(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> N
     assert capsys.readouterr().out == ""  # the files are the data; names go to stderr
 
 
-@pytest.mark.parametrize(("extra", "says"), [
-    (["--format", "ics", "--crew", "nobody"], "no crew 'nobody'"),
-    (["--crew", "groundworks"], "go with --format ics"),
-    (["--format", "ics", "--per-crew"], "needs --out"),
-    (["--format", "ics", "--crew", "mep", "--per-crew"], "not allowed with"),
-])
-def test_bad_crew_options_are_exit_2(extra: list[str], says: str,
-                                     capsys: pytest.CaptureFixture[str]) -> None:
+@pytest.mark.parametrize(
+    ("extra", "says"),
+    [
+        (["--format", "ics", "--crew", "nobody"], "no crew 'nobody'"),
+        (["--crew", "groundworks"], "go with --format ics"),
+        (["--format", "ics", "--per-crew"], "needs --out"),
+        (["--format", "ics", "--crew", "mep", "--per-crew"], "not allowed with"),
+    ],
+)
+def test_bad_crew_options_are_exit_2(
+    extra: list[str], says: str, capsys: pytest.CaptureFixture[str]
+) -> None:
     try:
         code = main(["lookahead", str(SAMPLE_SITE), *extra])
     except SystemExit as exc:
@@ -132,8 +158,9 @@ def test_bad_crew_options_are_exit_2(extra: list[str], says: str,
 
 
 def test_icalendar_is_imported_only_when_writing() -> None:
-    code = ("import sys, fieldlog.commands.lookahead, fieldlog.lookahead.render_ics\n"
-            "print('icalendar' in sys.modules)")
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True)
+    code = (
+        "import sys, fieldlog.commands.lookahead, fieldlog.lookahead.render_ics\n"
+        "print('icalendar' in sys.modules)"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"

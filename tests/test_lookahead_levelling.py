@@ -32,8 +32,10 @@ from fieldlog.model import CalendarSpec, LagCalendar, Link, LinkType
 from fieldlog.progress import Progress, Status
 
 SUN = date(2026, 3, 1)
-CALS = (CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}), frozenset({date(2026, 3, 11)})),
-        CalendarSpec("sixday", frozenset({0, 1, 2, 3, 4, 5})))
+CALS = (
+    CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}), frozenset({date(2026, 3, 11)})),
+    CalendarSpec("sixday", frozenset({0, 1, 2, 3, 4, 5})),
+)
 
 
 def test_method_is_named() -> None:
@@ -41,8 +43,15 @@ def test_method_is_named() -> None:
 
 
 @st.composite
-def crewed_networks(draw, sizes=(3, 9), durations=(0, 4), lags=(-2, 3), link_odds=4,
-                    finish_days=(5, 40), finish_from=date(2026, 3, 2)):
+def crewed_networks(
+    draw,
+    sizes=(3, 9),
+    durations=(0, 4),
+    lags=(-2, 3),
+    link_odds=4,
+    finish_days=(5, 40),
+    finish_from=date(2026, 3, 2),
+):
     """Random small sites with two crews; the keywords let other tests draw smaller ones."""
     n = draw(st.integers(*sizes))
     cals = list(CALS[: draw(st.integers(1, 2))])
@@ -52,21 +61,36 @@ def crewed_networks(draw, sizes=(3, 9), durations=(0, 4), lags=(-2, 3), link_odd
         for c in ("hands", "pour"):
             if draw(st.integers(0, 2)):
                 crew[c] = draw(st.integers(1, 4))
-        acts.append(act(f"A{k}", draw(st.integers(*durations)),
-                        calendar=draw(st.sampled_from([c.name for c in cals])), crew=crew))
+        acts.append(
+            act(
+                f"A{k}",
+                draw(st.integers(*durations)),
+                calendar=draw(st.sampled_from([c.name for c in cals])),
+                crew=crew,
+            )
+        )
         if k == 0 and draw(st.booleans()):
-            progress["A0"] = Progress(actual_start=date(2026, 2, 27), remaining=2,
-                                      remaining_as_of=SUN)
-    links = [Link(f"A{i}", f"A{j}", draw(st.sampled_from(list(LinkType))),
-                  draw(st.integers(*lags)))
-             for j in range(n) for i in range(j) if draw(st.integers(0, link_odds - 1)) == 0]
+            progress["A0"] = Progress(
+                actual_start=date(2026, 2, 27), remaining=2, remaining_as_of=SUN
+            )
+    links = [
+        Link(f"A{i}", f"A{j}", draw(st.sampled_from(list(LinkType))), draw(st.integers(*lags)))
+        for j in range(n)
+        for i in range(j)
+        if draw(st.integers(0, link_odds - 1)) == 0
+    ]
     finish_by = None
     if draw(st.booleans()):
         finish_by = finish_from + timedelta(days=draw(st.integers(*finish_days)))
-    site = make_site(acts, links, calendars=cals, crews={"hands": draw(st.integers(1, 5)),
-                                                          "pour": draw(st.integers(1, 5))},
-                     finish_by=finish_by, start=date(2026, 2, 23),
-                     lag_calendar=draw(st.sampled_from(list(LagCalendar))))
+    site = make_site(
+        acts,
+        links,
+        calendars=cals,
+        crews={"hands": draw(st.integers(1, 5)), "pour": draw(st.integers(1, 5))},
+        finish_by=finish_by,
+        start=date(2026, 2, 23),
+        lag_calendar=draw(st.sampled_from(list(LagCalendar))),
+    )
     return site, progress
 
 
@@ -113,8 +137,9 @@ def _squares(result, places, cals) -> int:
     return sum(v * v for v in load.values())
 
 
-@settings(max_examples=150, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.too_slow])
+@settings(
+    max_examples=150, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow]
+)
 @given(crewed_networks())
 def test_levelling_keeps_the_finish_and_every_link(case) -> None:
     """Property: the forecast finish never moves and no link is ever broken."""
@@ -147,16 +172,16 @@ def test_levelling_keeps_the_finish_and_every_link(case) -> None:
 
 
 @settings(max_examples=100, deadline=None, derandomize=True)
-@given(st.integers(1, 4), st.integers(1, 6), st.lists(st.integers(0, 6), min_size=8,
-                                                        max_size=8))
+@given(st.integers(1, 4), st.integers(1, 6), st.lists(st.integers(0, 6), min_size=8, max_size=8))
 def test_one_movable_activity_lands_on_the_brute_force_minimum(dur, people, others) -> None:
     """With one activity free to move, Burgess-Killebrew's choice is the start with the least
     sum of squares among every start in its float (ties: the latest), found by brute force."""
     # A chain of one-day jobs fixes the other load day by day; M floats beside it.
     chain = [act(f"C{k}", 1, crew={"hands": n}) for k, n in enumerate(others)]
     links = [Link(f"C{k}", f"C{k + 1}") for k in range(len(others) - 1)]
-    site = make_site([*chain, act("M", dur, "Mover", crew={"hands": people})], links,
-                     crews={"hands": 0})  # any load is over: levelling always runs
+    site = make_site(
+        [*chain, act("M", dur, "Mover", crew={"hands": people})], links, crews={"hands": 0}
+    )  # any load is over: levelling always runs
     result = compute_schedule(site, SUN)
     la = build_lookahead(result, days=14)
     m = result.by_id["M"]
@@ -187,9 +212,15 @@ def test_worked_example_moves_the_floating_job_off_the_peak() -> None:
     On early dates Mon-Tue need 7 of the 4 hands. Daily totals and sums of squares for B's
     four starts: Mon 7,7,4 -> 114; Tue 4,7,7 -> 114; Wed 4,4,7,3 -> 90; Thu 4,4,4,3,3 -> 66.
     Thursday wins: the peak drops from 7 to 4."""
-    site = make_site([act("A", 3, "Excavate", crew={"hands": 4}), act("C", 2, "Blind"),
-                      act("B", 2, "Drainage", crew={"hands": 3})], [Link("A", "C")],
-                     crews={"hands": 4})
+    site = make_site(
+        [
+            act("A", 3, "Excavate", crew={"hands": 4}),
+            act("C", 2, "Blind"),
+            act("B", 2, "Drainage", crew={"hands": 3}),
+        ],
+        [Link("A", "C")],
+        crews={"hands": 4},
+    )
     la = build_lookahead(compute_schedule(site, SUN), days=7)
     (move,) = la.levelling.moves
     assert (move.activity, move.start, move.float_used) == ("B", date(2026, 3, 5), 3)

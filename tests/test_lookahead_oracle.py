@@ -67,8 +67,9 @@ class OracleCalendar:
 
     def nth(self, n: int) -> int:
         """Ordinal of the n-th working day (1-based) counted from ORIGIN."""
-        d = np.busday_offset(np.datetime64(ORIGIN, "D"), n - 1, roll="forward",
-                             busdaycal=self.np_cal)
+        d = np.busday_offset(
+            np.datetime64(ORIGIN, "D"), n - 1, roll="forward", busdaycal=self.np_cal
+        )
         return d.astype(date).toordinal()
 
     def last_day(self, first: int, duration: int) -> int:
@@ -100,8 +101,9 @@ class Placement:
     work); a milestone at the start of its day finishes at the beginning of one."""
 
 
-def link_holds(link: Link, site: Site, cals: Mapping[str, OracleCalendar],
-               pred: Placement, succ: Placement) -> bool:
+def link_holds(
+    link: Link, site: Site, cals: Mapping[str, OracleCalendar], pred: Placement, succ: Placement
+) -> bool:
     """Does the schedule keep ``link``? (The rule in the module docstring.)"""
     ci = cals[site.activity(link.pred).calendar]
     cj = cals[site.activity(link.succ).calendar]
@@ -155,8 +157,11 @@ def enumerate_schedules(p: Problem, horizon_days: int = 90) -> Enumeration:
     for a in site.activities:
         pr = prog[a.id]
         if pr.status is Status.FINISHED:
-            fixed[a.id] = Placement(pr.actual_start.toordinal(), pr.actual_finish.toordinal(),
-                                    pr.actual_start.toordinal() - 1)
+            fixed[a.id] = Placement(
+                pr.actual_start.toordinal(),
+                pr.actual_finish.toordinal(),
+                pr.actual_start.toordinal() - 1,
+            )
         else:
             open_ids.append(a.id)
     order = _topological(open_ids, site.links)
@@ -203,10 +208,13 @@ def enumerate_schedules(p: Problem, horizon_days: int = 90) -> Enumeration:
             aid = order[k]
             pr = prog[aid]
             for first, last in options[aid]:
-                started = (pr.actual_start.toordinal() - 1 if pr.actual_start else first - 1)
+                started = pr.actual_start.toordinal() - 1 if pr.actual_start else first - 1
                 here = Placement(first, last, started)
-                if all(link_holds(lk, site, cals, placed[lk.pred], here)
-                       for lk in in_links[aid] if counts(aid, lk.pred)):
+                if all(
+                    link_holds(lk, site, cals, placed[lk.pred], here)
+                    for lk in in_links[aid]
+                    if counts(aid, lk.pred)
+                ):
                     placed[aid] = here
                     step(k + 1)
                     del placed[aid]
@@ -272,29 +280,55 @@ def _topological(ids: Sequence[str], links: Sequence[Link]) -> list[str]:
 WEEKDAYS = CalendarSpec("weekdays", frozenset({0, 1, 2, 3, 4}))
 
 
-def make_site(activities: Sequence[Activity], links: Sequence[Link] = (), *,
-              calendars: Sequence[CalendarSpec] = (WEEKDAYS,),
-              crews: Mapping[str, int] | None = None, start: date = date(2026, 3, 2),
-              finish_by: date | None = None, name: str = "Test yard (invented)",
-              lag_calendar: LagCalendar = LagCalendar.SUCCESSOR, override: bool = False,
-              revision: int = 1) -> Site:
+def make_site(
+    activities: Sequence[Activity],
+    links: Sequence[Link] = (),
+    *,
+    calendars: Sequence[CalendarSpec] = (WEEKDAYS,),
+    crews: Mapping[str, int] | None = None,
+    start: date = date(2026, 3, 2),
+    finish_by: date | None = None,
+    name: str = "Test yard (invented)",
+    lag_calendar: LagCalendar = LagCalendar.SUCCESSOR,
+    override: bool = False,
+    revision: int = 1,
+) -> Site:
     """A :class:`Site` built in memory for a test."""
     return Site(
-        name=name, start=start, calendar=calendars[0].name,
+        name=name,
+        start=start,
+        calendar=calendars[0].name,
         calendars=MappingProxyType({c.name: c for c in calendars}),
         crews=MappingProxyType({c: Crew(c, n) for c, n in (crews or {}).items()}),
-        revision=revision, activities=tuple(activities), links=tuple(links),
-        finish_by=finish_by, progress_override=override, lag_calendar=lag_calendar,
+        revision=revision,
+        activities=tuple(activities),
+        links=tuple(links),
+        finish_by=finish_by,
+        progress_override=override,
+        lag_calendar=lag_calendar,
     )
 
 
-def act(aid: str, duration: int, name: str | None = None, *, calendar: str = "weekdays",
-        crew: Mapping[str, int] | None = None, start_not_before: date | None = None,
-        finish_not_after: date | None = None) -> Activity:
+def act(
+    aid: str,
+    duration: int,
+    name: str | None = None,
+    *,
+    calendar: str = "weekdays",
+    crew: Mapping[str, int] | None = None,
+    start_not_before: date | None = None,
+    finish_not_after: date | None = None,
+) -> Activity:
     """An activity with a readable default name."""
-    return Activity(aid, name or f"Activity {aid}", duration, calendar,
-                    start_not_before=start_not_before, finish_not_after=finish_not_after,
-                    crew=MappingProxyType(dict(crew or {})))
+    return Activity(
+        aid,
+        name or f"Activity {aid}",
+        duration,
+        calendar,
+        start_not_before=start_not_before,
+        finish_not_after=finish_not_after,
+        crew=MappingProxyType(dict(crew or {})),
+    )
 
 
 # -- self-checks of the oracle against numpy directly -------------------------------------------
@@ -302,8 +336,9 @@ def act(aid: str, duration: int, name: str | None = None, *, calendar: str = "we
 
 def test_oracle_counts_match_numpy_busday_count() -> None:
     """The oracle's day counts are numpy's (numpy 2.x busday_count, half-open [begin, end))."""
-    cal = OracleCalendar(CalendarSpec("w", frozenset({0, 1, 2, 3, 4}),
-                                      frozenset({date(2026, 3, 4)})))
+    cal = OracleCalendar(
+        CalendarSpec("w", frozenset({0, 1, 2, 3, 4}), frozenset({date(2026, 3, 4)}))
+    )
     a, b = date(2026, 3, 2), date(2026, 3, 8)
     assert cal.done(b.toordinal()) - cal.done(a.toordinal()) == 3  # Tue, Thu, Fri (Wed closed)
     assert cal.last_day(a.toordinal(), 3) == date(2026, 3, 5).toordinal()

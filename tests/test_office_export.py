@@ -60,8 +60,9 @@ def query(db: Path, sql: str, *args: object) -> list[tuple]:
 
 def test_every_site_and_activity_is_there(office: tuple[Path, Path]) -> None:
     jobs, db = office
-    expected = sum(len(tomllib.loads(p.read_text())["activity"])
-                   for p in jobs.glob("*/schedule.toml"))
+    expected = sum(
+        len(tomllib.loads(p.read_text())["activity"]) for p in jobs.glob("*/schedule.toml")
+    )
     assert query(db, "SELECT COUNT(*) FROM sites WHERE error IS NULL") == [(SITES,)]
     assert query(db, "SELECT COUNT(*) FROM activities") == [(expected,)]
     assert query(db, "SELECT COUNT(DISTINCT site_id) FROM schedule_results") == [(SITES,)]
@@ -76,11 +77,16 @@ def test_entries_by_kind(office: tuple[Path, Path]) -> None:
 
 def test_whole_days_lost_to_weather_per_site(office: tuple[Path, Path]) -> None:
     jobs, db = office
-    expected = Counter(site for site, e in log_entries(jobs)
-                       if e["kind"] == "lost-time" and e["cause"] == "weather"
-                       and e.get("whole_day"))
-    rows = query(db, "SELECT s.folder, COUNT(*) FROM lost_time l JOIN sites s USING (site_id) "
-                 "WHERE l.cause = 'weather' AND l.whole_day = 1 GROUP BY s.folder")
+    expected = Counter(
+        site
+        for site, e in log_entries(jobs)
+        if e["kind"] == "lost-time" and e["cause"] == "weather" and e.get("whole_day")
+    )
+    rows = query(
+        db,
+        "SELECT s.folder, COUNT(*) FROM lost_time l JOIN sites s USING (site_id) "
+        "WHERE l.cause = 'weather' AND l.whole_day = 1 GROUP BY s.folder",
+    )
     assert {Path(folder).name: n for folder, n in rows} == dict(expected)
 
 
@@ -98,8 +104,9 @@ def test_open_readiness_items(office: tuple[Path, Path]) -> None:
     jobs, db = office
     entries = log_entries(jobs)
     cleared = {(site, e["item"]) for site, e in entries if e["kind"] == "cleared"}
-    expected = sum(1 for site, e in entries
-                   if e["kind"] == "need" and (site, e["id"]) not in cleared)
+    expected = sum(
+        1 for site, e in entries if e["kind"] == "need" and (site, e["id"]) not in cleared
+    )
     assert query(db, "SELECT COUNT(*) FROM readiness WHERE cleared_by IS NULL") == [(expected,)]
 
 
@@ -108,13 +115,13 @@ def test_status_date_is_each_sites_last_logged_day(office: tuple[Path, Path]) ->
     last = {}
     for site, e in log_entries(jobs):
         last[site] = max(last.get(site, ""), e["day"].isoformat())
-    rows = query(db, "SELECT s.folder, r.as_of FROM schedule_runs r JOIN sites s "
-                 "USING (site_id)")
+    rows = query(db, "SELECT s.folder, r.as_of FROM schedule_runs r JOIN sites s USING (site_id)")
     assert {Path(f).name: d for f, d in rows} == last
 
 
 def test_unchanged_sites_are_skipped_and_a_changed_one_is_redone(
-        office: tuple[Path, Path], tmp_path: Path) -> None:
+    office: tuple[Path, Path], tmp_path: Path
+) -> None:
     jobs, db = office
     started = time.perf_counter()
     again = export_sites(expand_sites([jobs]), db)
@@ -124,18 +131,36 @@ def test_unchanged_sites_are_skipped_and_a_changed_one_is_redone(
     assert skipped_s < 5
 
     site = jobs / "site-007"
-    before = query(db, "SELECT COUNT(*) FROM entries e JOIN sites s USING (site_id) "
-                   "WHERE s.folder = ?", str(site.resolve()))[0][0]
-    record_entry(site, load_site(site), "note", TODAY, {"text": "late delivery"}, today=TODAY,
-                 author="Test Foreman", device="office-test-2", home=tmp_path)
+    before = query(
+        db,
+        "SELECT COUNT(*) FROM entries e JOIN sites s USING (site_id) WHERE s.folder = ?",
+        str(site.resolve()),
+    )[0][0]
+    record_entry(
+        site,
+        load_site(site),
+        "note",
+        TODAY,
+        {"text": "late delivery"},
+        today=TODAY,
+        author="Test Foreman",
+        device="office-test-2",
+        home=tmp_path,
+    )
     third = export_sites(expand_sites([jobs]), db)
     assert [s.folder.name for s in third.sites if s.outcome is Outcome.EXPORTED] == ["site-007"]
-    after = query(db, "SELECT COUNT(*) FROM entries e JOIN sites s USING (site_id) "
-                  "WHERE s.folder = ?", str(site.resolve()))[0][0]
+    after = query(
+        db,
+        "SELECT COUNT(*) FROM entries e JOIN sites s USING (site_id) WHERE s.folder = ?",
+        str(site.resolve()),
+    )[0][0]
     assert after == before + 1
     # a new status date keeps the earlier one's results beside it
-    runs = query(db, "SELECT COUNT(*) FROM schedule_runs r JOIN sites s USING (site_id) "
-                 "WHERE s.folder = ?", str(site.resolve()))
+    runs = query(
+        db,
+        "SELECT COUNT(*) FROM schedule_runs r JOIN sites s USING (site_id) WHERE s.folder = ?",
+        str(site.resolve()),
+    )
     assert runs == [(2,)]
 
 
@@ -150,23 +175,28 @@ def test_roll_up_of_100_sites_is_quick(office: tuple[Path, Path]) -> None:
     assert len(rows) == SITES and took < 5
 
 
-def test_corrections_keep_the_original_and_name_the_correction(tmp_path: Path,
-                                                               capsys: pytest.CaptureFixture[str]
-                                                               ) -> None:
+def test_corrections_keep_the_original_and_name_the_correction(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
     """The sample log has one correction: the entry it supersedes is still in ``entries``."""
     db = tmp_path / "office.db"
     assert main(["export", str(SAMPLE_SITE), "--sqlite", str(db)]) == 0
-    corrections = [(e["id"], e["supersedes"]) for _, e in log_entries(SAMPLE_SITE.parent)
-                   if e["kind"] == "correction"]
+    corrections = [
+        (e["id"], e["supersedes"])
+        for _, e in log_entries(SAMPLE_SITE.parent)
+        if e["kind"] == "correction"
+    ]
     assert corrections
     for correction_id, original in corrections:
-        assert query(db, "SELECT superseded_by FROM entries WHERE entry_id = ?",
-                     original) == [(correction_id,)]
+        assert query(db, "SELECT superseded_by FROM entries WHERE entry_id = ?", original) == [
+            (correction_id,)
+        ]
     assert "1 exported" in capsys.readouterr().out
 
 
-def test_a_broken_site_is_recorded_and_keeps_its_rows(tmp_path: Path,
-                                                      capsys: pytest.CaptureFixture[str]) -> None:
+def test_a_broken_site_is_recorded_and_keeps_its_rows(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
     site = tmp_path / "jobs" / "yard"
     site.parent.mkdir()
     shutil.copytree(SAMPLE_SITE, site)
@@ -181,8 +211,9 @@ def test_a_broken_site_is_recorded_and_keeps_its_rows(tmp_path: Path,
 
 
 @pytest.mark.parametrize("content", [b"not a database at all, just text" * 10, None])
-def test_a_database_fieldlog_did_not_write_is_refused(tmp_path: Path, content: bytes | None,
-                                                     capsys: pytest.CaptureFixture[str]) -> None:
+def test_a_database_fieldlog_did_not_write_is_refused(
+    tmp_path: Path, content: bytes | None, capsys: pytest.CaptureFixture[str]
+) -> None:
     db = tmp_path / "other.db"
     if content is None:
         with sqlite3.connect(db) as con:

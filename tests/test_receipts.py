@@ -33,8 +33,11 @@ from tests.sync_helpers import append_entry, fixed_key, sync
 
 def key_file(device: str) -> bytes:
     """A device key file as fieldlog writes it, for the key ``append_entry`` signs with."""
-    return key_file_bytes(DeviceRecord(device, public_hex(fixed_key(device).public_key()),
-                                       "Test Foreman", date(2026, 9, 28), 1))
+    return key_file_bytes(
+        DeviceRecord(
+            device, public_hex(fixed_key(device).public_key()), "Test Foreman", date(2026, 9, 28), 1
+        )
+    )
 
 
 def last_entries(site: Path) -> dict[str, tuple[int, str]]:
@@ -65,7 +68,9 @@ CASES: dict[str, tuple[Callable[[Path], None], tuple[str, ...]]] = {
     "last 3 entries": (lambda s: drop_last_entries(device_files(s, LAPTOP)[-1], 3), (LAPTOP,)),
     "last day file": (lambda s: device_files(s, LAPTOP)[-1].unlink(), (LAPTOP,)),
     "all of one device's files": (
-        lambda s: [p.unlink() for p in device_files(s, TABLET)], (TABLET,)),
+        lambda s: [p.unlink() for p in device_files(s, TABLET)],
+        (TABLET,),
+    ),
     "whole log": (lambda s: shutil.rmtree(s / "log"), (LAPTOP, TABLET)),
 }
 
@@ -78,7 +83,8 @@ def synced(sample_site: Path, tmp_path: Path) -> tuple[Path, Path, dict[str, tup
     expected = last_entries(sample_site)
     summary = sync(sample_site, office)
     assert summary.exit_code == 0 and summary.receipt == "receipt 1 in " + (
-        f"receipts/{own_chain(office).name}")
+        f"receipts/{own_chain(office).name}"
+    )
     # The sample's own devices sync with the office too, as every real device does, so the
     # office knows the devices whose keys are in devices/ (a key it never heard of is named).
     for device in (LAPTOP, TABLET):
@@ -128,8 +134,7 @@ def test_intact_after_sync(synced, capsys):
 
 @pytest.mark.parametrize("side", ["site", "office"])
 @pytest.mark.parametrize("case", list(CASES))
-def test_tail_removal_is_found_against_the_receipts_that_folder_holds(synced, capsys, case,
-                                                                        side):
+def test_tail_removal_is_found_against_the_receipts_that_folder_holds(synced, capsys, case, side):
     """The site against this device's copies; the office against its own chains."""
     site, office, expected = synced
     folder = site if side == "site" else office
@@ -145,9 +150,9 @@ def test_tail_removal_is_found_against_the_office_copy(synced, capsys, case, _is
     site, office, expected = synced
     tamper, devices = CASES[case]
     tamper(site)
-    shutil.rmtree(site / "receipts")                       # this device's copies gone too
+    shutil.rmtree(site / "receipts")  # this device's copies gone too
     shutil.rmtree(home_folder(_isolated_home, site))
-    assert verify(capsys, site)[0] == 0   # with its copies gone, nothing here vouches
+    assert verify(capsys, site)[0] == 0  # with its copies gone, nothing here vouches
     code, out = verify(capsys, site, "--office", office)
     assert code == 1
     assert_named(out, expected, devices)
@@ -164,7 +169,7 @@ def test_edited_receipt_is_a_finding_everywhere_it_is_kept(synced, capsys):
     code, out = verify(capsys, site, "--office", office)
     assert code == 1 and f"office receipts/{chain.name}: receipt 1: edited" in out
     copy = own_copy(site)
-    copy.write_text(copy.read_text(encoding="utf-8").replace('number = 1', 'number = 2'))
+    copy.write_text(copy.read_text(encoding="utf-8").replace("number = 1", "number = 2"))
     code, out = verify(capsys, site)
     assert code == 1 and f"receipts/{copy.name}: receipt 2: edited" in out
 
@@ -200,8 +205,9 @@ def test_missing_office_folder_is_bad_input(synced, capsys, tmp_path):
     assert code == 2 and "office folder does not exist" in err and "Fix:" in err
 
 
-def test_a_device_key_the_office_never_heard_from_is_named(synced, capsys, tmp_path,
-                                                            _isolated_home):
+def test_a_device_key_the_office_never_heard_from_is_named(
+    synced, capsys, tmp_path, _isolated_home
+):
     """A key planted in devices/ verifies its own entries; only the office can tell."""
     site, office, _ = synced
     devices = site / "devices"
@@ -212,8 +218,7 @@ def test_a_device_key_the_office_never_heard_from_is_named(synced, capsys, tmp_p
     for args in ((site,), (site, "--office", office)):
         code, out = verify(capsys, *args)
         assert code == 1
-        assert ("devices/tab-planted-1.toml: device tab-planted-1 is not known to the office"
-                in out)
+        assert "devices/tab-planted-1.toml: device tab-planted-1 is not known to the office" in out
         assert f"device {this} is not known" not in out
     # A device that syncs with the office itself becomes known, and the next receipt says so.
     other_home = tmp_path / "home-planted"
@@ -225,7 +230,7 @@ def test_a_device_key_the_office_never_heard_from_is_named(synced, capsys, tmp_p
     append_entry(other, date(2026, 9, 28), None, "crane booked", home=other_home)
     assert sync(other, office, home=other_home).exit_code == 0
     assert verify(capsys, site, "--office", office)[0] == 0
-    assert sync(site, office).receipt is not None          # receives the entry, knows the device
+    assert sync(site, office).receipt is not None  # receives the entry, knows the device
     assert verify(capsys, site)[0] == 0
 
 

@@ -28,18 +28,24 @@ FAMILY = "\U0001f468\u200d\U0001f469\u200d\U0001f467"  # one picture, 2 cells (U
 WORKER = "\U0001f477\u200d\u2640\ufe0f"
 FLAG = "\U0001f1f3\U0001f1f4"  # a regional-indicator pair: one flag, 2 cells
 NAMES = [
-    "基礎掘削 北側",                      # CJK: 2 cells each (UAX #11 "W")
+    "基礎掘削 北側",  # CJK: 2 cells each (UAX #11 "W")
     f"Crane lift {WORKER} zone B",
     f"Site office {FAMILY} welfare",
-    f"Façade e\u0301 {FLAG} panels",      # a combining accent takes no cell
+    f"Façade e\u0301 {FLAG} panels",  # a combining accent takes no cell
     "ascii only, grid A-C",
 ]
 MON, TUE = date(2026, 3, 2), date(2026, 3, 3)
 
 
-MORE = ["\u2600\ufe0f sunny", "\u2600 plain sun", "\U0001f44d\U0001f3fd thumbs", "\u00b7\u2026",
-        "\ud55c\uad6d\uc5b4", "\uff76\uff80\uff76\uff85", "\U0001f3f4\U000e0067\U000e0062\U000e0073"
-        "\U000e0063\U000e0074\U000e007f flag"]
+MORE = [
+    "\u2600\ufe0f sunny",
+    "\u2600 plain sun",
+    "\U0001f44d\U0001f3fd thumbs",
+    "\u00b7\u2026",
+    "\ud55c\uad6d\uc5b4",
+    "\uff76\uff80\uff76\uff85",
+    "\U0001f3f4\U000e0067\U000e0062\U000e0073\U000e0063\U000e0074\U000e007f flag",
+]
 
 
 @pytest.mark.parametrize("text", NAMES + MORE)
@@ -93,11 +99,18 @@ def wide_site(tmp_path: Path) -> Path:
     text = text.replace('name = "Lay site drains"', f'name = "{NAMES[2]}"')
     schedule.write_text(text, encoding="utf-8")
     log(folder, "started", MON, {"activity": "EXC-010"}, today=MON)
-    for trade, company in (("型枠工", "東京建設 有限会社 北関東 第二工事部"),
-                           (f"steel {WORKER}", f"{FAMILY} Invented Rebar Ltd"),
-                           ("concrete", "Plain Company Ltd")):
-        log(folder, "crew", TUE, {"trade": trade, "company": company, "headcount": 4,
-                                  "hours": 32}, today=TUE)
+    for trade, company in (
+        ("型枠工", "東京建設 有限会社 北関東 第二工事部"),
+        (f"steel {WORKER}", f"{FAMILY} Invented Rebar Ltd"),
+        ("concrete", "Plain Company Ltd"),
+    ):
+        log(
+            folder,
+            "crew",
+            TUE,
+            {"trade": trade, "company": company, "headcount": 4, "hours": 32},
+            today=TUE,
+        )
     log(folder, "note", TUE, {"text": "全員安全確認済み " * 12 + FAMILY * 30}, today=TUE)
     return folder
 
@@ -110,7 +123,7 @@ def test_daily_report_lines_fit_80_cells_and_columns_line_up(wide_site: Path) ->
     crew = [line for line in lines if line.rstrip().endswith(" 32")]
     assert len(crew) == 3
     # The headcount column ends at the same cell on every crew line.
-    ends = {cell_len(line[:line.rindex(" 4 ") + 2]) for line in crew}
+    ends = {cell_len(line[: line.rindex(" 4 ") + 2]) for line in crew}
     assert len(ends) == 1, crew
     assert len({cell_len(line) for line in crew}) == 1, crew
 
@@ -131,6 +144,6 @@ def test_float_list_columns_line_up_with_wide_names(wide_site: Path) -> None:
     text = render_schedule(state.schedule, "text")
     lines = text.splitlines()
     head = next(k for k, line in enumerate(lines) if line.lstrip().startswith("ID"))
-    rows = lines[head:head + 2 + len(state.schedule.activities)]
+    rows = lines[head : head + 2 + len(state.schedule.activities)]
     # Fixed columns and a right-aligned last one: every row ends on the same cell.
     assert len({cell_len(line) for line in rows}) == 1, rows

@@ -18,8 +18,19 @@ from tests.golden_files import assert_golden
 SMALL = Path(__file__).parent / "data" / "small-site"
 
 CONTRACT_KEYS = {
-    "id", "name", "status", "early_start", "early_finish", "late_start", "late_finish",
-    "total_float", "free_float", "critical", "actual_start", "actual_finish", "remaining",
+    "id",
+    "name",
+    "status",
+    "early_start",
+    "early_finish",
+    "late_start",
+    "late_finish",
+    "total_float",
+    "free_float",
+    "critical",
+    "actual_start",
+    "actual_finish",
+    "remaining",
 }
 
 
@@ -56,8 +67,7 @@ def test_json_contract(capsys: pytest.CaptureFixture[str]) -> None:
 
 
 def test_as_of_before_start_is_plain_plan(capsys: pytest.CaptureFixture[str]) -> None:
-    code, out, _ = run(capsys, "schedule", str(SMALL), "--as-of", "2026-02-20", "--format",
-                       "json")
+    code, out, _ = run(capsys, "schedule", str(SMALL), "--as-of", "2026-02-20", "--format", "json")
     assert code == 0
     assert json.loads(out)["activities"][0]["early_start"] == "2026-03-02"
 
@@ -80,6 +90,10 @@ def test_fast_json_matches_json_dumps(names: list[str]) -> None:
     """The fast JSON writer gives exactly the bytes of json.dumps(indent=2) (the reference)."""
     from fieldlog.render_schedule import json_text
 
-    doc = {"as_of": "2026-03-01", "n": None, "nested": {"x": [1, 2]},
-           "activities": [{"id": n, "ok": True, "f": -1, "none": None, "x": 1.5} for n in names]}
+    doc = {
+        "as_of": "2026-03-01",
+        "n": None,
+        "nested": {"x": [1, 2]},
+        "activities": [{"id": n, "ok": True, "f": -1, "none": None, "x": 1.5} for n in names],
+    }
     assert json_text(doc) == json.dumps(doc, indent=2) + "\n"

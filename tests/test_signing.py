@@ -31,24 +31,28 @@ RFC8032_7_1 = {
         "d75a980182b10ab7d54bfed3c964073a0ee172f3daa62325af021a68f707511a",
         "",
         "e5564300c360ac729086e2cc806e828a84877f1eb8e5d974d873e065224901555fb8821590a33bacc6"
-        "1e39701cf9b46bd25bf5f0595bbe24655141438e7a100b"),
+        "1e39701cf9b46bd25bf5f0595bbe24655141438e7a100b",
+    ),
     "RFC 8032 7.1 TEST 2": (
         "4ccd089b28ff96da9db6c346ec114e0f5b8a319f35aba624da8cf6ed4fb8a6fb",
         "3d4017c3e843895a92b70aa74d1b7ebc9c982ccf2ec4968cc0cd55f12af4660c",
         "72",
         "92a009a9f0d4cab8720e820b5f642540a2b27b5416503f8fb3762223ebdb69da085ac1e43e15996e45"
-        "8f3613d0f11d8c387b2eaeb4302aeeb00d291612bb0c00"),
+        "8f3613d0f11d8c387b2eaeb4302aeeb00d291612bb0c00",
+    ),
     "RFC 8032 7.1 TEST 3": (
         "c5aa8df43f9f837bedb7442f31dcb7b166d38535076f094b85ce3a2e0b4458f7",
         "fc51cd8e6218a1a38da47ed00230f0580816ed13ba3303ac5deb911548908025",
         "af82",
         "6291d657deec24024827e69c3abe01a30ce548a284743a445e3680d7db5ac3ac18ff9b538d16f290ae"
-        "67f760984dc6594a7c15e9716ed28dc027beceea1ec40a"),
+        "67f760984dc6594a7c15e9716ed28dc027beceea1ec40a",
+    ),
 }
 
 
-@pytest.mark.parametrize(("secret", "public", "message", "signature"),
-                         RFC8032_7_1.values(), ids=RFC8032_7_1.keys())
+@pytest.mark.parametrize(
+    ("secret", "public", "message", "signature"), RFC8032_7_1.values(), ids=RFC8032_7_1.keys()
+)
 def test_rfc8032_vectors_through_the_library(secret, public, message, signature):
     key = Ed25519PrivateKey.from_private_bytes(bytes.fromhex(secret))
     assert public_hex(key.public_key()) == public  # RFC 8032 7.1: public key from secret
@@ -70,8 +74,9 @@ def test_an_entry_signature_holds_only_for_its_own_hash(digest, byte, bit):
     other = bytearray(digest)
     other[byte] ^= 1 << bit
     assert not signature_ok(pub, bytes(other).hex(), sig)
-    assert not signature_ok(public_hex(Ed25519PrivateKey.generate().public_key()),
-                            digest.hex(), sig)
+    assert not signature_ok(
+        public_hex(Ed25519PrivateKey.generate().public_key()), digest.hex(), sig
+    )
 
 
 def test_the_key_is_made_once_and_kept_owner_only(tmp_path):
@@ -84,6 +89,7 @@ def test_the_key_is_made_once_and_kept_owner_only(tmp_path):
 
 def test_a_file_system_without_chmod_warns_once_and_carries_on(tmp_path, monkeypatch):
     """FAT through FUSE refuses chmod with ENOSYS (library notes, 4.2)."""
+
     def refuse(fd: int, mode: int) -> None:
         raise OSError(errno.ENOSYS, "Function not implemented")
 
@@ -100,10 +106,20 @@ def test_a_damaged_key_file_is_one_clear_error(tmp_path):
         device_key(tmp_path)
 
 
-@pytest.mark.parametrize("name", [
-    "", "   ", "x" * 81, "R.\nOkafor", "bell\a", "\x1b[2Jclear screen", "tab\there",
-    "nul\x00", "zero width\u200b",
-])
+@pytest.mark.parametrize(
+    "name",
+    [
+        "",
+        "   ",
+        "x" * 81,
+        "R.\nOkafor",
+        "bell\a",
+        "\x1b[2Jclear screen",
+        "tab\there",
+        "nul\x00",
+        "zero width\u200b",
+    ],
+)
 def test_unusable_author_names_are_refused(name):
     with pytest.raises(EntryRefused, match="not a usable name"):
         check_author(name)
@@ -137,16 +153,25 @@ def test_a_key_file_reads_back_and_is_never_replaced(tmp_path):
     assert (tmp_path / "devices" / "site-laptop-9.toml").read_bytes() == before
 
 
-@pytest.mark.parametrize(("name", "text", "problem"), [
-    ("Bad Name.toml", "", "not a device key file name"),
-    ("site-laptop-9.toml", "device = [", "not TOML"),
-    ("site-laptop-9.toml", 'device = "site-laptop-9"\n', "holds exactly"),
-    ("site-laptop-9.toml", key_file_bytes(_record("other-device-1")).decode(), "not the file's"),
-    ("site-laptop-9.toml", key_file_bytes(_record(key="XY" * 32)).decode(), "64 hex digits"),
-    ("site-laptop-9.toml", key_file_bytes(_record()).decode().replace("signed_from = 1",
-                                                                      "signed_from = 0"),
-     "not an entry number"),
-])
+@pytest.mark.parametrize(
+    ("name", "text", "problem"),
+    [
+        ("Bad Name.toml", "", "not a device key file name"),
+        ("site-laptop-9.toml", "device = [", "not TOML"),
+        ("site-laptop-9.toml", 'device = "site-laptop-9"\n', "holds exactly"),
+        (
+            "site-laptop-9.toml",
+            key_file_bytes(_record("other-device-1")).decode(),
+            "not the file's",
+        ),
+        ("site-laptop-9.toml", key_file_bytes(_record(key="XY" * 32)).decode(), "64 hex digits"),
+        (
+            "site-laptop-9.toml",
+            key_file_bytes(_record()).decode().replace("signed_from = 1", "signed_from = 0"),
+            "not an entry number",
+        ),
+    ],
+)
 def test_bad_key_files_are_named(name, text, problem):
     with pytest.raises(JournalError, match=problem) as err:
         parse_key_file(name, text.encode())

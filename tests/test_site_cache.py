@@ -98,21 +98,28 @@ def load_fresh(folder: Path) -> object:
 
 def uncached(folder: Path) -> object:
     """The oracle: parse and validate, no cache involved."""
-    return site_files._parse_and_build(folder, (folder / "site.toml").read_bytes(),
-                                       (folder / "schedule.toml").read_bytes())
+    return site_files._parse_and_build(
+        folder, (folder / "site.toml").read_bytes(), (folder / "schedule.toml").read_bytes()
+    )
 
 
 def test_cache_lives_in_fieldlog_home(_isolated_home):
     assert cache_folder() == _isolated_home / "cache"
 
 
-@pytest.mark.parametrize(("platform", "env", "expected"), [
-    ("linux", {"XDG_CACHE_HOME": "/x/cache"}, "/x/cache/fieldlog"),
-    ("linux", {"HOME": "/home/foreman"}, "/home/foreman/.cache/fieldlog"),
-    ("darwin", {"HOME": "/Users/foreman"}, "/Users/foreman/.cache/fieldlog"),
-    ("win32", {"LOCALAPPDATA": "/c/Users/foreman/AppData/Local"},
-     "/c/Users/foreman/AppData/Local/fieldlog/cache"),
-])
+@pytest.mark.parametrize(
+    ("platform", "env", "expected"),
+    [
+        ("linux", {"XDG_CACHE_HOME": "/x/cache"}, "/x/cache/fieldlog"),
+        ("linux", {"HOME": "/home/foreman"}, "/home/foreman/.cache/fieldlog"),
+        ("darwin", {"HOME": "/Users/foreman"}, "/Users/foreman/.cache/fieldlog"),
+        (
+            "win32",
+            {"LOCALAPPDATA": "/c/Users/foreman/AppData/Local"},
+            "/c/Users/foreman/AppData/Local/fieldlog/cache",
+        ),
+    ],
+)
 def test_cache_folder_without_fieldlog_home(monkeypatch, platform, env, expected):
     # Locations as the task states them: XDG base directory spec (XDG_CACHE_HOME, default
     # ~/.cache) on Linux and macOS, %LOCALAPPDATA% on Windows.
@@ -146,11 +153,14 @@ def test_cached_sample_site_equals_the_parsed_one(sample_site, parses):
     assert isinstance(cached.crews, MappingProxyType)
 
 
-@pytest.mark.parametrize(("name", "old", "new"), [
-    ("site.toml", "available = 5", "available = 6"),
-    ("schedule.toml", "duration = 6", "duration = 7"),
-    ("schedule.toml", "lag = 2", "lag = 2 "),  # one byte of whitespace is a change too
-])
+@pytest.mark.parametrize(
+    ("name", "old", "new"),
+    [
+        ("site.toml", "available = 5", "available = 6"),
+        ("schedule.toml", "duration = 6", "duration = 7"),
+        ("schedule.toml", "lag = 2", "lag = 2 "),  # one byte of whitespace is a change too
+    ],
+)
 def test_an_edit_of_either_file_misses(tmp_path, parses, name, old, new):
     folder = write(tmp_path / "site")
     load_site(folder)
@@ -194,24 +204,39 @@ def _other_version(data: bytes) -> bytes:
 
 def _valid_digest(payload: bytes):
     """A file whose header and digest are right but whose payload is not a Site."""
+
     def corrupt(data: bytes) -> bytes:
         import hashlib
+
         head = data[: data.index(b"\n", len(b"fieldlog-site-cache\n")) + 1]
         return head + hashlib.sha256(payload).digest() + payload
+
     return corrupt
 
 
-@pytest.mark.parametrize("corrupt", [
-    lambda data: b"",
-    _truncate,
-    _flip_last_byte,
-    _other_version,
-    lambda data: os.urandom(len(data)),
-    _valid_digest(b"\x80\x05not a pickle at all"),
-    _valid_digest(pickle.dumps({"not": "a site"})),
-    _valid_digest(pickle.dumps(1)[:-1]),  # pickle stream cut before its STOP
-], ids=["empty", "truncated", "flipped byte", "other version", "garbage", "unpicklable",
-        "not a site", "cut stream"])
+@pytest.mark.parametrize(
+    "corrupt",
+    [
+        lambda data: b"",
+        _truncate,
+        _flip_last_byte,
+        _other_version,
+        lambda data: os.urandom(len(data)),
+        _valid_digest(b"\x80\x05not a pickle at all"),
+        _valid_digest(pickle.dumps({"not": "a site"})),
+        _valid_digest(pickle.dumps(1)[:-1]),  # pickle stream cut before its STOP
+    ],
+    ids=[
+        "empty",
+        "truncated",
+        "flipped byte",
+        "other version",
+        "garbage",
+        "unpicklable",
+        "not a site",
+        "cut stream",
+    ],
+)
 def test_a_damaged_cache_file_is_a_miss_and_is_replaced(tmp_path, parses, corrupt):
     folder = write(tmp_path / "site")
     good = load_site(folder)
@@ -225,12 +250,16 @@ def test_a_damaged_cache_file_is_a_miss_and_is_replaced(tmp_path, parses, corrup
     assert entries() == [entry] and entry.read_bytes() == intact  # rewritten whole
 
 
-@pytest.mark.parametrize(("site", "schedule", "error"), [
-    (SITE, SCHEDULE.replace("duration = 4", "durtion = 4"), SiteError),
-    (SITE, SCHEDULE.replace('name = "Pad foundations"', 'name = "Pad'), SiteError),
-    (SITE.replace('"weekdays"', '"weekday"', 1), SCHEDULE, SiteError),
-    (SITE, SCHEDULE + '\n[[link]]\nfrom = "FRAME"\nto = "PAD"\n', DependencyLoopError),
-], ids=["unknown key", "toml syntax", "unknown calendar", "loop"])
+@pytest.mark.parametrize(
+    ("site", "schedule", "error"),
+    [
+        (SITE, SCHEDULE.replace("duration = 4", "durtion = 4"), SiteError),
+        (SITE, SCHEDULE.replace('name = "Pad foundations"', 'name = "Pad'), SiteError),
+        (SITE.replace('"weekdays"', '"weekday"', 1), SCHEDULE, SiteError),
+        (SITE, SCHEDULE + '\n[[link]]\nfrom = "FRAME"\nto = "PAD"\n', DependencyLoopError),
+    ],
+    ids=["unknown key", "toml syntax", "unknown calendar", "loop"],
+)
 def test_validation_errors_are_never_cached(tmp_path, parses, site, schedule, error):
     folder = write(tmp_path / "site", site, schedule)
     for _attempt in (1, 2):
@@ -242,8 +271,10 @@ def test_validation_errors_are_never_cached(tmp_path, parses, site, schedule, er
 
 def test_the_site_folder_is_never_written(tmp_path, _isolated_home, sample_site, parses):
     def snapshot(root: Path) -> dict[str, tuple[int, int]]:
-        return {str(p.relative_to(root)): (p.stat().st_size, p.stat().st_mtime_ns)
-                for p in sorted(root.rglob("*"))}
+        return {
+            str(p.relative_to(root)): (p.stat().st_size, p.stat().st_mtime_ns)
+            for p in sorted(root.rglob("*"))
+        }
 
     before = snapshot(sample_site)
     load_site(sample_site)
@@ -255,9 +286,10 @@ def test_the_site_folder_is_never_written(tmp_path, _isolated_home, sample_site,
 
 
 def test_only_the_most_recently_used_entries_are_kept(tmp_path, parses):
-    folders = [write(tmp_path / f"s{k}", schedule=SCHEDULE.replace("revision = 2",
-                                                                   f"revision = {k}"))
-               for k in range(KEEP + 3)]
+    folders = [
+        write(tmp_path / f"s{k}", schedule=SCHEDULE.replace("revision = 2", f"revision = {k}"))
+        for k in range(KEEP + 3)
+    ]
     load_site(folders[0])
     (first,) = entries()
     for k, folder in enumerate(folders[1:], 1):

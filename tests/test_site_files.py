@@ -84,7 +84,9 @@ def test_a_valid_folder_loads(tmp_path):
     assert [a.id for a in site.activities] == ["EXC", "POUR", "CURE"]
     assert site.revision == 3 and site.start == date(2026, 3, 2)
     assert [(lk.pred, lk.succ, lk.type) for lk in site.links] == [
-        ("EXC", "POUR", LinkType.FS), ("POUR", "CURE", LinkType.FS)]
+        ("EXC", "POUR", LinkType.FS),
+        ("POUR", "CURE", LinkType.FS),
+    ]
     assert site.activity("CURE").calendar == "allweek"
 
 
@@ -154,12 +156,15 @@ def test_unknown_id_in_a_link(tmp_path):
     _assert_located(err, bad, "[[link]]", "CURING")
 
 
-@pytest.mark.parametrize("old, new, words", [
-    ('calendar = "allweek"', 'calendar = "sevenday"', "unknown calendar 'sevenday'"),
-    ("crew = { groundworks = 3 }", "crew = { steelfixers = 3 }", "unknown crew 'steelfixers'"),
-    ("duration = 3", "duration = -3", "negative duration"),
-    ("duration = 3", 'duration = "three"', "whole number"),
-])
+@pytest.mark.parametrize(
+    "old, new, words",
+    [
+        ('calendar = "allweek"', 'calendar = "sevenday"', "unknown calendar 'sevenday'"),
+        ("crew = { groundworks = 3 }", "crew = { steelfixers = 3 }", "unknown crew 'steelfixers'"),
+        ("duration = 3", "duration = -3", "negative duration"),
+        ("duration = 3", 'duration = "three"', "whole number"),
+    ],
+)
 def test_bad_activity_fields(tmp_path, old, new, words):
     bad = SCHEDULE.replace(old, new)
     err = error_for(tmp_path, schedule=bad)
@@ -208,10 +213,13 @@ def test_a_bad_site_date(tmp_path):
     assert info.value.line == line_of(bad, "start =")
 
 
-@pytest.mark.parametrize("old, new, key", [
-    ("duration = 1", "durtion = 1", "durtion"),
-    ("lag = 0", "lags = 0", "lags"),
-])
+@pytest.mark.parametrize(
+    "old, new, key",
+    [
+        ("duration = 1", "durtion = 1", "durtion"),
+        ("lag = 0", "lags = 0", "lags"),
+    ],
+)
 def test_unknown_keys_are_refused(tmp_path, old, new, key):
     bad = SCHEDULE.replace(old, new)
     err = error_for(tmp_path, schedule=bad)
@@ -232,8 +240,9 @@ def test_unknown_key_in_site_toml(tmp_path):
 
 
 def run_cli(*args: str) -> subprocess.CompletedProcess:
-    return subprocess.run([sys.executable, "-m", "fieldlog", *args], capture_output=True,
-                          text=True, timeout=60)
+    return subprocess.run(
+        [sys.executable, "-m", "fieldlog", *args], capture_output=True, text=True, timeout=60
+    )
 
 
 @pytest.mark.parametrize("breakage", ["missing", "syntax", "loop", "unknown-key"])
@@ -242,8 +251,10 @@ def test_cli_refuses_a_bad_folder_with_one_line(tmp_path, breakage):
     if breakage == "syntax":
         write(folder, schedule=SCHEDULE.replace("revision = 3", "revision = = 3"))
     elif breakage == "loop":
-        write(folder, schedule=SCHEDULE.replace('name = "Excavate"',
-                                                'name = "Excavate"\nafter = ["CURE"]'))
+        write(
+            folder,
+            schedule=SCHEDULE.replace('name = "Excavate"', 'name = "Excavate"\nafter = ["CURE"]'),
+        )
     elif breakage == "unknown-key":
         write(folder, schedule=SCHEDULE.replace("duration = 1", "durtion = 1"))
     proc = run_cli("schedule", str(folder))
@@ -266,37 +277,88 @@ def test_cli_schedules_a_good_folder(tmp_path):
 _DUP = SCHEDULE.replace('id = "POUR"', 'id = "EXC"')
 BAD_INPUTS = [
     # (case, site text or None to omit, schedule text or None to omit, file, words)
-    ("toml syntax", SITE, SCHEDULE.replace("revision = 3", "revision = = 3"),
-     "schedule.toml", "TOML syntax error"),
+    (
+        "toml syntax",
+        SITE,
+        SCHEDULE.replace("revision = 3", "revision = = 3"),
+        "schedule.toml",
+        "TOML syntax error",
+    ),
     ("missing site.toml", None, SCHEDULE, "site.toml", "site.toml is missing"),
     ("missing schedule.toml", SITE, None, "schedule.toml", "schedule.toml is missing"),
     ("duplicate id", SITE, _DUP, "schedule.toml", "duplicate activity id 'EXC'"),
-    ("unknown id in after", SITE, SCHEDULE.replace('after = ["EXC"]', 'after = ["EXX"]'),
-     "schedule.toml", "unknown activity 'EXX'"),
-    ("unknown id in link", SITE, SCHEDULE.replace('to = "CURE"', 'to = "CURING"'),
-     "schedule.toml", "'CURING'"),
-    ("unknown calendar", SITE, SCHEDULE.replace('calendar = "allweek"', 'calendar = "7day"'),
-     "schedule.toml", "unknown calendar '7day'"),
-    ("unknown crew", SITE, SCHEDULE.replace("groundworks = 3", "steelfixers = 3"),
-     "schedule.toml", "unknown crew 'steelfixers'"),
-    ("negative duration", SITE, SCHEDULE.replace("duration = 3", "duration = -3"),
-     "schedule.toml", "negative duration"),
-    ("bad link type", SITE, SCHEDULE.replace('type = "FS"', 'type = "XS"'),
-     "schedule.toml", "unknown type 'XS'"),
-    ("dependency loop", SITE,
-     SCHEDULE.replace('name = "Excavate"', 'name = "Excavate"\nafter = ["CURE"]'),
-     "schedule.toml", "dependency loop: EXC -> POUR -> CURE -> EXC"),
-    ("not a date", SITE.replace("start = 2026-03-02", 'start = "next Monday"'), SCHEDULE,
-     "site.toml", "'next Monday' is not a date"),
-    ("impossible date", SITE.replace("start = 2026-03-02", "start = 2026-02-30"), SCHEDULE,
-     "site.toml", "TOML syntax error"),
+    (
+        "unknown id in after",
+        SITE,
+        SCHEDULE.replace('after = ["EXC"]', 'after = ["EXX"]'),
+        "schedule.toml",
+        "unknown activity 'EXX'",
+    ),
+    (
+        "unknown id in link",
+        SITE,
+        SCHEDULE.replace('to = "CURE"', 'to = "CURING"'),
+        "schedule.toml",
+        "'CURING'",
+    ),
+    (
+        "unknown calendar",
+        SITE,
+        SCHEDULE.replace('calendar = "allweek"', 'calendar = "7day"'),
+        "schedule.toml",
+        "unknown calendar '7day'",
+    ),
+    (
+        "unknown crew",
+        SITE,
+        SCHEDULE.replace("groundworks = 3", "steelfixers = 3"),
+        "schedule.toml",
+        "unknown crew 'steelfixers'",
+    ),
+    (
+        "negative duration",
+        SITE,
+        SCHEDULE.replace("duration = 3", "duration = -3"),
+        "schedule.toml",
+        "negative duration",
+    ),
+    (
+        "bad link type",
+        SITE,
+        SCHEDULE.replace('type = "FS"', 'type = "XS"'),
+        "schedule.toml",
+        "unknown type 'XS'",
+    ),
+    (
+        "dependency loop",
+        SITE,
+        SCHEDULE.replace('name = "Excavate"', 'name = "Excavate"\nafter = ["CURE"]'),
+        "schedule.toml",
+        "dependency loop: EXC -> POUR -> CURE -> EXC",
+    ),
+    (
+        "not a date",
+        SITE.replace("start = 2026-03-02", 'start = "next Monday"'),
+        SCHEDULE,
+        "site.toml",
+        "'next Monday' is not a date",
+    ),
+    (
+        "impossible date",
+        SITE.replace("start = 2026-03-02", "start = 2026-02-30"),
+        SCHEDULE,
+        "site.toml",
+        "TOML syntax error",
+    ),
 ]
 
 
-@pytest.mark.parametrize("case, site, schedule, file, words", BAD_INPUTS,
-                         ids=[row[0] for row in BAD_INPUTS])
-def test_every_bad_input_exits_2_with_one_clear_line(tmp_path, capsys, case, site, schedule,
-                                                     file, words):
+@pytest.mark.parametrize(
+    "case, site, schedule, file, words", BAD_INPUTS, ids=[row[0] for row in BAD_INPUTS]
+)
+def test_every_bad_input_exits_2_with_one_clear_line(
+    tmp_path, capsys, case, site, schedule, file, words
+):
     from fieldlog.cli import main
 
     folder = tmp_path / "site"

@@ -24,12 +24,31 @@ def _tool(name: str) -> str:
 
 
 def test_ruff_is_clean() -> None:
-    proc = subprocess.run([_tool("ruff"), "check", "fieldlog", "tests", "sample_sites"],
-                          cwd=ROOT, capture_output=True, text=True)
+    proc = subprocess.run(
+        [_tool("ruff"), "check", "fieldlog", "tests", "sample_sites"],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
+    assert proc.returncode == 0, proc.stdout + proc.stderr
+
+
+def test_ruff_format_is_applied() -> None:
+    """One layout for every file (`ruff format fieldlog tests sample_sites` rewrites it)."""
+    proc = subprocess.run(
+        [_tool("ruff"), "format", "--check", "fieldlog", "tests", "sample_sites"],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
     assert proc.returncode == 0, proc.stdout + proc.stderr
 
 
 def test_mypy_is_clean(tmp_path: Path) -> None:
-    proc = subprocess.run([_tool("mypy"), "fieldlog", "--cache-dir", str(tmp_path)],
-                          cwd=ROOT, capture_output=True, text=True)
+    proc = subprocess.run(
+        [_tool("mypy"), "fieldlog", "--cache-dir", str(tmp_path)],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
     assert proc.returncode == 0, proc.stdout + proc.stderr

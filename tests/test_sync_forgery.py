@@ -25,15 +25,16 @@ def log_of(folder: Path) -> dict[str, bytes | str]:
 
 @pytest.mark.parametrize("forge", list(FORGERIES.values()), ids=list(FORGERIES))
 @pytest.mark.parametrize("planted_in", ["office", "site"])
-def test_planted_forgery_is_refused_and_never_lands_in_log(synced_sample, forge, planted_in,
-                                                           capsys):
+def test_planted_forgery_is_refused_and_never_lands_in_log(
+    synced_sample, forge, planted_in, capsys
+):
     site, office = synced_sample
     planted, other = (office, site) if planted_in == "office" else (site, office)
     name, entry_id = forge(planted)
     before = log_of(other)
     summary = sync(site, office)
     assert summary.exit_code == 1
-    assert log_of(other) == before                         # nothing of it in the other log/
+    assert log_of(other) == before  # nothing of it in the other log/
     where = "target" if planted_in == "office" else "site"
     refused = [r for r in summary.refused if r.path == f"log/{name}"]
     conflict = [c for c in summary.conflicts if c.name == name]

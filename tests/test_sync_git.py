@@ -27,8 +27,9 @@ from fieldlog.sync.git_remote import branch_for, parse_remote
 from fieldlog.sync.git_transport import sync_git
 from fieldlog.sync.git_tree import _path_problem
 
-pytestmark = pytest.mark.skipif(shutil.which("git") is None, reason="needs the git CLI "
-                                "(.ci/run installs it)")
+pytestmark = pytest.mark.skipif(
+    shutil.which("git") is None, reason="needs the git CLI (.ci/run installs it)"
+)
 BRANCH = branch_for("Test yard (invented)").decode().removeprefix("refs/heads/")
 DAY = __import__("datetime").date(2026, 3, 2)
 NOW = 1_780_000_000.0
@@ -36,8 +37,9 @@ NOW = 1_780_000_000.0
 
 def git(repo: Path, *args: str) -> str:
     """Run the real git CLI on the bare repository; stdout."""
-    return subprocess.run(["git", "--git-dir", str(repo), *args], capture_output=True,
-                          text=True, check=True).stdout
+    return subprocess.run(
+        ["git", "--git-dir", str(repo), *args], capture_output=True, text=True, check=True
+    ).stdout
 
 
 @pytest.fixture
@@ -52,8 +54,7 @@ def url(repo: Path) -> str:
 
 
 def run_sync(site: Path, repo: Path, home: Path | None = None, **kw: object):
-    return sync_git(site, parse_remote(url(repo)), SyncOptions(now=NOW, home=home),
-                    **kw)  # type: ignore
+    return sync_git(site, parse_remote(url(repo)), SyncOptions(now=NOW, home=home), **kw)  # type: ignore
 
 
 def branch_files(repo: Path) -> set[str]:
@@ -81,12 +82,12 @@ def test_two_devices_and_the_office_round_trip(tmp_path: Path, remote: Path) -> 
     result = run_sync(a, remote)
     print(f"\ngit sync bringing in a revision: {time.perf_counter() - started:.3f} s")
 
-    assert branch_files(remote) >= {"site.toml", "schedule.toml", f"log/{name_a}",
-                                    f"log/{name_b}"}
+    assert branch_files(remote) >= {"site.toml", "schedule.toml", f"log/{name_a}", f"log/{name_b}"}
     for site in (a, b, office):  # every copy holds every device's file, byte for byte
         for name in (name_a, name_b):
             assert (site / "log" / name).read_bytes() == git(
-                remote, "show", f"{BRANCH}:log/{name}").encode()
+                remote, "show", f"{BRANCH}:log/{name}"
+            ).encode()
     assert "revision = 2" in (a / "schedule.toml").read_text()
     assert (a / "schedule_history" / "schedule.r1.toml").is_file()
     assert result.summary.revision.status.value == "brought in"
@@ -96,8 +97,9 @@ def test_two_devices_and_the_office_round_trip(tmp_path: Path, remote: Path) -> 
     git(remote, "fsck", "--strict")
 
 
-def test_a_device_that_loses_the_race_fetches_again_and_retries(tmp_path: Path,
-                                                              remote: Path) -> None:
+def test_a_device_that_loses_the_race_fetches_again_and_retries(
+    tmp_path: Path, remote: Path
+) -> None:
     a, b = device(tmp_path, "tab-a2"), device(tmp_path, "tab-b2")
     home_a, home_b = tmp_path / "home-a", tmp_path / "home-b"  # two devices, two data folders
     run_sync(a, remote, home_a)
@@ -110,17 +112,18 @@ def test_a_device_that_loses_the_race_fetches_again_and_retries(tmp_path: Path,
     result = run_sync(a, remote, home_a, before_push=b_pushes_first)
     assert result.attempts == 2 and result.pushed
     # The lost attempt left no receipt copy ahead of the branch: nothing to report.
-    assert result.summary.exit_code == 0, (result.summary.restored,
-                                           result.summary.receipt_problems)
+    assert result.summary.exit_code == 0, (result.summary.restored, result.summary.receipt_problems)
     assert {f"log/{journal_name(DAY, d)}" for d in ("tab-a2", "tab-b2")} <= branch_files(remote)
     assert (a / "log" / journal_name(DAY, "tab-b2")).is_file()
-    assert "second note from a" in git(remote, "show",
-                                       f"{BRANCH}:log/{journal_name(DAY, 'tab-a2')}")
+    assert "second note from a" in git(
+        remote, "show", f"{BRANCH}:log/{journal_name(DAY, 'tab-a2')}"
+    )
     git(remote, "fsck", "--strict")
 
 
-def test_the_retry_count_is_bounded(tmp_path: Path, remote: Path,
-                                    monkeypatch: pytest.MonkeyPatch) -> None:
+def test_the_retry_count_is_bounded(
+    tmp_path: Path, remote: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
     monkeypatch.setattr("fieldlog.sync.git_transport.RETRY_PAUSE_S", 0.0)
     a, b = device(tmp_path, "tab-a3"), device(tmp_path, "tab-b3")
     run_sync(b, remote)
@@ -136,9 +139,13 @@ def test_the_retry_count_is_bounded(tmp_path: Path, remote: Path,
 
 def _cli_sync(site: Path, repo: Path, home: Path) -> subprocess.Popen[str]:
     env = dict(os.environ, FIELDLOG_HOME=str(home))
-    return subprocess.Popen([sys.executable, "-m", "fieldlog", "sync", str(site), url(repo)],
-                            env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE,
-                            text=True)
+    return subprocess.Popen(
+        [sys.executable, "-m", "fieldlog", "sync", str(site), url(repo)],
+        env=env,
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+    )
 
 
 def test_two_processes_pushing_at_once(tmp_path: Path, remote: Path) -> None:
@@ -159,8 +166,9 @@ def test_two_processes_pushing_at_once(tmp_path: Path, remote: Path) -> None:
     git(remote, "fsck", "--strict")
 
 
-def test_a_push_that_fails_half_way_loses_nothing(tmp_path: Path, remote: Path,
-                                                  monkeypatch: pytest.MonkeyPatch) -> None:
+def test_a_push_that_fails_half_way_loses_nothing(
+    tmp_path: Path, remote: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
     from dulwich.refs import DiskRefsContainer
 
     a = device(tmp_path, "tab-a4")
@@ -184,8 +192,9 @@ def test_a_push_that_fails_half_way_loses_nothing(tmp_path: Path, remote: Path,
     git(remote, "fsck", "--strict")
 
 
-def test_a_branch_locked_by_another_push_is_retried(tmp_path: Path, remote: Path,
-                                                    monkeypatch: pytest.MonkeyPatch) -> None:
+def test_a_branch_locked_by_another_push_is_retried(
+    tmp_path: Path, remote: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
     """Two processes on one machine: the other holds the branch's lock file right now."""
     from dulwich.file import FileLocked
     from dulwich.refs import DiskRefsContainer
@@ -221,15 +230,18 @@ sys.exit(main(["sync", sys.argv[1], "git+file://" + sys.argv[2]]))
 """
 
 
-def test_a_push_killed_half_way_then_the_next_sync_completes(tmp_path: Path,
-                                                             remote: Path) -> None:
+def test_a_push_killed_half_way_then_the_next_sync_completes(tmp_path: Path, remote: Path) -> None:
     a = device(tmp_path, "tab-a5")
     run_sync(a, remote)
     before = git(remote, "rev-parse", BRANCH)
     append_entry(a, DAY, "tab-a5", "entry that must survive")
     env = dict(os.environ, FIELDLOG_HOME=str(tmp_path / "home-killed"))
-    done = subprocess.run([sys.executable, "-c", KILLED_PUSH, str(a), str(remote)], env=env,
-                          capture_output=True, check=False)
+    done = subprocess.run(
+        [sys.executable, "-c", KILLED_PUSH, str(a), str(remote)],
+        env=env,
+        capture_output=True,
+        check=False,
+    )
     assert done.returncode == -9  # killed after the objects went over, before the branch moved
     assert git(remote, "rev-parse", BRANCH) == before
     assert main(["sync", str(a), url(remote)]) == 0
@@ -237,8 +249,7 @@ def test_a_push_killed_half_way_then_the_next_sync_completes(tmp_path: Path,
     git(remote, "fsck")
 
 
-def test_hostile_content_in_the_branch_is_refused_and_kept(tmp_path: Path,
-                                                           remote: Path) -> None:
+def test_hostile_content_in_the_branch_is_refused_and_kept(tmp_path: Path, remote: Path) -> None:
     """A link and a file that is not a journal, committed with the git CLI, never reach the
     site, and the branch still has them after the device pushes (nothing is removed)."""
     a = device(tmp_path, "tab-a6")
@@ -259,32 +270,38 @@ def test_hostile_content_in_the_branch_is_refused_and_kept(tmp_path: Path,
     assert not (a / "log" / "2026-03-03_evil-01.toml").exists()
     assert not (a / "log" / "2026-03-04_evil-02.toml").exists()
     assert {"log/2026-03-03_evil-01.toml", "log/2026-03-04_evil-02.toml"} <= branch_files(remote)
-    assert "after the attack" in git(remote, "show",
-                                     f"{BRANCH}:log/{journal_name(DAY, 'tab-a6')}")
+    assert "after the attack" in git(remote, "show", f"{BRANCH}:log/{journal_name(DAY, 'tab-a6')}")
 
 
-@pytest.mark.parametrize(("path", "bad"), [
-    (b"log/2026-03-02_tab-01.toml", False),
-    (b"../escape.toml", True),
-    (b"log/../../escape.toml", True),
-    (b"a/.git/config", True),
-    (b"a/.GIT/hooks/x", True),
-    (b"log//x.toml", True),
-    (b"log/x\\y.toml", True),
-    (b"\xff.toml", True),
-])
+@pytest.mark.parametrize(
+    ("path", "bad"),
+    [
+        (b"log/2026-03-02_tab-01.toml", False),
+        (b"../escape.toml", True),
+        (b"log/../../escape.toml", True),
+        (b"a/.git/config", True),
+        (b"a/.GIT/hooks/x", True),
+        (b"log//x.toml", True),
+        (b"log/x\\y.toml", True),
+        (b"\xff.toml", True),
+    ],
+)
 def test_tree_paths_that_are_not_written(path: bytes, bad: bool) -> None:
     assert (_path_problem(path) is not None) is bad
 
 
-@pytest.mark.parametrize(("target", "says"), [
-    ("git+ftp://host/jobs.git", "not a git target"),
-    ("git+file://", "names no repository"),
-    ("git+file://server/share/jobs.git", "names a host"),
-    ("git+" + "x" * 3000, "longer than"),
-])
-def test_bad_git_targets_are_exit_2(tmp_path: Path, target: str, says: str,
-                                    capsys: pytest.CaptureFixture[str]) -> None:
+@pytest.mark.parametrize(
+    ("target", "says"),
+    [
+        ("git+ftp://host/jobs.git", "not a git target"),
+        ("git+file://", "names no repository"),
+        ("git+file://server/share/jobs.git", "names a host"),
+        ("git+" + "x" * 3000, "longer than"),
+    ],
+)
+def test_bad_git_targets_are_exit_2(
+    tmp_path: Path, target: str, says: str, capsys: pytest.CaptureFixture[str]
+) -> None:
     site = make_site(tmp_path / "s")
     assert main(["sync", str(site), target]) == 2
     err = capsys.readouterr().err
@@ -297,15 +314,13 @@ def test_ssh_and_https_targets_parse_and_hide_passwords() -> None:
     assert "secret" not in https.shown and https.url.endswith("/jobs.git")
 
 
-def test_a_missing_repository_is_exit_2(tmp_path: Path, capsys: pytest.CaptureFixture[str]
-                                        ) -> None:
+def test_a_missing_repository_is_exit_2(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     site = make_site(tmp_path / "s")
     assert main(["sync", str(site), f"git+file://{tmp_path / 'nope.git'}"]) == 2
     assert "cannot fetch" in capsys.readouterr().err
 
 
-def test_office_flag_needs_a_git_target(tmp_path: Path, capsys: pytest.CaptureFixture[str]
-                                        ) -> None:
+def test_office_flag_needs_a_git_target(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     site, target = make_site(tmp_path / "s"), tmp_path / "t"
     target.mkdir()
     assert main(["sync", str(site), str(target), "--office"]) == 2
@@ -313,7 +328,5 @@ def test_office_flag_needs_a_git_target(tmp_path: Path, capsys: pytest.CaptureFi
 
 def test_dulwich_is_imported_only_for_git_targets() -> None:
     code = "import sys, fieldlog.commands.sync\nprint('dulwich' in sys.modules)"
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True)
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
-

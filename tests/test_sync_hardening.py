@@ -55,12 +55,12 @@ def test_files_that_do_not_parse_are_skipped_and_the_rest_goes_through(pair, cap
     site, office = pair
     log = office / "log"
     append_entry(office, TUE, "lap-office", "the good file beside the bad ones")
-    (log / "2026-03-04_lap-office.toml").write_text("[[entry]\nbroken = ")          # syntax
-    (log / "2026-03-05_lap-office.toml").write_text("x = " + "[" * 40 + "]" * 40)   # 40 deep
+    (log / "2026-03-04_lap-office.toml").write_text("[[entry]\nbroken = ")  # syntax
+    (log / "2026-03-05_lap-office.toml").write_text("x = " + "[" * 40 + "]" * 40)  # 40 deep
     (log / "2026-03-06_lap-office.toml").write_text("x = " + "[" * 50_000 + "]" * 50_000)
-    with (log / "2026-03-09_lap-office.toml").open("wb") as f:                       # too big
+    with (log / "2026-03-09_lap-office.toml").open("wb") as f:  # too big
         f.truncate(MAX_FILE_BYTES + 1)
-    (office / "receipts" / "lap-office.toml").write_text("x = " + "{a = " * 3000)   # receipts
+    (office / "receipts" / "lap-office.toml").write_text("x = " + "{a = " * 3000)  # receipts
     code, out, _ = run_cli(capsys, "sync", str(site), str(office))
     assert code == 1
     assert "received   1 journal file (1 new, 0 grown)" in out
@@ -133,8 +133,12 @@ def _temp(folder: Path, host: str, pid: int, mtime: float) -> Path:
 
 def _dead_pid() -> int:
     """The pid of a process that has exited (it is not reused this quickly in practice)."""
-    child = subprocess.run([sys.executable, "-c", "import os; print(os.getpid())"],
-                           capture_output=True, text=True, check=True)
+    child = subprocess.run(
+        [sys.executable, "-c", "import os; print(os.getpid())"],
+        capture_output=True,
+        text=True,
+        check=True,
+    )
     return int(child.stdout)
 
 
@@ -143,13 +147,13 @@ def test_temp_cleanup_never_removes_another_writers_file_on_a_skewed_clock(pair)
     log, now, day = office / "log", time.time(), 86400.0
     dead = _dead_pid()
     assert not transfer.process_alive(dead)
-    other_host = _temp(log, "office-server", dead, now - 30 * day)      # not this machine
+    other_host = _temp(log, "office-server", dead, now - 30 * day)  # not this machine
     alive = _temp(log, transfer.THIS_HOST, os.getpid(), now - 30 * day)  # still running
-    ahead = _temp(log, transfer.THIS_HOST, dead, now + 3 * day)         # writer's clock ahead
-    young = _temp(log, transfer.THIS_HOST, dead, now - 3600)            # an hour old
-    legacy = log / ".fieldlog-sync-0123456789ab.tmp"                    # name without an owner
+    ahead = _temp(log, transfer.THIS_HOST, dead, now + 3 * day)  # writer's clock ahead
+    young = _temp(log, transfer.THIS_HOST, dead, now - 3600)  # an hour old
+    legacy = log / ".fieldlog-sync-0123456789ab.tmp"  # name without an owner
     legacy.write_bytes(b"old format")
-    stale = _temp(log, transfer.THIS_HOST, dead, now - 2 * day)         # ours, dead, old
+    stale = _temp(log, transfer.THIS_HOST, dead, now - 2 * day)  # ours, dead, old
     summary = sync(site, office, now=now)
     assert summary.cleaned == 1 and not stale.exists()
     assert [p.name for p in (other_host, alive, ahead, young, legacy) if not p.exists()] == []
@@ -173,6 +177,7 @@ def test_a_receipts_folder_that_is_a_file_is_reported_not_a_traceback(pair, wher
     append_entry(site, TUE, "tab-north", "a new entry: a new receipt")
     summary = sync(site, office)
     assert summary.exit_code == 1
-    assert any("is a file, not a folder" in p or "not a plain file" in p
-               for p in summary.receipt_problems), summary.receipt_problems
+    assert any(
+        "is a file, not a folder" in p or "not a plain file" in p for p in summary.receipt_problems
+    ), summary.receipt_problems
     assert folder.read_text() == "not a folder"

@@ -23,8 +23,10 @@ from fieldlog.sync.scan import LogFile
 
 
 def _files(side: str, contents: dict[str, bytes]) -> dict[str, LogFile]:
-    return {n: LogFile(n, Path(side, n), len(b), hashlib.sha256(b).hexdigest())
-            for n, b in contents.items()}
+    return {
+        n: LogFile(n, Path(side, n), len(b), hashlib.sha256(b).hexdigest())
+        for n, b in contents.items()
+    }
 
 
 def _plan(site: dict[str, bytes], target: dict[str, bytes]):
@@ -75,9 +77,9 @@ def test_plan_never_loses_bytes_and_converges(histories):
             longest = max((x for x in (a, b) if x is not None), key=len)
             assert new_site[name] == new_target[name] == longest
         else:
-            assert (new_site[name], new_target[name]) == (a, b)   # nothing overwritten
+            assert (new_site[name], new_target[name]) == (a, b)  # nothing overwritten
         for before, after in ((a, new_site.get(name)), (b, new_target.get(name))):
-            assert before is None or after.startswith(before)      # never a byte lost
+            assert before is None or after.startswith(before)  # never a byte lost
     second = _plan(new_site, new_target)
     assert not second.copies and {c.name for c in second.conflicts} == conflicted
 
@@ -87,29 +89,51 @@ def test_plan_directions_and_grown_flags():
     target = {"2026-03-02_tab-a.toml": b"A", "2026-03-02_tab-b.toml": b"Q"}
     plan = _plan(site, target)
     got = sorted((c.name, c.direction.value, c.grown) for c in plan.copies)
-    assert got == [("2026-03-02_tab-a.toml", "send", True),
-                   ("2026-03-02_tab-b.toml", "receive", False),
-                   ("2026-03-03_tab-a.toml", "send", False)]
+    assert got == [
+        ("2026-03-02_tab-a.toml", "send", True),
+        ("2026-03-02_tab-b.toml", "receive", False),
+        ("2026-03-03_tab-a.toml", "send", False),
+    ]
 
 
 # --- names ------------------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize(("name", "fragment"), [
-    ("2026-03-02_tab-01.toml", None),
-    ("a:b.toml", "':'"),            # drive / alternate stream separator on Windows
-    ("a<b.toml", "'<'"), ("a>b.toml", "'>'"), ('a"b.toml', "'\"'"), ("a|b.toml", "'|'"),
-    ("a?b.toml", "'?'"), ("a*b.toml", "'*'"), ("a\\b.toml", "'\\\\'"), ("a/b.toml", "'/'"),
-    ("a\x01b.toml", "'\\x01'"),     # control characters
-    ("notes.", "ends with"), ("notes ", "ends with"),
-    ("CON", "reserves"), ("con.toml", "reserves"), ("Aux.txt", "reserves"),
-    ("nul .toml", "reserves"), ("LPT1.toml", "reserves"), ("COM9.log", "reserves"),
-    ("COM¹.toml", "reserves"), ("CONIN$", "reserves"),
-    ("COM10.toml", None), ("console.toml", None),
-    ("..", "dot name"), (".", "dot name"), ("", "empty"), ("..evil.toml", "leave the folder"),
-    ("e\u0301t\u00e9.toml", "NFC"),  # decomposed e + combining acute
-    ("x" * 251 + ".toml", "longer than 255"), ("x" * 250 + ".toml", None),
-])
+@pytest.mark.parametrize(
+    ("name", "fragment"),
+    [
+        ("2026-03-02_tab-01.toml", None),
+        ("a:b.toml", "':'"),  # drive / alternate stream separator on Windows
+        ("a<b.toml", "'<'"),
+        ("a>b.toml", "'>'"),
+        ('a"b.toml', "'\"'"),
+        ("a|b.toml", "'|'"),
+        ("a?b.toml", "'?'"),
+        ("a*b.toml", "'*'"),
+        ("a\\b.toml", "'\\\\'"),
+        ("a/b.toml", "'/'"),
+        ("a\x01b.toml", "'\\x01'"),  # control characters
+        ("notes.", "ends with"),
+        ("notes ", "ends with"),
+        ("CON", "reserves"),
+        ("con.toml", "reserves"),
+        ("Aux.txt", "reserves"),
+        ("nul .toml", "reserves"),
+        ("LPT1.toml", "reserves"),
+        ("COM9.log", "reserves"),
+        ("COM¹.toml", "reserves"),
+        ("CONIN$", "reserves"),
+        ("COM10.toml", None),
+        ("console.toml", None),
+        ("..", "dot name"),
+        (".", "dot name"),
+        ("", "empty"),
+        ("..evil.toml", "leave the folder"),
+        ("e\u0301t\u00e9.toml", "NFC"),  # decomposed e + combining acute
+        ("x" * 251 + ".toml", "longer than 255"),
+        ("x" * 250 + ".toml", None),
+    ],
+)
 def test_portable_name_rules(name, fragment):
     problem = portable_name_problem(name)
     if fragment is None:
@@ -119,19 +143,33 @@ def test_portable_name_rules(name, fragment):
 
 
 def test_case_clashes_and_fold():
-    names = ["2026-03-02_tab-a.toml", "2026-03-02_TAB-A.toml", "2026-03-02_tab-b.toml",
-             "\u00e9.toml", "e\u0301.toml"]
+    names = [
+        "2026-03-02_tab-a.toml",
+        "2026-03-02_TAB-A.toml",
+        "2026-03-02_tab-b.toml",
+        "\u00e9.toml",
+        "e\u0301.toml",
+    ]
     clashes = case_clashes(names)
     assert sorted(clashes.values()) == [
-        ("2026-03-02_TAB-A.toml", "2026-03-02_tab-a.toml"), ("e\u0301.toml", "\u00e9.toml")]
+        ("2026-03-02_TAB-A.toml", "2026-03-02_tab-a.toml"),
+        ("e\u0301.toml", "\u00e9.toml"),
+    ]
     assert fold("2026-03-02_TAB-A.toml") == fold("2026-03-02_tab-a.toml")
 
 
-@pytest.mark.parametrize(("name", "ignored"), [
-    (".~2026-03-02_tab-a.toml.x1y2.tmp", True),   # the journal's temporary file
-    (".fieldlog-sync-0a1b2c.tmp", True),           # ours
-    (".tab-a.lock", True), (".DS_Store", True), ("Thumbs.db", True), ("desktop.ini", True),
-    ("..\\evil.toml", False), ("2026-03-02_tab-a.toml", False),
-])
+@pytest.mark.parametrize(
+    ("name", "ignored"),
+    [
+        (".~2026-03-02_tab-a.toml.x1y2.tmp", True),  # the journal's temporary file
+        (".fieldlog-sync-0a1b2c.tmp", True),  # ours
+        (".tab-a.lock", True),
+        (".DS_Store", True),
+        ("Thumbs.db", True),
+        ("desktop.ini", True),
+        ("..\\evil.toml", False),
+        ("2026-03-02_tab-a.toml", False),
+    ],
+)
 def test_ignored_names(name, ignored):
     assert is_ignored(name) is ignored

@@ -34,8 +34,10 @@ def test_shrunk_site_is_restored_and_reported(synced_sample, case):
     assert summary.restored and all(r.startswith("site log/") for r in summary.restored)
     for device in devices:
         seq, file = expected[device]
-        assert any(f"entry {device}.{seq} was removed after a sync" in r and file in r
-                   for r in summary.restored), summary.restored
+        assert any(
+            f"entry {device}.{seq} was removed after a sync" in r and file in r
+            for r in summary.restored
+        ), summary.restored
     assert logs(site) == logs(office)
     assert not summary.lost
     again = sync(site, office)
@@ -75,12 +77,12 @@ def test_a_hole_is_a_restore_even_without_receipts(synced_sample, _isolated_home
     summary = sync(site, office)
     assert summary.exit_code == 1
     assert len(summary.restored) == 1 and summary.restored[0].startswith(
-        f"site log/{middle.name}: restored from the target: entry {LAPTOP}.")
+        f"site log/{middle.name}: restored from the target: entry {LAPTOP}."
+    )
     assert "although site-laptop-1.103 written after it is still there" in summary.restored[0]
 
 
-def test_new_entries_from_another_device_are_not_a_restore(synced_sample, tmp_path,
-                                                           _isolated_home):
+def test_new_entries_from_another_device_are_not_a_restore(synced_sample, tmp_path, _isolated_home):
     """The office is ahead for a device this site never had: plain receiving, exit 0."""
     site, office = synced_sample
     other = tmp_path / "other-copy"

@@ -68,7 +68,9 @@ def test_entries_from_both_devices_reach_all_three(devices):
     a.log(MON, "late note for Monday")  # the Monday file grows
     grown = sync(site_a, office, home=a.home)
     assert sorted((c.name, c.grown) for c in grown.sent) == [
-        (f"2026-03-02_{dev_a}.toml", True), (f"2026-03-03_{dev_a}.toml", False)]
+        (f"2026-03-02_{dev_a}.toml", True),
+        (f"2026-03-03_{dev_a}.toml", False),
+    ]
     assert [c.name for c in grown.received] == [f"2026-03-02_{dev_b}.toml"]
     assert grown.exit_code == 0 and not grown.restored and grown.receipt
     assert sync(site_b, office, home=b.home).exit_code == 0
@@ -78,7 +80,7 @@ def test_entries_from_both_devices_reach_all_three(devices):
     assert len(office_files) == 3
     assert office_files[f"2026-03-02_{dev_a}.toml"].count(b"[[entry]]") == 2
     assert not (office / "conflicts").exists()
-    for folder in (office, site_a, site_b):            # the journal reads every entry, intact
+    for folder in (office, site_a, site_b):  # the journal reads every entry, intact
         journal = read_journal(folder)
         assert not journal.findings and len(journal.entries) == 4
 
@@ -118,7 +120,8 @@ def test_second_sync_changes_nothing(devices):
     assert not again.changed_anything and not again.has_problems
     assert (again.sent, again.received, again.unchanged) == ((), (), 2)
     assert render_text(again).splitlines()[-1] == (
-        "result     nothing to do: both sides already match")
+        "result     nothing to do: both sides already match"
+    )
 
 
 def test_site_folder_that_does_not_load_is_bad_input(tmp_path, capsys):
@@ -137,7 +140,8 @@ def test_site_folder_that_does_not_load_is_bad_input(tmp_path, capsys):
 def test_unusable_target_is_bad_input(tmp_path, capsys, target_kind):
     site = make_site(tmp_path / "north")
     target = {"missing": tmp_path / "nowhere", "same": site, "folder of sites": tmp_path}[
-        target_kind]
+        target_kind
+    ]
     assert main(["sync", str(site), str(target)]) == 2
     err = capsys.readouterr().err
     assert err.startswith("fieldlog: ") and "Fix:" in err
@@ -152,12 +156,12 @@ def test_cli_summary_matches_golden_file(tmp_path, capsys, _isolated_home):
     make_site(office)
     append_entry(site, MON, "tab-north", "A10 started")
     append_entry(office, MON, "tab-north", "A10 started")
-    append_entry(site, MON, "tab-north", "A10 remaining 4")          # grown on the site
+    append_entry(site, MON, "tab-north", "A10 remaining 4")  # grown on the site
     append_entry(site, TUE, "tab-north", "A10 remaining 3")
     append_entry(site, TUE, "tab-south", "crew: 3 carpenters")
-    append_entry(office, TUE, "tab-south", "crew: 5 carpenters")     # a true conflict
-    append_entry(office, TUE, "lap-office", "visitor: engineer")     # received
-    (office / "log" / "notes.txt").write_text("not a journal")       # refused
+    append_entry(office, TUE, "tab-south", "crew: 5 carpenters")  # a true conflict
+    append_entry(office, TUE, "lap-office", "visitor: engineer")  # received
+    (office / "log" / "notes.txt").write_text("not a journal")  # refused
     code = main(["sync", str(site), str(office)])
     out = capsys.readouterr().out
     assert code == 1

@@ -44,8 +44,11 @@ def pair(tmp_path: Path) -> tuple[Path, Path]:
 
 def journal_files(folder: Path) -> dict[str, bytes]:
     """Every visible file in log/ (the journal's lock files are hidden working files)."""
-    return {p.name: p.read_bytes() for p in sorted((folder / "log").iterdir())
-            if not p.name.startswith(".")}
+    return {
+        p.name: p.read_bytes()
+        for p in sorted((folder / "log").iterdir())
+        if not p.name.startswith(".")
+    }
 
 
 # --- interrupted copies -----------------------------------------------------------------------
@@ -70,8 +73,11 @@ def _fail_mid_file(monkeypatch: pytest.MonkeyPatch, on_call: int, exc: BaseExcep
 def test_failure_mid_file_then_rerun_loses_and_duplicates_nothing(pair, monkeypatch):
     site, office = pair
     site_before = tree(site)
-    _fail_mid_file(monkeypatch, on_call=5,  # 2 seeded site files + 3rd journal file
-                   exc=OSError(errno.EIO, "Input/output error"))
+    _fail_mid_file(
+        monkeypatch,
+        on_call=5,  # 2 seeded site files + 3rd journal file
+        exc=OSError(errno.EIO, "Input/output error"),
+    )
     with pytest.raises(SyncError, match="run sync again"):
         sync(site, office)
     # Both sides valid: every journal file in the office is complete, none half-written.
@@ -157,15 +163,15 @@ def test_conflicting_versions_are_both_kept_and_reported(tmp_path):
     office = make_site(tmp_path / "office")
     append_entry(site, MON, "tab-north", "A10 started")
     append_entry(office, MON, "tab-north", "A10 started")
-    append_entry(site, MON, "tab-north", "A10 remaining 4")     # diverged: 4 days here ...
-    append_entry(office, MON, "tab-north", "A10 remaining 2")   # ... 2 days at the office
+    append_entry(site, MON, "tab-north", "A10 remaining 4")  # diverged: 4 days here ...
+    append_entry(office, MON, "tab-north", "A10 remaining 2")  # ... 2 days at the office
     name = journal_name(MON, "tab-north")
     ours, theirs = (site / "log" / name).read_bytes(), (office / "log" / name).read_bytes()
 
     summary = sync(site, office)
     assert summary.exit_code == 1
     assert [c.name for c in summary.conflicts] == [name]
-    assert (site / "log" / name).read_bytes() == ours          # nothing overwritten
+    assert (site / "log" / name).read_bytes() == ours  # nothing overwritten
     assert (office / "log" / name).read_bytes() == theirs
     (kept_here,) = list_conflicts(site)
     (kept_there,) = list_conflicts(office)
@@ -175,7 +181,7 @@ def test_conflicting_versions_are_both_kept_and_reported(tmp_path):
 
     before = (tree(site), tree(office))
     again = sync(site, office)
-    assert (tree(site), tree(office)) == before                 # reported again, nothing written
+    assert (tree(site), tree(office)) == before  # reported again, nothing written
     assert again.exit_code == 1 and len(again.conflicts) == 1
 
 
@@ -209,26 +215,31 @@ def test_hostile_target_content_is_refused_and_the_site_untouched(pair, tmp_path
     outside = tmp_path / "outside.toml"
     outside.write_text('[[entry]]\nsecret = "outside the office folder"\n')
     log = office / "log"
-    (log / "..\\..\\evil.toml").write_text("[[entry]]\n")                   # leaves on Windows
-    (log / "2026-03-09_lap-office.toml").symlink_to(outside)              # a link
+    (log / "..\\..\\evil.toml").write_text("[[entry]]\n")  # leaves on Windows
+    (log / "2026-03-09_lap-office.toml").symlink_to(outside)  # a link
     (log / "2026-03-10_lap-office.toml").write_bytes(b"\x00\xffnot toml [[")  # garbage
-    with (log / "2026-03-11_lap-office.toml").open("wb") as f:              # oversized (sparse)
+    with (log / "2026-03-11_lap-office.toml").open("wb") as f:  # oversized (sparse)
         f.truncate(MAX_FILE_BYTES + 1)
-    (log / "2026-03-12_lap:office.toml").write_text("[[entry]]\n")          # ':' on FAT
-    (log / "con.toml").write_text("[[entry]]\n")                            # reserved name
-    (log / "2026-03-13_sub-folder").mkdir()                                 # a folder
+    (log / "2026-03-12_lap:office.toml").write_text("[[entry]]\n")  # ':' on FAT
+    (log / "con.toml").write_text("[[entry]]\n")  # reserved name
+    (log / "2026-03-13_sub-folder").mkdir()  # a folder
     hostile = tree(office)
     site_before = tree(site)
 
     summary = sync(site, office)
     assert tree(site) == site_before
-    assert tree(office) == hostile                     # refused files are left where they are
+    assert tree(office) == hostile  # refused files are left where they are
     assert summary.exit_code == 1 and not summary.received
     reasons = {r.path: r.reason for r in summary.refused}
     assert set(reasons) == {
-        "log/..\\..\\evil.toml", "log/2026-03-09_lap-office.toml",
-        "log/2026-03-10_lap-office.toml", "log/2026-03-11_lap-office.toml",
-        "log/2026-03-12_lap:office.toml", "log/con.toml", "log/2026-03-13_sub-folder"}
+        "log/..\\..\\evil.toml",
+        "log/2026-03-09_lap-office.toml",
+        "log/2026-03-10_lap-office.toml",
+        "log/2026-03-11_lap-office.toml",
+        "log/2026-03-12_lap:office.toml",
+        "log/con.toml",
+        "log/2026-03-13_sub-folder",
+    }
     assert "leave the folder" in reasons["log/..\\..\\evil.toml"]
     assert "link" in reasons["log/2026-03-09_lap-office.toml"]
     assert "not a valid journal file" in reasons["log/2026-03-10_lap-office.toml"]
@@ -251,7 +262,7 @@ def test_linked_log_folder_or_schedule_on_the_target_is_refused(pair, tmp_path):
     site_before, elsewhere_before = tree(site), tree(elsewhere)
     summary = sync(site, office)
     assert tree(site) == site_before
-    assert tree(elsewhere) == elsewhere_before        # nothing written through the link
+    assert tree(elsewhere) == elsewhere_before  # nothing written through the link
     assert [r.path for r in summary.refused] == ["log"]
     assert not summary.sent
     assert summary.revision.status is RevisionStatus.REFUSED
@@ -269,8 +280,9 @@ def test_linked_conflicts_folder_on_the_target_is_not_written_through(tmp_path):
     assert list(elsewhere.iterdir()) == []
     assert [(r.side, r.path) for r in summary.refused] == [("target", "conflicts")]
     (conflict,) = summary.conflicts
-    assert conflict.kept == (f"site conflicts/{list_conflicts(site)[0].path.name} "
-                             "(the target's version)",)
+    assert conflict.kept == (
+        f"site conflicts/{list_conflicts(site)[0].path.name} (the target's version)",
+    )
 
 
 def test_log_that_is_a_file_on_the_target_is_refused(pair):
@@ -285,8 +297,10 @@ def test_log_that_is_a_file_on_the_target_is_refused(pair):
 def test_revision_that_does_not_load_with_the_site_is_refused(pair):
     site, office = pair
     sync(site, office)
-    bad = schedule_toml(2) + '\n[[activity]]\nid = "A40"\nname = "Rebar"\nduration = 2\n' \
-        'crew = { steelfixers = 4 }\n'
+    bad = (
+        schedule_toml(2) + '\n[[activity]]\nid = "A40"\nname = "Rebar"\nduration = 2\n'
+        "crew = { steelfixers = 4 }\n"
+    )
     (office / "schedule.toml").write_text(bad)
     site_before = tree(site)
     summary = sync(site, office)
@@ -297,10 +311,12 @@ def test_revision_that_does_not_load_with_the_site_is_refused(pair):
     assert summary.exit_code == 1
 
 
-@pytest.mark.parametrize(("office_revision", "status"), [
-    (0, RevisionStatus.TARGET_BEHIND), (1, RevisionStatus.DIFFERS)])
+@pytest.mark.parametrize(
+    ("office_revision", "status"), [(0, RevisionStatus.TARGET_BEHIND), (1, RevisionStatus.DIFFERS)]
+)
 def test_older_or_same_numbered_different_office_schedule_changes_nothing(
-        pair, office_revision, status):
+    pair, office_revision, status
+):
     site, office = pair
     make_site(office, revision=office_revision, ids=("A10", "A20"))
     site_before = tree(site)
@@ -354,8 +370,9 @@ def test_revision_removing_an_activity_with_entries_reports_them_as_orphaned(tmp
     office = tmp_path / "office"
     office.mkdir()
     append_entry(site, MON, "tab-north", "", kind="started", fields={"activity": "A10"})
-    append_entry(site, TUE, "tab-north", "", kind="remaining",
-                 fields={"activity": "A10", "days": 3})
+    append_entry(
+        site, TUE, "tab-north", "", kind="remaining", fields={"activity": "A10", "days": 3}
+    )
     append_entry(site, TUE, "tab-north", "dry day")
     sync(site, office)
     log_before = journal_files(site)
@@ -367,7 +384,7 @@ def test_revision_removing_an_activity_with_entries_reports_them_as_orphaned(tmp
     assert len(summary.revision.orphaned) == 2
     assert all("A10" in m for m in summary.revision.orphaned)
     assert any("tab-north.1" in m for m in summary.revision.orphaned)
-    assert journal_files(site) == log_before          # the entries stay in the journal
+    assert journal_files(site) == log_before  # the entries stay in the journal
     assert journal_files(office) == log_before
     assert summary.exit_code == 0
     text = render_text(summary)

@@ -21,8 +21,9 @@ START, FINISH_BY = date(2026, 3, 2), date(2026, 6, 30)
 
 def _expected_finish_and_float(data_date: date = START) -> tuple[str, int]:
     finish = np.busday_offset(np.datetime64(data_date), 15 - 1, roll="forward")
-    flt = np.busday_count(finish + np.timedelta64(1, "D"),
-                          np.datetime64(FINISH_BY) + np.timedelta64(1, "D"))
+    flt = np.busday_count(
+        finish + np.timedelta64(1, "D"), np.datetime64(FINISH_BY) + np.timedelta64(1, "D")
+    )
     return str(finish), int(flt)
 
 
@@ -32,8 +33,10 @@ def test_rollup_lists_every_site_and_broken_ones_with_their_error(tmp_path, caps
     depot = make_site(office / "region-2" / "river-depot", revision=4)
     append_entry(depot, date(2026, 3, 4), "tab-depot", "site cleared, nothing started")
     broken = make_site(office / "east-shed", revision=3)
-    (broken / "schedule.toml").write_text((broken / "schedule.toml").read_text() +
-                                          '\n[[activity]]\nid = "A10"\nname = "x"\nduration = 1\n')
+    (broken / "schedule.toml").write_text(
+        (broken / "schedule.toml").read_text()
+        + '\n[[activity]]\nid = "A10"\nname = "x"\nduration = 1\n'
+    )
     conflicted = make_site(office / "south-lot")
     (conflicted / "conflicts").mkdir()
     (conflicted / "conflicts" / "2026-03-02_tab-north.0a1b2c3d.toml").write_text("[[entry]]\n")
@@ -42,7 +45,7 @@ def test_rollup_lists_every_site_and_broken_ones_with_their_error(tmp_path, caps
 
     code = main(["sites", str(office), "--format", "json"])
     rows = {r["site"]: r for r in json.loads(capsys.readouterr().out)}
-    assert code == 1                                  # a broken site and an open conflict
+    assert code == 1  # a broken site and an open conflict
     assert list(rows) == ["east-shed", "north-yard", "region-2/river-depot", "south-lot"]
     finish, flt = _expected_finish_and_float()
     north = rows["north-yard"]
@@ -64,8 +67,18 @@ def test_rollup_text_table(tmp_path, capsys):
     make_site(office / "north-yard")
     assert main(["sites", str(office)]) == 0
     header, row = capsys.readouterr().out.splitlines()
-    assert header.split() == ["site", "rev", "last", "log", "forecast", "finish", "finish",
-                              "by", "float", "conflicts"]
+    assert header.split() == [
+        "site",
+        "rev",
+        "last",
+        "log",
+        "forecast",
+        "finish",
+        "finish",
+        "by",
+        "float",
+        "conflicts",
+    ]
     finish, flt = _expected_finish_and_float()
     assert row.split() == ["north-yard", "1", "-", finish, str(FINISH_BY), f"+{flt}", "0"]
 

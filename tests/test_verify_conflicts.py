@@ -12,8 +12,9 @@ from fieldlog.cli import main
 from fieldlog.sync.conflicts import conflicts_folder, copy_name
 
 
-def test_conflict_copy_makes_verify_fail(sample_site: Path,
-                                         capsys: pytest.CaptureFixture[str]) -> None:
+def test_conflict_copy_makes_verify_fail(
+    sample_site: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
     assert main(["verify", str(sample_site)]) == 0
     original = sorted((sample_site / "log").glob("*.toml"))[0]
     data = original.read_bytes() + b"\n# a different copy\n"

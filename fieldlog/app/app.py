@@ -47,6 +47,7 @@ from fieldlog.journal.keys import saved_author, take_warnings
 
 def lazy_screen(module: str, name: str) -> Callable[[], Screen]:
     """A mode factory that imports its screen's module on first use (faster first screen)."""
+
     def make() -> Screen:
         return getattr(importlib.import_module(module), name)()
 
@@ -132,8 +133,9 @@ class FieldlogApp(App[None]):
 
     # -- recording ------------------------------------------------------------------------------
 
-    def write(self, kind: str, fields: Mapping[str, Any], day: date | None = None,
-              note: str = "") -> str | None:
+    def write(
+        self, kind: str, fields: Mapping[str, Any], day: date | None = None, note: str = ""
+    ) -> str | None:
         """Append one entry now and start the recompute; ``note`` is added to what the status
         line says was recorded.
 
@@ -162,14 +164,22 @@ class FieldlogApp(App[None]):
         """What the forms' day fields are read against: today, and the site's earliest day."""
         return DayContext(self.session.today, earliest_day(self.snapshot.site.start))
 
-    def ask(self, form: Form, kind: str, *, fixed: Mapping[str, Any] | None = None,
-            day: date | None = None, draft_key: str = "") -> None:
+    def ask(
+        self,
+        form: Form,
+        kind: str,
+        *,
+        fixed: Mapping[str, Any] | None = None,
+        day: date | None = None,
+        draft_key: str = "",
+    ) -> None:
         """Open ``form``; when it reads, append an entry of ``kind`` with the ``fixed`` fields.
 
         The form's "Day" field, when it has one, gives the entry's day. A form closed with Esc
         keeps its typing as a draft under ``draft_key`` (default: the kind and the fixed
         fields, so the same key on the same activity opens it again).
         """
+
         def submit(values: dict[str, Any]) -> str | None:
             values = dict(values)
             typed_day = values.pop(DAY_FIELD, None)
@@ -179,6 +189,7 @@ class FieldlogApp(App[None]):
 
     def open_form(self, form: Form, submit: Submit, draft_key: str) -> None:
         """Show ``form``, restoring its draft; Esc keeps what was typed under ``draft_key``."""
+
         def keep(raw: dict[str, Any] | None) -> None:
             if raw is None:
                 self.drafts.pop(draft_key, None)
@@ -186,8 +197,15 @@ class FieldlogApp(App[None]):
             self.drafts[draft_key] = raw
             self.set_status(f"Not recorded: draft kept, the same key reopens it ({form.title})")
 
-        self.push_screen(FormScreen(form, submit, days=self.day_context(),
-                                    draft=self.drafts.get(draft_key), keep_draft=keep))
+        self.push_screen(
+            FormScreen(
+                form,
+                submit,
+                days=self.day_context(),
+                draft=self.drafts.get(draft_key),
+                keep_draft=keep,
+            )
+        )
 
     # -- recompute ------------------------------------------------------------------------------
 
@@ -202,8 +220,13 @@ class FieldlogApp(App[None]):
             self._pending = note
         self._cancel_busy_note()
         self._busy_note = self.set_timer(BUSY_NOTE_AFTER, self._say_busy)
-        self.run_worker(lambda: self._compute(reload_site), thread=True, exclusive=True,
-                        group="recompute", name="recompute")
+        self.run_worker(
+            lambda: self._compute(reload_site),
+            thread=True,
+            exclusive=True,
+            group="recompute",
+            name="recompute",
+        )
 
     def _compute(self, reload_site: bool) -> None:
         """Worker body, step 1: the schedule and the end-of-shift list, handed to the UI."""
@@ -213,8 +236,7 @@ class FieldlogApp(App[None]):
                 self.session.reread_site()
             snap = self.session.recompute()
         except FieldlogError as exc:
-            self.call_from_thread(self.set_status, f"Cannot recompute: {exc.message}",
-                                  problem=True)
+            self.call_from_thread(self.set_status, f"Cannot recompute: {exc.message}", problem=True)
             return
         if not worker.is_cancelled:
             self.call_from_thread(self.show_snapshot, snap)
@@ -228,8 +250,13 @@ class FieldlogApp(App[None]):
     def _start_lookahead(self, snap: Snapshot) -> None:
         """Step 2 starts once step 1 is on screen, so the two never compete for the CPU."""
         if snap.version == self.snapshot.version and self.snapshot.lookahead is None:
-            self.run_worker(lambda: self._complete(snap), thread=True, exclusive=True,
-                            group="lookahead", name="lookahead")
+            self.run_worker(
+                lambda: self._complete(snap),
+                thread=True,
+                exclusive=True,
+                group="lookahead",
+                name="lookahead",
+            )
 
     def show_snapshot(self, snap: Snapshot) -> None:
         """Make ``snap`` current and repaint the views on screen (older snapshots are dropped).
@@ -334,9 +361,15 @@ def finish_change(old: Snapshot, new: Snapshot) -> str:
     return f"Finish {n} {unit}{'s' if n != 1 else ''} {way}, {b:%a %d %b} (was {a:%a %d %b})"
 
 
-def make_app(site_folder: Path | str, today: date, *, session: SiteSession | None = None,
-             notice: str = "", machine_today: date | None = None,
-             plain: bool = False) -> FieldlogApp:
+def make_app(
+    site_folder: Path | str,
+    today: date,
+    *,
+    session: SiteSession | None = None,
+    notice: str = "",
+    machine_today: date | None = None,
+    plain: bool = False,
+) -> FieldlogApp:
     """The app for ``site_folder`` as of the end of ``today``; shared by the CLI and the tests.
 
     Args:

@@ -18,8 +18,13 @@ if TYPE_CHECKING:
     from fieldlog.app.app import FieldlogApp
 
 _AREA_WORD = {
-    "views": "view", "record": "record", "today": "today", "lookahead": "lookahead",
-    "float": "float", "journal": "journal", "sync": "sync",
+    "views": "view",
+    "record": "record",
+    "today": "today",
+    "lookahead": "lookahead",
+    "float": "float",
+    "journal": "journal",
+    "sync": "sync",
 }
 
 
@@ -57,5 +62,10 @@ class FieldlogCommands(Provider):
             name = title(k)
             score = matcher.match(name)
             if score > 0:
-                yield Hit(score, matcher.highlight(name), self._run(k.id), text=name,
-                          help=f"{k.help} (key {k.shown_key})")
+                yield Hit(
+                    score,
+                    matcher.highlight(name),
+                    self._run(k.id),
+                    text=name,
+                    help=f"{k.help} (key {k.shown_key})",
+                )

@@ -36,32 +36,42 @@ def _crew_name(e: Entry) -> str:
     return f"{e.fields['trade']} ({company})" if company else str(e.fields["trade"])
 
 
-def crew_form(before: Sequence[Entry], site_crews: Mapping[str, Crew],
-              activity: str | None) -> Form:
+def crew_form(
+    before: Sequence[Entry], site_crews: Mapping[str, Crew], activity: str | None
+) -> Form:
     """The crews form: the last day's crews pre-filled, or the one-crew form when none."""
     headcount = spec("crew", "headcount")
     trade = spec("crew", "trade")
     assert headcount is not None and trade is not None  # both are crew fields
     hint = ", ".join(site_crews) or "concrete, steel fixers"
     if not before:
-        return entry_form("crew", intro="One crew per entry; c again for the next",
-                          hints={"trade": f"e.g. {hint}"}, defaults={"activities": activity},
-                          dated=True)
+        return entry_form(
+            "crew",
+            intro="One crew per entry; c again for the next",
+            hints={"trade": f"e.g. {hint}"},
+            defaults={"activities": activity},
+            dated=True,
+        )
     fields: list[Field] = []
     for k, e in enumerate(before):
         f = form_field(headcount, e.fields["headcount"])
         fields.append(Field(f"crew_{k}", _crew_name(e), f.kind, default=f.default, spec=f.spec))
-    fields.append(Field(NEW_TRADE, "Another trade", placeholder=f"not there before, e.g. {hint}",
-                        spec=trade))
-    fields.append(Field(NEW_HEADCOUNT, "Its headcount", form_field(headcount).kind,
-                        spec=headcount))
+    fields.append(
+        Field(NEW_TRADE, "Another trade", placeholder=f"not there before, e.g. {hint}", spec=trade)
+    )
+    fields.append(Field(NEW_HEADCOUNT, "Its headcount", form_field(headcount).kind, spec=headcount))
     fields.append(day_field())
-    return Form("Crews on site", tuple(fields), intro=f"Same as {before[0].day:%a %d %b}: Enter "
-                "records them all; type a number to change one, 0 leaves a crew out")
+    return Form(
+        "Crews on site",
+        tuple(fields),
+        intro=f"Same as {before[0].day:%a %d %b}: Enter "
+        "records them all; type a number to change one, 0 leaves a crew out",
+    )
 
 
-def crew_entries(values: Mapping[str, Any], before: Sequence[Entry]
-                 ) -> tuple[list[dict[str, Any]], date | None]:
+def crew_entries(
+    values: Mapping[str, Any], before: Sequence[Entry]
+) -> tuple[list[dict[str, Any]], date | None]:
     """The crew entries a read crews form stands for, checked, and the day they describe.
 
     A crew with its headcount unchanged keeps its hours and activities; a changed one keeps

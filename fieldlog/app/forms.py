@@ -19,7 +19,15 @@ from fieldlog.errors import OutOfBounds
 from fieldlog.journal.fields import FieldProblem, FieldSpec, coerce
 
 TEXT, LINES, WHOLE, NUMBER, DAY, TIME, CHOICE, YES_NO = (
-    "text", "lines", "whole", "number", "day", "time", "choice", "yes/no")
+    "text",
+    "lines",
+    "whole",
+    "number",
+    "day",
+    "time",
+    "choice",
+    "yes/no",
+)
 KINDS = (TEXT, LINES, WHOLE, NUMBER, DAY, TIME, CHOICE, YES_NO)
 NUMBER_KINDS = frozenset({WHOLE, NUMBER})
 
@@ -128,8 +136,9 @@ def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
         if days is None:
             raise TypeError(f"day field {f.name} read without a DayContext")
         try:
-            day = parse_day(text, days.today, earliest=days.earliest,
-                            latest=None if f.future else days.today)
+            day = parse_day(
+                text, days.today, earliest=days.earliest, latest=None if f.future else days.today
+            )
         except DayProblem as exc:
             raise ValueError(str(exc)) from None
         return _bounded(check_date, day, f.label)
@@ -142,7 +151,7 @@ def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
 def _after_name(f: Field, message: str) -> str:
     """The journal's message without its leading field name (the label is shown instead)."""
     name = f.journal_spec().name
-    return message[len(name) + 1:] if message.startswith(name + " ") else message
+    return message[len(name) + 1 :] if message.startswith(name + " ") else message
 
 
 def _bounded(check: Callable[[Any, str], Any], value: Any, label: str) -> Any:

@@ -59,7 +59,8 @@ def summarize(e: Entry) -> str:
         text = fn(f)
     else:
         text = f"{KIND_TITLES.get(e.kind, e.kind)}: " + ", ".join(
-            f"{label(k)} {_v(v)}" for k, v in f.items())
+            f"{label(k)} {_v(v)}" for k, v in f.items()
+        )
     return text.replace("\n", " / ")  # a note of several lines, on one line
 
 
@@ -90,9 +91,11 @@ def _weather(f: Mapping[str, Any]) -> str:
     if "low" in f or "high" in f:
         temps = f"{_v(f.get('low', '?'))}-{_v(f.get('high', '?'))} {unit}".strip()
     return "Weather: " + _join(
-        f["conditions"], temps,
+        f["conditions"],
+        temps,
         f"{_v(f['precip_mm'])} mm" if "precip_mm" in f else None,
-        f.get("wind"), "WORK STOPPED" if f.get("stopped") else None,
+        f.get("wind"),
+        "WORK STOPPED" if f.get("stopped") else None,
         f"{_v(f['hours_lost'])} h lost" if f.get("hours_lost") else None,
     )
 
@@ -101,7 +104,8 @@ def _lost(f: Mapping[str, Any]) -> str:
     how = "whole day lost" if f.get("whole_day") else f"{_v(f.get('hours', 0))} h lost"
     cals = f" on {', '.join(f['calendars'])}" if f.get("calendars") else ""
     return f"Lost time: {how}{cals}, cause {f['cause']}{_acts(f)}" + (
-        f": {f['note']}" if f.get("note") else "")
+        f": {f['note']}" if f.get("note") else ""
+    )
 
 
 def _crew(f: Mapping[str, Any]) -> str:
@@ -128,33 +132,50 @@ def _need(f: Mapping[str, Any]) -> str:
 _SUMMARIES = {
     "started": lambda f: f"{f['activity']} started",
     "finished": lambda f: f"{f['activity']} finished",
-    "remaining": lambda f: (f"{f['activity']}: {f['days']} working "
-                            f"day{'' if f['days'] == 1 else 's'} left"),
+    "remaining": lambda f: (
+        f"{f['activity']}: {f['days']} working day{'' if f['days'] == 1 else 's'} left"
+    ),
     "percent": lambda f: f"{f['activity']}: {_v(f['percent'])}% built",
     "weather": _weather,
     "crew": _crew,
     "lost-time": _lost,
     "need": _need,
     "cleared": lambda f: f"Need {f['item']} cleared" + (f": {f['note']}" if f.get("note") else ""),
-    "delivery": lambda f: "Delivery: " + _join(f["what"], f.get("quantity"),
-                                               f"from {f['supplier']}" if f.get("supplier")
-                                               else None) + _acts(f),
+    "delivery": lambda f: (
+        "Delivery: "
+        + _join(
+            f["what"], f.get("quantity"), f"from {f['supplier']}" if f.get("supplier") else None
+        )
+        + _acts(f)
+    ),
     "inspection": lambda f: f"Inspection: {f['what']}, {f['result'].upper()}" + _acts(f),
-    "visitor": lambda f: "Visitor: " + _join(f["name"], f.get("company"), f.get("purpose"),
-                                             _times(f)),
-    "plant": lambda f: "Plant: " + _join(
-        f"{f['count']} x {f['what']}" if f.get("count") else f["what"],
-        f"{_v(f['hours_worked'])} h worked" if "hours_worked" in f else None,
-        ("BROKE DOWN" + (f", {_v(f['hours_down'])} h down" if "hours_down" in f else ""))
-        if f.get("broken_down") else None) + _acts(f),
-    "instruction": lambda f: (f"Instruction ({f['form']}) from {f['given_by']}: {f['text']}"
-                              + _acts(f)),
-    "incident": lambda f: ("Incident: " + f["text"] + (" [SOMEONE HURT]" if f.get("injury")
-                                                       else "") + _acts(f)),
-    "safety": lambda f: "Safety: " + f["text"] + (f"; done: {f['action']}"
-                                                   if f.get("action") else ""),
+    "visitor": lambda f: (
+        "Visitor: " + _join(f["name"], f.get("company"), f.get("purpose"), _times(f))
+    ),
+    "plant": lambda f: (
+        "Plant: "
+        + _join(
+            f"{f['count']} x {f['what']}" if f.get("count") else f["what"],
+            f"{_v(f['hours_worked'])} h worked" if "hours_worked" in f else None,
+            ("BROKE DOWN" + (f", {_v(f['hours_down'])} h down" if "hours_down" in f else ""))
+            if f.get("broken_down")
+            else None,
+        )
+        + _acts(f)
+    ),
+    "instruction": lambda f: (
+        f"Instruction ({f['form']}) from {f['given_by']}: {f['text']}" + _acts(f)
+    ),
+    "incident": lambda f: (
+        "Incident: " + f["text"] + (" [SOMEONE HURT]" if f.get("injury") else "") + _acts(f)
+    ),
+    "safety": lambda f: (
+        "Safety: " + f["text"] + (f"; done: {f['action']}" if f.get("action") else "")
+    ),
     "note": lambda f: "Note: " + f["text"] + _acts(f),
-    "correction": lambda f: (f"Correction of {f['supersedes']}"
-                             + (" (withdrawn)" if f.get("withdraw") else "")
-                             + f": {f['reason']}"),
+    "correction": lambda f: (
+        f"Correction of {f['supersedes']}"
+        + (" (withdrawn)" if f.get("withdraw") else "")
+        + f": {f['reason']}"
+    ),
 }

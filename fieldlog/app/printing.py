@@ -66,9 +66,12 @@ def write_print(path: Path, text: str, what: str) -> Path:
         refuse_links(path)
         path.write_text(text, encoding="utf-8", newline="\n")
     except OSError as exc:
-        raise FieldlogError(f"cannot write the {what}: {exc.strerror}", file=path,
-                            fix="check the site folder is writable and the disk has room, and "
-                            "that prints/ is a real folder, not a link") from exc
+        raise FieldlogError(
+            f"cannot write the {what}: {exc.strerror}",
+            file=path,
+            fix="check the site folder is writable and the disk has room, and "
+            "that prints/ is a real folder, not a link",
+        ) from exc
     return path
 
 
@@ -78,16 +81,17 @@ def write_sheet(look: Lookahead, folder: Path) -> Path:
     Raises:
         FieldlogError: the file cannot be written (read-only stick, disk full).
     """
-    return write_print(sheet_path(folder, look), render_text(look, SHEET_WIDTH),
-                       "lookahead sheet")
+    return write_print(sheet_path(folder, look), render_text(look, SHEET_WIDTH), "lookahead sheet")
 
 
 Runner = Callable[..., subprocess.CompletedProcess]
 
 
-def find_printer(env: Mapping[str, str] | None = None,
-                 which: Callable[[str], str | None] = shutil.which,
-                 run: Runner = subprocess.run) -> Printer | None:
+def find_printer(
+    env: Mapping[str, str] | None = None,
+    which: Callable[[str], str | None] = shutil.which,
+    run: Runner = subprocess.run,
+) -> Printer | None:
     """The printer to use, or None when none is set up (see the module docstring)."""
     env = os.environ if env is None else env
     default = _lpstat_default(which, run)
@@ -122,8 +126,7 @@ def _lpstat_default(which: Callable[[str], str | None], run: Runner) -> str | No
 def send_to_printer(path: Path, printer: Printer, run: Runner = subprocess.run) -> str | None:
     """Print ``path``; returns None on success, else why it did not print (never raises)."""
     try:
-        out = run([*printer.command, str(path)], capture_output=True, text=True,
-                  timeout=_TIMEOUT)
+        out = run([*printer.command, str(path)], capture_output=True, text=True, timeout=_TIMEOUT)
     except (OSError, subprocess.TimeoutExpired) as exc:
         return f"{printer.command[0]} did not run: {exc}"
     if out.returncode != 0:
@@ -132,19 +135,33 @@ def send_to_printer(path: Path, printer: Printer, run: Runner = subprocess.run) 
     return None
 
 
-def deliver_sheet(look: Lookahead, folder: Path, *, printer: Printer | None = None,
-                  detect: bool = True, run: Runner = subprocess.run) -> str:
+def deliver_sheet(
+    look: Lookahead,
+    folder: Path,
+    *,
+    printer: Printer | None = None,
+    detect: bool = True,
+    run: Runner = subprocess.run,
+) -> str:
     """Write the sheet, print it when a printer is set up; returns what happened, in words.
 
     Raises:
         FieldlogError: the sheet could not be written (printing problems are only reported).
     """
-    return deliver(write_sheet(look, folder), folder, "sheet", printer=printer, detect=detect,
-                   run=run)
+    return deliver(
+        write_sheet(look, folder), folder, "sheet", printer=printer, detect=detect, run=run
+    )
 
 
-def deliver(path: Path, folder: Path, noun: str, *, printer: Printer | None = None,
-            detect: bool = True, run: Runner = subprocess.run) -> str:
+def deliver(
+    path: Path,
+    folder: Path,
+    noun: str,
+    *,
+    printer: Printer | None = None,
+    detect: bool = True,
+    run: Runner = subprocess.run,
+) -> str:
     """Print a file already written under ``folder`` when a printer is set up; in words
     naming the file as ``noun`` ("sheet", "report")."""
     where = path.relative_to(folder) if path.is_relative_to(folder) else path

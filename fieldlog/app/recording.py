@@ -51,30 +51,77 @@ KIND_TITLES: Mapping[str, str] = {
 """Entry kind -> title of its form and its name in lists."""
 
 _LABELS: Mapping[str, str] = {
-    "days": "Days left", "percent": "Percent", "conditions": "Conditions",
-    "high": "High temp", "low": "Low temp", "unit": "Temp unit", "precip_mm": "Rain/snow mm",
-    "wind": "Wind", "stopped": "Work stopped", "hours_lost": "Hours lost", "trade": "Trade",
-    "company": "Company", "headcount": "Headcount", "hours": "Hours", "activities": "Activities",
-    "cause": "Cause", "whole_day": "Whole day lost", "calendars": "Calendars", "note": "Note",
-    "what": "What", "category": "Kind", "expected": "Expected on", "supplier": "Supplier",
-    "quantity": "Quantity", "activity": "Activity", "result": "Result",
-    "inspector": "Inspector", "reference": "Reference", "name": "Name", "purpose": "Purpose",
-    "text": "What", "given_by": "Given by", "form": "Verbal/written", "injury": "Someone hurt",
-    "reported_to": "Reported to", "action": "Action taken", "reason": "Reason",
-    "withdraw": "Withdraw it", "count": "How many", "hours_worked": "Hours worked",
-    "broken_down": "Broke down", "hours_down": "Hours down", "time_in": "Time in",
+    "days": "Days left",
+    "percent": "Percent",
+    "conditions": "Conditions",
+    "high": "High temp",
+    "low": "Low temp",
+    "unit": "Temp unit",
+    "precip_mm": "Rain/snow mm",
+    "wind": "Wind",
+    "stopped": "Work stopped",
+    "hours_lost": "Hours lost",
+    "trade": "Trade",
+    "company": "Company",
+    "headcount": "Headcount",
+    "hours": "Hours",
+    "activities": "Activities",
+    "cause": "Cause",
+    "whole_day": "Whole day lost",
+    "calendars": "Calendars",
+    "note": "Note",
+    "what": "What",
+    "category": "Kind",
+    "expected": "Expected on",
+    "supplier": "Supplier",
+    "quantity": "Quantity",
+    "activity": "Activity",
+    "result": "Result",
+    "inspector": "Inspector",
+    "reference": "Reference",
+    "name": "Name",
+    "purpose": "Purpose",
+    "text": "What",
+    "given_by": "Given by",
+    "form": "Verbal/written",
+    "injury": "Someone hurt",
+    "reported_to": "Reported to",
+    "action": "Action taken",
+    "reason": "Reason",
+    "withdraw": "Withdraw it",
+    "count": "How many",
+    "hours_worked": "Hours worked",
+    "broken_down": "Broke down",
+    "hours_down": "Hours down",
+    "time_in": "Time in",
     "time_out": "Time out",
 }
 
 _KIND_OF_TYPE = {
-    "text": TEXT, "int": WHOLE, "float": NUMBER, "bool": YES_NO, "date": DAY, "time": TIME,
-    "choice": CHOICE, "ids": TEXT, "names": TEXT, "activity": TEXT,
+    "text": TEXT,
+    "int": WHOLE,
+    "float": NUMBER,
+    "bool": YES_NO,
+    "date": DAY,
+    "time": TIME,
+    "choice": CHOICE,
+    "ids": TEXT,
+    "names": TEXT,
+    "activity": TEXT,
 }
 
-LONG_TEXT: frozenset[tuple[str, str]] = frozenset({
-    ("note", "text"), ("incident", "text"), ("safety", "text"), ("instruction", "text"),
-    ("lost-time", "note"), ("delivery", "note"), ("inspection", "note"), ("plant", "note"),
-})
+LONG_TEXT: frozenset[tuple[str, str]] = frozenset(
+    {
+        ("note", "text"),
+        ("incident", "text"),
+        ("safety", "text"),
+        ("instruction", "text"),
+        ("lost-time", "note"),
+        ("delivery", "note"),
+        ("inspection", "note"),
+        ("plant", "note"),
+    }
+)
 """Fields that often take several lines: a small text box (Enter is a new line there)."""
 
 FIRST_FIELDS: Mapping[str, tuple[str, ...]] = {
@@ -99,8 +146,9 @@ def label(name: str) -> str:
     return _LABELS.get(name, name.replace("_", " ").capitalize())
 
 
-def form_field(s: FieldSpec, default: Any = None, placeholder: str = "",
-               kind_of_entry: str = "") -> Field:
+def form_field(
+    s: FieldSpec, default: Any = None, placeholder: str = "", kind_of_entry: str = ""
+) -> Field:
     """A form field for one journal field spec (its bounds stay the journal's)."""
     if not placeholder and s.type in ("ids", "names"):
         placeholder = "comma separated"
@@ -108,8 +156,14 @@ def form_field(s: FieldSpec, default: Any = None, placeholder: str = "",
     if kind == TIME and not placeholder:
         placeholder = "hh:mm, e.g. 07:30"
     return Field(
-        name=s.name, label=label(s.name), kind=kind, required=s.required,
-        choices=s.choices, default=default, placeholder=placeholder or s.help, spec=s,
+        name=s.name,
+        label=label(s.name),
+        kind=kind,
+        required=s.required,
+        choices=s.choices,
+        default=default,
+        placeholder=placeholder or s.help,
+        spec=s,
         future=s.type == "date",
     )
 
@@ -119,9 +173,15 @@ def day_field() -> Field:
     return Field(DAY_FIELD, "Day", DAY, placeholder="today (or yesterday, fri, -2, 2026-09-25)")
 
 
-def entry_form(kind: str, *, intro: str = "", defaults: Mapping[str, Any] | None = None,
-               fixed: Mapping[str, Any] | None = None,
-               hints: Mapping[str, str] | None = None, dated: bool = False) -> Form:
+def entry_form(
+    kind: str,
+    *,
+    intro: str = "",
+    defaults: Mapping[str, Any] | None = None,
+    fixed: Mapping[str, Any] | None = None,
+    hints: Mapping[str, str] | None = None,
+    dated: bool = False,
+) -> Form:
     """The form for an entry of ``kind``.
 
     Args:
@@ -139,8 +199,9 @@ def entry_form(kind: str, *, intro: str = "", defaults: Mapping[str, Any] | None
     fields = [
         form_field(s, defaults.get(s.name), hints.get(s.name, ""), kind)
         for s in KINDS[kind]
-        if s.name not in fixed and s.type != "entry" and not (kind == "correction"
-                                                               and s.name == "corrects")
+        if s.name not in fixed
+        and s.type != "entry"
+        and not (kind == "correction" and s.name == "corrects")
     ]
     if dated:
         fields.append(day_field())
@@ -149,16 +210,18 @@ def entry_form(kind: str, *, intro: str = "", defaults: Mapping[str, Any] | None
     return Form(KIND_TITLES.get(kind, kind), tuple(fields), intro=intro)
 
 
-def entry_fields(values: Mapping[str, Any], fixed: Mapping[str, Any] | None = None
-                 ) -> dict[str, Any]:
+def entry_fields(
+    values: Mapping[str, Any], fixed: Mapping[str, Any] | None = None
+) -> dict[str, Any]:
     """The fields to record: what the form read (empty ones left out) plus the fixed ones."""
     out = {k: v for k, v in values.items() if v is not None}
     out.update(fixed or {})
     return out
 
 
-def record(session: SiteSession, kind: str, fields: Mapping[str, Any],
-           day: date | None = None) -> Entry:
+def record(
+    session: SiteSession, kind: str, fields: Mapping[str, Any], day: date | None = None
+) -> Entry:
     """Append one entry for ``day`` to the site's journal.
 
     ``day`` None means the app's today; for a correction, the day of the corrected entry.
@@ -167,5 +230,4 @@ def record(session: SiteSession, kind: str, fields: Mapping[str, Any],
         EntryRefused: the journal refused it; nothing was written.
         JournalError: the log could not be written.
     """
-    return record_entry(session.folder, session.site, kind, day, dict(fields),
-                        today=session.today)
+    return record_entry(session.folder, session.site, kind, day, dict(fields), today=session.today)

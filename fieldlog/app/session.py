@@ -126,8 +126,9 @@ class SiteSession:
         state = state_for(self.folder, site, read_journal(self.folder), self.today)
         rows = tuple(shift_rows(state.schedule, self.today))
         subset = dataclasses.replace(state.schedule, activities=tuple(r.result for r in rows))
-        first = build_lookahead(subset, state.replay.readiness, days=1, suggest_levelling=False,
-                                suggest_fewest=False)
+        first = build_lookahead(
+            subset, state.replay.readiness, days=1, suggest_levelling=False, suggest_fewest=False
+        )
         tomorrow = {row.id: row.cells[0] for row in first.rows}
         return Snapshot(version, self.today, state, rows, tomorrow)
 

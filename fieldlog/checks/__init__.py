@@ -47,8 +47,13 @@ def check_state(state: SiteState, baseline: Baseline | None = None) -> HealthRep
     rp = state.replay
 
     def reschedule(changed: Site) -> ScheduleResult:
-        return compute_schedule(changed, result.as_of, rp.progress, lost_days=rp.lost_days,
-                                holds=holds(rp.readiness, result.as_of))
+        return compute_schedule(
+            changed,
+            result.as_of,
+            rp.progress,
+            lost_days=rp.lost_days,
+            holds=holds(rp.readiness, result.as_of),
+        )
 
     checks = (
         logic.check_logic(site, result),

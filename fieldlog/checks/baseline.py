@@ -66,8 +66,11 @@ def load_baseline(folder: Path, site: Site) -> Baseline:
     """
     kept = earliest_history_file(folder)
     if kept is None:
-        return planned_baseline(site, "planned dates of the current schedule as of the site "
-                                f"start {site.start.isoformat()} (no earlier revision kept)")
+        return planned_baseline(
+            site,
+            "planned dates of the current schedule as of the site "
+            f"start {site.start.isoformat()} (no earlier revision kept)",
+        )
     planned = build_site(read_toml(folder / SITE_FILE), read_toml(kept))
     source = f"{HISTORY_DIR}/{kept.name} (revision {planned.revision}, earliest kept)"
     return planned_baseline(planned, source)
@@ -81,5 +84,3 @@ def planned_baseline(site: Site, source: str) -> Baseline:
         for r in result.activities
     }
     return Baseline(source=source, finish=result.finish, activities=dates)
-
-

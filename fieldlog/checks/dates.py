@@ -35,13 +35,21 @@ def check_high_float(result: ScheduleResult) -> CheckResult:
     Much float usually means missing successors rather than real freedom.
     """
     population = [r for r in _open(result) if r.total_float is not None]
-    high = [r.id for r in population if r.total_float is not None
-            and r.total_float > HIGH_FLOAT_DAYS]
+    high = [
+        r.id for r in population if r.total_float is not None and r.total_float > HIGH_FLOAT_DAYS
+    ]
     value = share(len(high), len(population))
     return CheckResult(
-        6, "High float", at_most(value, MAX_HIGH_FLOAT_PCT), value, len(high), len(population),
+        6,
+        "High float",
+        at_most(value, MAX_HIGH_FLOAT_PCT),
+        value,
+        len(high),
+        len(population),
         Threshold("<= 5% over 44 days", DCMA_SECONDARY),
-        "unfinished activities with total float over 44 working days", tuple(high))
+        "unfinished activities with total float over 44 working days",
+        tuple(high),
+    )
 
 
 def check_negative_float(result: ScheduleResult) -> CheckResult:
@@ -49,10 +57,16 @@ def check_negative_float(result: ScheduleResult) -> CheckResult:
     population = [r for r in _open(result) if r.total_float is not None]
     late = [r.id for r in population if r.late]
     return CheckResult(
-        7, "Negative float", none_allowed(len(late), len(population)),
-        share(len(late), len(population)), len(late), len(population),
+        7,
+        "Negative float",
+        none_allowed(len(late), len(population)),
+        share(len(late), len(population)),
+        len(late),
+        len(population),
         Threshold("0%", DCMA_SECONDARY),
-        "unfinished activities with total float below zero", tuple(late))
+        "unfinished activities with total float below zero",
+        tuple(late),
+    )
 
 
 def check_high_duration(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckResult:
@@ -71,10 +85,17 @@ def check_high_duration(site: Site, result: ScheduleResult, baseline: Baseline) 
             long.append(r.id)
     value = share(len(long), len(population))
     return CheckResult(
-        8, "High duration", at_most(value, MAX_HIGH_DURATION_PCT), value, len(long),
-        len(population), Threshold("<= 5% over 44 days", DCMA_SECONDARY),
-        "unfinished activities with a baseline duration over 44 working days", tuple(long),
-        note=f"baseline: {baseline.source}")
+        8,
+        "High duration",
+        at_most(value, MAX_HIGH_DURATION_PCT),
+        value,
+        len(long),
+        len(population),
+        Threshold("<= 5% over 44 days", DCMA_SECONDARY),
+        "unfinished activities with a baseline duration over 44 working days",
+        tuple(long),
+        note=f"baseline: {baseline.source}",
+    )
 
 
 def check_invalid_dates(result: ScheduleResult) -> CheckResult:
@@ -88,16 +109,22 @@ def check_invalid_dates(result: ScheduleResult) -> CheckResult:
     bad = []
     for r in population:
         forecast_past = r.is_open and r.early_start < result.data_date
-        actual_future = any(d is not None and d > result.as_of
-                            for d in (r.actual_start, r.actual_finish))
+        actual_future = any(
+            d is not None and d > result.as_of for d in (r.actual_start, r.actual_finish)
+        )
         if forecast_past or actual_future:
             bad.append(r.id)
     return CheckResult(
-        9, "Invalid dates", none_allowed(len(bad), len(population)),
-        share(len(bad), len(population)), len(bad), len(population),
+        9,
+        "Invalid dates",
+        none_allowed(len(bad), len(population)),
+        share(len(bad), len(population)),
+        len(bad),
+        len(population),
         Threshold("0", DCMA_SECONDARY),
         "activities with a forecast before the data date or an actual after the status date",
-        tuple(bad))
+        tuple(bad),
+    )
 
 
 def check_resources(site: Site, result: ScheduleResult) -> CheckResult:
@@ -105,9 +132,16 @@ def check_resources(site: Site, result: ScheduleResult) -> CheckResult:
     population = [r for r in _open(result) if not site.activity(r.id).is_milestone]
     bare = [r.id for r in population if not site.activity(r.id).crew]
     return CheckResult(
-        10, "Resources", Outcome.INFO, share(len(bare), len(population)), len(bare),
-        len(population), Threshold("no mark", DCMA_RECALLED, recalled=True),
-        "unfinished activities (not milestones) with no crew", tuple(bare))
+        10,
+        "Resources",
+        Outcome.INFO,
+        share(len(bare), len(population)),
+        len(bare),
+        len(population),
+        Threshold("no mark", DCMA_RECALLED, recalled=True),
+        "unfinished activities (not milestones) with no crew",
+        tuple(bare),
+    )
 
 
 def check_missed_tasks(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckResult:
@@ -124,14 +158,22 @@ def check_missed_tasks(site: Site, result: ScheduleResult, baseline: Baseline) -
             missed.append(r.id)
     value = share(len(missed), len(population))
     return CheckResult(
-        11, "Missed tasks", at_most(value, MAX_MISSED_PCT), value, len(missed), len(population),
+        11,
+        "Missed tasks",
+        at_most(value, MAX_MISSED_PCT),
+        value,
+        len(missed),
+        len(population),
         Threshold("<= 5%", DCMA_RECALLED, recalled=True),
         "work due by the status date in the baseline that finished late or is not finished",
-        tuple(missed), note=f"baseline: {baseline.source}")
+        tuple(missed),
+        note=f"baseline: {baseline.source}",
+    )
 
 
-def due_by_status_date(site: Site, result: ScheduleResult,
-                       baseline: Baseline) -> list[ActivityResult]:
+def due_by_status_date(
+    site: Site, result: ScheduleResult, baseline: Baseline
+) -> list[ActivityResult]:
     """Activities (not milestones) the baseline has finishing on or before the status date."""
     due = []
     for r in result.activities:

@@ -68,9 +68,16 @@ def check_logic(site: Site, result: ScheduleResult) -> CheckResult:
             missing.append(aid)
     value = share(len(missing), len(population))
     return CheckResult(
-        1, "Logic", at_most(value, MAX_MISSING_LOGIC_PCT), value, len(missing), len(population),
+        1,
+        "Logic",
+        at_most(value, MAX_MISSING_LOGIC_PCT),
+        value,
+        len(missing),
+        len(population),
         Threshold("<= 5%", DCMA_GAO),
-        "unfinished activities with no predecessor or no successor", tuple(missing))
+        "unfinished activities with no predecessor or no successor",
+        tuple(missing),
+    )
 
 
 def check_leads(site: Site, result: ScheduleResult) -> CheckResult:
@@ -78,9 +85,16 @@ def check_leads(site: Site, result: ScheduleResult) -> CheckResult:
     links = open_links(site, result)
     leads = [_link_name(k) for k in links if k.lag < 0]
     return CheckResult(
-        2, "Leads", none_allowed(len(leads), len(links)), share(len(leads), len(links)),
-        len(leads), len(links), Threshold("0 links", DCMA_SECONDARY),
-        "links into unfinished activities with a negative lag (lead)", tuple(leads))
+        2,
+        "Leads",
+        none_allowed(len(leads), len(links)),
+        share(len(leads), len(links)),
+        len(leads),
+        len(links),
+        Threshold("0 links", DCMA_SECONDARY),
+        "links into unfinished activities with a negative lag (lead)",
+        tuple(leads),
+    )
 
 
 def check_lags(site: Site, result: ScheduleResult) -> CheckResult:
@@ -89,9 +103,16 @@ def check_lags(site: Site, result: ScheduleResult) -> CheckResult:
     lags = [_link_name(k) for k in links if k.lag > 0]
     value = share(len(lags), len(links))
     return CheckResult(
-        3, "Lags", at_most(value, MAX_LAG_PCT), value, len(lags), len(links),
+        3,
+        "Lags",
+        at_most(value, MAX_LAG_PCT),
+        value,
+        len(lags),
+        len(links),
         Threshold("<= 5%", DCMA_SECONDARY),
-        "links into unfinished activities with a positive lag", tuple(lags))
+        "links into unfinished activities with a positive lag",
+        tuple(lags),
+    )
 
 
 def check_relationship_types(site: Site, result: ScheduleResult) -> CheckResult:
@@ -104,9 +125,16 @@ def check_relationship_types(site: Site, result: ScheduleResult) -> CheckResult:
     others = tuple(f"{_link_name(k)} {k.type.value}" for k in links if k.type is not LinkType.FS)
     value = share(len(fs), len(links))
     return CheckResult(
-        4, "Relationship types", at_least(value, MIN_FS_PCT), value, len(fs), len(links),
+        4,
+        "Relationship types",
+        at_least(value, MIN_FS_PCT),
+        value,
+        len(fs),
+        len(links),
         Threshold(">= 90% FS", DCMA_SECONDARY),
-        "links into unfinished activities that are finish-to-start", others)
+        "links into unfinished activities that are finish-to-start",
+        others,
+    )
 
 
 def check_hard_constraints(site: Site, result: ScheduleResult) -> CheckResult:
@@ -121,7 +149,14 @@ def check_hard_constraints(site: Site, result: ScheduleResult) -> CheckResult:
     pinned = [aid for aid in population if site.activity(aid).finish_not_after is not None]
     value = share(len(pinned), len(population))
     return CheckResult(
-        5, "Hard constraints", at_most(value, MAX_HARD_CONSTRAINT_PCT), value, len(pinned),
-        len(population), Threshold("<= 5%", DCMA_SECONDARY),
-        "unfinished activities with a 'finish not after' date", tuple(pinned),
-        note="'finish not after' counted as hard (recalled from DCMA's definition)")
+        5,
+        "Hard constraints",
+        at_most(value, MAX_HARD_CONSTRAINT_PCT),
+        value,
+        len(pinned),
+        len(population),
+        Threshold("<= 5%", DCMA_SECONDARY),
+        "unfinished activities with a 'finish not after' date",
+        tuple(pinned),
+        note="'finish not after' counted as hard (recalled from DCMA's definition)",
+    )

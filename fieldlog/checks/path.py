@@ -48,8 +48,11 @@ def pick_test_activity(site: Site, result: ScheduleResult) -> str | None:
     """
     critical = set(result.lowest_float)
     for r in result.activities:
-        if (r.id in critical and r.status is Status.NOT_STARTED
-                and not site.activity(r.id).is_milestone):
+        if (
+            r.id in critical
+            and r.status is Status.NOT_STARTED
+            and not site.activity(r.id).is_milestone
+        ):
             return r.id
     return None
 
@@ -62,8 +65,9 @@ def finish_milestone(site: Site, result: ScheduleResult) -> str | None:
     becoming the last thing on site.
     """
     followed = {k.pred for k in site.links}
-    ends = [r for r in result.activities
-            if site.activity(r.id).is_milestone and r.id not in followed]
+    ends = [
+        r for r in result.activities if site.activity(r.id).is_milestone and r.id not in followed
+    ]
     return max(ends, key=lambda r: r.early_finish).id if ends else None
 
 
@@ -71,8 +75,7 @@ def _finish_of(result: ScheduleResult, end: str | None) -> date:
     return result.finish if end is None else result.by_id[end].early_finish
 
 
-def check_critical_path(site: Site, result: ScheduleResult,
-                        reschedule: Reschedule) -> CheckResult:
+def check_critical_path(site: Site, result: ScheduleResult, reschedule: Reschedule) -> CheckResult:
     """Check 12: add :data:`CRITICAL_PATH_DELAY` working days to one critical activity.
 
     The slip of the end milestone (:func:`finish_milestone`; the job's finish when there is
@@ -80,16 +83,27 @@ def check_critical_path(site: Site, result: ScheduleResult,
     onto another calendar can land the finish on a day that calendar does not work, so one
     working day short still passes (our allowance, not the guidance's).
     """
-    threshold = Threshold(f"finish slips {CRITICAL_PATH_DELAY} days", DCMA_RECALLED,
-                          recalled=True)
+    threshold = Threshold(f"finish slips {CRITICAL_PATH_DELAY} days", DCMA_RECALLED, recalled=True)
     what = "working days the finish slips when one critical activity is delayed"
     aid = pick_test_activity(site, result)
     if aid is None:
-        return CheckResult(12, "Critical path test", Outcome.NOT_APPLICABLE, None, 0, 0,
-                           threshold, what, note="no unstarted critical work to delay", unit="days")
+        return CheckResult(
+            12,
+            "Critical path test",
+            Outcome.NOT_APPLICABLE,
+            None,
+            0,
+            0,
+            threshold,
+            what,
+            note="no unstarted critical work to delay",
+            unit="days",
+        )
     act = site.activity(aid)
-    delayed = tuple(replace(a, duration=a.duration + CRITICAL_PATH_DELAY) if a.id == aid else a
-                    for a in site.activities)
+    delayed = tuple(
+        replace(a, duration=a.duration + CRITICAL_PATH_DELAY) if a.id == aid else a
+        for a in site.activities
+    )
     slipped = reschedule(replace(site, activities=delayed))
     end = finish_milestone(site, result)
     before, after = _finish_of(result, end), _finish_of(slipped, end)
@@ -97,10 +111,19 @@ def check_critical_path(site: Site, result: ScheduleResult,
     slip = cal.count(before + timedelta(days=1), after + timedelta(days=1))
     passed = slip >= CRITICAL_PATH_DELAY - 1
     return CheckResult(
-        12, "Critical path test", Outcome.PASS if passed else Outcome.FAIL, float(slip), slip,
-        CRITICAL_PATH_DELAY, threshold, what, (aid,),
+        12,
+        "Critical path test",
+        Outcome.PASS if passed else Outcome.FAIL,
+        float(slip),
+        slip,
+        CRITICAL_PATH_DELAY,
+        threshold,
+        what,
+        (aid,),
         note=f"{aid} delayed {CRITICAL_PATH_DELAY} working days; {end or 'the finish'} "
-        f"{before} -> {after}", unit="days")
+        f"{before} -> {after}",
+        unit="days",
+    )
 
 
 def check_cpli(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckResult:
@@ -119,12 +142,31 @@ def check_cpli(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckR
     threshold = Threshold(">= 0.95", DAU_CPLI)
     what = "(critical path length + finish float) / critical path length"
     if length <= 0:
-        return CheckResult(13, "CPLI", Outcome.NOT_APPLICABLE, None, tf, length, threshold,
-                           what, note="no work left after the data date", unit="ratio")
+        return CheckResult(
+            13,
+            "CPLI",
+            Outcome.NOT_APPLICABLE,
+            None,
+            tf,
+            length,
+            threshold,
+            what,
+            note="no work left after the data date",
+            unit="ratio",
+        )
     value = cpli(length, tf)
-    return CheckResult(13, "CPLI", at_least(value, MIN_CPLI), value, tf, length, threshold,
-                       what, note=f"CPL {length} working days to {result.finish}, "
-                       f"float {tf:+d} against the {target}", unit="ratio")
+    return CheckResult(
+        13,
+        "CPLI",
+        at_least(value, MIN_CPLI),
+        value,
+        tf,
+        length,
+        threshold,
+        what,
+        note=f"CPL {length} working days to {result.finish}, float {tf:+d} against the {target}",
+        unit="ratio",
+    )
 
 
 def check_bei(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckResult:
@@ -134,12 +176,25 @@ def check_bei(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckRe
     with like; work finished early counts in the numerator (as the index is defined).
     """
     due = due_by_status_date(site, result, baseline)
-    done = [r.id for r in result.activities
-            if r.status is Status.FINISHED and r.id in baseline.activities
-            and not site.activity(r.id).is_milestone]
+    done = [
+        r.id
+        for r in result.activities
+        if r.status is Status.FINISHED
+        and r.id in baseline.activities
+        and not site.activity(r.id).is_milestone
+    ]
     value = len(done) / len(due) if due else None
     missing = tuple(r.id for r in due if r.status is not Status.FINISHED)
     return CheckResult(
-        14, "BEI", at_least(value, MIN_BEI), value, len(done), len(due),
-        Threshold(">= 0.95", BEI_SHEET), "activities finished / activities due by the status date",
-        missing, note=f"baseline: {baseline.source}", unit="ratio")
+        14,
+        "BEI",
+        at_least(value, MIN_BEI),
+        value,
+        len(done),
+        len(due),
+        Threshold(">= 0.95", BEI_SHEET),
+        "activities finished / activities due by the status date",
+        missing,
+        note=f"baseline: {baseline.source}",
+        unit="ratio",
+    )

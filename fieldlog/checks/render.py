@@ -15,9 +15,11 @@ from fieldlog.checks.result import CheckResult, Outcome
 MAX_ITEMS = 12
 """Ids listed per failed check in the text report; JSON lists them all."""
 
-CAUTION = ("These marks are a starting point for review, not compliance triggers (GAO-16-89G). "
-           "A schedule is a plan, not a permit: the contract, local codes and licensed "
-           "professionals govern the work.")
+CAUTION = (
+    "These marks are a starting point for review, not compliance triggers (GAO-16-89G). "
+    "A schedule is a plan, not a permit: the contract, local codes and licensed "
+    "professionals govern the work."
+)
 
 
 def format_value(check: CheckResult) -> str:
@@ -41,18 +43,26 @@ def _counted(check: CheckResult) -> str:
 
 def render_text(report: HealthReport) -> str:
     """The report for a person; ``*`` marks a pass mark that was recalled, not read."""
-    out = [f"Schedule health: {report.site_name}, revision {report.revision}, "
-           f"as of end of {report.as_of.isoformat()}",
-           f"Baseline: {report.baseline}", "",
-           " #  Check               Result  Value    Counted           Mark"]
+    out = [
+        f"Schedule health: {report.site_name}, revision {report.revision}, "
+        f"as of end of {report.as_of.isoformat()}",
+        f"Baseline: {report.baseline}",
+        "",
+        " #  Check               Result  Value    Counted           Mark",
+    ]
     for c in report.checks:
         star = "*" if c.threshold.recalled else " "
-        out.append(f"{c.number:>2}  {c.name:<19} {c.outcome.value.upper():<7} "
-                   f"{format_value(c):>7}  {_counted(c):<17} {c.threshold.text}{star}".rstrip())
+        out.append(
+            f"{c.number:>2}  {c.name:<19} {c.outcome.value.upper():<7} "
+            f"{format_value(c):>7}  {_counted(c):<17} {c.threshold.text}{star}".rstrip()
+        )
     failed = report.failed
     out.append("")
-    out.append(f"{len(failed)} of {len(report.checks)} checks outside their mark."
-               if failed else "Every check is within its mark.")
+    out.append(
+        f"{len(failed)} of {len(report.checks)} checks outside their mark."
+        if failed
+        else "Every check is within its mark."
+    )
     for c in report.checks:
         if c.outcome is not Outcome.FAIL and not (c.note and c.number in (12, 13)):
             continue
@@ -67,8 +77,7 @@ def render_text(report: HealthReport) -> str:
     out.append("")
     out.append("Where each mark comes from:")
     out.extend(f"{c.number:>3} {c.name}: {c.threshold.source}" for c in report.checks)
-    out.append("* mark recalled rather than read in the guidance: confirm it before relying on "
-               "it.")
+    out.append("* mark recalled rather than read in the guidance: confirm it before relying on it.")
     out.append(CAUTION)
     return "\n".join(out) + "\n"
 
@@ -76,15 +85,29 @@ def render_text(report: HealthReport) -> str:
 def render_json(report: HealthReport) -> str:
     """Every field of every check."""
     data = {
-        "site": report.site_name, "revision": report.revision,
-        "as_of": report.as_of.isoformat(), "baseline": report.baseline,
+        "site": report.site_name,
+        "revision": report.revision,
+        "as_of": report.as_of.isoformat(),
+        "baseline": report.baseline,
         "failed": [c.number for c in report.failed],
-        "checks": [{
-            "number": c.number, "name": c.name, "outcome": c.outcome.value, "value": c.value,
-            "unit": c.unit, "count": c.count, "population": c.population, "what": c.what,
-            "mark": c.threshold.text, "mark_source": c.threshold.source,
-            "mark_recalled": c.threshold.recalled, "items": list(c.items), "note": c.note,
-        } for c in report.checks],
+        "checks": [
+            {
+                "number": c.number,
+                "name": c.name,
+                "outcome": c.outcome.value,
+                "value": c.value,
+                "unit": c.unit,
+                "count": c.count,
+                "population": c.population,
+                "what": c.what,
+                "mark": c.threshold.text,
+                "mark_source": c.threshold.source,
+                "mark_recalled": c.threshold.recalled,
+                "items": list(c.items),
+                "note": c.note,
+            }
+            for c in report.checks
+        ],
         "caution": CAUTION,
     }
     return json.dumps(data, indent=2, ensure_ascii=False) + "\n"

@@ -15,13 +15,19 @@ from fieldlog.cli import EXIT_OK, EXIT_PROBLEM, iso_date
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog check``."""
     p = sub.add_parser(
-        "check", help="schedule health checks (DCMA 14-point assessment)",
+        "check",
+        help="schedule health checks (DCMA 14-point assessment)",
         description="Run the DCMA 14-point schedule assessment checks that apply to a site "
         "(logic, leads, lags, link types, hard constraints, float, durations, dates, missed "
-        "work, critical path test, CPLI, BEI) and say which are outside their published mark.")
+        "work, critical path test, CPLI, BEI) and say which are outside their published mark.",
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--as-of", type=iso_date, metavar="DATE",
-                   help="status date, end of day (default: last day with log entries)")
+    p.add_argument(
+        "--as-of",
+        type=iso_date,
+        metavar="DATE",
+        help="status date, end of day (default: last day with log entries)",
+    )
     p.add_argument("--format", choices=("text", "json"), default="text")
     p.set_defaults(run=run)
 

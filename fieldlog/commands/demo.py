@@ -24,15 +24,27 @@ SAMPLE = "kestrel-yard"
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog demo``."""
     p = sub.add_parser(
-        "demo", help="try the app on a scratch copy of the sample site",
+        "demo",
+        help="try the app on a scratch copy of the sample site",
         description="Copy the sample site to a temporary folder and open the app on it, on the "
-        "working day after the sample's last logged day. The copy is removed afterwards.")
-    p.add_argument("--keep", action="store_true",
-                   help="keep the scratch copy when the app closes (its folder is printed)")
-    p.add_argument("--today", type=iso_date, metavar="DATE",
-                   help="open on this day instead of the day after the sample's last log day")
-    p.add_argument("--ascii", action="store_true",
-                   help="plain ASCII marks and no colour (see fieldlog open --ascii)")
+        "working day after the sample's last logged day. The copy is removed afterwards.",
+    )
+    p.add_argument(
+        "--keep",
+        action="store_true",
+        help="keep the scratch copy when the app closes (its folder is printed)",
+    )
+    p.add_argument(
+        "--today",
+        type=iso_date,
+        metavar="DATE",
+        help="open on this day instead of the day after the sample's last log day",
+    )
+    p.add_argument(
+        "--ascii",
+        action="store_true",
+        help="plain ASCII marks and no colour (see fieldlog open --ascii)",
+    )
     p.set_defaults(run=run)
 
 
@@ -43,12 +55,14 @@ def sample_folder() -> Path:
         SiteError: neither place has it.
     """
     here = Path(__file__).resolve().parent.parent
-    for candidate in (here / "_sample_sites" / SAMPLE,
-                      here.parent / "sample_sites" / SAMPLE):
+    for candidate in (here / "_sample_sites" / SAMPLE, here.parent / "sample_sites" / SAMPLE):
         if (candidate / "site.toml").is_file():
             return candidate
-    raise SiteError(f"the sample site '{SAMPLE}' is not installed", file=here,
-                    fix="reinstall fieldlog (pip install --force-reinstall fieldlog)")
+    raise SiteError(
+        f"the sample site '{SAMPLE}' is not installed",
+        file=here,
+        fix="reinstall fieldlog (pip install --force-reinstall fieldlog)",
+    )
 
 
 def demo_day(folder: Path) -> tuple[date, date | None]:

@@ -18,16 +18,28 @@ from fieldlog.cli import EXIT_OK, EXIT_PROBLEM, iso_date
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog export``."""
     p = sub.add_parser(
-        "export", help="write sites into an SQLite office database (unchanged sites skipped)",
+        "export",
+        help="write sites into an SQLite office database (unchanged sites skipped)",
         description="Write each site's activities, schedule results, journal entries, lost "
         "time, crews and readiness items into an SQLite file the office can query with any "
-        "SQL tool. A site whose files did not change since the last export is skipped.")
-    p.add_argument("sites", nargs="+", metavar="SITE",
-                   help="site folders, or folders that hold site folders")
-    p.add_argument("--sqlite", type=Path, required=True, metavar="FILE",
-                   help="the database file (created when missing)")
-    p.add_argument("--as-of", type=iso_date, metavar="DATE",
-                   help="status date for every site (default: each site's last logged day)")
+        "SQL tool. A site whose files did not change since the last export is skipped.",
+    )
+    p.add_argument(
+        "sites", nargs="+", metavar="SITE", help="site folders, or folders that hold site folders"
+    )
+    p.add_argument(
+        "--sqlite",
+        type=Path,
+        required=True,
+        metavar="FILE",
+        help="the database file (created when missing)",
+    )
+    p.add_argument(
+        "--as-of",
+        type=iso_date,
+        metavar="DATE",
+        help="status date for every site (default: each site's last logged day)",
+    )
     p.set_defaults(run=run)
 
 
@@ -40,10 +52,15 @@ def run(args: argparse.Namespace) -> int:
     for s in summary.sites:
         tail = f": {s.error}" if s.error else ""
         print(f"{s.outcome.value:<9} {s.folder}{tail}")
-    print(f"{summary.count(Outcome.EXPORTED)} exported, {summary.count(Outcome.SKIPPED)} "
-          f"unchanged, {summary.count(Outcome.FAILED)} failed: {args.sqlite}")
+    print(
+        f"{summary.count(Outcome.EXPORTED)} exported, {summary.count(Outcome.SKIPPED)} "
+        f"unchanged, {summary.count(Outcome.FAILED)} failed: {args.sqlite}"
+    )
     if summary.count(Outcome.FAILED):
-        print(f"fieldlog: export: {summary.count(Outcome.FAILED)} sites did not load; they "
-              "keep their last exported rows", file=sys.stderr)
+        print(
+            f"fieldlog: export: {summary.count(Outcome.FAILED)} sites did not load; they "
+            "keep their last exported rows",
+            file=sys.stderr,
+        )
         return EXIT_PROBLEM
     return EXIT_OK

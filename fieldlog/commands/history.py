@@ -27,19 +27,36 @@ def _width(text: str) -> int:
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog history``."""
     p = sub.add_parser(
-        "history", help="forecast finish as of every logged day, movement by cause, PPC",
+        "history",
+        help="forecast finish as of every logged day, movement by cause, PPC",
         description="Recompute the schedule as of the end of every logged day and show how "
         "the forecast finish moved, split by the causes the log records, and the weekly "
-        "percent plan complete. Reads the log only; it claims no cause the log does not name.")
+        "percent plan complete. Reads the log only; it claims no cause the log does not name.",
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--from", dest="first", type=iso_date, metavar="DATE",
-                   help="first day shown (default: the first logged day)")
-    p.add_argument("--to", dest="last", type=iso_date, metavar="DATE",
-                   help="last day shown (default: the last logged day)")
+    p.add_argument(
+        "--from",
+        dest="first",
+        type=iso_date,
+        metavar="DATE",
+        help="first day shown (default: the first logged day)",
+    )
+    p.add_argument(
+        "--to",
+        dest="last",
+        type=iso_date,
+        metavar="DATE",
+        help="last day shown (default: the last logged day)",
+    )
     p.add_argument("--by", choices=GROUPINGS, default="day", help="window length (default day)")
     p.add_argument("--format", choices=FORMATS, default="text")
-    p.add_argument("--width", type=_width, default=80, metavar="COLUMNS",
-                   help=f"text width, {MIN_WIDTH}-{MAX_WIDTH} (default 80; 132 for wide paper)")
+    p.add_argument(
+        "--width",
+        type=_width,
+        default=80,
+        metavar="COLUMNS",
+        help=f"text width, {MIN_WIDTH}-{MAX_WIDTH} (default 80; 132 for wide paper)",
+    )
     p.set_defaults(run=run)
 
 
@@ -50,8 +67,7 @@ def run(args: argparse.Namespace) -> int:
         return EXIT_BAD_INPUT
     site = load_site(args.site)
     journal = read_journal(args.site)
-    history = build_history(site, journal.entries, first=args.first, last=args.last,
-                            by=args.by)
+    history = build_history(site, journal.entries, first=args.first, last=args.last, by=args.by)
     sys.stdout.write(render_history(history, args.format, args.width))
     for problem in history.problems:
         print(f"fieldlog: log: {problem}", file=sys.stderr)

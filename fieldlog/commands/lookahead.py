@@ -26,28 +26,58 @@ MAX_DAYS = 62
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog lookahead``."""
     p = sub.add_parser(
-        "lookahead", help="the two-week lookahead: what must, may and cannot run each day",
+        "lookahead",
+        help="the two-week lookahead: what must, may and cannot run each day",
         description="For every day of the window: which activities MUST run (or the job "
         "slips), which MAY run (they have float) and which CANNOT run yet, with the reasons, "
-        "the crew load and a levelling suggestion when a crew is over its headcount.")
+        "the crew load and a levelling suggestion when a crew is over its headcount.",
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--as-of", type=iso_date, metavar="DATE",
-                   help="status date, end of day (default: last day with log entries)")
-    p.add_argument("--from", dest="start", type=iso_date, metavar="DATE",
-                   help="first day shown (default: the data date, the day after --as-of)")
-    p.add_argument("--days", type=int, default=DEFAULT_DAYS, metavar="N",
-                   help=f"calendar days shown (default {DEFAULT_DAYS}, at most {MAX_DAYS})")
+    p.add_argument(
+        "--as-of",
+        type=iso_date,
+        metavar="DATE",
+        help="status date, end of day (default: last day with log entries)",
+    )
+    p.add_argument(
+        "--from",
+        dest="start",
+        type=iso_date,
+        metavar="DATE",
+        help="first day shown (default: the data date, the day after --as-of)",
+    )
+    p.add_argument(
+        "--days",
+        type=int,
+        default=DEFAULT_DAYS,
+        metavar="N",
+        help=f"calendar days shown (default {DEFAULT_DAYS}, at most {MAX_DAYS})",
+    )
     p.add_argument("--format", choices=FORMATS, default="text")
-    p.add_argument("--width", type=int, choices=WIDTHS, default=80,
-                   help="columns of the printed sheet (default 80)")
+    p.add_argument(
+        "--width",
+        type=int,
+        choices=WIDTHS,
+        default=80,
+        help="columns of the printed sheet (default 80)",
+    )
     p.add_argument("--ascii", action="store_true", help="plain ASCII marks and names")
-    p.add_argument("--out", type=Path, metavar="FILE", help="write to FILE instead of stdout "
-                   "(with --per-crew: the folder the crews' .ics files go in)")
+    p.add_argument(
+        "--out",
+        type=Path,
+        metavar="FILE",
+        help="write to FILE instead of stdout "
+        "(with --per-crew: the folder the crews' .ics files go in)",
+    )
     crews = p.add_mutually_exclusive_group()
-    crews.add_argument("--crew", metavar="NAME",
-                       help="with --format ics: only the MUST work of this crew")
-    crews.add_argument("--per-crew", action="store_true",
-                       help="with --format ics: one calendar file per crew, in --out FOLDER")
+    crews.add_argument(
+        "--crew", metavar="NAME", help="with --format ics: only the MUST work of this crew"
+    )
+    crews.add_argument(
+        "--per-crew",
+        action="store_true",
+        help="with --format ics: one calendar file per crew, in --out FOLDER",
+    )
     p.set_defaults(run=run)
 
 
@@ -72,8 +102,9 @@ def run(args: argparse.Namespace) -> int:
     state = load_state(args.site, args.as_of)
     if args.crew is not None and args.crew not in state.site.crews:
         known = ", ".join(sorted(state.site.crews)) or "none"
-        print(f"fieldlog: no crew '{args.crew[:40]}' in site.toml (crews: {known})",
-              file=sys.stderr)
+        print(
+            f"fieldlog: no crew '{args.crew[:40]}' in site.toml (crews: {known})", file=sys.stderr
+        )
         return EXIT_BAD_INPUT
     la = build_lookahead(state.schedule, state.replay.readiness, args.start, args.days)
     if args.per_crew:
@@ -115,11 +146,13 @@ def _write_crew_files(folder: Path, files: dict[str, bytes]) -> None:
     try:
         folder.mkdir(exist_ok=True)
     except OSError as exc:
-        raise FieldlogError(f"cannot make the folder: {exc.strerror}", file=folder,
-                            fix="give a folder whose parent exists and is writable") from exc
+        raise FieldlogError(
+            f"cannot make the folder: {exc.strerror}",
+            file=folder,
+            fix="give a folder whose parent exists and is writable",
+        ) from exc
     if not files:
-        print("fieldlog: no crew has MUST work in the window; no files written",
-              file=sys.stderr)
+        print("fieldlog: no crew has MUST work in the window; no files written", file=sys.stderr)
     for name, data in files.items():
         _write(folder / name, data)
         print(f"fieldlog: wrote {folder / name}", file=sys.stderr)
@@ -132,5 +165,8 @@ def _write(path: Path, data: bytes) -> None:
         tmp.write_bytes(data)
         tmp.replace(path)
     except OSError as exc:
-        raise FieldlogError(f"cannot write {path}: {exc.strerror}", file=path,
-                            fix="check the folder exists and is writable") from exc
+        raise FieldlogError(
+            f"cannot write {path}: {exc.strerror}",
+            file=path,
+            fix="check the folder exists and is writable",
+        ) from exc

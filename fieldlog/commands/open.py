@@ -24,17 +24,26 @@ terminals and of a bare line); a name ending in ``-m`` or ``-mono`` is a monochr
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog open``."""
     p = sub.add_parser(
-        "open", help="the end-of-shift app: record the day, see float and the lookahead",
+        "open",
+        help="the end-of-shift app: record the day, see float and the lookahead",
         description="Open the keyboard-driven app on a site folder: record what happened "
         "today (every key writes the log at once), see the float and the two-week lookahead "
-        "change, correct past entries, sync with the office. Press ? in the app for every key.")
+        "change, correct past entries, sync with the office. Press ? in the app for every key.",
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--today", type=iso_date, metavar="DATE",
-                   help="the shift to record (default: this machine's date)")
-    p.add_argument("--ascii", action="store_true",
-                   help="plain marks (#, :, .) instead of block characters, for a terminal "
-                   "without colour or a font without them; also on when NO_COLOR is set or "
-                   "TERM names a terminal without colour (dumb, vt100)")
+    p.add_argument(
+        "--today",
+        type=iso_date,
+        metavar="DATE",
+        help="the shift to record (default: this machine's date)",
+    )
+    p.add_argument(
+        "--ascii",
+        action="store_true",
+        help="plain marks (#, :, .) instead of block characters, for a terminal "
+        "without colour or a font without them; also on when NO_COLOR is set or "
+        "TERM names a terminal without colour (dumb, vt100)",
+    )
     p.set_defaults(run=run)
 
 
@@ -71,7 +80,8 @@ def require_terminal() -> None:
             raise FieldlogError(
                 f"the app needs a terminal, and its {name} is not one",
                 fix="run it in a terminal window; for files use fieldlog report, lookahead or "
-                "schedule")
+                "schedule",
+            )
 
 
 def open_site(folder: str, today: date, notice: str = "", *, plain: bool = False) -> int:
@@ -89,6 +99,7 @@ def open_site(folder: str, today: date, notice: str = "", *, plain: bool = False
 
     from fieldlog.app.app import make_app  # Textual from here on
 
-    make_app(folder, today, session=session, notice=notice,
-             plain=plain_wanted(os.environ, plain)).run()
+    make_app(
+        folder, today, session=session, notice=notice, plain=plain_wanted(os.environ, plain)
+    ).run()
     return 0

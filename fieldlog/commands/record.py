@@ -63,8 +63,11 @@ _HIDDEN = {("lost-time", "whole_day"), ("correction", "corrects"), ("correction"
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog record`` and one sub-form per entry kind."""
-    p = sub.add_parser("record", help="add an entry to the field log (what the app does)",
-                       description=__doc__.splitlines()[0].split(": ", 1)[1])
+    p = sub.add_parser(
+        "record",
+        help="add an entry to the field log (what the app does)",
+        description=__doc__.splitlines()[0].split(": ", 1)[1],
+    )
     p.add_argument("site", help="the site folder")
     forms = p.add_subparsers(dest="verb", metavar="KIND", parser_class=type(p))
     forms.required = True
@@ -77,17 +80,34 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
             if (kind, spec.name) not in _HIDDEN:
                 _add_field(f, spec)
         if kind == "correction":
-            f.add_argument("--set", dest="changes", action="append", default=[],
-                           metavar="FIELD=VALUE",
-                           help="a corrected value, e.g. --set days=4 (repeat for more)")
-        f.add_argument("--on", metavar="DAY", dest="on",
-                       help=f"the day this describes: {DAY_HELP} (default: today; for a "
-                       "correction, the corrected entry's day)")
-        f.add_argument("--today", type=iso_date, metavar="DATE",
-                       help="today's date (default: the computer's date)")
-        f.add_argument("--author", metavar="NAME", help="who records it (asked once per "
-                       "device and kept; give it here the first time on a machine without "
-                       "a terminal)")
+            f.add_argument(
+                "--set",
+                dest="changes",
+                action="append",
+                default=[],
+                metavar="FIELD=VALUE",
+                help="a corrected value, e.g. --set days=4 (repeat for more)",
+            )
+        f.add_argument(
+            "--on",
+            metavar="DAY",
+            dest="on",
+            help=f"the day this describes: {DAY_HELP} (default: today; for a "
+            "correction, the corrected entry's day)",
+        )
+        f.add_argument(
+            "--today",
+            type=iso_date,
+            metavar="DATE",
+            help="today's date (default: the computer's date)",
+        )
+        f.add_argument(
+            "--author",
+            metavar="NAME",
+            help="who records it (asked once per "
+            "device and kept; give it here the first time on a machine without "
+            "a terminal)",
+        )
         f.set_defaults(run=run, kind=kind)
 
 
@@ -105,11 +125,11 @@ def _add_field(parser: argparse.ArgumentParser, spec: FieldSpec) -> None:
     elif spec.type == "date":
         parser.add_argument(flag, dest=dest, type=iso_date, metavar="DATE", help=spec.help)
     elif spec.type == "choice":
-        parser.add_argument(flag, dest=dest, choices=spec.choices, required=spec.required,
-                            help=spec.help)
+        parser.add_argument(
+            flag, dest=dest, choices=spec.choices, required=spec.required, help=spec.help
+        )
     else:
-        parser.add_argument(flag, dest=dest, metavar=label, required=spec.required,
-                            help=spec.help)
+        parser.add_argument(flag, dest=dest, metavar=label, required=spec.required, help=spec.help)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -123,8 +143,7 @@ def run(args: argparse.Namespace) -> int:
         for change in args.changes:
             key, sep, value = change.partition("=")
             if not sep or not key.strip():
-                raise EntryRefused(f"--set {change!r} is not FIELD=VALUE",
-                                   fix="e.g. --set days=4")
+                raise EntryRefused(f"--set {change!r} is not FIELD=VALUE", fix="e.g. --set days=4")
             fields[key.strip().replace("-", "_")] = value
     device = device_id()  # first: a data folder that cannot be written is the one error shown
     site = load_site(args.site)
@@ -135,8 +154,17 @@ def run(args: argparse.Namespace) -> int:
             day = parse_day(args.on, today, earliest=earliest_day(site.start), latest=today)
         except DayProblem as exc:
             raise EntryRefused(f"--on: {exc}", fix="e.g. --on yesterday") from None
-    entry = record_entry(args.site, site, kind, day, fields, today=today,
-                         author=author, device=device, site_name=args.site)
+    entry = record_entry(
+        args.site,
+        site,
+        kind,
+        day,
+        fields,
+        today=today,
+        author=author,
+        device=device,
+        site_name=args.site,
+    )
     print(entry.id)
     print(f"fieldlog: recorded {entry.kind} for {long_day(entry.day)}", file=sys.stderr)
     return 0
@@ -156,14 +184,17 @@ def _author(given: str | None) -> str:
     elif kept is not None:
         return kept
     elif sys.stdin.isatty() and sys.stderr.isatty():
-        sys.stderr.write(f"Your name, as it will stand on every entry from this device "
-                         f"(1-{MAX_AUTHOR} characters): ")
+        sys.stderr.write(
+            f"Your name, as it will stand on every entry from this device "
+            f"(1-{MAX_AUTHOR} characters): "
+        )
         sys.stderr.flush()
         name = check_author(sys.stdin.readline())
     else:
-        raise EntryRefused("no author name is set for this device",
-                           fix="give your name once with --author NAME; it is kept for this "
-                           "device")
+        raise EntryRefused(
+            "no author name is set for this device",
+            fix="give your name once with --author NAME; it is kept for this device",
+        )
     if kept is None:
         save_author(name)
     return name

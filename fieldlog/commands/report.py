@@ -16,11 +16,19 @@ from fieldlog.workspace import load_state
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog report``."""
-    p = sub.add_parser("report", help="the printable daily report of one day",
-                       description=__doc__.splitlines()[0].split(": ", 1)[1])
+    p = sub.add_parser(
+        "report",
+        help="the printable daily report of one day",
+        description=__doc__.splitlines()[0].split(": ", 1)[1],
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--day", type=iso_date, metavar="DATE", required=True,
-                   help="the day to report (its end is the status date)")
+    p.add_argument(
+        "--day",
+        type=iso_date,
+        metavar="DATE",
+        required=True,
+        help="the day to report (its end is the status date)",
+    )
     p.set_defaults(run=run)
 
 

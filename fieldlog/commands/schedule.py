@@ -12,12 +12,19 @@ from fieldlog.workspace import load_state
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog schedule``."""
-    p = sub.add_parser("schedule", help="dates and floats of every activity (the float list)",
-                       description="Recompute the critical path from the field log and print "
-                       "every activity's early/late dates and floats.")
+    p = sub.add_parser(
+        "schedule",
+        help="dates and floats of every activity (the float list)",
+        description="Recompute the critical path from the field log and print "
+        "every activity's early/late dates and floats.",
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--as-of", type=iso_date, metavar="DATE",
-                   help="status date, end of day (default: last day with log entries)")
+    p.add_argument(
+        "--as-of",
+        type=iso_date,
+        metavar="DATE",
+        help="status date, end of day (default: last day with log entries)",
+    )
     p.add_argument("--format", choices=FORMATS, default="text")
     p.set_defaults(run=run)
 

@@ -21,9 +21,11 @@ _HEADER = ("site", "rev", "last log", "forecast finish", "finish by", "float", "
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog sites``."""
     p = sub.add_parser(
-        "sites", help="office roll-up: every site folder under FOLDER, one line each",
+        "sites",
+        help="office roll-up: every site folder under FOLDER, one line each",
         description="List every site folder under FOLDER with its schedule revision, last "
-        "logged day, forecast finish, float against the required finish and open conflicts.")
+        "logged day, forecast finish, float against the required finish and open conflicts.",
+    )
     p.add_argument("folder", help="the office folder that holds the site folders")
     p.add_argument("--format", choices=("text", "json"), default="text")
     p.set_defaults(run=run)
@@ -33,12 +35,15 @@ def run(args: argparse.Namespace) -> int:
     """Print the roll-up on stdout."""
     folder = Path(args.folder)
     if not folder.is_dir():
-        raise SyncError("not a folder", file=folder, fix="give the office folder that holds "
-                        "the site folders")
+        raise SyncError(
+            "not a folder", file=folder, fix="give the office folder that holds the site folders"
+        )
     rows = rollup(folder)
     if not rows:
-        print(f"fieldlog: no site folders (with site.toml or schedule.toml) under {folder}",
-              file=sys.stderr)
+        print(
+            f"fieldlog: no site folders (with site.toml or schedule.toml) under {folder}",
+            file=sys.stderr,
+        )
         return 1
     sys.stdout.write(render_json(rows) if args.format == "json" else render_text(rows))
     return 1 if any(r.has_problem for r in rows) else 0
@@ -60,8 +65,10 @@ def render_text(rows: tuple[SiteRow, ...]) -> str:
     right = {1, 5, 6}
 
     def line(values: tuple[str, ...]) -> str:
-        parts = [v.rjust(w) if i in right else v.ljust(w)
-                 for i, (v, w) in enumerate(zip(values, widths, strict=True))]
+        parts = [
+            v.rjust(w) if i in right else v.ljust(w)
+            for i, (v, w) in enumerate(zip(values, widths, strict=True))
+        ]
         return "  ".join(parts).rstrip()
 
     out = [line(_HEADER)]
@@ -77,12 +84,21 @@ def render_text(rows: tuple[SiteRow, ...]) -> str:
 
 def render_json(rows: tuple[SiteRow, ...]) -> str:
     """The roll-up as JSON (dates ISO, float in working days)."""
+
     def iso(value: object) -> str | None:
         return None if value is None else str(value)
 
-    data = [{
-        "site": r.path, "revision": r.revision, "last_log_day": iso(r.last_log_day),
-        "forecast_finish": iso(r.finish), "finish_by": iso(r.finish_by),
-        "float": r.finish_float, "conflicts": r.conflicts, "error": r.error,
-    } for r in rows]
+    data = [
+        {
+            "site": r.path,
+            "revision": r.revision,
+            "last_log_day": iso(r.last_log_day),
+            "forecast_finish": iso(r.finish),
+            "finish_by": iso(r.finish_by),
+            "float": r.finish_float,
+            "conflicts": r.conflicts,
+            "error": r.error,
+        }
+        for r in rows
+    ]
     return json.dumps(data, indent=2) + "\n"

@@ -43,13 +43,19 @@ from fieldlog.sync.receipts import RECEIPTS_DIR
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
     """Register ``fieldlog verify``."""
-    p = sub.add_parser("verify", help="check the field log is intact (exit 1 if not)",
-                       description=__doc__.splitlines()[0].split(": ", 1)[1])
+    p = sub.add_parser(
+        "verify",
+        help="check the field log is intact (exit 1 if not)",
+        description=__doc__.splitlines()[0].split(": ", 1)[1],
+    )
     p.add_argument("site", help="the site folder")
-    p.add_argument("--office", metavar="FOLDER",
-                   help="also check the log against the receipts in the office's folder for "
-                   "this site (catches entries removed after a sync even when this device's "
-                   "own copies of the receipts are gone)")
+    p.add_argument(
+        "--office",
+        metavar="FOLDER",
+        help="also check the log against the receipts in the office's folder for "
+        "this site (catches entries removed after a sync even when this device's "
+        "own copies of the receipts are gone)",
+    )
     p.set_defaults(run=run)
 
 
@@ -77,25 +83,38 @@ def run(args: argparse.Namespace) -> int:
         for line in receipt_lines:
             print(f"  {line}")
     for record in journal.devices.values():
-        print(f"device {record.device}: {record.author}, key registered {record.registered}, "
-              f"signs from entry {record.signed_from}")
+        print(
+            f"device {record.device}: {record.author}, key registered {record.registered}, "
+            f"signs from entry {record.signed_from}"
+        )
     n_entries = len(journal.entries)
     if findings or contradictions or conflicts or receipt_lines:
-        forged = f", {journal.forged} forged entr{'y' if journal.forged == 1 else 'ies'} " \
-            "not used" if journal.forged else ""
-        print(f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
-              f"{len(conflicts)} sync conflict(s), {len(receipt_lines)} receipt finding(s) in "
-              f"{len(journal.files)} file(s), {n_entries} entries used{forged}")
+        forged = (
+            f", {journal.forged} forged entr{'y' if journal.forged == 1 else 'ies'} not used"
+            if journal.forged
+            else ""
+        )
+        print(
+            f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
+            f"{len(conflicts)} sync conflict(s), {len(receipt_lines)} receipt finding(s) in "
+            f"{len(journal.files)} file(s), {n_entries} entries used{forged}"
+        )
         return 1
     if journal.unsigned:
-        print(f"{journal.unsigned} of {n_entries} entries are unsigned: written before this "
-              "site's devices signed their entries, so only the hash chain vouches for them")
-        print(f"unsigned, chain intact: {len(journal.files)} file(s), {n_entries} entries, "
-              f"{journal.signed} signed, {journal.unsigned} unsigned, chains unbroken, "
-              "no contradictions")
+        print(
+            f"{journal.unsigned} of {n_entries} entries are unsigned: written before this "
+            "site's devices signed their entries, so only the hash chain vouches for them"
+        )
+        print(
+            f"unsigned, chain intact: {len(journal.files)} file(s), {n_entries} entries, "
+            f"{journal.signed} signed, {journal.unsigned} unsigned, chains unbroken, "
+            "no contradictions"
+        )
         return 0
-    print(f"log intact: {len(journal.files)} file(s), {n_entries} entries, every one signed "
-          "by its device's registered key, chains unbroken, no contradictions")
+    print(
+        f"log intact: {len(journal.files)} file(s), {n_entries} entries, every one signed "
+        "by its device's registered key, chains unbroken, no contradictions"
+    )
     return 0
 
 
@@ -113,8 +132,11 @@ def receipts_check(site: Path, journal: Journal, office: str | None) -> Audit:
     if office is not None:
         folder = Path(office)
         if not folder.is_dir():
-            raise SiteError("the office folder does not exist", file=folder,
-                            fix="give the folder 'fieldlog sync' writes to for this site")
+            raise SiteError(
+                "the office folder does not exist",
+                file=folder,
+                fix="give the folder 'fieldlog sync' writes to for this site",
+            )
         devices = {d for d, _ in mine.files} | ({this} if this else set())
         groups.append(office_receipts(folder, devices, mine))
         there = read_folder(folder / RECEIPTS_DIR, RECEIPTS_DIR)

@@ -24,7 +24,19 @@ from fieldlog.history.values import (
 from fieldlog.history.windows import GROUPINGS
 
 __all__ = [
-    "BUCKETS", "CAUSES", "GAINED", "GROUPINGS", "NOT_EXPLAINED", "Assignment", "DayRecord",
-    "DayRun", "Evidence", "History", "Step", "WeekReliability", "Window", "build_history",
+    "BUCKETS",
+    "CAUSES",
+    "GAINED",
+    "GROUPINGS",
+    "NOT_EXPLAINED",
+    "Assignment",
+    "DayRecord",
+    "DayRun",
+    "Evidence",
+    "History",
+    "Step",
+    "WeekReliability",
+    "Window",
+    "build_history",
     "history_days",
 ]

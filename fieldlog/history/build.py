@@ -52,9 +52,13 @@ class DayRun:
     state: DayState
 
 
-def history_days(site: Site, entries: Sequence[Entry], first: date | None = None,
-                 last: date | None = None,
-                 weeks: list[WeekReliability] | None = None) -> Iterator[DayRun | Point]:
+def history_days(
+    site: Site,
+    entries: Sequence[Entry],
+    first: date | None = None,
+    last: date | None = None,
+    weeks: list[WeekReliability] | None = None,
+) -> Iterator[DayRun | Point]:
     """The starting point, then every logged day in ``[first, last]`` in order.
 
     The first item is the :class:`~fieldlog.history.movement.Point` the first day is measured
@@ -62,8 +66,9 @@ def history_days(site: Site, entries: Sequence[Entry], first: date | None = None
     there is none). When ``weeks`` is given, each week's PPC is appended to it as it closes.
     """
     days = [d for d in logged_days(entries) if last is None or d <= last]
-    scheduler = DayScheduler(site, days[0] if days else site.start, days[-1] if days else
-                             site.start)
+    scheduler = DayScheduler(
+        site, days[0] if days else site.start, days[-1] if days else site.start
+    )
     mover = DayMovement(scheduler)
     before: DayState | None = None
     prev: Point | None = None
@@ -101,8 +106,14 @@ def _plan(scheduler: DayScheduler, prev: Point, sunday: date) -> ScheduleResult:
     return scheduler.schedule(sunday, prev.progress, prev.lost, holds(prev.readiness, sunday))
 
 
-def build_history(site: Site, entries: Sequence[Entry], *, first: date | None = None,
-                  last: date | None = None, by: str = "day") -> History:
+def build_history(
+    site: Site,
+    entries: Sequence[Entry],
+    *,
+    first: date | None = None,
+    last: date | None = None,
+    by: str = "day",
+) -> History:
     """The forecast history over the logged days in ``[first, last]`` grouped ``by`` day,
     week or month, with PPC for every week that has a logged day in the range.
 
@@ -126,8 +137,15 @@ def build_history(site: Site, entries: Sequence[Entry], *, first: date | None = 
     status = last or (records[-1].day if records else start.status)
     problems = tuple(p.message for p in replay(site, entries, status).problems)
     return History(
-        site=site.name, revision=site.revision, calendar=site.calendar,
-        finish_by=site.finish_by, by=by, baseline_status=start.status,
-        baseline_finish=start.result.finish, baseline_float=start.result.finish_float,
-        windows=group(records, by), weeks=tuple(weeks), problems=problems,
+        site=site.name,
+        revision=site.revision,
+        calendar=site.calendar,
+        finish_by=site.finish_by,
+        by=by,
+        baseline_status=start.status,
+        baseline_finish=start.result.finish,
+        baseline_float=start.result.finish_float,
+        windows=group(records, by),
+        weeks=tuple(weeks),
+        problems=problems,
     )

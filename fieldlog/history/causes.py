@@ -34,16 +34,33 @@ CAUSES: tuple[str, ...] = (WEATHER, ACCESS, MATERIALS, DESIGN, LABOUR, PLANT, CL
 BUCKETS: tuple[str, ...] = (*CAUSES, NOT_EXPLAINED, GAINED)
 """Everything a movement can be split into; the parts always add up to the movement."""
 
-_LOST_TIME: Mapping[str, str] = MappingProxyType({
-    "weather": WEATHER, "access": ACCESS, "materials": MATERIALS, "design": DESIGN,
-    "instruction": DESIGN, "labour": LABOUR, "labor": LABOUR, "plant": PLANT,
-    "equipment": PLANT, "client": CLIENT, "other": OTHER,
-})
+_LOST_TIME: Mapping[str, str] = MappingProxyType(
+    {
+        "weather": WEATHER,
+        "access": ACCESS,
+        "materials": MATERIALS,
+        "design": DESIGN,
+        "instruction": DESIGN,
+        "labour": LABOUR,
+        "labor": LABOUR,
+        "plant": PLANT,
+        "equipment": PLANT,
+        "client": CLIENT,
+        "other": OTHER,
+    }
+)
 
-_READINESS: Mapping[str, str] = MappingProxyType({
-    "drawings": DESIGN, "material": MATERIALS, "equipment": PLANT, "access": ACCESS,
-    "permit": OTHER, "inspection": OTHER, "other": OTHER,
-})
+_READINESS: Mapping[str, str] = MappingProxyType(
+    {
+        "drawings": DESIGN,
+        "material": MATERIALS,
+        "equipment": PLANT,
+        "access": ACCESS,
+        "permit": OTHER,
+        "inspection": OTHER,
+        "other": OTHER,
+    }
+)
 
 
 def lost_time_category(cause: str) -> str:

@@ -53,8 +53,7 @@ def logged_days(entries: Sequence[Entry]) -> tuple[date, ...]:
     return tuple(sorted({e.day for e in entries}))
 
 
-def replay_days(site: Site, entries: Sequence[Entry],
-                days: Sequence[date]) -> Iterator[DayState]:
+def replay_days(site: Site, entries: Sequence[Entry], days: Sequence[date]) -> Iterator[DayState]:
     """The state as of the end of each of ``days`` (ascending), one by one."""
     cuts = sorted({e.day for e in entries if e.kind == "correction"})
     segment: int | None = None
@@ -78,8 +77,13 @@ def replay_days(site: Site, entries: Sequence[Entry],
                 todays.append(e)
             at += 1
         fold.problems.clear()  # reported from the full replay instead (module docstring)
-        yield DayState(day=day, progress=fold.progress(), lost_days=fold.lost_days(),
-                       readiness=_open_items(fold, resolved.alias), entries=tuple(todays))
+        yield DayState(
+            day=day,
+            progress=fold.progress(),
+            lost_days=fold.lost_days(),
+            readiness=_open_items(fold, resolved.alias),
+            entries=tuple(todays),
+        )
 
 
 def _open_items(fold: _Fold, alias: Mapping[str, Entry | None]) -> tuple[OpenItem, ...]:
@@ -92,8 +96,14 @@ def _open_items(fold: _Fold, alias: Mapping[str, Entry | None]) -> tuple[OpenIte
         if need is not None and need.id in fold.needs:
             cleared.add(need.id)
     return tuple(
-        OpenItem(activity=n.fields["activity"], what=n.fields["what"],
-                 kind=n.fields["category"], expected=n.fields.get("expected"),
-                 opened=n.day, entry_id=n.id)
-        for n in fold.needs.values() if n.id not in cleared
+        OpenItem(
+            activity=n.fields["activity"],
+            what=n.fields["what"],
+            kind=n.fields["category"],
+            expected=n.fields.get("expected"),
+            opened=n.day,
+            entry_id=n.id,
+        )
+        for n in fold.needs.values()
+        if n.id not in cleared
     )

@@ -47,25 +47,44 @@ def day_evidence(prev: Point, state: DayState, result: ScheduleResult) -> tuple[
         elif e.kind == "remaining":
             up = remaining_increase(prev, state, e.fields["activity"])
             if up > 0:
-                out.append(Evidence(d, "remaining up",
-                                    f"{e.fields['activity']}: {e.fields['days']} days left, "
-                                    f"{up} more than planned", e.id, e.fields["activity"]))
+                out.append(
+                    Evidence(
+                        d,
+                        "remaining up",
+                        f"{e.fields['activity']}: {e.fields['days']} days left, "
+                        f"{up} more than planned",
+                        e.id,
+                        e.fields["activity"],
+                    )
+                )
     out.extend(_must_starts(prev, state))
     path = set(result.driving_path)
     for item in state.readiness:
         row = result.by_id.get(item.activity)
         if item.activity in path and row is not None and row.driven_by == "readiness":
             until = f" until {item.expected}" if item.expected else ""
-            out.append(Evidence(d, "held by readiness",
-                                f"{item.activity} waits for {item.what} ({item.kind}){until}",
-                                item.entry_id, item.activity))
+            out.append(
+                Evidence(
+                    d,
+                    "held by readiness",
+                    f"{item.activity} waits for {item.what} ({item.kind}){until}",
+                    item.entry_id,
+                    item.activity,
+                )
+            )
     return tuple(out)
 
 
 def remaining_increase(prev: Point, state: DayState, aid: str) -> int:
     """Working days a remaining-days entry of D adds over what the plan as of P left for D."""
-    entry = next((e for e in reversed(state.entries)
-                  if e.kind == "remaining" and e.fields["activity"] == aid), None)
+    entry = next(
+        (
+            e
+            for e in reversed(state.entries)
+            if e.kind == "remaining" and e.fields["activity"] == aid
+        ),
+        None,
+    )
     now = state.progress.get(aid)
     row = prev.result.by_id.get(aid)
     if entry is None or now is None or now.actual_start is None or row is None:
@@ -88,11 +107,21 @@ def _must_starts(prev: Point, state: DayState) -> list[Evidence]:
         now = state.progress.get(row.id)
         started = now.actual_start if now else None
         if started is None and not (now and now.actual_finish):
-            out.append(Evidence(d, "missing start",
-                                f"{row.id} was MUST from {row.late_start}, not started",
-                                activity=row.id))
+            out.append(
+                Evidence(
+                    d,
+                    "missing start",
+                    f"{row.id} was MUST from {row.late_start}, not started",
+                    activity=row.id,
+                )
+            )
         elif started is not None and started > row.late_start:
-            out.append(Evidence(d, "late start",
-                                f"{row.id} started {started}, MUST from {row.late_start}",
-                                activity=row.id))
+            out.append(
+                Evidence(
+                    d,
+                    "late start",
+                    f"{row.id} started {started}, MUST from {row.late_start}",
+                    activity=row.id,
+                )
+            )
     return out

@@ -94,8 +94,11 @@ class DayMovement:
                 steps.add(category, sched.finish(prev.status, prev.progress, lost, before), words)
             if lost != state.lost_days:
                 lost = state.lost_days
-                steps.add(OTHER, sched.finish(prev.status, prev.progress, lost, before),
-                          "lost days changed by a correction")
+                steps.add(
+                    OTHER,
+                    sched.finish(prev.status, prev.progress, lost, before),
+                    "lost days changed by a correction",
+                )
         # 2. time passes to D with D's progress; 3. readiness, category by category
         changed = set(prev.readiness) != set(state.readiness)
         result = sched.schedule(d, state.progress, lost, holds(state.readiness, d))
@@ -110,22 +113,27 @@ class DayMovement:
                 steps.add(category, sched.finish(d, state.progress, lost, holds(items, d)), words)
             steps.add(OTHER, result.finish, "readiness items changed by a correction")
         record = DayRecord(
-            day=d, finish=result.finish, finish_float=result.finish_float,
+            day=d,
+            finish=result.finish,
+            finish_float=result.finish_float,
             driving_path=result.driving_path,
             movement=self.measure(result.finish) - self.measure(prev.result.finish),
-            steps=tuple(steps.steps), evidence=day_evidence(prev, state, result),
+            steps=tuple(steps.steps),
+            evidence=day_evidence(prev, state, result),
         )
         return Point(d, state.progress, lost, state.readiness, result), record
 
-    def _progress_step(self, prev: Point, state: DayState, result: ScheduleResult,
-                       new_finish: date, steps: _Steps) -> None:
+    def _progress_step(
+        self, prev: Point, state: DayState, result: ScheduleResult, new_finish: date, steps: _Steps
+    ) -> None:
         """Step 2: a later finish goes to the cause recorded for the late driving work."""
         if self.measure(new_finish) <= self.measure(steps.finish):
             steps.add(GAINED, new_finish, f"progress recorded on {state.day} ahead of the plan")
             return
         late = late_driving_work(prev, state, result)
         what = "; ".join(w for _, w in late) or (
-            "the finish moved with no late driving work in the log")
+            "the finish moved with no late driving work in the log"
+        )
         for aid, _ in late:
             category = recorded_cause(aid, state)
             if category is not None:
@@ -149,8 +157,9 @@ class _Steps:
             self.steps.append(Step(bucket, days, what))
 
 
-def late_driving_work(prev: Point, state: DayState,
-                      result: ScheduleResult) -> list[tuple[str, str]]:
+def late_driving_work(
+    prev: Point, state: DayState, result: ScheduleResult
+) -> list[tuple[str, str]]:
     """Driving work at the end of D that the plan as of P needed to start or finish by D, or
     whose remaining days went up on D: (activity, what the log shows)."""
     d = state.day
@@ -186,8 +195,9 @@ def recorded_cause(aid: str, state: DayState) -> str | None:
     return None
 
 
-def _lost_by_cause(before: LostDays, state: DayState
-                   ) -> list[tuple[str, dict[str, frozenset[date]], str]]:
+def _lost_by_cause(
+    before: LostDays, state: DayState
+) -> list[tuple[str, dict[str, frozenset[date]], str]]:
     """Lost days added on D, grouped by cause category in report order."""
     cause_of: dict[tuple[date, str | None], Entry] = {}
     for e in state.entries:
@@ -210,8 +220,9 @@ def _lost_by_cause(before: LostDays, state: DayState
     return out
 
 
-def _readiness_by_kind(before: Sequence[OpenItem], state: DayState
-                       ) -> list[tuple[str, list[OpenItem], set[OpenItem], str]]:
+def _readiness_by_kind(
+    before: Sequence[OpenItem], state: DayState
+) -> list[tuple[str, list[OpenItem], set[OpenItem], str]]:
     """Readiness items opened and cleared on D, grouped by category in report order."""
     was, now = set(before), set(state.readiness)
     groups: dict[str, tuple[list[OpenItem], set[OpenItem]]] = {}

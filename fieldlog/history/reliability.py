@@ -39,8 +39,9 @@ NO_REASON = "no reason recorded in the log"
 _DAY = timedelta(days=1)
 
 
-def week_reliability(plan: ScheduleResult, readiness: Sequence[OpenItem], monday: date,
-                     entries: Sequence[Entry]) -> WeekReliability:
+def week_reliability(
+    plan: ScheduleResult, readiness: Sequence[OpenItem], monday: date, entries: Sequence[Entry]
+) -> WeekReliability:
     """PPC of the week starting ``monday``, from ``plan`` (as of the Sunday before) and the
     entries in force dated in the week (module docstring)."""
     sunday = monday + 6 * _DAY
@@ -65,16 +66,23 @@ def week_plan(plan: ScheduleResult, monday: date) -> list[tuple[ActivityResult, 
     the seven days from ``monday``, without the reasons text a printed sheet needs."""
     days = [monday + k * _DAY for k in range(7)]
     window = Window(monday.toordinal(), 7, plan.data_date.toordinal())
-    cache = PatternCache(window, {name: tuple(c.is_working(d) for d in days)
-                                  for name, c in plan.calendars.items()})
+    cache = PatternCache(
+        window, {name: tuple(c.is_working(d) for d in days) for name, c in plan.calendars.items()}
+    )
     out = []
     for r in sorted(plan.activities, key=lambda r: r.id):
         if not r.is_open or r.duration == 0:
             continue  # a milestone is an event, not an assignment
         assert r.late_start is not None and r.late_finish is not None
         assert r.total_float is not None
-        cells = cache.get(r.calendar, r.early_start, r.early_finish, r.late_start,
-                          r.late_finish, r.total_float < 0).cells
+        cells = cache.get(
+            r.calendar,
+            r.early_start,
+            r.early_finish,
+            r.late_start,
+            r.late_finish,
+            r.total_float < 0,
+        ).cells
         if Cell.MUST in cells or Cell.MAY in cells:
             out.append((r, Cell.MUST in cells))
     return out
@@ -89,8 +97,9 @@ def needed(row: ActivityResult, sunday: date) -> str:
     return "progress"
 
 
-def is_done(row: ActivityResult, required: str, mine: Sequence[Entry], plan: ScheduleResult,
-            monday: date) -> bool:
+def is_done(
+    row: ActivityResult, required: str, mine: Sequence[Entry], plan: ScheduleResult, monday: date
+) -> bool:
     """Whether the week's entries about the activity show what the plan needed."""
     kinds = {e.kind for e in mine}
     if required == "finish":
@@ -108,8 +117,9 @@ def is_done(row: ActivityResult, required: str, mine: Sequence[Entry], plan: Sch
     return True
 
 
-def miss_reasons(row: ActivityResult, week: Sequence[Entry], readiness: Sequence[OpenItem],
-                 mine: Sequence[Entry]) -> tuple[str, ...]:
+def miss_reasons(
+    row: ActivityResult, week: Sequence[Entry], readiness: Sequence[OpenItem], mine: Sequence[Entry]
+) -> tuple[str, ...]:
     """What the log records about a missed assignment that week (module docstring)."""
     out: list[str] = []
     for e in mine:
@@ -124,8 +134,12 @@ def miss_reasons(row: ActivityResult, week: Sequence[Entry], readiness: Sequence
         elif e.kind == "note":
             out.append(f"{e.day}: note: {f['text']}")
     for e in week:
-        if (e.kind == "lost-time" and e.fields.get("whole_day") and not e.activities()
-                and row.calendar in (e.fields.get("calendars") or [row.calendar])):
+        if (
+            e.kind == "lost-time"
+            and e.fields.get("whole_day")
+            and not e.activities()
+            and row.calendar in (e.fields.get("calendars") or [row.calendar])
+        ):
             out.append(f"{e.day}: day lost on site ({lost_time_category(e.fields['cause'])})")
     for item in readiness:
         if item.activity == row.id:

@@ -32,12 +32,18 @@ def render_text(history: History, width: int = 80) -> str:
     """The whole printout, ``width`` columns wide (at least 60)."""
     h, out = history, []
     out.append(fit(f"Forecast history: {h.site} (schedule revision {h.revision})", width).rstrip())
-    span = (f"{h.windows[0].first} to {h.windows[-1].last}" if h.windows else "no logged days")
+    span = f"{h.windows[0].first} to {h.windows[-1].last}" if h.windows else "no logged days"
     req = f"required finish {h.finish_by}" if h.finish_by else "no required finish set"
-    out += wrap(f"By {h.by}, {span}; {req}. Moves are working days of calendar "
-                f"'{h.calendar}' (+ later, - earlier).", width)
-    out += wrap(f"Starting point (log as of {h.baseline_status}): finish {h.baseline_finish}, "
-                f"float {_float(h.baseline_float)}.", width)
+    out += wrap(
+        f"By {h.by}, {span}; {req}. Moves are working days of calendar "
+        f"'{h.calendar}' (+ later, - earlier).",
+        width,
+    )
+    out += wrap(
+        f"Starting point (log as of {h.baseline_status}): finish {h.baseline_finish}, "
+        f"float {_float(h.baseline_float)}.",
+        width,
+    )
     out.append("")
     out += _chart(h, width)
     out.append("")
@@ -82,9 +88,10 @@ def _chart(h: History, width: int) -> list[str]:
                 bar[r] = "|" if r == len(bar) - 1 else "!"
             else:
                 bar += [" "] * (r - len(bar)) + ["|"]
-        out.append(f"{w.label:<{label_w}}  {w.finish.isoformat()}  "
-                   f"{right(_float(w.finish_float), 5)}  {right(signed(w.movement), 5)}  "
-                   + "".join(bar))
+        out.append(
+            f"{w.label:<{label_w}}  {w.finish.isoformat()}  "
+            f"{right(_float(w.finish_float), 5)}  {right(signed(w.movement), 5)}  " + "".join(bar)
+        )
     out.append(f"(= {scale}; | required finish; ! finish past it)")
     return out
 
@@ -98,8 +105,12 @@ def _why(h: History, width: int) -> list[str]:
             continue
         shown += 1
         parts = [f"{b} {signed(d)}" for b, d in w.split.items() if d]
-        out += wrap(", ".join(parts) or "no movement", width, indent=" " * 4,
-                    first=f"{w.label}  {signed(w.movement)}: ")
+        out += wrap(
+            ", ".join(parts) or "no movement",
+            width,
+            indent=" " * 4,
+            first=f"{w.label}  {signed(w.movement)}: ",
+        )
         for s in w.steps:
             out += wrap(s.what, width, indent=" " * 6, first=f"  {s.bucket} {signed(s.days)}: ")
         for e in w.evidence:
@@ -136,19 +147,24 @@ def _totals(h: History) -> list[str]:
     for b in BUCKETS:
         out.append(f"  {b:<28}{right(signed(split[b]), 5)}")
     end = h.windows[-1].finish if h.windows else h.baseline_finish
-    out.append(f"  {'total':<28}{right(signed(h.total_movement), 5)}"
-               f"  ({h.baseline_finish} to {end})")
+    out.append(
+        f"  {'total':<28}{right(signed(h.total_movement), 5)}  ({h.baseline_finish} to {end})"
+    )
     return out
 
 
 def _reliability(weeks: tuple[WeekReliability, ...], width: int) -> list[str]:
-    out = ["Plan reliability: PPC = planned assignments done as planned / planned",
-           "(the plan: MUST and MAY work of the lookahead as of the Sunday before)",
-           f"{'Week from':<12}{'Planned':>8}{'Done':>6}{'PPC':>6}   MUST done/planned"]
+    out = [
+        "Plan reliability: PPC = planned assignments done as planned / planned",
+        "(the plan: MUST and MAY work of the lookahead as of the Sunday before)",
+        f"{'Week from':<12}{'Planned':>8}{'Done':>6}{'PPC':>6}   MUST done/planned",
+    ]
     for wk in weeks:
         ppc = "-" if wk.ppc is None else f"{wk.ppc:.0f}%"
-        out.append(f"{wk.first.isoformat():<12}{wk.planned:>8}{wk.done:>6}{ppc:>6}"
-                   f"   {wk.must_done}/{wk.must_planned}")
+        out.append(
+            f"{wk.first.isoformat():<12}{wk.planned:>8}{wk.done:>6}{ppc:>6}"
+            f"   {wk.must_done}/{wk.must_planned}"
+        )
         for a in wk.assignments:
             if a.done:
                 continue

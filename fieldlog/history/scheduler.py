@@ -56,18 +56,34 @@ class DayScheduler:
             self._sets.move_to_end(key)
         return found
 
-    def schedule(self, status: date, progress: Mapping[str, Progress], lost: LostDays,
-                 holds: Mapping[str, date]) -> ScheduleResult:
+    def schedule(
+        self,
+        status: date,
+        progress: Mapping[str, Progress],
+        lost: LostDays,
+        holds: Mapping[str, date],
+    ) -> ScheduleResult:
         """The full schedule (dates, floats, driving path) as of the end of ``status``."""
         return self._widened(schedule_on_calendars, status, progress, lost, holds)
 
-    def finish(self, status: date, progress: Mapping[str, Progress], lost: LostDays,
-               holds: Mapping[str, date]) -> date:
+    def finish(
+        self,
+        status: date,
+        progress: Mapping[str, Progress],
+        lost: LostDays,
+        holds: Mapping[str, date],
+    ) -> date:
         """Only the forecast finish (forward pass) as of the end of ``status``."""
         return self._widened(forecast_finish_on_calendars, status, progress, lost, holds)
 
-    def _widened(self, run: Callable[..., T], status: date, progress: Mapping[str, Progress],
-                 lost: LostDays, holds: Mapping[str, date]) -> T:
+    def _widened(
+        self,
+        run: Callable[..., T],
+        status: date,
+        progress: Mapping[str, Progress],
+        lost: LostDays,
+        holds: Mapping[str, date],
+    ) -> T:
         """``run`` on the calendars, widening their range until the work fits in it."""
         while True:
             try:

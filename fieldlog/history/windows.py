@@ -63,9 +63,15 @@ def _window(days: Sequence[DayRecord], bounds: tuple[date, date], by: str) -> Wi
         for s in r.steps:
             split[s.bucket] += s.days
     return Window(
-        label=window_label(bounds[0], by), first=bounds[0], last=bounds[1], status=last.day,
-        finish=last.finish, finish_float=last.finish_float,
-        movement=sum(r.movement for r in days), split=split, driving_path=last.driving_path,
+        label=window_label(bounds[0], by),
+        first=bounds[0],
+        last=bounds[1],
+        status=last.day,
+        finish=last.finish,
+        finish_float=last.finish_float,
+        movement=sum(r.movement for r in days),
+        split=split,
+        driving_path=last.driving_path,
         steps=tuple(s for r in days for s in r.steps),
         evidence=_once(e for r in days for e in r.evidence),
     )

@@ -39,8 +39,14 @@ def canonical(content: Mapping[str, Any]) -> bytes:
     were.
     """
     body = {k: v for k, v in content.items() if k not in ("hash", "sig")}
-    return json.dumps(body, sort_keys=True, separators=(",", ":"), ensure_ascii=False,
-                      allow_nan=False, default=_tag).encode("utf-8")
+    return json.dumps(
+        body,
+        sort_keys=True,
+        separators=(",", ":"),
+        ensure_ascii=False,
+        allow_nan=False,
+        default=_tag,
+    ).encode("utf-8")
 
 
 def entry_hash(content: Mapping[str, Any]) -> str:

@@ -45,18 +45,32 @@ def resolve_corrections(entries: Sequence[Entry], status_date: date) -> Resolved
             continue
         target = by_id.get(c.fields["supersedes"])
         if target is None:
-            problems.append((f"correction {c.id} supersedes {c.fields['supersedes']}, "
-                             "which is not in the log", (c.id,)))
+            problems.append(
+                (
+                    f"correction {c.id} supersedes {c.fields['supersedes']}, "
+                    "which is not in the log",
+                    (c.id,),
+                )
+            )
             continue
         if _root(target, by_id).kind != c.fields["corrects"]:
-            problems.append((f"correction {c.id} says it corrects a "
-                             f"{c.fields['corrects']} entry, but {target.id} is not one",
-                             (c.id, target.id)))
+            problems.append(
+                (
+                    f"correction {c.id} says it corrects a "
+                    f"{c.fields['corrects']} entry, but {target.id} is not one",
+                    (c.id, target.id),
+                )
+            )
             continue
         earlier = superseded.get(target.id)
         if earlier is not None:
-            problems.append((f"entry {target.id} is corrected twice, by {earlier.id} and "
-                             f"by {c.id}; the later one counts", (earlier.id, c.id)))
+            problems.append(
+                (
+                    f"entry {target.id} is corrected twice, by {earlier.id} and "
+                    f"by {c.id}; the later one counts",
+                    (earlier.id, c.id),
+                )
+            )
         superseded[target.id] = c
 
     keyed: list[tuple[tuple, Entry]] = []
@@ -111,8 +125,11 @@ def _content(e: Entry, by_id: Mapping[str, Entry], seen: set[str]) -> Entry | No
     target = by_id[e.fields["supersedes"]]
     if e.fields.get("withdraw"):
         if target.kind == "correction":
-            return _content(by_id[target.fields["supersedes"]], by_id, seen) \
-                if target.fields["supersedes"] in by_id else None
+            return (
+                _content(by_id[target.fields["supersedes"]], by_id, seen)
+                if target.fields["supersedes"] in by_id
+                else None
+            )
         return None
     base = _base(target, by_id, seen)
     changes = {k: v for k, v in e.fields.items() if k not in CORRECTION_OWN}

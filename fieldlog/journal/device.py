@@ -54,9 +54,12 @@ def read_settings(home: Path) -> dict:
     try:
         return loads(raw, "settings", DEVICE_FILE, bom=True)
     except (OutOfBounds, UnreadableToml) as exc:
-        raise JournalError(f"cannot read the device settings: {exc.problem}",
-                           file=home / DEVICE_FILE, line=exc.line,
-                           fix="delete the file; a new device id will be made") from None
+        raise JournalError(
+            f"cannot read the device settings: {exc.problem}",
+            file=home / DEVICE_FILE,
+            line=exc.line,
+            fix="delete the file; a new device id will be made",
+        ) from None
 
 
 def device_id(home: Path | None = None) -> str:
@@ -72,8 +75,11 @@ def device_id(home: Path | None = None) -> str:
     try:
         home.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
-        raise JournalError(f"cannot create fieldlog's data folder: {exc.strerror}", file=home,
-                           fix=f"set {HOME_ENV} to a folder you can write") from exc
+        raise JournalError(
+            f"cannot create fieldlog's data folder: {exc.strerror}",
+            file=home,
+            fix=f"set {HOME_ENV} to a folder you can write",
+        ) from exc
     try:
         with device_lock(home, "device-settings"):
             settings = read_settings(home)  # another process may have made it meanwhile
@@ -84,15 +90,21 @@ def device_id(home: Path | None = None) -> str:
         if not isinstance(exc.__cause__, OSError):
             raise
         reason = exc.__cause__.strerror or str(exc.__cause__)
-        raise JournalError(f"cannot write fieldlog's data folder ({reason})", file=home,
-                           fix=f"set {HOME_ENV} to a folder you can write") from exc
+        raise JournalError(
+            f"cannot write fieldlog's data folder ({reason})",
+            file=home,
+            fix=f"set {HOME_ENV} to a folder you can write",
+        ) from exc
     return _checked(settings["device"], home)
 
 
 def _checked(device: object, home: Path) -> str:
     if not isinstance(device, str) or not valid_device(device):
-        raise JournalError(f"device id {device!r} is not valid", file=home / DEVICE_FILE,
-                           fix="use 6-24 characters of a-z, 0-9 and '-', or delete the line")
+        raise JournalError(
+            f"device id {device!r} is not valid",
+            file=home / DEVICE_FILE,
+            fix="use 6-24 characters of a-z, 0-9 and '-', or delete the line",
+        )
     return device
 
 

@@ -47,8 +47,16 @@ from fieldlog.readiness import READINESS_KINDS
 
 __all__ = ["FieldProblem", "FieldSpec", "coerce"]  # re-exported: the app builds forms from them
 
-LOST_TIME_CAUSES = ("weather", "plant-breakdown", "labour", "client", "design", "access",
-                    "materials", "other")
+LOST_TIME_CAUSES = (
+    "weather",
+    "plant-breakdown",
+    "labour",
+    "client",
+    "design",
+    "access",
+    "materials",
+    "other",
+)
 """Why time was lost: weather, plant or equipment broken down, labour short (crew absent or
 too few), a client instruction, missing design information, no access, materials not there,
 anything else."""
@@ -72,123 +80,174 @@ _ACTIVITY = _f("activity", "activity", "activity id", required=True, cli="positi
 _OPT_ACTIVITY = _f("activity", "activity", "activity id it concerns")
 _OPT_ACTIVITIES = _f("activities", "ids", "activity ids it concerns, comma separated")
 
-KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType({
-    "started": (_ACTIVITY,),
-    "finished": (_ACTIVITY,),
-    "remaining": (
-        _ACTIVITY,
-        _f("days", "int", "working days still needed after this day", required=True, low=1,
-           high=MAX_DAYS,
-           cli="positional"),
-    ),
-    "percent": (
-        _ACTIVITY,
-        _f("percent", "float", "physical percent complete, 0-100", required=True, low=0,
-           high=100, cli="positional"),
-    ),
-    "weather": (
-        _f("conditions", "text", "e.g. dry, showers, heavy rain, snow, fog", required=True),
-        _f("high", "float", "highest temperature", low=-80, high=140),
-        _f("low", "float", "lowest temperature", low=-80, high=140),
-        _f("unit", "choice", "temperature unit", choices=TEMPERATURE_UNITS),
-        _f("precip_mm", "float", "precipitation in millimetres", low=0, high=2000),
-        _f("wind", "text", "wind in words, e.g. 'gusty 40 km/h'"),
-        _f("stopped", "bool", "weather stopped work"),
-        _f("hours_lost", "float", "hours of work lost to the weather", low=0, high=24),
-    ),
-    "crew": (
-        _f("trade", "text", "trade, e.g. concrete, steel fixers", required=True),
-        _f("company", "text", "company (contractor or subcontractor)"),
-        _f("headcount", "int", "people on site", required=True, low=0, high=MAX_HEADCOUNT),
-        _f("hours", "float", "hours worked by the whole crew (person-hours)", low=0,
-           high=MAX_HEADCOUNT * 24),
-        _OPT_ACTIVITIES,
-    ),
-    "lost-time": (
-        _f("cause", "choice", "why", required=True, choices=LOST_TIME_CAUSES),
-        _f("whole_day", "bool", "the whole working day was lost"),
-        _f("hours", "float", "hours lost, when less than the whole day", low=0, high=24),
-        _OPT_ACTIVITIES,
-        _f("calendars", "names", "calendars the lost day affects (default: all)"),
-        _f("note", "text", "what happened"),
-    ),
-    "plant": (
-        _f("what", "text", "machine or equipment, e.g. '13 t excavator'", required=True,
-           cli="positional"),
-        _f("count", "int", "how many of them on site", low=1, high=500),
-        _f("hours_worked", "float", "hours each worked today", low=0, high=24),
-        _f("broken_down", "bool", "it broke down today"),
-        _f("hours_down", "float", "hours out of use because of the breakdown", low=0, high=24),
-        _f("supplier", "text", "owner or hire company"),
-        _OPT_ACTIVITY,
-        _f("note", "text", "what failed, when it is back"),
-    ),
-    "need": (
-        _ACTIVITY,
-        _f("what", "text", "what is needed, e.g. 'rebar shop drawings rev B'", required=True,
-           cli="positional"),
-        _f("category", "choice", "what kind of need", required=True, choices=READINESS_KINDS,
-           cli="--kind"),
-        _f("expected", "date", "when it is expected (leave out if nobody knows)"),
-    ),
-    "cleared": (
-        _f("item", "entry", "id of the 'need' entry that is now dealt with", required=True,
-           cli="positional"),
-        _f("note", "text", "how it was cleared"),
-    ),
-    "delivery": (
-        _f("what", "text", "what arrived", required=True, cli="positional"),
-        _f("supplier", "text", "who delivered it"),
-        _f("quantity", "text", "how much, with its unit"),
-        _OPT_ACTIVITY,
-        _f("note", "text", "condition, where stored, ticket number"),
-    ),
-    "inspection": (
-        _f("what", "text", "what was inspected or tested", required=True, cli="positional"),
-        _f("result", "choice", "outcome", required=True, choices=INSPECTION_RESULTS),
-        _f("inspector", "text", "who inspected (person or body)"),
-        _f("reference", "text", "report or certificate reference"),
-        _OPT_ACTIVITY,
-        _f("note", "text", "findings"),
-    ),
-    "visitor": (
-        _f("name", "text", "who came", required=True, cli="positional"),
-        _f("company", "text", "organisation"),
-        _f("purpose", "text", "why they came"),
-        _f("time_in", "time", "when they arrived, e.g. 09:15"),
-        _f("time_out", "time", "when they left, e.g. 11:40"),
-    ),
-    "instruction": (
-        _f("text", "text", "what was instructed", required=True, cli="positional"),
-        _f("given_by", "text", "who gave it", required=True, cli="--from"),
-        _f("form", "choice", "verbal or written", required=True, choices=INSTRUCTION_FORMS),
-        _f("reference", "text", "letter, site instruction or RFI reference"),
-        _OPT_ACTIVITIES,
-    ),
-    "incident": (
-        _f("text", "text", "what happened", required=True, cli="positional"),
-        _f("injury", "bool", "someone was hurt"),
-        _f("reported_to", "text", "who it was reported to"),
-        _OPT_ACTIVITY,
-    ),
-    "safety": (
-        _f("text", "text", "what was observed", required=True, cli="positional"),
-        _f("action", "text", "what was done about it"),
-        _OPT_ACTIVITY,
-    ),
-    "note": (
-        _f("text", "text", "the note", required=True, cli="positional"),
-        _OPT_ACTIVITY,
-    ),
-    "correction": (
-        _f("supersedes", "entry", "id of the entry this one replaces", required=True,
-           cli="positional"),
-        _f("reason", "text", "why the earlier entry was wrong", required=True),
-        _f("corrects", "choice", "kind of the entry corrected (filled in by fieldlog)",
-           required=True, choices=()),
-        _f("withdraw", "bool", "the earlier entry was recorded in error: drop it"),
-    ),
-})
+KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType(
+    {
+        "started": (_ACTIVITY,),
+        "finished": (_ACTIVITY,),
+        "remaining": (
+            _ACTIVITY,
+            _f(
+                "days",
+                "int",
+                "working days still needed after this day",
+                required=True,
+                low=1,
+                high=MAX_DAYS,
+                cli="positional",
+            ),
+        ),
+        "percent": (
+            _ACTIVITY,
+            _f(
+                "percent",
+                "float",
+                "physical percent complete, 0-100",
+                required=True,
+                low=0,
+                high=100,
+                cli="positional",
+            ),
+        ),
+        "weather": (
+            _f("conditions", "text", "e.g. dry, showers, heavy rain, snow, fog", required=True),
+            _f("high", "float", "highest temperature", low=-80, high=140),
+            _f("low", "float", "lowest temperature", low=-80, high=140),
+            _f("unit", "choice", "temperature unit", choices=TEMPERATURE_UNITS),
+            _f("precip_mm", "float", "precipitation in millimetres", low=0, high=2000),
+            _f("wind", "text", "wind in words, e.g. 'gusty 40 km/h'"),
+            _f("stopped", "bool", "weather stopped work"),
+            _f("hours_lost", "float", "hours of work lost to the weather", low=0, high=24),
+        ),
+        "crew": (
+            _f("trade", "text", "trade, e.g. concrete, steel fixers", required=True),
+            _f("company", "text", "company (contractor or subcontractor)"),
+            _f("headcount", "int", "people on site", required=True, low=0, high=MAX_HEADCOUNT),
+            _f(
+                "hours",
+                "float",
+                "hours worked by the whole crew (person-hours)",
+                low=0,
+                high=MAX_HEADCOUNT * 24,
+            ),
+            _OPT_ACTIVITIES,
+        ),
+        "lost-time": (
+            _f("cause", "choice", "why", required=True, choices=LOST_TIME_CAUSES),
+            _f("whole_day", "bool", "the whole working day was lost"),
+            _f("hours", "float", "hours lost, when less than the whole day", low=0, high=24),
+            _OPT_ACTIVITIES,
+            _f("calendars", "names", "calendars the lost day affects (default: all)"),
+            _f("note", "text", "what happened"),
+        ),
+        "plant": (
+            _f(
+                "what",
+                "text",
+                "machine or equipment, e.g. '13 t excavator'",
+                required=True,
+                cli="positional",
+            ),
+            _f("count", "int", "how many of them on site", low=1, high=500),
+            _f("hours_worked", "float", "hours each worked today", low=0, high=24),
+            _f("broken_down", "bool", "it broke down today"),
+            _f("hours_down", "float", "hours out of use because of the breakdown", low=0, high=24),
+            _f("supplier", "text", "owner or hire company"),
+            _OPT_ACTIVITY,
+            _f("note", "text", "what failed, when it is back"),
+        ),
+        "need": (
+            _ACTIVITY,
+            _f(
+                "what",
+                "text",
+                "what is needed, e.g. 'rebar shop drawings rev B'",
+                required=True,
+                cli="positional",
+            ),
+            _f(
+                "category",
+                "choice",
+                "what kind of need",
+                required=True,
+                choices=READINESS_KINDS,
+                cli="--kind",
+            ),
+            _f("expected", "date", "when it is expected (leave out if nobody knows)"),
+        ),
+        "cleared": (
+            _f(
+                "item",
+                "entry",
+                "id of the 'need' entry that is now dealt with",
+                required=True,
+                cli="positional",
+            ),
+            _f("note", "text", "how it was cleared"),
+        ),
+        "delivery": (
+            _f("what", "text", "what arrived", required=True, cli="positional"),
+            _f("supplier", "text", "who delivered it"),
+            _f("quantity", "text", "how much, with its unit"),
+            _OPT_ACTIVITY,
+            _f("note", "text", "condition, where stored, ticket number"),
+        ),
+        "inspection": (
+            _f("what", "text", "what was inspected or tested", required=True, cli="positional"),
+            _f("result", "choice", "outcome", required=True, choices=INSPECTION_RESULTS),
+            _f("inspector", "text", "who inspected (person or body)"),
+            _f("reference", "text", "report or certificate reference"),
+            _OPT_ACTIVITY,
+            _f("note", "text", "findings"),
+        ),
+        "visitor": (
+            _f("name", "text", "who came", required=True, cli="positional"),
+            _f("company", "text", "organisation"),
+            _f("purpose", "text", "why they came"),
+            _f("time_in", "time", "when they arrived, e.g. 09:15"),
+            _f("time_out", "time", "when they left, e.g. 11:40"),
+        ),
+        "instruction": (
+            _f("text", "text", "what was instructed", required=True, cli="positional"),
+            _f("given_by", "text", "who gave it", required=True, cli="--from"),
+            _f("form", "choice", "verbal or written", required=True, choices=INSTRUCTION_FORMS),
+            _f("reference", "text", "letter, site instruction or RFI reference"),
+            _OPT_ACTIVITIES,
+        ),
+        "incident": (
+            _f("text", "text", "what happened", required=True, cli="positional"),
+            _f("injury", "bool", "someone was hurt"),
+            _f("reported_to", "text", "who it was reported to"),
+            _OPT_ACTIVITY,
+        ),
+        "safety": (
+            _f("text", "text", "what was observed", required=True, cli="positional"),
+            _f("action", "text", "what was done about it"),
+            _OPT_ACTIVITY,
+        ),
+        "note": (
+            _f("text", "text", "the note", required=True, cli="positional"),
+            _OPT_ACTIVITY,
+        ),
+        "correction": (
+            _f(
+                "supersedes",
+                "entry",
+                "id of the entry this one replaces",
+                required=True,
+                cli="positional",
+            ),
+            _f("reason", "text", "why the earlier entry was wrong", required=True),
+            _f(
+                "corrects",
+                "choice",
+                "kind of the entry corrected (filled in by fieldlog)",
+                required=True,
+                choices=(),
+            ),
+            _f("withdraw", "bool", "the earlier entry was recorded in error: drop it"),
+        ),
+    }
+)
 """Every entry kind and its own fields, in the order they are written."""
 
 CORRECTION_OWN = frozenset(s.name for s in KINDS["correction"])
@@ -196,7 +255,6 @@ CORRECTION_OWN = frozenset(s.name for s in KINDS["correction"])
 
 ACTIVITY_KINDS = frozenset({"started", "finished", "remaining", "percent"})
 """Kinds that report progress of one activity."""
-
 
 
 def spec(kind: str, name: str) -> FieldSpec | None:
@@ -219,8 +277,11 @@ def check_fields(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
     if kind not in KINDS:
         raise FieldProblem(f"unknown entry kind '{kind}' (known: {', '.join(KINDS)})")
     specs = KINDS[kind]
-    if kind == "weather" and fields.get("unit") is None and (
-            fields.get("high") is not None or fields.get("low") is not None):
+    if (
+        kind == "weather"
+        and fields.get("unit") is None
+        and (fields.get("high") is not None or fields.get("low") is not None)
+    ):
         fields = {**fields, "unit": "C"}  # temperatures given without a unit are Celsius
     out: dict[str, Any] = {}
     extra = {k: v for k, v in fields.items() if spec(kind, k) is None}
@@ -241,13 +302,17 @@ def check_fields(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
         for k, v in extra.items():
             ts = spec(target, k)
             if ts is None:
-                raise FieldProblem(f"a {target} entry has no field '{k}' to correct "
-                                   f"(its fields: {', '.join(s.name for s in KINDS[target])})")
+                raise FieldProblem(
+                    f"a {target} entry has no field '{k}' to correct "
+                    f"(its fields: {', '.join(s.name for s in KINDS[target])})"
+                )
             if v is not None:
                 out[k] = coerce(ts, v)
     elif extra:
-        raise FieldProblem(f"{kind} has no field '{next(iter(extra))}' "
-                           f"(its fields: {', '.join(s.name for s in specs)})")
+        raise FieldProblem(
+            f"{kind} has no field '{next(iter(extra))}' "
+            f"(its fields: {', '.join(s.name for s in specs)})"
+        )
     _cross_field(kind, out)
     return out
 
@@ -259,8 +324,9 @@ def _cross_field(kind: str, f: Mapping[str, Any]) -> None:
             raise FieldProblem(f"low {f['low']} is above high {f['high']}")
     elif kind == "crew":
         if "hours" in f and f["hours"] > f["headcount"] * 24:
-            raise FieldProblem(f"{f['hours']} hours is more than {f['headcount']} people "
-                               "can work in a day")
+            raise FieldProblem(
+                f"{f['hours']} hours is more than {f['headcount']} people can work in a day"
+            )
     elif kind == "lost-time":
         if f.get("whole_day") and "hours" in f:
             raise FieldProblem("give either a whole lost day or the hours lost, not both")
@@ -270,11 +336,12 @@ def _cross_field(kind: str, f: Mapping[str, Any]) -> None:
         if "hours_down" in f and not f.get("broken_down"):
             raise FieldProblem("hours_down is for a breakdown: say broken_down too")
         if f.get("hours_worked", 0) + f.get("hours_down", 0) > 24:
-            raise FieldProblem(f"{f.get('hours_worked', 0):g} hours worked and "
-                               f"{f.get('hours_down', 0):g} down is more than a day")
+            raise FieldProblem(
+                f"{f.get('hours_worked', 0):g} hours worked and "
+                f"{f.get('hours_down', 0):g} down is more than a day"
+            )
     elif kind == "visitor" and f.get("time_out", time.max) < f.get("time_in", time.min):
-        raise FieldProblem(f"time_out {f['time_out']:%H:%M} is before time_in "
-                               f"{f['time_in']:%H:%M}")
+        raise FieldProblem(f"time_out {f['time_out']:%H:%M} is before time_in {f['time_in']:%H:%M}")
 
 
 @dataclass(frozen=True)
@@ -318,8 +385,13 @@ class Entry:
     def stored(self) -> dict[str, Any]:
         """The entry as the TOML table it is written as, without ``hash``."""
         body: dict[str, Any] = {
-            "id": self.id, "seq": self.seq, "kind": self.kind, "day": self.day,
-            "written": self.written, "author": self.author, "device": self.device,
+            "id": self.id,
+            "seq": self.seq,
+            "kind": self.kind,
+            "day": self.day,
+            "written": self.written,
+            "author": self.author,
+            "device": self.device,
         }
         for k, v in self.fields.items():
             body[k] = list(v) if isinstance(v, tuple) else v

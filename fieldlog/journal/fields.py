@@ -72,8 +72,7 @@ def coerce(s: FieldSpec, value: Any) -> Any:
             raise FieldProblem(f"{s.name} {shown(text)} is not an activity id")
         entry_id = _ENTRY_ID_RE.match(text) if t == "entry" else None
         if t == "entry" and (entry_id is None or int(entry_id[1]) > MAX_COUNTER):
-            raise FieldProblem(f"{s.name} {shown(text)} is not an entry id like "
-                               "site-laptop-1.42")
+            raise FieldProblem(f"{s.name} {shown(text)} is not an entry id like site-laptop-1.42")
         if any(ord(c) < 32 and c not in "\n\t" for c in text):
             raise FieldProblem(f"{s.name} contains control characters")
         return text
@@ -90,8 +89,9 @@ def coerce(s: FieldSpec, value: Any) -> Any:
             try:
                 value = date.fromisoformat(value.strip()[:40])
             except ValueError:
-                raise FieldProblem(f"{s.name} {shown(value)} is not a date like "
-                                   "2026-09-18") from None
+                raise FieldProblem(
+                    f"{s.name} {shown(value)} is not a date like 2026-09-18"
+                ) from None
         if isinstance(value, datetime) or not isinstance(value, date):
             raise FieldProblem(f"{s.name} must be a date, not {shown(value)}")
         return _bounded(check_date, value, s.name)
@@ -101,8 +101,7 @@ def coerce(s: FieldSpec, value: Any) -> Any:
         if not isinstance(value, str):
             raise FieldProblem(f"{s.name} must be text, not {shown(value)}")
         if s.choices and value not in s.choices:
-            raise FieldProblem(f"{s.name} {shown(value)} is not one of: "
-                               f"{', '.join(s.choices)}")
+            raise FieldProblem(f"{s.name} {shown(value)} is not one of: {', '.join(s.choices)}")
         return value
     if t in ("ids", "names"):
         if isinstance(value, str):
@@ -113,8 +112,10 @@ def coerce(s: FieldSpec, value: Any) -> Any:
         rx = _ID_RE if t == "ids" else _NAME_RE
         for v in items:
             if not rx.match(v):
-                raise FieldProblem(f"{s.name} has {shown(v)}, which is not a valid "
-                                   f"{'activity id' if t == 'ids' else 'name'}")
+                raise FieldProblem(
+                    f"{s.name} has {shown(v)}, which is not a valid "
+                    f"{'activity id' if t == 'ids' else 'name'}"
+                )
         if len(set(items)) != len(items):
             raise FieldProblem(f"{s.name} lists the same name twice")
         return items

@@ -91,8 +91,9 @@ def check_journal_bytes(name: str, data: bytes) -> None:
     if found:
         first = found[0]
         more = f" (and {len(found) - 1} more)" if len(found) > 1 else ""
-        raise JournalError(str(first) + more,
-                           fix="keep the copy that verifies; run 'fieldlog verify' on both")
+        raise JournalError(
+            str(first) + more, fix="keep the copy that verifies; run 'fieldlog verify' on both"
+        )
 
 
 def check_bytes(name: str, data: bytes) -> FileCheck:
@@ -108,9 +109,15 @@ def check_bytes(name: str, data: bytes) -> FileCheck:
         return FileCheck(name, (), (Finding(name, "", "not TOML", exc.problem, exc.line),))
     rows = doc.get("entry")
     if set(doc) - {"entry"} or not isinstance(rows, list) or not rows:
-        return FileCheck(name, (), (Finding(name, "", "bad entry",
-                                            "a journal file holds [[entry]] tables and nothing "
-                                            "else"),))
+        return FileCheck(
+            name,
+            (),
+            (
+                Finding(
+                    name, "", "bad entry", "a journal file holds [[entry]] tables and nothing else"
+                ),
+            ),
+        )
     lines = _id_lines(text)
     findings: list[Finding] = []
     entries: list[Entry] = []
@@ -121,9 +128,16 @@ def check_bytes(name: str, data: bytes) -> FileCheck:
             findings.append(Finding(name, _row_id(row), "bad entry", problem, line))
             continue
         if entry.day != day or entry.device != device:
-            findings.append(Finding(name, entry.id, "misfiled",
-                                    f"it is for {entry.day} on device {entry.device}, "
-                                    f"the file for {day} on device {device}", line))
+            findings.append(
+                Finding(
+                    name,
+                    entry.id,
+                    "misfiled",
+                    f"it is for {entry.day} on device {entry.device}, "
+                    f"the file for {day} on device {device}",
+                    line,
+                )
+            )
         ok = entry_hash(row) == entry.hash
         if not ok:
             findings.append(Finding(name, entry.id, "edited", CONTENT_EDITED, line))
@@ -181,16 +195,29 @@ def _entry(name: str, position: int, row: Any) -> tuple[Entry | None, str]:
     sig = row.get(SIG_KEY, "")
     if not isinstance(sig, str) or not (sig == "" or _HEX128.match(sig)):
         return None, "sig is not an Ed25519 signature (128 hex digits)"
-    raw = {k: v for k, v in row.items()
-           if k not in HEADER_KEYS and k not in CHAIN_KEYS and k != SIG_KEY}
+    raw = {
+        k: v
+        for k, v in row.items()
+        if k not in HEADER_KEYS and k not in CHAIN_KEYS and k != SIG_KEY
+    }
     try:
         fields = check_fields(kind, raw)
     except FieldProblem as exc:
         return None, str(exc)
     return Entry(
-        id=eid, seq=seq, kind=kind, day=day, written=written, author=author, device=device,
-        fields=MappingProxyType(fields), prev=row["prev"], hash=row["hash"], sig=sig,
-        file=name, position=position,
+        id=eid,
+        seq=seq,
+        kind=kind,
+        day=day,
+        written=written,
+        author=author,
+        device=device,
+        fields=MappingProxyType(fields),
+        prev=row["prev"],
+        hash=row["hash"],
+        sig=sig,
+        file=name,
+        position=position,
     ), ""
 
 
@@ -200,16 +227,23 @@ def _chain(name: str, entries: list[Entry], lines: dict[str, int]) -> list[Findi
     seen: dict[str, Entry] = {}
     for e in entries:
         if e.id in seen:
-            out.append(Finding(name, e.id, "duplicate id", "the same entry appears twice",
-                               lines.get(e.id)))
+            out.append(
+                Finding(name, e.id, "duplicate id", "the same entry appears twice", lines.get(e.id))
+            )
         seen[e.id] = e
     written_order = sorted(range(len(entries)), key=lambda i: entries[i].seq)
     for k, i in enumerate(written_order):
         if i != k:
             e = entries[i]
-            out.append(Finding(name, e.id, "reordered",
-                               f"written as entry {k + 1} of the file, now entry {i + 1}",
-                               lines.get(e.id)))
+            out.append(
+                Finding(
+                    name,
+                    e.id,
+                    "reordered",
+                    f"written as entry {k + 1} of the file, now entry {i + 1}",
+                    lines.get(e.id),
+                )
+            )
     by_hash = {e.hash: e for e in entries}
     for k, i in enumerate(written_order):
         e = entries[i]
@@ -219,19 +253,45 @@ def _chain(name: str, entries: list[Entry], lines: dict[str, int]) -> list[Findi
             continue
         line = lines.get(e.id)
         if before is None:
-            out.append(Finding(name, e.id, "removed",
-                               "the entries written before it are no longer in the file", line))
+            out.append(
+                Finding(
+                    name,
+                    e.id,
+                    "removed",
+                    "the entries written before it are no longer in the file",
+                    line,
+                )
+            )
         elif e.prev == "":
-            out.append(Finding(name, e.id, "edited",
-                               f"it was the first entry of the file, yet {before.id} is "
-                               "before it", line))
+            out.append(
+                Finding(
+                    name,
+                    e.id,
+                    "edited",
+                    f"it was the first entry of the file, yet {before.id} is before it",
+                    line,
+                )
+            )
         elif e.prev in by_hash and by_hash[e.prev].seq < before.seq:
-            out.append(Finding(name, e.id, "removed",
-                               f"entries written between {by_hash[e.prev].id} and it are "
-                               "missing", line))
+            out.append(
+                Finding(
+                    name,
+                    e.id,
+                    "removed",
+                    f"entries written between {by_hash[e.prev].id} and it are missing",
+                    line,
+                )
+            )
         else:
-            out.append(Finding(name, e.id, "removed",
-                               f"the entry before it ({before.id}) is not the one it was "
-                               "chained to: that entry was rewritten, or one between them "
-                               "was removed", line))
+            out.append(
+                Finding(
+                    name,
+                    e.id,
+                    "removed",
+                    f"the entry before it ({before.id}) is not the one it was "
+                    "chained to: that entry was rewritten, or one between them "
+                    "was removed",
+                    line,
+                )
+            )
     return out

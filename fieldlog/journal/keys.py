@@ -79,9 +79,10 @@ def check_author(name: object) -> str:
         raise EntryRefused(f"author {name!r} is not text", fix="give --author NAME")
     clean = name.strip()
     if not clean or len(clean) > MAX_AUTHOR or not clean.isprintable():
-        raise EntryRefused(f"author {name!r} is not a usable name",
-                           fix=f"give --author NAME: 1-{MAX_AUTHOR} printable characters, "
-                           "no control characters")
+        raise EntryRefused(
+            f"author {name!r} is not a usable name",
+            fix=f"give --author NAME: 1-{MAX_AUTHOR} printable characters, no control characters",
+        )
     return clean
 
 
@@ -98,9 +99,11 @@ def saved_author(home: Path | None = None) -> str | None:
     try:
         return check_author(found)
     except EntryRefused as exc:
-        raise JournalError(exc.problem, file=home / DEVICE_FILE,
-                           fix="delete the 'author' line; fieldlog asks for the name again"
-                           ) from exc
+        raise JournalError(
+            exc.problem,
+            file=home / DEVICE_FILE,
+            fix="delete the 'author' line; fieldlog asks for the name again",
+        ) from exc
 
 
 def save_author(name: str, home: Path | None = None) -> str:
@@ -145,30 +148,43 @@ def _make_home(home: Path) -> None:
     try:
         home.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
-        raise JournalError(f"cannot create fieldlog's data folder: {exc.strerror}", file=home,
-                           fix=f"set {HOME_ENV} to a folder you can write") from exc
+        raise JournalError(
+            f"cannot create fieldlog's data folder: {exc.strerror}",
+            file=home,
+            fix=f"set {HOME_ENV} to a folder you can write",
+        ) from exc
 
 
 def _load(path: Path) -> Ed25519PrivateKey:
     try:
         key = serialization.load_pem_private_key(path.read_bytes(), password=None)
     except OSError as exc:
-        raise JournalError(f"cannot read this device's signing key: {exc.strerror}",
-                           file=path, fix="check the data folder's permissions") from exc
+        raise JournalError(
+            f"cannot read this device's signing key: {exc.strerror}",
+            file=path,
+            fix="check the data folder's permissions",
+        ) from exc
     except (ValueError, TypeError) as exc:
-        raise JournalError("this device's signing key file is damaged", file=path,
-                           fix="restore it from a backup; a new key would need a new device "
-                           "id (delete device.toml too)") from exc
+        raise JournalError(
+            "this device's signing key file is damaged",
+            file=path,
+            fix="restore it from a backup; a new key would need a new device "
+            "id (delete device.toml too)",
+        ) from exc
     if not isinstance(key, Ed25519PrivateKey):
-        raise JournalError("this device's signing key is not an Ed25519 key", file=path,
-                           fix="restore fieldlog's own key file from a backup")
+        raise JournalError(
+            "this device's signing key is not an Ed25519 key",
+            file=path,
+            fix="restore fieldlog's own key file from a backup",
+        )
     return key
 
 
 def _write_private(path: Path, key: Ed25519PrivateKey) -> str | None:
     """Write the key owner-only, durably; returns a warning when permissions are unsupported."""
-    pem = key.private_bytes(serialization.Encoding.PEM, serialization.PrivateFormat.PKCS8,
-                            serialization.NoEncryption())
+    pem = key.private_bytes(
+        serialization.Encoding.PEM, serialization.PrivateFormat.PKCS8, serialization.NoEncryption()
+    )
     tmp = path.with_name(f".~{path.name}.tmp")
     warning = None
     try:
@@ -185,8 +201,11 @@ def _write_private(path: Path, key: Ed25519PrivateKey) -> str | None:
     except OSError as exc:
         with contextlib.suppress(FileNotFoundError):
             tmp.unlink()
-        raise JournalError(f"cannot save this device's signing key: {exc.strerror}",
-                           file=path, fix=f"set {HOME_ENV} to a folder you can write") from exc
+        raise JournalError(
+            f"cannot save this device's signing key: {exc.strerror}",
+            file=path,
+            fix=f"set {HOME_ENV} to a folder you can write",
+        ) from exc
     return warning
 
 
@@ -198,6 +217,8 @@ def _owner_only(fd: int, path: Path) -> str | None:
     except OSError as exc:
         if exc.errno not in PERMISSION_UNSUPPORTED:  # FAT via FUSE: ENOSYS
             raise
-        return (f"{path}: this file system cannot make the signing key owner-only "
-                f"({exc.strerror}); keep the data folder on a private disk")
+        return (
+            f"{path}: this file system cannot make the signing key owner-only "
+            f"({exc.strerror}); keep the data folder on a private disk"
+        )
     return None

@@ -34,8 +34,9 @@ def valid_device(device: str) -> bool:
 def file_name(day: date, device: str) -> str:
     """The journal file name for entries of ``day`` written on ``device``."""
     if not valid_device(device):
-        raise JournalError(f"device id '{device}' is not valid",
-                           fix="use 6-24 characters of a-z, 0-9 and '-'")
+        raise JournalError(
+            f"device id '{device}' is not valid", fix="use 6-24 characters of a-z, 0-9 and '-'"
+        )
     return f"{day.isoformat()}_{device}{SUFFIX}"
 
 
@@ -54,8 +55,10 @@ def parse_file_name(name: str) -> tuple[date, str]:
     try:
         day = date.fromisoformat(m[1])
     except ValueError:
-        raise JournalError(f"'{name}' names a day that does not exist",
-                           fix="journal files are written only by fieldlog") from None
+        raise JournalError(
+            f"'{name}' names a day that does not exist",
+            fix="journal files are written only by fieldlog",
+        ) from None
     return day, m[2]
 
 

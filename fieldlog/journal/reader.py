@@ -81,29 +81,58 @@ def scan(folder: Path | str) -> list[FileCheck]:
     """Check every file in the site's ``log/`` folder (fieldlog's working files excepted)."""
     log = log_folder(folder)
     if log.is_symlink():  # never followed: it could lead anywhere on the machine
-        return [FileCheck("", (), (Finding("", "", "bad name", "log/ is a link to another "
-                                           "folder; replace the link with the log folder "
-                                           "itself, fieldlog never follows it"),))]
+        return [
+            FileCheck(
+                "",
+                (),
+                (
+                    Finding(
+                        "",
+                        "",
+                        "bad name",
+                        "log/ is a link to another "
+                        "folder; replace the link with the log folder "
+                        "itself, fieldlog never follows it",
+                    ),
+                ),
+            )
+        ]
     if not log.exists():
         return []
     if not log.is_dir():
-        raise JournalError("'log' is not a folder", file=log,
-                           fix="rename that file; fieldlog keeps the field log in log/")
+        raise JournalError(
+            "'log' is not a folder",
+            file=log,
+            fix="rename that file; fieldlog keeps the field log in log/",
+        )
     checks = []
     for path in sorted(log.iterdir(), key=lambda p: p.name):
         if is_working_file(path.name):
             continue
         if path.is_symlink() or not path.is_file():
             what = "a link" if path.is_symlink() else "a folder"
-            checks.append(FileCheck(path.name, (), (Finding(
-                path.name, "", "bad name", f"{what} inside log/; only journal files belong "
-                "there, and fieldlog never follows a link"),)))
+            checks.append(
+                FileCheck(
+                    path.name,
+                    (),
+                    (
+                        Finding(
+                            path.name,
+                            "",
+                            "bad name",
+                            f"{what} inside log/; only journal files belong "
+                            "there, and fieldlog never follows a link",
+                        ),
+                    ),
+                )
+            )
             continue
         try:
             data = read_capped(path, "journal", follow_links=False)
         except OutOfBounds as exc:
-            checks.append(FileCheck(path.name, (), (Finding(path.name, "", "not TOML",
-                                                            exc.problem),)))
+            checks.append(
+                FileCheck(path.name, (), (Finding(path.name, "", "not TOML", exc.problem),))
+            )
             continue
         except OSError as exc:
             raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc
@@ -161,8 +190,14 @@ def read_journal(folder: Path | str) -> Journal:
     signatures = check_signatures(entries, registry, findings)
     findings += signatures.findings
     files = tuple(c.name for c in checks if c.entries)
-    return Journal(EntryList(signatures.kept, findings), files, registry.devices,
-                   signatures.signed, signatures.unsigned, signatures.forged)
+    return Journal(
+        EntryList(signatures.kept, findings),
+        files,
+        registry.devices,
+        signatures.signed,
+        signatures.unsigned,
+        signatures.forged,
+    )
 
 
 def cross_file_findings(entries: Iterable[Entry]) -> list[Finding]:
@@ -176,8 +211,9 @@ def cross_file_findings(entries: Iterable[Entry]) -> list[Finding]:
     for e in entries:
         seqs = by_device.setdefault(e.device, {})
         if e.seq in seqs and seqs[e.seq].file != e.file:
-            out.append(Finding(e.file, e.id, "duplicate id",
-                               f"the same id is also in {seqs[e.seq].file}"))
+            out.append(
+                Finding(e.file, e.id, "duplicate id", f"the same id is also in {seqs[e.seq].file}")
+            )
         seqs.setdefault(e.seq, e)
     for device, seqs in sorted(by_device.items()):
         out += _gaps(device, seqs)
@@ -202,12 +238,19 @@ def _gaps(device: str, seqs: dict[int, Entry]) -> list[Finding]:
             after = seqs[n]
             where = f"it is in no file, yet {after.id} (in {after.file}) was written after it"
             if missing <= GAP_NAMED:
-                out += [Finding("", f"{device}.{k}", "removed", where)
-                        for k in range(before + 1, n)]
+                out += [
+                    Finding("", f"{device}.{k}", "removed", where) for k in range(before + 1, n)
+                ]
             else:
-                out.append(Finding("", f"{device}.{before + 1}", "removed",
-                                   f"{missing:,} entries, {device}.{before + 1} to "
-                                   f"{device}.{n - 1}, are in no file, yet {after.id} (in "
-                                   f"{after.file}) was written after them"))
+                out.append(
+                    Finding(
+                        "",
+                        f"{device}.{before + 1}",
+                        "removed",
+                        f"{missing:,} entries, {device}.{before + 1} to "
+                        f"{device}.{n - 1}, are in no file, yet {after.id} (in "
+                        f"{after.file}) was written after them",
+                    )
+                )
         before = n
     return out

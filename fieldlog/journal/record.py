@@ -107,8 +107,11 @@ def record_entry(
     site_name = site_name or str(folder)
     if kind not in KINDS:
         raise refuse(f"unknown entry kind '{kind}'", fix=f"use one of: {', '.join(KINDS)}")
-    fields = {k: v for k, v in fields.items()
-              if v is not None and not (isinstance(v, list | tuple) and not v)}
+    fields = {
+        k: v
+        for k, v in fields.items()
+        if v is not None and not (isinstance(v, list | tuple) and not v)
+    }
     if kind != "correction":
         day = day or today
         check_day(day, today, site.start)
@@ -129,8 +132,9 @@ def record_entry(
             assert day is not None  # set to ``day or today`` above for every other kind
             view = replay(site, journal.entries, _FAR_FUTURE)
             check_entry(site, view, kind, day, clean, site_name)
-        return _append(log, journal, device, kind, day, clean, author, clock,
-                       _Signer(key, folder, today))
+        return _append(
+            log, journal, device, kind, day, clean, author, clock, _Signer(key, folder, today)
+        )
 
 
 def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
@@ -143,9 +147,11 @@ def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
 def _kept_author(home: Path | None) -> str:
     found = saved_author(home)
     if found is None:
-        raise EntryRefused("no author name is set for this device",
-                           fix="give your name once with --author NAME (it is kept for this "
-                           "device); the app asks for it when it first opens")
+        raise EntryRefused(
+            "no author name is set for this device",
+            fix="give your name once with --author NAME (it is kept for this "
+            "device); the app asks for it when it first opens",
+        )
     return found
 
 
@@ -157,40 +163,54 @@ class _Signer:
 
     def register(self, device: str, author: str, seq: int) -> None:
         """Write ``devices/<device>.toml`` unless it is there with this key already."""
-        register(self.folder, DeviceRecord(device, public_hex(self.key.public_key()), author,
-                                           self.today, seq))
+        register(
+            self.folder,
+            DeviceRecord(device, public_hex(self.key.public_key()), author, self.today, seq),
+        )
 
     def sign(self, entry_hash: str) -> str:
         """The signature of an entry whose hash is ``entry_hash``."""
         return sign(self.key, entry_hash)
 
 
-def _correction(site: Site, journal: Journal, day: date | None, fields: Mapping[str, Any],
-                today: date, site_name: str) -> tuple[date, dict[str, Any]]:
+def _correction(
+    site: Site,
+    journal: Journal,
+    day: date | None,
+    fields: Mapping[str, Any],
+    today: date,
+    site_name: str,
+) -> tuple[date, dict[str, Any]]:
     """Check a correction and the entry it would leave; returns its day and fields."""
     target_id = str(fields.get("supersedes", ""))
     target = journal.by_id(target_id)
     if target is None:
-        raise refuse(f"there is no entry {target_id or '(none given)'} in the log",
-                     fix="give the id printed when the entry was recorded (see the daily "
-                     "report)")
+        raise refuse(
+            f"there is no entry {target_id or '(none given)'} in the log",
+            fix="give the id printed when the entry was recorded (see the daily report)",
+        )
     view = replay(site, journal.entries, _FAR_FUTURE)
     if target.id in view.superseded:
         later = view.superseded[target.id]
-        raise refuse(f"entry {target.id} was already corrected by {later.id}",
-                     fix=f"correct {later.id} instead")
+        raise refuse(
+            f"entry {target.id} was already corrected by {later.id}",
+            fix=f"correct {later.id} instead",
+        )
     base, chain = correction_base(journal.entries, target)
     changes = {k: v for k, v in fields.items() if k not in CORRECTION_OWN}
     withdraw = bool(fields.get("withdraw"))
     if withdraw and (changes or (day is not None and day != target.day)):
-        raise refuse("a withdrawal carries no new values", fix="leave out --withdraw, or the "
-                     "new values")
+        raise refuse(
+            "a withdrawal carries no new values", fix="leave out --withdraw, or the new values"
+        )
     day = day or target.day
     check_day(day, today, site.start)
     if not withdraw and not changes and day == target.day:
-        raise refuse("nothing to correct",
-                     fix="give the right day (--on DATE), new values (--set FIELD=VALUE) or "
-                     "--withdraw if the entry was recorded in error")
+        raise refuse(
+            "nothing to correct",
+            fix="give the right day (--on DATE), new values (--set FIELD=VALUE) or "
+            "--withdraw if the entry was recorded in error",
+        )
     clean = _shape("correction", {**fields, "corrects": base.kind})
     if not withdraw:
         merged = {**base.fields, **{k: v for k, v in clean.items() if k not in CORRECTION_OWN}}
@@ -215,14 +235,25 @@ def _next_seq(log: Path, journal: Journal, device: str) -> int:
                 seq = int(m[1]) if len(m[1]) <= 10 else MAX_COUNTER + 1
                 highest = max(highest, seq)
     if highest >= MAX_COUNTER:
-        raise JournalError(f"device {device} has used every entry number up to {highest:,}",
-                           file=log, fix="run 'fieldlog verify'; an entry numbered this high "
-                           "was not written by fieldlog")
+        raise JournalError(
+            f"device {device} has used every entry number up to {highest:,}",
+            file=log,
+            fix="run 'fieldlog verify'; an entry numbered this high was not written by fieldlog",
+        )
     return highest + 1
 
 
-def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
-            fields: dict[str, Any], author: str, clock: Clock, signer: _Signer) -> Entry:
+def _append(
+    log: Path,
+    journal: Journal,
+    device: str,
+    kind: str,
+    day: date,
+    fields: dict[str, Any],
+    author: str,
+    clock: Clock,
+    signer: _Signer,
+) -> Entry:
     name = file_name(day, device)
     path = log / name
     remove_stale_temps(log, name)
@@ -234,7 +265,8 @@ def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
         broken = [f for f in check.findings if f.problem in ("not TOML", "bad name", "bad entry")]
         if broken:
             raise JournalError(
-                f"the day file is damaged ({broken[0]}); nothing was written", file=path,
+                f"the day file is damaged ({broken[0]}); nothing was written",
+                file=path,
                 fix="run 'fieldlog verify'; move the damaged file out of log/ to record that "
                 "day again",
             )
@@ -244,9 +276,17 @@ def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
     seq = _next_seq(log, journal, device)
     signer.register(device, author, seq)  # before the device's first signed entry lands
     written = clock().astimezone(UTC).replace(microsecond=0)
-    entry = Entry(id=f"{device}.{seq}", seq=seq, kind=kind, day=day, written=written,
-                  author=author, device=device, fields=MappingProxyType(dict(fields)),
-                  prev=prev)
+    entry = Entry(
+        id=f"{device}.{seq}",
+        seq=seq,
+        kind=kind,
+        day=day,
+        written=written,
+        author=author,
+        device=device,
+        fields=MappingProxyType(dict(fields)),
+        prev=prev,
+    )
     body = entry.stored()
     body["hash"] = entry_hash(body)
     body["sig"] = signer.sign(body["hash"])
@@ -258,11 +298,13 @@ def _append(log: Path, journal: Journal, device: str, kind: str, day: date,
     # new block back on its own proves the whole new file reads back as intended.
     rows = tomllib.loads(block.decode("utf-8"))["entry"]
     if len(rows) != 1 or rows[0] != body or entry_hash(rows[0]) != body["hash"]:
-        raise JournalError("the new entry did not read back as written; nothing was written",
-                           file=path, fix="report this as a fieldlog bug, with the entry")
+        raise JournalError(
+            "the new entry did not read back as written; nothing was written",
+            file=path,
+            fix="report this as a fieldlog bug, with the entry",
+        )
     new = old + sep + block
     atomic_write(path, new)
-    written_entry = replace(entry, hash=body["hash"], sig=body["sig"], file=name,
-                            position=count)
+    written_entry = replace(entry, hash=body["hash"], sig=body["sig"], file=name, position=count)
     remember(name, new, FileCheck(name, (*check.entries, written_entry), check.findings))
     return written_entry

@@ -87,8 +87,13 @@ def key_file_name(device: str) -> str:
 
 def key_file_bytes(record: DeviceRecord) -> bytes:
     """The bytes fieldlog writes for ``record``."""
-    body = {"device": record.device, "public_key": record.public_key, "author": record.author,
-            "registered": record.registered, "signed_from": record.signed_from}
+    body = {
+        "device": record.device,
+        "public_key": record.public_key,
+        "author": record.author,
+        "registered": record.registered,
+        "signed_from": record.signed_from,
+    }
     return HEADER + tomli_w.dumps(body).encode("utf-8")
 
 
@@ -102,22 +107,39 @@ def parse_key_file(name: str, data: bytes) -> DeviceRecord:
     where = f"{DEVICES_DIR}/{name}"
     m = _FILE_RE.match(name)
     if not m:
-        raise JournalError("not a device key file name", file=where,
-                           fix="key files are named <device>.toml and written only by fieldlog")
+        raise JournalError(
+            "not a device key file name",
+            file=where,
+            fix="key files are named <device>.toml and written only by fieldlog",
+        )
     if len(data) > MAX_KEY_FILE_BYTES:
-        raise JournalError(f"is {len(data)} bytes; a key file is a few lines", file=where,
-                           fix="move it out of devices/")
+        raise JournalError(
+            f"is {len(data)} bytes; a key file is a few lines",
+            file=where,
+            fix="move it out of devices/",
+        )
     try:
         doc = tomllib.loads(data.decode("utf-8"))
     except (UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
-        raise JournalError(f"not TOML: {exc}", file=where, fix="restore fieldlog's copy "
-                           "(the office has one after a sync)") from exc
+        raise JournalError(
+            f"not TOML: {exc}",
+            file=where,
+            fix="restore fieldlog's copy (the office has one after a sync)",
+        ) from exc
     problem = _problem(doc, m[1])
     if problem:
-        raise JournalError(problem, file=where, fix="restore fieldlog's copy (the office has "
-                           "one after a sync); never edit a key file")
-    return DeviceRecord(doc["device"], doc["public_key"], check_author(doc["author"]),
-                        doc["registered"], doc["signed_from"])
+        raise JournalError(
+            problem,
+            file=where,
+            fix="restore fieldlog's copy (the office has one after a sync); never edit a key file",
+        )
+    return DeviceRecord(
+        doc["device"],
+        doc["public_key"],
+        check_author(doc["author"]),
+        doc["registered"],
+        doc["signed_from"],
+    )
 
 
 def _problem(doc: dict, device: str) -> str | None:
@@ -128,8 +150,12 @@ def _problem(doc: dict, device: str) -> str | None:
     if not isinstance(doc["public_key"], str) or not _HEX32.match(doc["public_key"]):
         return "public_key is not 64 hex digits"
     author = doc["author"]
-    if not isinstance(author, str) or not author.strip() or len(author.strip()) > 80 \
-            or not author.strip().isprintable():
+    if (
+        not isinstance(author, str)
+        or not author.strip()
+        or len(author.strip()) > 80
+        or not author.strip().isprintable()
+    ):
         return "author is not a usable name"
     registered = doc["registered"]
     if not isinstance(registered, date) or isinstance(registered, datetime):
@@ -148,8 +174,17 @@ def read_registry(site_folder: Path | str) -> Registry:
     """
     folder = devices_folder(site_folder)
     if folder.is_symlink():  # keys from wherever a link points are no keys at all
-        return Registry(findings=(Finding("", "", "bad key file", "the devices folder is a "
-                                          "link; links are never followed", folder=DEVICES_DIR),))
+        return Registry(
+            findings=(
+                Finding(
+                    "",
+                    "",
+                    "bad key file",
+                    "the devices folder is a link; links are never followed",
+                    folder=DEVICES_DIR,
+                ),
+            )
+        )
     if not folder.is_dir():
         return Registry()
     records: dict[str, DeviceRecord] = {}
@@ -157,20 +192,19 @@ def read_registry(site_folder: Path | str) -> Registry:
     try:
         paths = sorted(folder.iterdir(), key=lambda p: p.name)
     except OSError as exc:
-        raise JournalError(f"cannot read the devices folder: {exc.strerror}",
-                           file=folder) from exc
+        raise JournalError(f"cannot read the devices folder: {exc.strerror}", file=folder) from exc
     for path in paths:
         if path.name.startswith("."):
             continue  # fieldlog's temporary files
         if path.is_symlink() or not path.is_file():
-            findings.append(Finding(path.name, "", "bad key file", "not a plain file",
-                                    folder=DEVICES_DIR))
+            findings.append(
+                Finding(path.name, "", "bad key file", "not a plain file", folder=DEVICES_DIR)
+            )
             continue
         try:
             record = parse_key_file(path.name, read_bytes(path))
         except JournalError as exc:
-            findings.append(Finding(path.name, "", "bad key file", exc.problem,
-                                    folder=DEVICES_DIR))
+            findings.append(Finding(path.name, "", "bad key file", exc.problem, folder=DEVICES_DIR))
             continue
         records[record.device] = record
     return Registry(MappingProxyType(records), tuple(findings))
@@ -194,14 +228,17 @@ def register(site_folder: Path, record: DeviceRecord) -> DeviceRecord:
         if found.public_key != record.public_key:
             raise JournalError(
                 f"the site already holds another key for device {record.device}; nothing was "
-                "written", file=path,
+                "written",
+                file=path,
                 fix="this device id was copied from another machine: give this machine its "
-                "own data folder (FIELDLOG_HOME) so it gets a new id and key")
+                "own data folder (FIELDLOG_HOME) so it gets a new id and key",
+            )
         return found
     try:
         make_folder(folder)
     except OSError as exc:
-        raise JournalError(f"cannot create the devices folder: {exc.strerror}",
-                           file=folder) from exc
+        raise JournalError(
+            f"cannot create the devices folder: {exc.strerror}", file=folder
+        ) from exc
     atomic_write(path, key_file_bytes(record))
     return record

@@ -84,8 +84,10 @@ class _Activity:
 
 def replay(site: Site, entries: Sequence[Entry], status_date: date) -> Replay:
     """Fold entries dated on or before ``status_date`` into progress and lost days."""
-    problems = [Problem(f"log file damaged: {f}", (f.entry_id,) if f.entry_id else (), True)
-                for f in getattr(entries, "findings", ())]
+    problems = [
+        Problem(f"log file damaged: {f}", (f.entry_id,) if f.entry_id else (), True)
+        for f in getattr(entries, "findings", ())
+    ]
     resolved = resolve_corrections(entries, status_date)
     problems += [Problem(message, ids) for message, ids in resolved.problems]
     fold = _Fold(site, problems)
@@ -93,12 +95,17 @@ def replay(site: Site, entries: Sequence[Entry], status_date: date) -> Replay:
         fold.apply(e)
     fold.close()
     return Replay(
-        progress=fold.progress(), lost_days=fold.lost_days(),
-        readiness=fold.open_items(resolved.alias), problems=tuple(problems),
-        effective=tuple(resolved.entries), superseded=resolved.superseded,
+        progress=fold.progress(),
+        lost_days=fold.lost_days(),
+        readiness=fold.open_items(resolved.alias),
+        problems=tuple(problems),
+        effective=tuple(resolved.entries),
+        superseded=resolved.superseded,
         cleared=dict(fold.cleared),
-        evidence={aid: ActivityEntries(a.start, a.finish, a.remaining, a.percent)
-                  for aid, a in fold.acts.items()},
+        evidence={
+            aid: ActivityEntries(a.start, a.finish, a.remaining, a.percent)
+            for aid, a in fold.acts.items()
+        },
         current={k: v.id for k, v in resolved.alias.items() if v is not None},
     )
 
@@ -118,9 +125,13 @@ class _Fold:
     def apply(self, e: Entry) -> None:
         missing = [a for a in e.activities() if not self.site.has_activity(a)]
         for a in missing:
-            self.problems.append(Problem(
-                f"entry {e.id} ({e.kind}, {e.day}) names activity '{a}', which schedule "
-                f"revision {self.site.revision} no longer has", (e.id,)))
+            self.problems.append(
+                Problem(
+                    f"entry {e.id} ({e.kind}, {e.day}) names activity '{a}', which schedule "
+                    f"revision {self.site.revision} no longer has",
+                    (e.id,),
+                )
+            )
         handler = getattr(self, "_" + e.kind.replace("-", "_"), None)
         if handler is None:
             return
@@ -152,7 +163,6 @@ class _Fold:
     def _percent(self, e: Entry) -> None:
         self._measure(e, "percent", f"{e.fields['percent']:g}% complete")
 
-
     def _measure(self, e: Entry, slot: str, what: str) -> None:
         aid = e.fields["activity"]
         a = self.acts.setdefault(aid, _Activity())
@@ -160,9 +170,13 @@ class _Fold:
             if slot == "percent" and e.fields["percent"] == 100:
                 setattr(a, slot, e)
                 return
-            self.problems.append(Problem(
-                f"{aid}: {what} recorded for {e.day} (entry {e.id}), but it finished on "
-                f"{a.finish.day} (entry {a.finish.id}); not applied", (a.finish.id, e.id)))
+            self.problems.append(
+                Problem(
+                    f"{aid}: {what} recorded for {e.day} (entry {e.id}), but it finished on "
+                    f"{a.finish.day} (entry {a.finish.id}); not applied",
+                    (a.finish.id, e.id),
+                )
+            )
             return
         setattr(a, slot, e)
 
@@ -171,22 +185,33 @@ class _Fold:
         for aid, a in self.acts.items():
             for e, what in ((a.remaining, "remaining days"), (a.percent, "percent complete")):
                 if e is not None and (a.start is None or a.start.day > e.day):
-                    self.problems.append(Problem(
-                        f"{aid}: {what} recorded for {e.day} (entry {e.id}) with no actual "
-                        "start on or before that day", (e.id,) + ((a.start.id,) if a.start
-                                                                  else ())))
+                    self.problems.append(
+                        Problem(
+                            f"{aid}: {what} recorded for {e.day} (entry {e.id}) with no actual "
+                            "start on or before that day",
+                            (e.id,) + ((a.start.id,) if a.start else ()),
+                        )
+                    )
 
     def _two(self, e: Entry, before: Entry, what: str) -> None:
         aid = e.fields["activity"]
-        self.problems.append(Problem(
-            f"{aid}: two different {what}: {before.day} (entry {before.id}, {before.device}) "
-            f"and {e.day} (entry {e.id}, {e.device}); {e.day} is used", (before.id, e.id)))
+        self.problems.append(
+            Problem(
+                f"{aid}: two different {what}: {before.day} (entry {before.id}, {before.device}) "
+                f"and {e.day} (entry {e.id}, {e.device}); {e.day} is used",
+                (before.id, e.id),
+            )
+        )
 
     def _order(self, start: Entry, finish: Entry) -> None:
         aid = start.fields["activity"]
-        self.problems.append(Problem(
-            f"{aid}: finish {finish.day} (entry {finish.id}) is before start {start.day} "
-            f"(entry {start.id})", (finish.id, start.id)))
+        self.problems.append(
+            Problem(
+                f"{aid}: finish {finish.day} (entry {finish.id}) is before start {start.day} "
+                f"(entry {start.id})",
+                (finish.id, start.id),
+            )
+        )
 
     def progress(self) -> dict[str, Progress]:
         out = {}
@@ -208,9 +233,13 @@ class _Fold:
         names = e.fields.get("calendars") or list(self.site.calendars)
         for name in names:
             if name not in self.site.calendars:
-                self.problems.append(Problem(
-                    f"entry {e.id} ({e.day}) marks calendar '{name}' lost, which the site no "
-                    "longer has", (e.id,)))
+                self.problems.append(
+                    Problem(
+                        f"entry {e.id} ({e.day}) marks calendar '{name}' lost, which the site no "
+                        "longer has",
+                        (e.id,),
+                    )
+                )
                 continue
             self.lost.setdefault(name, set()).add(e.day)
 
@@ -230,22 +259,35 @@ class _Fold:
             item_id = c.fields["item"]
             need = alias.get(item_id, self.needs.get(item_id))
             if need is None or need.id not in self.needs:
-                self.problems.append(Problem(
-                    f"entry {c.id} ({c.day}) clears {item_id}, which is not an open readiness "
-                    "item in the log", (c.id,)))
+                self.problems.append(
+                    Problem(
+                        f"entry {c.id} ({c.day}) clears {item_id}, which is not an open readiness "
+                        "item in the log",
+                        (c.id,),
+                    )
+                )
                 continue
             if need.id in self.cleared:
                 first = self.cleared[need.id]
-                self.problems.append(Problem(
-                    f"readiness item {need.id} is cleared twice: entries {first.id} and {c.id}",
-                    (first.id, c.id)))
+                self.problems.append(
+                    Problem(
+                        f"readiness item {need.id} is cleared twice: entries {first.id} and {c.id}",
+                        (first.id, c.id),
+                    )
+                )
                 continue
             self.cleared[need.id] = c
         return tuple(
-            OpenItem(activity=n.fields["activity"], what=n.fields["what"],
-                     kind=n.fields["category"], expected=n.fields.get("expected"),
-                     opened=n.day, entry_id=n.id)
-            for n in self.needs.values() if n.id not in self.cleared
+            OpenItem(
+                activity=n.fields["activity"],
+                what=n.fields["what"],
+                kind=n.fields["category"],
+                expected=n.fields.get("expected"),
+                opened=n.day,
+                entry_id=n.id,
+            )
+            for n in self.needs.values()
+            if n.id not in self.cleared
         )
 
 

@@ -32,19 +32,25 @@ def check_day(day: date, today: date, site_start: date | None = None) -> None:
     start is a mistyped year (the bound of :mod:`fieldlog.day_words`, so the app's day fields
     and ``--on`` agree), and any date stays inside :mod:`fieldlog.bounds`' range."""
     if day > today:
-        raise refuse(f"{long_day(day)} is after today ({long_day(today)})",
-                     fix="record what happened on a day up to today")
+        raise refuse(
+            f"{long_day(day)} is after today ({long_day(today)})",
+            fix="record what happened on a day up to today",
+        )
     if site_start is not None and day < earliest_day(site_start):
-        raise refuse(f"{long_day(day)} is before {long_day(earliest_day(site_start))}, a year "
-                     "before the site start", fix="check the year of the day")
+        raise refuse(
+            f"{long_day(day)} is before {long_day(earliest_day(site_start))}, a year "
+            "before the site start",
+            fix="check the year of the day",
+        )
     try:
         check_date(day, "the day", site_start)
     except OutOfBounds as exc:
         raise refuse(exc.problem, fix=exc.fix) from None
 
 
-def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any],
-                site_name: str) -> None:
+def check_entry(
+    site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any], site_name: str
+) -> None:
     """Refuse an entry of ``kind`` for ``day`` that contradicts the schedule or the log.
 
     Args:
@@ -60,23 +66,32 @@ def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[
     for aid in _activities(fields):
         if not site.has_activity(aid):
             close = difflib.get_close_matches(aid, [a.id for a in site.activities], n=3)
-            hint = f"did you mean {', '.join(close)}?" if close else \
-                f"see 'fieldlog schedule {site_name}' for the ids"
-            raise refuse(f"unknown activity '{aid}' (schedule revision {site.revision})",
-                         activity=aid, fix=hint)
+            hint = (
+                f"did you mean {', '.join(close)}?"
+                if close
+                else f"see 'fieldlog schedule {site_name}' for the ids"
+            )
+            raise refuse(
+                f"unknown activity '{aid}' (schedule revision {site.revision})",
+                activity=aid,
+                fix=hint,
+            )
     for name in fields.get("calendars", ()):
         if name not in site.calendars:
-            raise refuse(f"unknown calendar '{name}'",
-                         fix=f"use one of: {', '.join(site.calendars)}")
+            raise refuse(
+                f"unknown calendar '{name}'", fix=f"use one of: {', '.join(site.calendars)}"
+            )
     ev = view.evidence.get(fields.get("activity", ""), ActivityEntries())
     correct = f"fieldlog record {site_name} correct ENTRY-ID --reason '...'"
     if kind == "started":
         if site.activity(fields["activity"]).is_milestone:
             aid = fields["activity"]
-            raise refuse(f"{aid} is a milestone (no duration), so it does not start and run",
-                         activity=aid,
-                         fix=f"record it reached with: fieldlog record {site_name} finished "
-                         f"{aid} --on {day}")
+            raise refuse(
+                f"{aid} is a milestone (no duration), so it does not start and run",
+                activity=aid,
+                fix=f"record it reached with: fieldlog record {site_name} finished "
+                f"{aid} --on {day}",
+            )
         _started(fields["activity"], day, ev, correct)
     elif kind == "finished":
         _finished(fields["activity"], day, ev, correct)
@@ -85,9 +100,11 @@ def check_entry(site: Site, view: Replay, kind: str, day: date, fields: Mapping[
     elif kind == "need":
         expected = fields.get("expected")
         if expected is not None and expected < day:
-            raise refuse(f"expected date {expected} is before {day}, the day it is recorded "
-                         "for", activity=fields["activity"],
-                         fix="give the date it is now expected, or leave it out")
+            raise refuse(
+                f"expected date {expected} is before {day}, the day it is recorded for",
+                activity=fields["activity"],
+                fix="give the date it is now expected, or leave it out",
+            )
     elif kind == "cleared":
         _cleared(fields["item"], day, view)
 
@@ -100,57 +117,83 @@ def _activities(fields: Mapping[str, Any]) -> list[str]:
 def _started(aid: str, day: date, ev: ActivityEntries, correct: str) -> None:
     if ev.start is not None:
         same = "already recorded" if ev.start.day == day else f"already started on {ev.start.day}"
-        raise refuse(f"{aid} {same} (entry {ev.start.id})", activity=aid,
-                     fix=f"to change it: {correct.replace('ENTRY-ID', ev.start.id)} --on DATE")
+        raise refuse(
+            f"{aid} {same} (entry {ev.start.id})",
+            activity=aid,
+            fix=f"to change it: {correct.replace('ENTRY-ID', ev.start.id)} --on DATE",
+        )
     if ev.finish is not None and ev.finish.day < day:
-        raise refuse(f"{aid} cannot start on {day}: it finished on {ev.finish.day} "
-                     f"(entry {ev.finish.id})", activity=aid,
-                     fix="give the real start date, or correct the finish")
+        raise refuse(
+            f"{aid} cannot start on {day}: it finished on {ev.finish.day} (entry {ev.finish.id})",
+            activity=aid,
+            fix="give the real start date, or correct the finish",
+        )
     for measure in (ev.remaining, ev.percent):
         if measure is not None and measure.day < day:
-            raise refuse(f"{aid} cannot start on {day}: progress was recorded for "
-                         f"{measure.day} (entry {measure.id})", activity=aid,
-                         fix="give the real start date, or correct that entry")
+            raise refuse(
+                f"{aid} cannot start on {day}: progress was recorded for "
+                f"{measure.day} (entry {measure.id})",
+                activity=aid,
+                fix="give the real start date, or correct that entry",
+            )
 
 
 def _finished(aid: str, day: date, ev: ActivityEntries, correct: str) -> None:
     if ev.finish is not None:
-        same = "already recorded" if ev.finish.day == day else \
-            f"already finished on {ev.finish.day}"
-        raise refuse(f"{aid} {same} (entry {ev.finish.id})", activity=aid,
-                     fix=f"to change it: {correct.replace('ENTRY-ID', ev.finish.id)} --on DATE")
+        same = (
+            "already recorded" if ev.finish.day == day else f"already finished on {ev.finish.day}"
+        )
+        raise refuse(
+            f"{aid} {same} (entry {ev.finish.id})",
+            activity=aid,
+            fix=f"to change it: {correct.replace('ENTRY-ID', ev.finish.id)} --on DATE",
+        )
     if ev.start is not None and day < ev.start.day:
-        raise refuse(f"{aid} cannot finish on {day}, before its start on {ev.start.day} "
-                     f"(entry {ev.start.id})", activity=aid,
-                     fix="give the real finish date, or correct the start")
+        raise refuse(
+            f"{aid} cannot finish on {day}, before its start on {ev.start.day} "
+            f"(entry {ev.start.id})",
+            activity=aid,
+            fix="give the real finish date, or correct the start",
+        )
 
 
 def _measure(kind: str, fields: Mapping[str, Any], day: date, ev: ActivityEntries) -> None:
     aid = fields["activity"]
     what = "remaining days" if kind == "remaining" else "percent complete"
     if ev.start is None or ev.start.day > day:
-        raise refuse(f"{aid} has no actual start on or before {day}, so it has no {what}",
-                     activity=aid, fix="record 'started' first (it may be the same day)")
+        raise refuse(
+            f"{aid} has no actual start on or before {day}, so it has no {what}",
+            activity=aid,
+            fix="record 'started' first (it may be the same day)",
+        )
     if ev.finish is not None and ev.finish.day <= day:
         if kind == "percent" and fields["percent"] == 100:
             return
-        raise refuse(f"{aid} finished on {ev.finish.day} (entry {ev.finish.id}); a finished "
-                     f"activity has no {what}", activity=aid,
-                     fix="if it is not finished after all, correct the finish entry")
+        raise refuse(
+            f"{aid} finished on {ev.finish.day} (entry {ev.finish.id}); a finished "
+            f"activity has no {what}",
+            activity=aid,
+            fix="if it is not finished after all, correct the finish entry",
+        )
 
 
 def _cleared(item: str, day: date, view: Replay) -> None:
     need = _find(view.effective, view.current.get(item, item))
     if need is None or need.kind != "need":
         open_ids = ", ".join(i.entry_id for i in view.readiness) or "none"
-        raise refuse(f"{item} is not a readiness item in the log",
-                     fix=f"give the id of a 'need' entry (open now: {open_ids})")
+        raise refuse(
+            f"{item} is not a readiness item in the log",
+            fix=f"give the id of a 'need' entry (open now: {open_ids})",
+        )
     if need.id in view.cleared:
-        raise refuse(f"readiness item {need.id} was already cleared "
-                     f"(entry {view.cleared[need.id].id})")
+        raise refuse(
+            f"readiness item {need.id} was already cleared (entry {view.cleared[need.id].id})"
+        )
     if day < need.day:
-        raise refuse(f"readiness item {need.id} was opened on {need.day}, after {day}",
-                     fix="give the day it was really cleared")
+        raise refuse(
+            f"readiness item {need.id} was opened on {need.day}, after {day}",
+            fix="give the day it was really cleared",
+        )
 
 
 def _find(entries: tuple[Entry, ...], entry_id: str) -> Entry | None:

@@ -108,8 +108,9 @@ class Checked:
     forged: int
 
 
-def check_signatures(entries: Iterable[Entry], registry: Registry,
-                     findings: Iterable[Finding]) -> Checked:
+def check_signatures(
+    entries: Iterable[Entry], registry: Registry, findings: Iterable[Finding]
+) -> Checked:
     """Sort ``entries`` into kept and forged (see the module docstring for the rules).
 
     Args:
@@ -118,8 +119,11 @@ def check_signatures(entries: Iterable[Entry], registry: Registry,
         findings: the file checks' findings (content edits are read from them).
     """
     entries = list(entries)
-    edited = {(f.file, f.entry_id) for f in findings
-              if f.problem == "edited" and f.detail == CONTENT_EDITED}
+    edited = {
+        (f.file, f.entry_id)
+        for f in findings
+        if f.problem == "edited" and f.detail == CONTENT_EDITED
+    }
     first_signed: dict[str, int] = {}
     for e in entries:
         if e.sig:
@@ -151,13 +155,22 @@ def _signing_began(entries: list[Entry], registry: Registry) -> date | None:
     return min(days, default=None)
 
 
-def _forged_because(e: Entry, registry: Registry, content_edited: bool,
-                    first_signed: dict[str, int], began: date | None) -> str | None:
+def _forged_because(
+    e: Entry,
+    registry: Registry,
+    content_edited: bool,
+    first_signed: dict[str, int],
+    began: date | None,
+) -> str | None:
     """Why ``e`` is forged; None when it may be used; ``""`` when unusable but already
     reported (an unsigned older entry whose content no longer matches its hash)."""
     record = registry.devices.get(e.device)
-    if (record is not None and e.sig and not content_edited  # the usual case, first
-            and signature_ok(record.public_key, e.hash, e.sig)):
+    if (
+        record is not None
+        and e.sig
+        and not content_edited  # the usual case, first
+        and signature_ok(record.public_key, e.hash, e.sig)
+    ):
         return None
     key_file = f"{DEVICES_DIR}/{key_file_name(e.device)}"
     if content_edited:
@@ -166,19 +179,28 @@ def _forged_because(e: Entry, registry: Registry, content_edited: bool,
         return ""
     if e.sig:
         if record is None:
-            return (f"signed, but device {e.device} has no registered key ({key_file}); "
-                    "it is not used")
+            return (
+                f"signed, but device {e.device} has no registered key ({key_file}); it is not used"
+            )
         if not signature_ok(record.public_key, e.hash, e.sig):
-            return (f"its signature does not match device {e.device}'s registered key "
-                    f"({key_file}); it is not used")
+            return (
+                f"its signature does not match device {e.device}'s registered key "
+                f"({key_file}); it is not used"
+            )
         return None
     if record is not None and e.seq >= record.signed_from:
-        return (f"unsigned, yet device {e.device} signs every entry from number "
-                f"{record.signed_from} ({key_file}); it is not used")
+        return (
+            f"unsigned, yet device {e.device} signs every entry from number "
+            f"{record.signed_from} ({key_file}); it is not used"
+        )
     if e.device in first_signed and first_signed[e.device] < e.seq:
-        return (f"unsigned, yet device {e.device} signed an earlier entry "
-                f"({e.device}.{first_signed[e.device]}); it is not used")
+        return (
+            f"unsigned, yet device {e.device} signed an earlier entry "
+            f"({e.device}.{first_signed[e.device]}); it is not used"
+        )
     if record is None and registry.in_use and (began is None or e.day > began):
-        return (f"device {e.device} has no registered key ({key_file}), and this site's "
-                f"devices sign their entries since {began}; it is not used")
+        return (
+            f"device {e.device} has no registered key ({key_file}), and this site's "
+            f"devices sign their entries since {began}; it is not used"
+        )
     return None

@@ -64,10 +64,9 @@ def write_error(path: Path, exc: OSError, what: str = "write") -> JournalError:
         errno.EACCES: "check the folder's permissions, then try again",
         errno.EPERM: "check the folder's permissions, then try again",
         errno.ELOOP: "replace the link with the real folder or file (it may have been planted "
-                     "to make fieldlog write elsewhere)",
+        "to make fieldlog write elsewhere)",
     }.get(exc.errno or 0, "check the disk, then record the entry again")
-    return JournalError(f"cannot {what}: {reason}; the log was left as it was",
-                        file=path, fix=fix)
+    return JournalError(f"cannot {what}: {reason}; the log was left as it was", file=path, fix=fix)
 
 
 @contextlib.contextmanager
@@ -88,7 +87,8 @@ def device_lock(log_dir: Path, device: str, timeout: float = LOCK_TIMEOUT) -> It
         while not _try_lock(fd):
             if time.monotonic() > deadline:
                 raise JournalError(
-                    "another fieldlog is still writing this log", file=path,
+                    "another fieldlog is still writing this log",
+                    file=path,
                     fix="wait for it to finish, then record the entry again",
                 )
             time.sleep(0.005)
@@ -154,8 +154,7 @@ def atomic_write(path: Path, data: bytes) -> None:
     folder = path.parent
     try:
         refuse_links(folder, path)
-        fd, tmp = tempfile.mkstemp(prefix=temp_prefix(path.name), suffix=TEMP_SUFFIX,
-                                   dir=folder)
+        fd, tmp = tempfile.mkstemp(prefix=temp_prefix(path.name), suffix=TEMP_SUFFIX, dir=folder)
     except OSError as exc:
         raise write_error(path, exc) from exc
     try:

@@ -155,8 +155,9 @@ def build_lookahead(
     first = start or result.data_date
     window_days = tuple(first + timedelta(days=k) for k in range(days))
     window = Window(first.toordinal(), days, result.data_date.toordinal())
-    working = {name: tuple(c.is_working(d) for d in window_days)
-               for name, c in result.calendars.items()}
+    working = {
+        name: tuple(c.is_working(d) for d in window_days) for name, c in result.calendars.items()
+    }
     cache = PatternCache(window, working)
     writer = ReasonWriter(result, readiness)
     site = result.site
@@ -177,8 +178,9 @@ def build_lookahead(
         tf, late_start, late_finish = r.total_float, r.late_start, r.late_finish
         # Only finished work (skipped above) has no late dates and no float.
         assert tf is not None and late_start is not None and late_finish is not None
-        pattern = cache.get(r.calendar, r.early_start, r.early_finish, late_start,
-                            late_finish, tf < 0)
+        pattern = cache.get(
+            r.calendar, r.early_start, r.early_finish, late_start, late_finish, tf < 0
+        )
         kinds = pattern.kinds
         reasons = [text(r, kind) for kind in kinds]
         if tf < 0 and Why.LATE not in kinds:
@@ -193,14 +195,36 @@ def build_lookahead(
                     reasons.append(note)
             reasons.extend(flags)
         crew = crews[r.id]
-        rows.append(ActivityRow.from_fields(
-            r.id, r.name, r.status, r.calendar, r.remaining, r.early_start, r.early_finish,
-            late_start, late_finish, tf, r.free_float, r.critical, pattern.cells,
-            tuple(reasons), pattern.index, flags, crew,
-        ))
+        rows.append(
+            ActivityRow.from_fields(
+                r.id,
+                r.name,
+                r.status,
+                r.calendar,
+                r.remaining,
+                r.early_start,
+                r.early_finish,
+                late_start,
+                late_finish,
+                tf,
+                r.free_float,
+                r.critical,
+                pattern.cells,
+                tuple(reasons),
+                pattern.index,
+                flags,
+                crew,
+            )
+        )
         if crew and pattern.active:
-            work.append(CrewWork(crew, pattern.cells, r.early_start.toordinal() - first_o,
-                                 r.early_finish.toordinal() - first_o))
+            work.append(
+                CrewWork(
+                    crew,
+                    pattern.cells,
+                    r.early_start.toordinal() - first_o,
+                    r.early_finish.toordinal() - first_o,
+                )
+            )
     rows.sort(key=attrgetter("early_start", "total_float", "id"))
     finished.sort(key=lambda f: (f.actual_finish, f.id))
     loads = crew_loads(work, site.crews, days)
@@ -208,18 +232,29 @@ def build_lookahead(
     levelling = None
     over = [load.crew for load in loads if load.over_early]
     if suggest_levelling and over:
-        levelling = level(result, window_days, over, {load.crew: load.early for load in loads},
-                          rows)
+        levelling = level(
+            result, window_days, over, {load.crew: load.early for load in loads}, rows
+        )
         loads = tuple(_with_levelled(load, levelling.window_load) for load in loads)
     fewest = None
     if suggest_fewest:
-        fewest = fewest_people(result, window_days,
-                               {load.crew: max(load.early, default=0) for load in loads}, rows)
+        fewest = fewest_people(
+            result, window_days, {load.crew: max(load.early, default=0) for load in loads}, rows
+        )
     return Lookahead(
-        site=site.name, revision=site.revision, as_of=result.as_of, data_date=result.data_date,
-        days=window_days, finish=result.finish, finish_by=site.finish_by,
-        finish_float=result.finish_float, rows=tuple(rows), finished=tuple(finished),
-        crews=loads, levelling=levelling, fewest=fewest,
+        site=site.name,
+        revision=site.revision,
+        as_of=result.as_of,
+        data_date=result.data_date,
+        days=window_days,
+        finish=result.finish,
+        finish_by=site.finish_by,
+        finish_float=result.finish_float,
+        rows=tuple(rows),
+        finished=tuple(finished),
+        crews=loads,
+        levelling=levelling,
+        fewest=fewest,
     )
 
 

@@ -198,7 +198,14 @@ class PatternCache:
         found = self._seen.get(key)
         if found is None:
             # Classify with the clamped dates: the same result on every window day.
-            found = classify(self._working[calendar], self._window, es.toordinal(),
-                             ef.toordinal(), ls.toordinal(), lf.toordinal(), late)
+            found = classify(
+                self._working[calendar],
+                self._window,
+                es.toordinal(),
+                ef.toordinal(),
+                ls.toordinal(),
+                lf.toordinal(),
+                late,
+            )
             self._seen[key] = found
         return found

@@ -59,8 +59,9 @@ class CrewWork:
     """Window index of the early finish (may be outside the window)."""
 
 
-def crew_loads(work: Iterable[CrewWork], crews: Mapping[str, Crew], days: int) -> tuple[
-        CrewLoad, ...]:
+def crew_loads(
+    work: Iterable[CrewWork], crews: Mapping[str, Crew], days: int
+) -> tuple[CrewLoad, ...]:
     """Must, most and early headcount per crew over ``days`` window days."""
     must = {c: [0] * days for c in crews}
     most = {c: [0] * days for c in crews}

@@ -74,10 +74,12 @@ def lower_bound(problem: Problem, crew: str) -> LowerBound:
     work_prefix = np.concatenate(([0], np.cumsum(can_work.astype(np.int64))))
     if rates:
         r = np.asarray(rates, dtype=np.int64)[:, None]
-        ep = np.concatenate((np.zeros((len(rates), 1), np.int64),
-                             np.cumsum(np.asarray(early_rows), axis=1)), axis=1)
-        lp = np.concatenate((np.zeros((len(rates), 1), np.int64),
-                             np.cumsum(np.asarray(late_rows), axis=1)), axis=1)
+        ep = np.concatenate(
+            (np.zeros((len(rates), 1), np.int64), np.cumsum(np.asarray(early_rows), axis=1)), axis=1
+        )
+        lp = np.concatenate(
+            (np.zeros((len(rates), 1), np.int64), np.cumsum(np.asarray(late_rows), axis=1)), axis=1
+        )
     for a in range(n):
         ends = np.arange(a + 1, n + 1)
         energy = fixed_prefix[ends] - fixed_prefix[a]
@@ -92,8 +94,9 @@ def lower_bound(problem: Problem, crew: str) -> LowerBound:
             # report the span from its first to its last day the crew can work
             span = [d for d in range(a, a + k + 1) if can_work[d]]
             lo, hi = span[0], span[-1]
-            best = LowerBound(int(need[k]), "must" if lo == hi else "energy", lo, hi,
-                              int(energy[k]), int(days[k]))
+            best = LowerBound(
+                int(need[k]), "must" if lo == hi else "energy", lo, hi, int(energy[k]), int(days[k])
+            )
     if single > best.people:
         best = LowerBound(single, "headcount", 0, n - 1, single, 1)
     return best

@@ -105,9 +105,15 @@ def near_headcount(available: int, early_peak: int) -> bool:
     return early_peak > 0 and early_peak >= available - max(1, -(-available // 10))
 
 
-def fewest_people(result: ScheduleResult, days: Sequence[date], early_peaks: Mapping[str, int],
-                  open_by_start: Sequence, *, budget: int = NODE_BUDGET,
-                  network: Network | None = None) -> FewestPeople | None:
+def fewest_people(
+    result: ScheduleResult,
+    days: Sequence[date],
+    early_peaks: Mapping[str, int],
+    open_by_start: Sequence,
+    *,
+    budget: int = NODE_BUDGET,
+    network: Network | None = None,
+) -> FewestPeople | None:
     """The fewest-people plan for the crews over or near their headcount (None: no such crew).
 
     Args:
@@ -121,8 +127,10 @@ def fewest_people(result: ScheduleResult, days: Sequence[date], early_peaks: Map
     if budget < 0:
         raise ValueError(f"the search budget cannot be negative, got {budget}")
     available = {c: k.available for c, k in result.site.crews.items()}
-    targets = sorted((c for c in available if near_headcount(available[c], early_peaks.get(c, 0))),
-                     key=lambda c: (available[c] - early_peaks.get(c, 0), c))
+    targets = sorted(
+        (c for c in available if near_headcount(available[c], early_peaks.get(c, 0))),
+        key=lambda c: (available[c] - early_peaks.get(c, 0), c),
+    )
     if not targets:
         return None
     problem = build_problem(result, days, open_by_start, network)
@@ -151,13 +159,19 @@ def fewest_people(result: ScheduleResult, days: Sequence[date], early_peaks: Map
     final = loads_of(problem, plan)
     return FewestPeople(
         METHOD,
-        tuple(CrewAnswer(c, available[c], e, p, b, o, tuple(final[c]))
-              for c, e, p, b, o in answers),
-        _moves(problem, plan), budget - left, budget, result.finish)
+        tuple(
+            CrewAnswer(c, available[c], e, p, b, o, tuple(final[c])) for c, e, p, b, o in answers
+        ),
+        _moves(problem, plan),
+        budget - left,
+        budget,
+        result.finish,
+    )
 
 
-def _try(problem: Problem, caps: Mapping[str, int], plan: tuple[int, ...],
-         left: int) -> tuple[tuple[int, ...] | None, bool, int]:
+def _try(
+    problem: Problem, caps: Mapping[str, int], plan: tuple[int, ...], left: int
+) -> tuple[tuple[int, ...] | None, bool, int]:
     """One probe at ``caps``, in rounds of growing size until the budget is spent: the branch
     and bound (it ends easy cases, and proves when no plan exists), then the repair search
     from ``plan`` with a fresh seed. Small windows end in the first rounds; busy ones get
@@ -202,7 +216,16 @@ def _moves(problem: Problem, plan: Sequence[int]) -> tuple[Move, ...]:
             continue
         p = problem.placed[m.id]
         s = m.starts[k]
-        moves.append(Move(m.id, p.result.name, p.result.early_start, p.first_day(s),
-                                 p.last_day(s), k, dict(m.crew)))
+        moves.append(
+            Move(
+                m.id,
+                p.result.name,
+                p.result.early_start,
+                p.first_day(s),
+                p.last_day(s),
+                k,
+                dict(m.crew),
+            )
+        )
     moves.sort(key=lambda mv: (mv.start, mv.activity))
     return tuple(moves)

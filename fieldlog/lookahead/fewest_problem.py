@@ -74,8 +74,12 @@ class Problem:
     """The movable activities as :class:`Placed` values, to turn starts back into dates."""
 
 
-def build_problem(result: ScheduleResult, days: Sequence[date],
-                  open_by_start: Sequence, network: Network | None = None) -> Problem:
+def build_problem(
+    result: ScheduleResult,
+    days: Sequence[date],
+    open_by_start: Sequence,
+    network: Network | None = None,
+) -> Problem:
     """The movable work of ``result`` over the window ``days`` (see the module docstring).
 
     Args:
@@ -89,8 +93,9 @@ def build_problem(result: ScheduleResult, days: Sequence[date],
     first, n = days[0].toordinal(), len(days)
     window_end = days[-1]
     after_window = window_end + timedelta(days=1)
-    finish_cap = {name: c.pos(result.finish + timedelta(days=1))
-                  for name, c in result.calendars.items()}
+    finish_cap = {
+        name: c.pos(result.finish + timedelta(days=1)) for name, c in result.calendars.items()
+    }
     crews = tuple(site.crews)
 
     def crew_of(aid: str) -> dict[str, int]:
@@ -98,7 +103,7 @@ def build_problem(result: ScheduleResult, days: Sequence[date],
 
     def window_run(p: Placed, start: int) -> tuple[int, ...]:
         work = p.calendar.work
-        return tuple(o - first for o in work[start:start + p.duration] if 0 <= o - first < n)
+        return tuple(o - first for o in work[start : start + p.duration] if 0 <= o - first < n)
 
     fixed = {c: [0] * n for c in crews}
     latest: dict[str, int] = {}
@@ -106,7 +111,7 @@ def build_problem(result: ScheduleResult, days: Sequence[date],
         if r.early_start > window_end:
             break
         p = net[r.id]
-        if (r.status is Status.NOT_STARTED and r.total_float is not None and r.total_float > 0):
+        if r.status is Status.NOT_STARTED and r.total_float is not None and r.total_float > 0:
             end = finish_cap[r.calendar] - (0 if p.end_after else 1)
             top = min(p.late_start, end - p.duration, p.calendar.pos(after_window))
             if top > p.start:
@@ -117,8 +122,9 @@ def build_problem(result: ScheduleResult, days: Sequence[date],
                 fixed[c][d] += k
 
     order, _ = topological_order(
-        list(latest), ((lk.pred, lk.succ) for lk in site.links
-                       if lk.pred in latest and lk.succ in latest))
+        list(latest),
+        ((lk.pred, lk.succ) for lk in site.links if lk.pred in latest and lk.succ in latest),
+    )
     _pull_in_latest(order, latest, net)
 
     index = {aid: k for k, aid in enumerate(order)}
@@ -126,17 +132,27 @@ def build_problem(result: ScheduleResult, days: Sequence[date],
     for aid in order:
         p = net[aid]
         starts = tuple(range(p.start, latest[aid] + 1))
-        movables.append(Movable(aid, crew_of(aid), starts,
-                                tuple(window_run(p, s) for s in starts)))
+        movables.append(Movable(aid, crew_of(aid), starts, tuple(window_run(p, s) for s in starts)))
     ties = []
     for aid in order:
         for lk in net.out_links(aid):
             if lk.succ in index:
-                ties.append(Tie(index[aid], index[lk.succ],
-                                tuple(net.bound(lk, s) for s in movables[index[aid]].starts)))
-    return Problem(n, crews, {c: site.crews[c].available for c in crews},
-                   {c: tuple(v) for c, v in fixed.items()}, tuple(movables), tuple(ties),
-                   {aid: net[aid] for aid in order})
+                ties.append(
+                    Tie(
+                        index[aid],
+                        index[lk.succ],
+                        tuple(net.bound(lk, s) for s in movables[index[aid]].starts),
+                    )
+                )
+    return Problem(
+        n,
+        crews,
+        {c: site.crews[c].available for c in crews},
+        {c: tuple(v) for c, v in fixed.items()},
+        tuple(movables),
+        tuple(ties),
+        {aid: net[aid] for aid in order},
+    )
 
 
 def _pull_in_latest(order: list[str], latest: dict[str, int], net: Network) -> None:

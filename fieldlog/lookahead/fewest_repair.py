@@ -26,8 +26,9 @@ RANDOM_MOVE = 0.1
 SEED = 20_260_301
 
 
-def repair(problem: Problem, caps: Mapping[str, int], plan: Sequence[int],
-           budget: int, round_no: int = 0) -> tuple[tuple[int, ...] | None, int]:
+def repair(
+    problem: Problem, caps: Mapping[str, int], plan: Sequence[int], budget: int, round_no: int = 0
+) -> tuple[tuple[int, ...] | None, int]:
     """A plan within ``caps`` found by sliding starts from ``plan``, and the starts weighed.
 
     ``round_no`` varies the fixed seed, so a retry walks another way. Returns

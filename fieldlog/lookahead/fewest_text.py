@@ -17,18 +17,21 @@ from fieldlog.lookahead.reasons import date_text, working_days
 
 def title(fewest: FewestPeople) -> str:
     """The heading line of the section."""
-    return (f"Fewest people on the window's busiest day, keeping every link, every late "
-            f"finish and the forecast finish {date_text(fewest.finish)}:")
+    return (
+        f"Fewest people on the window's busiest day, keeping every link, every late "
+        f"finish and the forecast finish {date_text(fewest.finish)}:"
+    )
 
 
 def crew_line(answer: CrewAnswer) -> str:
     """``groundworks: 8 people, optimal (has 10; 12 if all work starts early)``."""
     people = _people(answer.peak)
-    proof = ("optimal" if answer.optimal
-             else f"no plan needs fewer than {answer.bound.people}")
+    proof = "optimal" if answer.optimal else f"no plan needs fewer than {answer.bound.people}"
     sep = ", " if answer.optimal else "; "
-    return (f"{answer.crew}: {people}{sep}{proof} (has {answer.available}; "
-            f"{answer.early_peak} if all work starts early)")
+    return (
+        f"{answer.crew}: {people}{sep}{proof} (has {answer.available}; "
+        f"{answer.early_peak} if all work starts early)"
+    )
 
 
 def moves_line(fewest: FewestPeople) -> str:
@@ -36,8 +39,7 @@ def moves_line(fewest: FewestPeople) -> str:
     crews = ", ".join(f"{a.crew} {a.peak}" for a in fewest.crews)
     if not fewest.moves:
         return f"With {crews}: every start stays on its early date."
-    moves = ", ".join(f"{m.activity} ({m.name}) to {date_text(m.start)}"
-                      for m in fewest.moves)
+    moves = ", ".join(f"{m.activity} ({m.name}) to {date_text(m.start)}" for m in fewest.moves)
     return f"With {crews}: move {moves}."
 
 
@@ -45,13 +47,17 @@ def bound_line(answer: CrewAnswer, days: tuple[date, ...]) -> str | None:
     """What the crew's lower bound rests on, in a foreman's words (None: nothing to say)."""
     b: LowerBound = answer.bound
     if b.reason == "must":
-        return (f"{answer.crew}: work that cannot move needs {_people(b.people)} on "
-                f"{date_text(days[b.first])}.")
+        return (
+            f"{answer.crew}: work that cannot move needs {_people(b.people)} on "
+            f"{date_text(days[b.first])}."
+        )
     if b.reason == "energy":
-        return (f"{answer.crew}: {b.person_days} person-days must fall between "
-                f"{date_text(days[b.first])} and {date_text(days[b.last])}, on "
-                f"{working_days(b.work_days)} the crew can work: at least "
-                f"{_people(b.people)} a day.")
+        return (
+            f"{answer.crew}: {b.person_days} person-days must fall between "
+            f"{date_text(days[b.first])} and {date_text(days[b.last])}, on "
+            f"{working_days(b.work_days)} the crew can work: at least "
+            f"{_people(b.people)} a day."
+        )
     if b.reason == "headcount":
         return f"{answer.crew}: one activity alone needs {_people(b.people)}."
     return None
@@ -63,8 +69,10 @@ def search_line(fewest: FewestPeople) -> str:
         if not fewest.nodes:
             return "Every answer meets its lower bound: none can be smaller."
         return f"Every answer proven optimal ({fewest.nodes} starts tried)."
-    return (f"The search stopped at its limit of {fewest.budget} starts tried: the plan is "
-            "the best found, and the bound is what is proven.")
+    return (
+        f"The search stopped at its limit of {fewest.budget} starts tried: the plan is "
+        "the best found, and the bound is what is proven."
+    )
 
 
 def lines(fewest: FewestPeople, days: tuple[date, ...]) -> list[str]:

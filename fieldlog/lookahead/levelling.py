@@ -104,9 +104,13 @@ class OpenWork(Protocol):
     def total_float(self) -> int | None: ...
 
 
-def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str],
-          early_load: Mapping[str, Sequence[int]],
-          open_by_start: Sequence[OpenWork] | None = None) -> Levelling:
+def level(
+    result: ScheduleResult,
+    days: Sequence[date],
+    over_crews: Sequence[str],
+    early_load: Mapping[str, Sequence[int]],
+    open_by_start: Sequence[OpenWork] | None = None,
+) -> Levelling:
     """Suggest later starts that flatten the crews' daily headcount.
 
     Args:
@@ -122,8 +126,9 @@ def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str
         The moves (possibly none) and the headcount they give.
     """
     if open_by_start is None:
-        open_by_start = sorted((r for r in result.activities if r.is_open),
-                               key=attrgetter("early_start"))
+        open_by_start = sorted(
+            (r for r in result.activities if r.is_open), key=attrgetter("early_start")
+        )
     site = result.site
     net = Network(result)
     crews_of = _CrewsOf(site)
@@ -143,8 +148,12 @@ def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str
         assert r.total_float is not None  # open work always has a float
         if r.early_start > window_end:
             break
-        if (r.status is Status.NOT_STARTED and r.remaining > 0 and r.total_float > 0
-                and not over.isdisjoint(crews_of[r.id])):
+        if (
+            r.status is Status.NOT_STARTED
+            and r.remaining > 0
+            and r.total_float > 0
+            and not over.isdisjoint(crews_of[r.id])
+        ):
             p = net[r.id]
             top = min(latest(p), p.calendar.pos(after_window))
             if top > p.start:
@@ -160,8 +169,14 @@ def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str
 
     # Daily headcount per crew over every day a movable activity could occupy.
     lo = min(net[a].result.early_start.toordinal() for a in movable)
-    hi = max([net[a].calendar.day_ordinal(limit[a] + net[a].duration - 1)
-              for a in movable if net[a].duration > 0], default=lo)
+    hi = max(
+        [
+            net[a].calendar.day_ordinal(limit[a] + net[a].duration - 1)
+            for a in movable
+            if net[a].duration > 0
+        ],
+        default=lo,
+    )
     load = {c: [0] * (hi - lo + 1) for c in site.crews}
     first_day, last_day = date.fromordinal(lo), date.fromordinal(hi)
     for r in open_by_start:
@@ -188,8 +203,9 @@ def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str
         return s
 
     order_ids, _ = topological_order(
-        sorted(movable), ((lk.pred, lk.succ) for lk in site.links
-                          if lk.pred in movable and lk.succ in movable))
+        sorted(movable),
+        ((lk.pred, lk.succ) for lk in site.links if lk.pred in movable and lk.succ in movable),
+    )
     order = list(reversed(order_ids))  # last first
     seed_set = set(seeds)
     passes = 0
@@ -219,8 +235,17 @@ def level(result: ScheduleResult, days: Sequence[date], over_crews: Sequence[str
     after = _squares(load)
     if after >= before:
         return _result(over_crews, {}, net, crews_of, days, early_load, before, before, passes)
-    return _result(over_crews, {a: pos[a] for a in order_ids}, net, crews_of, days,
-                   early_load, before, after, passes)
+    return _result(
+        over_crews,
+        {a: pos[a] for a in order_ids},
+        net,
+        crews_of,
+        days,
+        early_load,
+        before,
+        after,
+        passes,
+    )
 
 
 class _CrewsOf:
@@ -238,8 +263,9 @@ class _CrewsOf:
         return crew
 
 
-def _helpers(seeds: list[str], net: Network, latest, limit: dict[str, int],
-             crews_of: _CrewsOf) -> list[str]:
+def _helpers(
+    seeds: list[str], net: Network, latest, limit: dict[str, int], crews_of: _CrewsOf
+) -> list[str]:
     """Crew-less work not started, downstream of the seeds, that the seeds can push.
 
     Only those can be in a seed's way; everything else stays on its early dates and is
@@ -268,13 +294,15 @@ def _highest(links: list, lo_k: int, hi_k: int, net: Network, pos: dict[str, int
     the start, so the first start that breaks one ends the search)."""
     s = lo_k
     while s < hi_k and all(
-            net.bound(lk, s + 1) <= pos.get(lk.succ, net[lk.succ].start) for lk in links):
+        net.bound(lk, s + 1) <= pos.get(lk.succ, net[lk.succ].start) for lk in links
+    ):
         s += 1
     return s
 
 
-def _best_start(load, crew, p: Placed, lo_k: int, hi_k: int, current: int,
-                origin: int) -> tuple[int, int, int]:
+def _best_start(
+    load, crew, p: Placed, lo_k: int, hi_k: int, current: int, origin: int
+) -> tuple[int, int, int]:
     """Start in ``[lo_k, hi_k]`` adding least to the sum of squares (ties: the latest).
 
     Adding ``r`` people on days with ``L`` already booked adds ``2 r L + r^2`` per day, and the
@@ -295,9 +323,10 @@ def _best_start(load, crew, p: Placed, lo_k: int, hi_k: int, current: int,
     return best, best_cost, here
 
 
-def _add(load, crew, work: Sequence[int], start: int, duration: int, lo: int, hi: int,
-         sign: int) -> None:
-    for o in work[start:start + duration]:
+def _add(
+    load, crew, work: Sequence[int], start: int, duration: int, lo: int, hi: int, sign: int
+) -> None:
+    for o in work[start : start + duration]:
         if lo <= o <= hi:
             for c, r in crew.items():
                 load[c][o - lo] += sign * r
@@ -307,8 +336,17 @@ def _squares(load: Mapping[str, list[int]]) -> int:
     return sum(v * v for row in load.values() for v in row)
 
 
-def _result(over_crews, starts: Mapping[str, int], net: Network, crews_of, days, early_load,
-            before: int, after: int, passes: int) -> Levelling:
+def _result(
+    over_crews,
+    starts: Mapping[str, int],
+    net: Network,
+    crews_of,
+    days,
+    early_load,
+    before: int,
+    after: int,
+    passes: int,
+) -> Levelling:
     first = days[0].toordinal()
     n = len(days)
     window = {c: list(v) for c, v in early_load.items()}
@@ -318,13 +356,29 @@ def _result(over_crews, starts: Mapping[str, int], net: Network, crews_of, days,
         if s == p.start:
             continue
         crew = crews_of[aid]
-        moves.append(Move(aid, p.result.name, p.result.early_start, p.first_day(s),
-                          p.last_day(s), s - p.start, dict(crew)))
+        moves.append(
+            Move(
+                aid,
+                p.result.name,
+                p.result.early_start,
+                p.first_day(s),
+                p.last_day(s),
+                s - p.start,
+                dict(crew),
+            )
+        )
         for k, sign in ((p.start, -1), (s, +1)):
-            for o in p.calendar.work[k:k + p.duration]:
+            for o in p.calendar.work[k : k + p.duration]:
                 if 0 <= o - first < n:
                     for c, r in crew.items():
                         window[c][o - first] += sign * r
     moves.sort(key=lambda m: (m.start, m.activity))
-    return Levelling(METHOD, tuple(over_crews), tuple(moves), before, after, passes,
-                     {c: tuple(v) for c, v in window.items()})
+    return Levelling(
+        METHOD,
+        tuple(over_crews),
+        tuple(moves),
+        before,
+        after,
+        passes,
+        {c: tuple(v) for c, v in window.items()},
+    )

@@ -82,8 +82,15 @@ def place_one(r: ActivityResult, calendar: WorkCalendar) -> Placed:
     assert r.early_start is not None and r.late_start is not None
     after = r.remaining == 0 and r.after_work
     actual = calendar.pos(r.actual_start) if r.actual_start is not None else None
-    return Placed(r, calendar, start_point(calendar, r.early_start, after), r.remaining,
-                  start_point(calendar, r.late_start, after), actual, after)
+    return Placed(
+        r,
+        calendar,
+        start_point(calendar, r.early_start, after),
+        r.remaining,
+        start_point(calendar, r.late_start, after),
+        actual,
+        after,
+    )
 
 
 class Network:

@@ -113,8 +113,7 @@ class ReasonWriter:
             if items:
                 item = max(items, key=lambda i: (i.expected, i.what))
                 assert item.expected is not None  # only an item with a date holds work back
-                return (f"needs {item.what}, expected {date_text(item.expected)}; "
-                        f"{earliest}")
+                return f"needs {item.what}, expected {date_text(item.expected)}; {earliest}"
             return f"held back by an open readiness item; {earliest}"
         if what == "start not before":
             snb = self._site.activity(r.id).start_not_before
@@ -130,9 +129,11 @@ class ReasonWriter:
 
     def _late(self, r: ActivityResult) -> str:
         assert r.total_float is not None and r.late_finish is not None
-        return (f"late: {working_days(-r.total_float)} behind; every day it can run up to "
-                f"{date_text(r.early_finish)} must be worked (late finish was "
-                f"{date_text(r.late_finish)})")
+        return (
+            f"late: {working_days(-r.total_float)} behind; every day it can run up to "
+            f"{date_text(r.early_finish)} must be worked (late finish was "
+            f"{date_text(r.late_finish)})"
+        )
 
     def _link_text(self, link: Link) -> str:
         pred = self._result.by_id.get(link.pred)
@@ -149,6 +150,8 @@ class ReasonWriter:
         assert tf is not None and r.late_start is not None and r.late_finish is not None
         text = f"{working_days(tf)} of float"
         if r.status is Status.IN_PROGRESS:
-            return f"{text}: the remaining {working_days(r.remaining)} must finish by " \
-                   f"{date_text(r.late_finish)}"
+            return (
+                f"{text}: the remaining {working_days(r.remaining)} must finish by "
+                f"{date_text(r.late_finish)}"
+            )
         return f"{text}: start by {date_text(r.late_start)}, finish by {date_text(r.late_finish)}"

@@ -29,8 +29,17 @@ from fieldlog.lookahead.fewest_people import CAUTION, FewestPeople
 from fieldlog.lookahead.levelling import Levelling
 
 CSV_COLUMNS = (
-    "day", "id", "name", "cell", "reason", "total_float", "late", "not_ready", "early_start",
-    "late_finish", "fewest_people_start",
+    "day",
+    "id",
+    "name",
+    "cell",
+    "reason",
+    "total_float",
+    "late",
+    "not_ready",
+    "early_start",
+    "late_finish",
+    "fewest_people_start",
 )
 """``fewest_people_start`` (added last, so older readers keep working): the start day the
 fewest-people plan gives the activity when it moves it, else empty."""
@@ -43,21 +52,35 @@ def _iso(d: date | None) -> str | None:
 def activity_json(row: ActivityRow) -> dict:
     """One activity of the lookahead as JSON."""
     return {
-        "id": row.id, "name": row.name, "status": row.status.value, "calendar": row.calendar,
-        "cells": [c.value for c in row.cells], "reasons": list(row.reasons),
-        "cell_reasons": list(row.why), "late": row.late, "total_float": row.total_float,
-        "free_float": row.free_float, "critical": row.critical, "remaining": row.remaining,
-        "early_start": _iso(row.early_start), "early_finish": _iso(row.early_finish),
-        "late_start": _iso(row.late_start), "late_finish": _iso(row.late_finish),
-        "not_ready": list(row.not_ready), "crew": dict(row.crew),
+        "id": row.id,
+        "name": row.name,
+        "status": row.status.value,
+        "calendar": row.calendar,
+        "cells": [c.value for c in row.cells],
+        "reasons": list(row.reasons),
+        "cell_reasons": list(row.why),
+        "late": row.late,
+        "total_float": row.total_float,
+        "free_float": row.free_float,
+        "critical": row.critical,
+        "remaining": row.remaining,
+        "early_start": _iso(row.early_start),
+        "early_finish": _iso(row.early_finish),
+        "late_start": _iso(row.late_start),
+        "late_finish": _iso(row.late_finish),
+        "not_ready": list(row.not_ready),
+        "crew": dict(row.crew),
     }
 
 
 def crew_json(load: CrewLoad, days: tuple[date, ...]) -> dict:
     """One crew's load as JSON, with the days it is over its headcount."""
     return {
-        "crew": load.crew, "available": load.available,
-        "must": list(load.must), "most": list(load.most), "early_start": list(load.early),
+        "crew": load.crew,
+        "available": load.available,
+        "must": list(load.must),
+        "most": list(load.most),
+        "early_start": list(load.early),
         "levelled": list(load.levelled) if load.levelled is not None else None,
         "over_days_must": _over_days(days, load.over(load.must)),
         "over_days_early_start": _over_days(days, load.over(load.early)),
@@ -73,12 +96,23 @@ def levelling_json(lev: Levelling | None) -> dict | None:
     if lev is None:
         return None
     return {
-        "method": lev.method, "crews": list(lev.crews), "passes": lev.passes,
+        "method": lev.method,
+        "crews": list(lev.crews),
+        "passes": lev.passes,
         "sum_of_squares_before": lev.sum_of_squares_before,
         "sum_of_squares_after": lev.sum_of_squares_after,
-        "moves": [{"id": m.activity, "name": m.name, "early_start": _iso(m.early_start),
-                   "start": _iso(m.start), "finish": _iso(m.finish),
-                   "float_used": m.float_used, "crew": dict(m.crew)} for m in lev.moves],
+        "moves": [
+            {
+                "id": m.activity,
+                "name": m.name,
+                "early_start": _iso(m.early_start),
+                "start": _iso(m.start),
+                "finish": _iso(m.finish),
+                "float_used": m.float_used,
+                "crew": dict(m.crew),
+            }
+            for m in lev.moves
+        ],
     }
 
 
@@ -87,32 +121,66 @@ def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | N
     if fewest is None:
         return None
     return {
-        "method": fewest.method, "finish": _iso(fewest.finish), "nodes": fewest.nodes,
-        "budget": fewest.budget, "caution": CAUTION,
-        "crews": [{"crew": a.crew, "available": a.available, "early_peak": a.early_peak,
-                   "people": a.peak, "optimal": a.optimal, "lower_bound": a.bound.people,
-                   "bound_reason": a.bound.reason, "bound_from": _iso(days[a.bound.first]),
-                   "bound_to": _iso(days[a.bound.last]),
-                   "bound_person_days": a.bound.person_days,
-                   "bound_work_days": a.bound.work_days, "load": list(a.load)}
-                  for a in fewest.crews],
-        "moves": [{"id": m.activity, "name": m.name, "early_start": _iso(m.early_start),
-                   "start": _iso(m.start), "finish": _iso(m.finish),
-                   "float_used": m.float_used, "crew": dict(m.crew)} for m in fewest.moves],
+        "method": fewest.method,
+        "finish": _iso(fewest.finish),
+        "nodes": fewest.nodes,
+        "budget": fewest.budget,
+        "caution": CAUTION,
+        "crews": [
+            {
+                "crew": a.crew,
+                "available": a.available,
+                "early_peak": a.early_peak,
+                "people": a.peak,
+                "optimal": a.optimal,
+                "lower_bound": a.bound.people,
+                "bound_reason": a.bound.reason,
+                "bound_from": _iso(days[a.bound.first]),
+                "bound_to": _iso(days[a.bound.last]),
+                "bound_person_days": a.bound.person_days,
+                "bound_work_days": a.bound.work_days,
+                "load": list(a.load),
+            }
+            for a in fewest.crews
+        ],
+        "moves": [
+            {
+                "id": m.activity,
+                "name": m.name,
+                "early_start": _iso(m.early_start),
+                "start": _iso(m.start),
+                "finish": _iso(m.finish),
+                "float_used": m.float_used,
+                "crew": dict(m.crew),
+            }
+            for m in fewest.moves
+        ],
     }
 
 
 def lookahead_json(la: Lookahead) -> dict:
     """The ``fieldlog lookahead --format json`` document."""
     return {
-        "site": la.site, "revision": la.revision, "as_of": la.as_of.isoformat(),
-        "data_date": la.data_date.isoformat(), "from": la.days[0].isoformat(),
-        "to": la.days[-1].isoformat(), "days": [d.isoformat() for d in la.days],
-        "finish": la.finish.isoformat(), "finish_by": _iso(la.finish_by),
+        "site": la.site,
+        "revision": la.revision,
+        "as_of": la.as_of.isoformat(),
+        "data_date": la.data_date.isoformat(),
+        "from": la.days[0].isoformat(),
+        "to": la.days[-1].isoformat(),
+        "days": [d.isoformat() for d in la.days],
+        "finish": la.finish.isoformat(),
+        "finish_by": _iso(la.finish_by),
         "finish_float": la.finish_float,
         "activities": [activity_json(row) for row in la.rows],
-        "finished": [{"id": f.id, "name": f.name, "actual_start": _iso(f.actual_start),
-                      "actual_finish": _iso(f.actual_finish)} for f in la.finished],
+        "finished": [
+            {
+                "id": f.id,
+                "name": f.name,
+                "actual_start": _iso(f.actual_start),
+                "actual_finish": _iso(f.actual_finish),
+            }
+            for f in la.finished
+        ],
         "crews": [crew_json(load, la.days) for load in la.crews],
         "levelling": levelling_json(la.levelling),
         "fewest_people": fewest_json(la.fewest, la.days),
@@ -155,7 +223,19 @@ def render_csv(la: Lookahead) -> str:
         reasons = row.reasons
         start = moved.get(row.id, "")
         w.writerows(
-            (day, row.id, row.name, cell.value, reasons[k] if k is not None else "",
-             row.total_float, late, not_ready, es, lf, start)
-            for day, cell, k in zip(days, row.cells, row.why, strict=True))
+            (
+                day,
+                row.id,
+                row.name,
+                cell.value,
+                reasons[k] if k is not None else "",
+                row.total_float,
+                late,
+                not_ready,
+                es,
+                lf,
+                start,
+            )
+            for day, cell, k in zip(days, row.cells, row.why, strict=True)
+        )
     return buf.getvalue()

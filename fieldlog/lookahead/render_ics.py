@@ -29,9 +29,11 @@ PRODID = "-//fieldlog//two-week lookahead//EN"
 UID_DOMAIN = "fieldlog.invalid"
 """RFC 2606 reserves ``.invalid``: the UIDs can never collide with a real domain's."""
 SEQUENCE_EPOCH = date(2000, 1, 1)
-CAUTION = ("A schedule is a plan, not a permit: work goes ahead only under the permits, method "
-           "statements and sign-offs that govern it; the contract, local codes and licensed "
-           "professionals decide.")
+CAUTION = (
+    "A schedule is a plan, not a permit: work goes ahead only under the permits, method "
+    "statements and sign-offs that govern it; the contract, local codes and licensed "
+    "professionals decide."
+)
 
 
 def _icalendar() -> Any:
@@ -39,8 +41,9 @@ def _icalendar() -> Any:
     try:
         import icalendar
     except ImportError as exc:
-        raise FieldlogError("writing .ics needs the icalendar package",
-                            fix="pip install 'fieldlog[ics]'") from exc
+        raise FieldlogError(
+            "writing .ics needs the icalendar package", fix="pip install 'fieldlog[ics]'"
+        ) from exc
     return icalendar
 
 
@@ -83,8 +86,10 @@ def _summary(row: ActivityRow) -> str:
 
 
 def _description(row: ActivityRow, la: Lookahead) -> str:
-    lines = [f"Must run today or the job slips. Total float {working_days(row.total_float)}; "
-             f"late finish {row.late_finish.isoformat()}."]
+    lines = [
+        f"Must run today or the job slips. Total float {working_days(row.total_float)}; "
+        f"late finish {row.late_finish.isoformat()}."
+    ]
     lines += list(row.reasons)
     lines.append(f"Status as of end of {la.as_of.isoformat()}, schedule revision {la.revision}.")
     lines.append(CAUTION)
@@ -121,7 +126,6 @@ def render_ics(la: Lookahead, crew: str | None = None) -> bytes:
             ev.add("transp", "TRANSPARENT")
             cal.add_component(ev)
     return bytes(cal.to_ical())
-
 
 
 def crew_calendars(la: Lookahead) -> dict[str, bytes]:

@@ -52,8 +52,9 @@ class Glyphs:
     """Ends a name that had to be shortened."""
 
 
-UNICODE = Glyphs(must="\u2588", may="\u2591", cannot="\u00b7", done="-", rule="\u2500",
-                 cut="\u2026")
+UNICODE = Glyphs(
+    must="\u2588", may="\u2591", cannot="\u00b7", done="-", rule="\u2500", cut="\u2026"
+)
 ASCII = Glyphs(must="#", may=":", cannot=".", done="-", rule="-", cut="~")
 
 
@@ -92,8 +93,9 @@ def layout_for(sheet_width: int, days: int) -> Layout:
     raise ValueError(f"{days} days do not fit on a {sheet_width}-column sheet")
 
 
-def render_text(la: Lookahead, sheet_width: int = 80, *, ascii_only: bool = False,
-                page_lines: int = PAGE_LINES) -> str:
+def render_text(
+    la: Lookahead, sheet_width: int = 80, *, ascii_only: bool = False, page_lines: int = PAGE_LINES
+) -> str:
     """The printable sheet.
 
     Args:
@@ -125,15 +127,25 @@ class _Sheet:
     def render(self) -> str:
         shown = list(self.la.rows_with_work)
         grid = [[self._row(row)] for row in shown] or [
-            ["  Nothing must or may run in this window."]]
+            ["  Nothing must or may run in this window."]
+        ]
         grid += self._crew_blocks()
-        text = (self._levelling() + self._fewest() + self._to_chase() + self._why(shown)
-                + self._finished())
+        text = (
+            self._levelling()
+            + self._fewest()
+            + self._to_chase()
+            + self._why(shown)
+            + self._finished()
+        )
         hidden = len(self.la.rows) - len(shown)
         if hidden:
-            text.append([""] + self._wrap(
-                f"{hidden} more open activit{'y has' if hidden == 1 else 'ies have'} nothing to "
-                "do in this window; the JSON and CSV outputs list every one."))
+            text.append(
+                [""]
+                + self._wrap(
+                    f"{hidden} more open activit{'y has' if hidden == 1 else 'ies have'} "
+                    "nothing to do in this window; the JSON and CSV outputs list every one."
+                )
+            )
         pages = self._paginate(grid, text)
         out = []
         for n, body in enumerate(pages, 1):
@@ -176,8 +188,7 @@ class _Sheet:
         w = self.lay.width
         n = len(la.days)
         lines = [
-            fit(self.t(f"{la.site} - lookahead, schedule revision {la.revision}"), w,
-                self.g.cut),
+            fit(self.t(f"{la.site} - lookahead, schedule revision {la.revision}"), w, self.g.cut),
             f"Status as of the end of {date_text(la.as_of)}; data date {date_text(la.data_date)}",
             f"Window {date_text(la.days[0])} to {date_text(la.days[-1])} "
             f"({n} day{'s' if n != 1 else ''})",
@@ -193,20 +204,28 @@ class _Sheet:
         ff = la.finish_float
         state = "on time" if ff >= 0 else "LATE"
         spare = "to spare" if ff >= 0 else "behind"
-        return (f"{text}; required {date_text(la.finish_by)}: {state}, "
-                f"{working_days(abs(ff))} {spare}")
+        return (
+            f"{text}; required {date_text(la.finish_by)}: {state}, {working_days(abs(ff))} {spare}"
+        )
 
     def _footer(self, page: int, pages: int) -> list[str]:
         g, w = self.g, self.lay.cell_w
-        legend = (f"{g.must * w} must run, or the job slips", f"{g.may * w} may run (has float)",
-                  f"{self._cell(Cell.CANNOT).strip()} cannot run",
-                  f"{self._cell(Cell.DONE).strip()} done (after its late finish)",
-                  "blank: not a working day",
-                  "! late (negative float)", "? readiness item to chase", "~ already running",
-                  "TF total float, working days", "crew: people per day, ! over")
+        legend = (
+            f"{g.must * w} must run, or the job slips",
+            f"{g.may * w} may run (has float)",
+            f"{self._cell(Cell.CANNOT).strip()} cannot run",
+            f"{self._cell(Cell.DONE).strip()} done (after its late finish)",
+            "blank: not a working day",
+            "! late (negative float)",
+            "? readiness item to chase",
+            "~ already running",
+            "TF total float, working days",
+            "crew: people per day, ! over",
+        )
         lines = ["", *_pack(legend, self.lay.width), *self._wrap(CAUTION)]
-        left = self.t(f"{self.la.site}, revision {self.la.revision}, "
-                      f"as of {self.la.as_of.isoformat()}")
+        left = self.t(
+            f"{self.la.site}, revision {self.la.revision}, as of {self.la.as_of.isoformat()}"
+        )
         tag = f"page {page} of {pages}"
         lines.append(fit(left, self.lay.width - len(tag) - 1, self.g.cut) + " " + tag)
         return lines
@@ -225,9 +244,15 @@ class _Sheet:
             numbers.append(_centre(f"{d.day:02d}" if w >= 2 else str(d.day % 10), w))
         month_row = [" "] * (len(days) * w)
         for at, label in months:
-            month_row[at:at + len(label)] = label
-        head = "  " + fit("ID", lay.id_w) + " " + fit("Activity", lay.name_w) + " " + right(
-            "TF", lay.tf_w)
+            month_row[at : at + len(label)] = label
+        head = (
+            "  "
+            + fit("ID", lay.id_w)
+            + " "
+            + fit("Activity", lay.name_w)
+            + " "
+            + right("TF", lay.tf_w)
+        )
         sub = " " * width(head)
         if lay.dates:
             head += " " + fit("Early", 6) + " " + fit("Late", 6)
@@ -258,9 +283,14 @@ class _Sheet:
         lay = self.lay
         running = row.status is Status.IN_PROGRESS
         flags = ("!" if row.late else " ") + ("?" if row.not_ready else "~" if running else " ")
-        left = (flags + fit(self.t(row.id), lay.id_w, self.g.cut) + " "
-                + abbreviate(self.t(row.name), lay.name_w, self.g.cut) + " "
-                + _number(row.total_float, lay.tf_w))
+        left = (
+            flags
+            + fit(self.t(row.id), lay.id_w, self.g.cut)
+            + " "
+            + abbreviate(self.t(row.name), lay.name_w, self.g.cut)
+            + " "
+            + _number(row.total_float, lay.tf_w)
+        )
         if lay.dates:
             left += " " + _short(row.early_start) + " " + _short(row.late_finish)
         return fit(left, lay.left_w) + "".join(self._cell(c) for c in row.cells)
@@ -282,8 +312,9 @@ class _Sheet:
             for k, (label, values) in enumerate(rows):
                 name = self.t(f"{load.crew} (has {load.available})") if k == 0 else ""
                 left = fit("  " + name, self.lay.left_w - 10) + right(label, 9) + " "
-                block.append(left + "".join(
-                    _count(v, v > load.available, self.lay.cell_w) for v in values))
+                block.append(
+                    left + "".join(_count(v, v > load.available, self.lay.cell_w) for v in values)
+                )
             blocks.append(block)
         return blocks
 
@@ -296,31 +327,49 @@ class _Sheet:
         lev = self.la.levelling
         if lev is None:
             return []
-        block = ["", *self._wrap(f"Levelling suggestion ({lev.method}) for crews over their "
-                                 f"headcount if all work starts early: {', '.join(lev.crews)}")]
+        block = [
+            "",
+            *self._wrap(
+                f"Levelling suggestion ({lev.method}) for crews over their "
+                f"headcount if all work starts early: {', '.join(lev.crews)}"
+            ),
+        ]
         if not lev.moves:
-            block += self._wrap("No start inside the float lowers the load: more people, or "
-                                "a later finish, would be needed.", "  ", "  ")
+            block += self._wrap(
+                "No start inside the float lowers the load: more people, or "
+                "a later finish, would be needed.",
+                "  ",
+                "  ",
+            )
             return [block]
         for m in lev.moves:
             block += self._wrap(
                 f"start {m.activity} ({m.name}) {date_text(m.start)} instead of "
                 f"{date_text(m.early_start)}, using {working_days(m.float_used)} of its float",
-                "    ", "  - ")
+                "    ",
+                "  - ",
+            )
         peaks = []
         for load in self.la.crews:
             if load.crew in lev.crews and load.levelled is not None:
-                peaks.append(f"{load.crew} {max(load.early)} -> {max(load.levelled)} "
-                             f"(has {load.available})")
+                peaks.append(
+                    f"{load.crew} {max(load.early)} -> {max(load.levelled)} (has {load.available})"
+                )
         block += self._wrap(
             f"Peak in the window: {'; '.join(peaks)}. Sum of squared daily headcounts "
             f"{lev.sum_of_squares_before} -> {lev.sum_of_squares_after}. Every link and the "
-            "forecast finish are kept.", "  ", "  ")
+            "forecast finish are kept.",
+            "  ",
+            "  ",
+        )
         must_over = [load.crew for load in self.la.crews if load.over_must]
         if must_over:
             block += self._wrap(
                 f"MUST work alone needs more people than {', '.join(must_over)} "
-                "has on some days: add people or expect a slip.", "  ", "  ")
+                "has on some days: add people or expect a slip.",
+                "  ",
+                "  ",
+            )
         return [block]
 
     def _fewest(self) -> list[list[str]]:
@@ -342,8 +391,13 @@ class _Sheet:
             for flag in row.not_ready:
                 block += self._wrap(f"{row.id} ({row.name}) {flag}", "    ", "  ? ")
             blocks.append(block)
-        return _titled(["", *self._wrap("Readiness items to chase (no expected date, or the "
-                                        "date has passed)")], blocks)
+        return _titled(
+            [
+                "",
+                *self._wrap("Readiness items to chase (no expected date, or the date has passed)"),
+            ],
+            blocks,
+        )
 
     def _why(self, shown: list[ActivityRow]) -> list[list[str]]:
         blocks = []
@@ -361,8 +415,9 @@ class _Sheet:
             return []
         block = ["", *self._wrap(f"Finished since {date_text(self.la.days[0])}")]
         for f in self.la.finished:
-            block += self._wrap(f"{f.id} {f.name}: finished {date_text(f.actual_finish)}",
-                                "    ", "  ")
+            block += self._wrap(
+                f"{f.id} {f.name}: finished {date_text(f.actual_finish)}", "    ", "  "
+            )
         return [block]
 
 
@@ -388,7 +443,7 @@ def _split(block: list[str], room: int) -> list[list[str]]:
     """A block as pieces of at most ``room`` lines (one piece when it fits)."""
     if len(block) <= room:
         return [block]
-    return [block[k:k + room] for k in range(0, len(block), room)]
+    return [block[k : k + room] for k in range(0, len(block), room)]
 
 
 def _centre(text: str, w: int) -> str:

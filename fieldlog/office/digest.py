@@ -24,8 +24,9 @@ def site_files(folder: Path) -> list[Path]:
     files = [folder / SITE_FILE, folder / SCHEDULE_FILE]
     log = folder / LOG_DIR
     if log.is_dir() and not log.is_symlink():
-        files += sorted(p for p in log.iterdir()
-                        if p.suffix == ".toml" and not p.is_symlink() and p.is_file())
+        files += sorted(
+            p for p in log.iterdir() if p.suffix == ".toml" and not p.is_symlink() and p.is_file()
+        )
     return files
 
 
@@ -51,7 +52,10 @@ def files_sha256(folder: Path) -> str:
             raise SiteError(f"cannot read: {exc.strerror}", file=path) from exc
         total += len(data)
         if total > MAX_SITE_BYTES:
-            raise SiteError("the site's files are larger than 512 MB", file=folder,
-                            fix="check this is a site folder")
+            raise SiteError(
+                "the site's files are larger than 512 MB",
+                file=folder,
+                fix="check this is a site folder",
+            )
         h.update(len(name).to_bytes(4, "big") + name + len(data).to_bytes(8, "big") + data)
     return h.hexdigest()

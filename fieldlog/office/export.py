@@ -72,23 +72,30 @@ def expand_sites(folders: Iterable[Path]) -> list[Path]:
     found: dict[Path, None] = {}
     for folder in folders:
         if not folder.is_dir():
-            raise FieldlogError("not a folder", file=folder,
-                                fix="give site folders, or a folder that holds them")
+            raise FieldlogError(
+                "not a folder", file=folder, fix="give site folders, or a folder that holds them"
+            )
         sites = list(find_sites(folder))
         if not sites:
-            raise FieldlogError("holds no site folder (site.toml or schedule.toml)",
-                                file=folder, fix="give site folders, or a folder that holds "
-                                "them")
+            raise FieldlogError(
+                "holds no site folder (site.toml or schedule.toml)",
+                file=folder,
+                fix="give site folders, or a folder that holds them",
+            )
         for site in sites:
             found[site.resolve()] = None
         if len(found) > MAX_SITES:
-            raise FieldlogError(f"more than {MAX_SITES:,} site folders", file=folder,
-                                fix="export fewer folders at a time")
+            raise FieldlogError(
+                f"more than {MAX_SITES:,} site folders",
+                file=folder,
+                fix="export fewer folders at a time",
+            )
     return list(found)
 
 
-def export_sites(folders: Sequence[Path], db_path: Path,
-                 as_of: date | None = None) -> ExportSummary:
+def export_sites(
+    folders: Sequence[Path], db_path: Path, as_of: date | None = None
+) -> ExportSummary:
     """Export every site in ``folders`` (already expanded) into the database at ``db_path``.
 
     Raises:
@@ -99,12 +106,15 @@ def export_sites(folders: Sequence[Path], db_path: Path,
     try:
         for start in range(0, len(folders), BATCH):
             db.execute("BEGIN IMMEDIATE")
-            done.extend(_export_one(db, f, as_of) for f in folders[start:start + BATCH])
+            done.extend(_export_one(db, f, as_of) for f in folders[start : start + BATCH])
             db.execute("COMMIT")
     except sqlite3.Error as exc:
-        raise FieldlogError(f"cannot write the office database: {exc}", file=db_path,
-                            fix="check the disk has room and no other program holds the file "
-                            "open; the sites not yet committed are as before") from exc
+        raise FieldlogError(
+            f"cannot write the office database: {exc}",
+            file=db_path,
+            fix="check the disk has room and no other program holds the file "
+            "open; the sites not yet committed are as before",
+        ) from exc
     finally:
         if db.in_transaction:
             db.execute("ROLLBACK")
@@ -114,12 +124,17 @@ def export_sites(folders: Sequence[Path], db_path: Path,
 
 def _export_one(db: sqlite3.Connection, folder: Path, as_of: date | None) -> SiteExport:
     key = str(folder)
-    row = db.execute("SELECT site_id, files_sha256, error FROM sites WHERE folder = ?",
-                     (key,)).fetchone()
+    row = db.execute(
+        "SELECT site_id, files_sha256, error FROM sites WHERE folder = ?", (key,)
+    ).fetchone()
     try:
         digest = files_sha256(folder)
-        if row is not None and row[1] == digest and row[2] is None and (
-                as_of is None or _has_run(db, row[0], as_of)):
+        if (
+            row is not None
+            and row[1] == digest
+            and row[2] is None
+            and (as_of is None or _has_run(db, row[0], as_of))
+        ):
             return SiteExport(folder, Outcome.SKIPPED)
         state = load_state(folder, as_of)
     except FieldlogError as exc:
@@ -127,8 +142,16 @@ def _export_one(db: sqlite3.Connection, folder: Path, as_of: date | None) -> Sit
         return SiteExport(folder, Outcome.FAILED, exc.message)
     rows = site_rows(state)
     site = state.site
-    values = (site.name, site.start.isoformat(), _iso(site.finish_by), site.calendar,
-              site.revision, _iso(state.journal.last_day), digest, state.as_of.isoformat())
+    values = (
+        site.name,
+        site.start.isoformat(),
+        _iso(site.finish_by),
+        site.calendar,
+        site.revision,
+        _iso(state.journal.last_day),
+        digest,
+        state.as_of.isoformat(),
+    )
     db.execute("SAVEPOINT site")  # a site is replaced whole or not at all
     _replace_rows(db, _upsert_site(db, key, values), rows)
     db.execute("RELEASE site")
@@ -140,8 +163,13 @@ def _iso(value: date | None) -> str | None:
 
 
 def _has_run(db: sqlite3.Connection, site_id: int, as_of: date) -> bool:
-    return db.execute("SELECT 1 FROM schedule_runs WHERE site_id = ? AND as_of = ?",
-                      (site_id, as_of.isoformat())).fetchone() is not None
+    return (
+        db.execute(
+            "SELECT 1 FROM schedule_runs WHERE site_id = ? AND as_of = ?",
+            (site_id, as_of.isoformat()),
+        ).fetchone()
+        is not None
+    )
 
 
 def _upsert_site(db: sqlite3.Connection, key: str, values: tuple) -> int:
@@ -152,7 +180,9 @@ def _upsert_site(db: sqlite3.Connection, key: str, values: tuple) -> int:
         "finish_by = excluded.finish_by, calendar = excluded.calendar, "
         "revision = excluded.revision, last_log_day = excluded.last_log_day, "
         "files_sha256 = excluded.files_sha256, exported_as_of = excluded.exported_as_of, "
-        "error = NULL", (key, *values))
+        "error = NULL",
+        (key, *values),
+    )
     return int(db.execute("SELECT site_id FROM sites WHERE folder = ?", (key,)).fetchone()[0])
 
 
@@ -162,20 +192,22 @@ def _replace_rows(db: sqlite3.Connection, site_id: int, rows: SiteRows) -> None:
         data = rows.tables[table]
         if data:
             marks = ", ".join("?" * (len(data[0]) + 1))
-            db.executemany(f"INSERT INTO {table} VALUES ({marks})",
-                           [(site_id, *r) for r in data])
+            db.executemany(f"INSERT INTO {table} VALUES ({marks})", [(site_id, *r) for r in data])
     as_of = rows.run[0]
     for table in ("schedule_results", "schedule_runs"):
-        db.execute(f"DELETE FROM {table} WHERE site_id = ? AND as_of = ?",
-                   (site_id, as_of))
+        db.execute(f"DELETE FROM {table} WHERE site_id = ? AND as_of = ?", (site_id, as_of))
     db.execute("INSERT INTO schedule_runs VALUES (?, ?, ?, ?, ?, ?, ?)", (site_id, *rows.run))
     if rows.results:
-        db.executemany("INSERT INTO schedule_results VALUES "
-                       "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
-                       [(site_id, *r) for r in rows.results])
+        db.executemany(
+            "INSERT INTO schedule_results VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
+            [(site_id, *r) for r in rows.results],
+        )
 
 
 def _record_failure(db: sqlite3.Connection, key: str, message: str) -> None:
     """Note the error on the site's row (made if new); its other rows stay as last exported."""
-    db.execute("INSERT INTO sites (folder, error) VALUES (?, ?) ON CONFLICT (folder) "
-               "DO UPDATE SET error = excluded.error, files_sha256 = NULL", (key, message))
+    db.execute(
+        "INSERT INTO sites (folder, error) VALUES (?, ?) ON CONFLICT (folder) "
+        "DO UPDATE SET error = excluded.error, files_sha256 = NULL",
+        (key, message),
+    )

@@ -58,46 +58,119 @@ def site_rows(state: SiteState) -> SiteRows:
     """Every row the site contributes (see the module docstring)."""
     site, result, rp = state.site, state.schedule, state.replay
     as_of = state.as_of.isoformat()
-    activities = [(a.id, a.name, a.duration, a.calendar, _iso(a.start_not_before),
-                   _iso(a.finish_not_after),
-                   _joined(f"{k}={v}" for k, v in sorted(a.crew.items())) or "")
-                  for a in site.activities]
+    activities = [
+        (
+            a.id,
+            a.name,
+            a.duration,
+            a.calendar,
+            _iso(a.start_not_before),
+            _iso(a.finish_not_after),
+            _joined(f"{k}={v}" for k, v in sorted(a.crew.items())) or "",
+        )
+        for a in site.activities
+    ]
     links = [(k.pred, k.succ, k.type.value, k.lag) for k in site.links]
     crews = [(c.name, c.available) for c in site.crews.values()]
     entries = [_entry_row(e, rp.superseded.get(e.id)) for e in state.journal.entries]
     effective = rp.effective
-    lost = [(e.id, e.day.isoformat(), e.fields["cause"], int(bool(e.fields.get("whole_day"))),
-             e.fields.get("hours"), _joined(e.fields.get("activities")),
-             _joined(e.fields.get("calendars")), e.fields.get("note"))
-            for e in effective if e.kind == "lost-time"]
-    crew_days = [(e.id, e.day.isoformat(), e.fields["trade"], e.fields.get("company"),
-                  e.fields["headcount"], e.fields.get("hours"),
-                  _joined(e.fields.get("activities")))
-                 for e in effective if e.kind == "crew"]
+    lost = [
+        (
+            e.id,
+            e.day.isoformat(),
+            e.fields["cause"],
+            int(bool(e.fields.get("whole_day"))),
+            e.fields.get("hours"),
+            _joined(e.fields.get("activities")),
+            _joined(e.fields.get("calendars")),
+            e.fields.get("note"),
+        )
+        for e in effective
+        if e.kind == "lost-time"
+    ]
+    crew_days = [
+        (
+            e.id,
+            e.day.isoformat(),
+            e.fields["trade"],
+            e.fields.get("company"),
+            e.fields["headcount"],
+            e.fields.get("hours"),
+            _joined(e.fields.get("activities")),
+        )
+        for e in effective
+        if e.kind == "crew"
+    ]
     readiness = []
     for e in effective:
         if e.kind != "need":
             continue
         cleared = rp.cleared.get(e.id)
-        readiness.append((e.id, e.fields["activity"], e.fields["what"], e.fields["category"],
-                          _iso(e.fields.get("expected")), e.day.isoformat(),
-                          cleared.id if cleared else None,
-                          _iso(cleared.day) if cleared else None))
-    results = [(as_of, r.id, r.status.value, r.early_start.isoformat(),
-                r.early_finish.isoformat(), _iso(r.late_start), _iso(r.late_finish),
-                r.total_float, r.free_float, int(r.critical), int(r.on_driving_path),
-                r.remaining, _iso(r.actual_start), _iso(r.actual_finish))
-               for r in result.activities]
-    run = (as_of, site.revision, result.finish.isoformat(), result.finish_float,
-           sum(1 for r in result.activities if r.critical),
-           sum(1 for r in result.activities if r.late))
+        readiness.append(
+            (
+                e.id,
+                e.fields["activity"],
+                e.fields["what"],
+                e.fields["category"],
+                _iso(e.fields.get("expected")),
+                e.day.isoformat(),
+                cleared.id if cleared else None,
+                _iso(cleared.day) if cleared else None,
+            )
+        )
+    results = [
+        (
+            as_of,
+            r.id,
+            r.status.value,
+            r.early_start.isoformat(),
+            r.early_finish.isoformat(),
+            _iso(r.late_start),
+            _iso(r.late_finish),
+            r.total_float,
+            r.free_float,
+            int(r.critical),
+            int(r.on_driving_path),
+            r.remaining,
+            _iso(r.actual_start),
+            _iso(r.actual_finish),
+        )
+        for r in result.activities
+    ]
+    run = (
+        as_of,
+        site.revision,
+        result.finish.isoformat(),
+        result.finish_float,
+        sum(1 for r in result.activities if r.critical),
+        sum(1 for r in result.activities if r.late),
+    )
     return SiteRows(
-        tables={"activities": activities, "links": links, "crews": crews, "entries": entries,
-                "lost_time": lost, "crew_days": crew_days, "readiness": readiness},
-        run=run, results=results)
+        tables={
+            "activities": activities,
+            "links": links,
+            "crews": crews,
+            "entries": entries,
+            "lost_time": lost,
+            "crew_days": crew_days,
+            "readiness": readiness,
+        },
+        run=run,
+        results=results,
+    )
 
 
 def _entry_row(e: Entry, superseded_by: Entry | None) -> Row:
-    return (e.id, e.kind, e.day.isoformat(), e.device, e.author, e.written.isoformat(),
-            e.file, e.position, _joined(e.activities()),
-            superseded_by.id if superseded_by else None, fields_json(e.fields))
+    return (
+        e.id,
+        e.kind,
+        e.day.isoformat(),
+        e.device,
+        e.author,
+        e.written.isoformat(),
+        e.file,
+        e.position,
+        _joined(e.activities()),
+        superseded_by.id if superseded_by else None,
+        fields_json(e.fields),
+    )

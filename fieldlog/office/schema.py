@@ -83,11 +83,13 @@ def open_database(path: Path) -> sqlite3.Connection:
             cannot be opened.
     """
     if path.is_dir():
-        raise FieldlogError("is a folder, not a database file", file=path,
-                            fix="give a file name such as office.db")
+        raise FieldlogError(
+            "is a folder, not a database file", file=path, fix="give a file name such as office.db"
+        )
     if not path.parent.is_dir():
-        raise FieldlogError("the folder for the database does not exist", file=path,
-                            fix="create the folder first")
+        raise FieldlogError(
+            "the folder for the database does not exist", file=path, fix="create the folder first"
+        )
     existed = path.exists() and path.stat().st_size > 0
     try:
         db = sqlite3.connect(path, isolation_level=None)
@@ -96,12 +98,15 @@ def open_database(path: Path) -> sqlite3.Connection:
             _check_existing(db, path)
         db.executescript(TABLES)
         db.execute("INSERT OR IGNORE INTO meta VALUES ('application', ?)", (APPLICATION,))
-        db.execute("INSERT OR IGNORE INTO meta VALUES ('schema_version', ?)",
-                   (str(SCHEMA_VERSION),))
+        db.execute(
+            "INSERT OR IGNORE INTO meta VALUES ('schema_version', ?)", (str(SCHEMA_VERSION),)
+        )
     except sqlite3.DatabaseError as exc:
-        raise FieldlogError(f"cannot use the database: {exc}", file=path,
-                            fix="give a new file name, or an office database fieldlog "
-                            "wrote") from exc
+        raise FieldlogError(
+            f"cannot use the database: {exc}",
+            file=path,
+            fix="give a new file name, or an office database fieldlog wrote",
+        ) from exc
     return db
 
 
@@ -110,16 +115,22 @@ def _check_existing(db: sqlite3.Connection, path: Path) -> None:
     names = {r[0] for r in db.execute("SELECT name FROM sqlite_master WHERE type = 'table'")}
     if "meta" not in names:
         db.close()
-        raise FieldlogError("is an SQLite file that fieldlog did not write", file=path,
-                            fix="give a new file name; fieldlog never writes into other "
-                            "databases")
+        raise FieldlogError(
+            "is an SQLite file that fieldlog did not write",
+            file=path,
+            fix="give a new file name; fieldlog never writes into other databases",
+        )
     meta = dict(db.execute("SELECT key, value FROM meta"))
     if meta.get("application") != APPLICATION:
         db.close()
-        raise FieldlogError("is not a fieldlog office database", file=path,
-                            fix="give a new file name")
+        raise FieldlogError(
+            "is not a fieldlog office database", file=path, fix="give a new file name"
+        )
     version = meta.get("schema_version", "")
     if not version.isdigit() or int(version) > SCHEMA_VERSION:
         db.close()
-        raise FieldlogError(f"was written by a newer fieldlog (schema {version[:10]})",
-                            file=path, fix="update fieldlog, or export to a new file")
+        raise FieldlogError(
+            f"was written by a newer fieldlog (schema {version[:10]})",
+            file=path,
+            fix="update fieldlog, or export to a new file",
+        )

@@ -79,9 +79,11 @@ def office_receipts(office: Path, devices: Iterable[str], mine: Receipts) -> Rec
         copies = mine.of(device)
         if not path.exists() and not path.is_symlink():
             if copies:
-                problems.append(f"{label}: missing, yet this device holds "
-                                f"{max(len(c.receipts) for c in copies)} receipts of its syncs "
-                                "with an office; restore it from the copy in the site folder")
+                problems.append(
+                    f"{label}: missing, yet this device holds "
+                    f"{max(len(c.receipts) for c in copies)} receipts of its syncs "
+                    "with an office; restore it from the copy in the site folder"
+                )
             continue
         found = read_file(path, label)
         if isinstance(found, str):
@@ -118,9 +120,11 @@ def unknown_devices(site: Path, known: set[str] | None, this: str | None) -> lis
     for name in sorted(os.listdir(folder)):
         m = _KEY_NAME.match(name)
         if m and m[1] not in known and m[1] != this:
-            out.append(f"{DEVICES_DIR}/{name}: device {m[1]} is not known to the office (no "
-                       "office receipt lists it); its key did not come from the office's own "
-                       "records: check with the office before trusting its entries")
+            out.append(
+                f"{DEVICES_DIR}/{name}: device {m[1]} is not known to the office (no "
+                "office receipt lists it); its key did not come from the office's own "
+                "records: check with the office before trusting its entries"
+            )
     return out
 
 
@@ -147,8 +151,10 @@ def _copies_disagree(files: list[ReceiptsFile], office: ReceiptsFile | None = No
     if office is not None and not office.receipts:
         copies = [f for f in files if f is not office and f.receipts]
         if copies:
-            out.append(f"{office.label}: holds no receipts, yet this device's copy "
-                       f"{copies[0].label} holds {len(copies[0].receipts)}")
+            out.append(
+                f"{office.label}: holds no receipts, yet this device's copy "
+                f"{copies[0].label} holds {len(copies[0].receipts)}"
+            )
         return out
     for same in by_chain.values():
         longest = max(same, key=lambda f: len(f.receipts))
@@ -159,6 +165,8 @@ def _copies_disagree(files: list[ReceiptsFile], office: ReceiptsFile | None = No
             if longest.hashes()[:n] != f.hashes():
                 out.append(f"{f.label}: differs from {longest.label}; decide which is right")
             elif n < m:
-                out.append(f"{f.label}: holds {n} receipts, {longest.label} holds {m}: "
-                           f"receipts {n + 1} to {m} were removed from it")
+                out.append(
+                    f"{f.label}: holds {n} receipts, {longest.label} holds {m}: "
+                    f"receipts {n + 1} to {m} were removed from it"
+                )
     return out

@@ -33,8 +33,10 @@ class ConflictCopy:
 
     def describe(self) -> str:
         """One line for ``verify``, ``sites`` and the app."""
-        return (f"{CONFLICTS_DIR}/{self.path.name}: another version of "
-                f"{LOG_DIR}/{self.original}; decide which is the record, then delete the other")
+        return (
+            f"{CONFLICTS_DIR}/{self.path.name}: another version of "
+            f"{LOG_DIR}/{self.original}; decide which is the record, then delete the other"
+        )
 
 
 def conflicts_folder(site_folder: Path) -> Path:
@@ -63,7 +65,9 @@ def copy_name(original: str, sha256: str, *, long: bool = False) -> str:
 
 
 def keep_aside(
-    version: LogFile, dest_site: Path, check: Callable[[bytes], None],
+    version: LogFile,
+    dest_site: Path,
+    check: Callable[[bytes], None],
     kept_in: str = CONFLICTS_DIR,
 ) -> tuple[str, bool]:
     """Save ``version`` as a conflict copy in ``dest_site``; returns (relative path, written).
@@ -87,8 +91,14 @@ def keep_aside(
         dest = folder / name
         rel = f"{kept_in}/{name}"
         if not os.path.lexists(dest):
-            copy_verified(version.path, dest, version.sha256, replaces_sha256=None,
-                          validate=check, make_folder=True)
+            copy_verified(
+                version.path,
+                dest,
+                version.sha256,
+                replaces_sha256=None,
+                validate=check,
+                make_folder=True,
+            )
             return rel, True
         if dest.is_file() and not dest.is_symlink() and sha256_file(dest) == version.sha256:
             return rel, False

@@ -48,8 +48,7 @@ def _listing(side_folder: Path, side: str) -> tuple[dict[str, tuple[Path, str]],
     files: dict[str, tuple[Path, str]] = {}
     refused: list[Refusal] = []
     if os.path.islink(folder):
-        return files, [Refusal(side, DEVICES_DIR, "the folder is a link; links are not "
-                               "followed")]
+        return files, [Refusal(side, DEVICES_DIR, "the folder is a link; links are not followed")]
     if not folder.is_dir():
         return files, refused
     with os.scandir(folder) as entries:
@@ -87,9 +86,11 @@ def sync_devices(site_folder: Path, target: Path) -> DeviceSync:
         rel = f"{DEVICES_DIR}/{name}"
         if here is not None and there is not None:
             if here[1] != there[1]:
-                conflicts.append(f"{rel}: the site's and the target's key files for this "
-                                 "device differ; both kept as they are (one is not the "
-                                 "device's real key: check against the office's receipts)")
+                conflicts.append(
+                    f"{rel}: the site's and the target's key files for this "
+                    "device differ; both kept as they are (one is not the "
+                    "device's real key: check against the office's receipts)"
+                )
             continue
         if here is not None:
             (src, digest), dest_side, from_side, done = here, target, "site", sent
@@ -97,20 +98,33 @@ def sync_devices(site_folder: Path, target: Path) -> DeviceSync:
             assert there is not None  # the name came from one of the two listings
             (src, digest), dest_side, from_side, done = there, site_folder, "target", received
         try:
-            copy_verified(src, dest_side / DEVICES_DIR / name, digest, replaces_sha256=None,
-                          validate=partial(_check, name), make_folder=True)
+            copy_verified(
+                src,
+                dest_side / DEVICES_DIR / name,
+                digest,
+                replaces_sha256=None,
+                validate=partial(_check, name),
+                make_folder=True,
+            )
         except JournalError as exc:
-            refused.append(Refusal(from_side, rel, f"is not a valid device key file: "
-                                   f"{exc.problem}"))
+            refused.append(
+                Refusal(from_side, rel, f"is not a valid device key file: {exc.problem}")
+            )
         except SourceChanged:
             skipped.append(rel)
         except LinkedFolder:
-            refused.append(Refusal("target" if done is sent else "site", DEVICES_DIR,
-                                   "the folder is a link; links are not followed"))
+            refused.append(
+                Refusal(
+                    "target" if done is sent else "site",
+                    DEVICES_DIR,
+                    "the folder is a link; links are not followed",
+                )
+            )
         else:
             done.append(name)
-    return DeviceSync(tuple(sent), tuple(received), tuple(conflicts), tuple(refused),
-                      tuple(skipped))
+    return DeviceSync(
+        tuple(sent), tuple(received), tuple(conflicts), tuple(refused), tuple(skipped)
+    )
 
 
 def _check(name: str, data: bytes) -> None:

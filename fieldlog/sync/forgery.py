@@ -43,8 +43,11 @@ def signature_check(side_folder: Path) -> SignatureCheck:
 
 def _check(registry: Registry, name: str, data: bytes) -> None:
     found = checked(name, data)
-    forged = [f for f in check_signatures(found.entries, registry, found.findings).findings
-              if f.problem == "forged"]
+    forged = [
+        f
+        for f in check_signatures(found.entries, registry, found.findings).findings
+        if f.problem == "forged"
+    ]
     if forged:
         more = f" (and {len(forged) - 1} more)" if len(forged) > 1 else ""
         raise ForgedEntries(f"entry {forged[0].entry_id}: {forged[0].detail}{more}")

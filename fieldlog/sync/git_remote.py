@@ -52,20 +52,27 @@ def parse_remote(target: str) -> GitRemote:
         SyncError: not one of the supported schemes, too long, or no repository path.
     """
     if len(target) > MAX_URL:
-        raise SyncError(f"the git target is longer than {MAX_URL} characters",
-                        fix="check what was pasted")
+        raise SyncError(
+            f"the git target is longer than {MAX_URL} characters", fix="check what was pasted"
+        )
     url = target.removeprefix(PREFIX)
     parts = urlsplit(url)
     if parts.scheme not in SCHEMES:
-        raise SyncError(f"'{target[:80]}' is not a git target fieldlog can use",
-                        fix="use git+file:///path/jobs.git, git+ssh://host/path/jobs.git or "
-                        "git+https://host/path/jobs.git")
+        raise SyncError(
+            f"'{target[:80]}' is not a git target fieldlog can use",
+            fix="use git+file:///path/jobs.git, git+ssh://host/path/jobs.git or "
+            "git+https://host/path/jobs.git",
+        )
     if not parts.path.strip("/") or any(ord(c) < 32 for c in url):
-        raise SyncError(f"'{target[:80]}' names no repository",
-                        fix="add the repository's path, e.g. git+file:///srv/jobs.git")
+        raise SyncError(
+            f"'{target[:80]}' names no repository",
+            fix="add the repository's path, e.g. git+file:///srv/jobs.git",
+        )
     if parts.scheme == "file" and parts.netloc not in ("", "localhost"):
-        raise SyncError(f"'{target[:80]}' names a host in a file URL",
-                        fix="write git+file:///path (three slashes) for a local repository")
+        raise SyncError(
+            f"'{target[:80]}' names a host in a file URL",
+            fix="write git+file:///path (three slashes) for a local repository",
+        )
     return GitRemote(url=url, scheme=parts.scheme)
 
 
@@ -73,6 +80,8 @@ def branch_for(site_name: str) -> bytes:
     """The site's branch ref: ``refs/heads/fieldlog/<slug of the site name>``."""
     slug = re.sub(r"[^a-z0-9]+", "-", site_name.lower()).strip("-")[:60].strip("-")
     if not slug:
-        raise SyncError(f"the site name {site_name!r} gives no branch name",
-                        fix="give the site a name with letters or digits in site.toml")
+        raise SyncError(
+            f"the site name {site_name!r} gives no branch name",
+            fix="give the site a name with letters or digits in site.toml",
+        )
     return f"refs/heads/{BRANCH_PREFIX}{slug}".encode("ascii")

@@ -73,14 +73,20 @@ def _dulwich() -> Any:
     try:
         from dulwich import client, repo
     except ImportError as exc:
-        raise SyncError("syncing with git needs the dulwich package",
-                        fix="pip install 'fieldlog[git]'") from exc
+        raise SyncError(
+            "syncing with git needs the dulwich package", fix="pip install 'fieldlog[git]'"
+        ) from exc
     return client, repo
 
 
-def sync_git(site_folder: Path | str, remote: GitRemote, options: SyncOptions, *,
-             office: bool = False, before_push: Callable[[int], None] | None = None
-             ) -> GitSyncResult:
+def sync_git(
+    site_folder: Path | str,
+    remote: GitRemote,
+    options: SyncOptions,
+    *,
+    office: bool = False,
+    before_push: Callable[[int], None] | None = None,
+) -> GitSyncResult:
     """Sync a site folder with its branch in a git repository (see the module docstring).
 
     Args:
@@ -120,8 +126,12 @@ def sync_git(site_folder: Path | str, remote: GitRemote, options: SyncOptions, *
             summary = replace(summary, refused=(*summary.refused, *refused))
             tree = overlay_tree(repo, base_tree, files)
             if base_tree == tree:
-                return GitSyncResult(_kept(summary, site_folder, files, office, options.home),
-                                     branch.decode(), attempt, None)
+                return GitSyncResult(
+                    _kept(summary, site_folder, files, office, options.home),
+                    branch.decode(),
+                    attempt,
+                    None,
+                )
             commit = _commit(repo, tree, head, identity, options.now, site.name)
             if before_push is not None:
                 before_push(attempt)
@@ -130,12 +140,18 @@ def sync_git(site_folder: Path | str, remote: GitRemote, options: SyncOptions, *
             except _Moved:
                 time.sleep(RETRY_PAUSE_S * attempt)  # let the other device finish its push
                 continue
-            return GitSyncResult(_kept(summary, site_folder, files, office, options.home),
-                                 branch.decode(), attempt, commit.decode())
+            return GitSyncResult(
+                _kept(summary, site_folder, files, office, options.home),
+                branch.decode(),
+                attempt,
+                commit.decode(),
+            )
         finally:
             shutil.rmtree(scratch, ignore_errors=False)
-    raise SyncError(f"other devices kept pushing to {remote.shown} first ({MAX_ATTEMPTS} "
-                    "tries)", fix="run the same sync again in a minute; nothing was lost")
+    raise SyncError(
+        f"other devices kept pushing to {remote.shown} first ({MAX_ATTEMPTS} tries)",
+        fix="run the same sync again in a minute; nothing was lost",
+    )
 
 
 def _mkdir(path: Path) -> Path:
@@ -149,17 +165,22 @@ def _scratch_root(now: float) -> Path:
     try:
         root.mkdir(parents=True, exist_ok=True)
         for old in root.iterdir():
-            if old.is_dir() and not old.is_symlink() and (
-                    now - old.stat().st_mtime > STALE_SCRATCH_S):
+            if (
+                old.is_dir()
+                and not old.is_symlink()
+                and (now - old.stat().st_mtime > STALE_SCRATCH_S)
+            ):
                 shutil.rmtree(old)
     except OSError as exc:
-        raise SyncError(f"cannot use fieldlog's scratch folder: {exc.strerror}", file=root,
-                        fix="check fieldlog's data folder is writable") from exc
+        raise SyncError(
+            f"cannot use fieldlog's scratch folder: {exc.strerror}",
+            file=root,
+            fix="check fieldlog's data folder is writable",
+        ) from exc
     return root
 
 
-def _folder_sync(site_folder: Path, files: Path, options: SyncOptions,
-                 office: bool) -> SyncSummary:
+def _folder_sync(site_folder: Path, files: Path, options: SyncOptions, office: bool) -> SyncSummary:
     """The folder sync between the site and the branch's files, the right way round."""
     has_site = (files / SITE_FILE).is_file() and (files / SCHEDULE_FILE).is_file()
     if office and has_site:  # the branch plays the site: no device receipt to give
@@ -167,8 +188,9 @@ def _folder_sync(site_folder: Path, files: Path, options: SyncOptions,
     return sync_site(site_folder, files, replace(options, receipt_copies=False))
 
 
-def _kept(summary: SyncSummary, site_folder: Path, files: Path, office: bool,
-          home: Path | None) -> SyncSummary:
+def _kept(
+    summary: SyncSummary, site_folder: Path, files: Path, office: bool, home: Path | None
+) -> SyncSummary:
     """After the branch holds the receipt: refresh this device's copies of its chain (never
     before, so a push that loses the race leaves no copy ahead of the branch)."""
     if office:
@@ -180,21 +202,24 @@ def _kept(summary: SyncSummary, site_folder: Path, files: Path, office: bool,
 
 def _fetch(client: Any, path: str, repo: Any, branch: bytes, remote: GitRemote) -> bytes | None:
     """Fetch the site's branch; its commit id, or None when the branch does not exist yet."""
+
     def wants(refs: dict[bytes, bytes], depth: int | None = None) -> list[bytes]:
         return [refs[branch]] if branch in refs else []
 
     try:
         result = client.fetch(path, repo, determine_wants=wants)
     except Exception as exc:  # dulwich raises many kinds; each becomes one SyncError line
-        raise SyncError(f"cannot fetch from {remote.shown}: {_why(exc)}",
-                        fix="check the address, the network and that the repository exists "
-                        "(git init --bare)") from exc
+        raise SyncError(
+            f"cannot fetch from {remote.shown}: {_why(exc)}",
+            fix="check the address, the network and that the repository exists (git init --bare)",
+        ) from exc
     head = result.refs.get(branch)
     return bytes(head) if head else None
 
 
-def _commit(repo: Any, tree: Any, parent: Any, identity: bytes, now: float,
-            site_name: str) -> bytes:
+def _commit(
+    repo: Any, tree: Any, parent: Any, identity: bytes, now: float, site_name: str
+) -> bytes:
     from dulwich.objects import Commit
 
     commit = Commit()
@@ -209,8 +234,15 @@ def _commit(repo: Any, tree: Any, parent: Any, identity: bytes, now: float,
     return bytes(commit.id)
 
 
-def _push(client: Any, path: str, repo: Any, branch: bytes, expected: bytes | None,
-          commit: bytes, remote: GitRemote) -> None:
+def _push(
+    client: Any,
+    path: str,
+    repo: Any,
+    branch: bytes,
+    expected: bytes | None,
+    commit: bytes,
+    remote: GitRemote,
+) -> None:
     """Move the remote branch from ``expected`` to ``commit``, or raise :class:`_Moved`."""
     from dulwich.objects import ZERO_SHA
 
@@ -228,9 +260,11 @@ def _push(client: Any, path: str, repo: Any, branch: bytes, expected: bytes | No
     except FileLocked as exc:  # another device is moving the branch this very moment
         raise _Moved from exc
     except Exception as exc:  # dulwich raises many kinds; each becomes one SyncError line
-        raise SyncError(f"the push to {remote.shown} did not complete: {_why(exc)}",
-                        fix="run the same sync again; the repository keeps its last "
-                        "complete state and the site lost nothing") from exc
+        raise SyncError(
+            f"the push to {remote.shown} did not complete: {_why(exc)}",
+            fix="run the same sync again; the repository keeps its last "
+            "complete state and the site lost nothing",
+        ) from exc
     status = (result.ref_status or {}).get(branch)
     if status:
         raise _Moved
@@ -239,4 +273,3 @@ def _push(client: Any, path: str, repo: Any, branch: bytes, expected: bytes | No
 def _why(exc: Exception) -> str:
     text = str(exc).strip().splitlines()
     return f"{type(exc).__name__}: {text[0][:200]}" if text else type(exc).__name__
-

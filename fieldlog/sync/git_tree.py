@@ -53,8 +53,10 @@ def write_tree(repo: Any, tree_id: bytes, folder: Path) -> list[Refusal]:
     for entry in repo.object_store.iter_tree_contents(tree_id):
         count += 1
         if count > MAX_FILES:
-            raise SyncError(f"the site's branch holds more than {MAX_FILES:,} files",
-                            fix="check the repository: a site has far fewer")
+            raise SyncError(
+                f"the site's branch holds more than {MAX_FILES:,} files",
+                fix="check the repository: a site has far fewer",
+            )
         name = entry.path.decode("utf-8", "replace")
         problem = _path_problem(entry.path)
         if problem is None and entry.mode not in REGULAR:
@@ -69,8 +71,7 @@ def write_tree(repo: Any, tree_id: bytes, folder: Path) -> list[Refusal]:
             continue
         dest = folder.joinpath(*name.split("/"))
         dest.parent.mkdir(parents=True, exist_ok=True)
-        fd = os.open(dest, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0),
-                     0o644)
+        fd = os.open(dest, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0), 0o644)
         with os.fdopen(fd, "wb") as out:
             out.write(blob.as_raw_string())
     return refused
@@ -100,5 +101,8 @@ def overlay_tree(repo: Any, base_tree: bytes | None, folder: Path) -> bytes:
         repo.object_store.add_object(blob)
         mode = entries[tree_path][1] if tree_path in entries else 0o100644
         entries[tree_path] = (blob.id, mode)
-    return bytes(commit_tree(repo.object_store,
-                             [(p, sha, mode) for p, (sha, mode) in sorted(entries.items())]))
+    return bytes(
+        commit_tree(
+            repo.object_store, [(p, sha, mode) for p, (sha, mode) in sorted(entries.items())]
+        )
+    )

@@ -74,18 +74,26 @@ class Shortfall:
         """What happened to the expected entry, and which receipt says so (no location)."""
         h = self.expected.holding
         if self.changed:
-            return (f"entry {h.entry_id} was changed after a sync: {self.expected.source} "
-                    "records another hash for it")
-        now = (f"holds {self.device}'s entries only up to {self.device}.{self.held_up_to}"
-               if self.held_up_to else f"holds none of {self.device}'s entries")
-        return (f"entry {h.entry_id} was removed after a sync: {self.expected.source} records "
-                f"it, but the log {now}")
+            return (
+                f"entry {h.entry_id} was changed after a sync: {self.expected.source} "
+                "records another hash for it"
+            )
+        now = (
+            f"holds {self.device}'s entries only up to {self.device}.{self.held_up_to}"
+            if self.held_up_to
+            else f"holds none of {self.device}'s entries"
+        )
+        return (
+            f"entry {h.entry_id} was removed after a sync: {self.expected.source} records "
+            f"it, but the log {now}"
+        )
 
     def describe(self) -> str:
         """One line: file, entry, what happened, which receipt says so, the fix."""
         h = self.expected.holding
-        return (f"{LOG_DIR}/{h.file}: {self.what()}; restore the file from the office or "
-                "another copy")
+        return (
+            f"{LOG_DIR}/{h.file}: {self.what()}; restore the file from the office or another copy"
+        )
 
 
 def expectations(files: Iterable[ReceiptsFile]) -> dict[str, list[Expected]]:
@@ -95,7 +103,8 @@ def expectations(files: Iterable[ReceiptsFile]) -> dict[str, list[Expected]]:
         for r in f.receipts:
             for h in r.holds:
                 out.setdefault(h.device, {}).setdefault(
-                    (h.seq, h.entry_hash), Expected(h, _source(r, f)))
+                    (h.seq, h.entry_hash), Expected(h, _source(r, f))
+                )
     return {d: sorted(v.values(), key=lambda e: -e.holding.seq) for d, v in out.items()}
 
 
@@ -114,11 +123,22 @@ def shortfalls(held: Held, files: Iterable[ReceiptsFile]) -> tuple[Shortfall, ..
     for device, wanted in sorted(expectations(files).items()):
         have = held.get(device, {})
         top = max(have, default=0)
-        bad = [e for e in wanted if e.holding.seq not in have
-               or have[e.holding.seq][0] != e.holding.entry_hash]
+        bad = [
+            e
+            for e in wanted
+            if e.holding.seq not in have or have[e.holding.seq][0] != e.holding.entry_hash
+        ]
         if not bad:
             continue
         worst = bad[0]
-        out.append(Shortfall(device, worst, top, max(worst.holding.seq, top),
-                             frozenset(have), changed=worst.holding.seq in have))
+        out.append(
+            Shortfall(
+                device,
+                worst,
+                top,
+                max(worst.holding.seq, top),
+                frozenset(have),
+                changed=worst.holding.seq in have,
+            )
+        )
     return tuple(out)

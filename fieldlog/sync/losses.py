@@ -58,8 +58,7 @@ def vouchers(site_folder: Path, office: Path, home: Path, device: str) -> Vouche
     there = read_folder(office / RECEIPTS_DIR, f"office {RECEIPTS_DIR}")
     office_mine = there.for_device(device)
     chains = {f.chain for f in office_mine if f.receipts}
-    problems = [*mine.problems, *there.problems,
-                *(p for _, f in there.files for p in f.problems)]
+    problems = [*mine.problems, *there.problems, *(p for _, f in there.files for p in f.problems)]
     return Vouchers(
         site=(*mine.of(), *office_mine),
         office=(*(f for _, f in there.files), *(f for f in mine.of() if f.chain in chains)),
@@ -98,8 +97,10 @@ class SideLosses:
             return f"{where}: {lost.what()}"
         holes = sorted(s for s in brought if s < top and s not in mine)
         if holes:
-            return (f"{where}: entry {device}.{holes[0]} had been removed from the "
-                    f"{self.side} although {device}.{top} written after it is still there")
+            return (
+                f"{where}: entry {device}.{holes[0]} had been removed from the "
+                f"{self.side} although {device}.{top} written after it is still there"
+            )
         return None
 
     def lines(self) -> list[str]:

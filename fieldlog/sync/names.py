@@ -15,7 +15,12 @@ from collections import defaultdict
 from collections.abc import Iterable
 
 _RESERVED = {
-    "CON", "PRN", "AUX", "NUL", "CONIN$", "CONOUT$",
+    "CON",
+    "PRN",
+    "AUX",
+    "NUL",
+    "CONIN$",
+    "CONOUT$",
     *(f"COM{i}" for i in "123456789¹²³"),
     *(f"LPT{i}" for i in "123456789¹²³"),
 }
@@ -89,5 +94,6 @@ def case_clashes(names: Iterable[str]) -> dict[str, tuple[str, ...]]:
     groups: dict[str, set[str]] = defaultdict(set)
     for name in names:
         groups[fold(name)].add(name)
-    return {key: tuple(sorted(spellings)) for key, spellings in groups.items()
-            if len(spellings) > 1}
+    return {
+        key: tuple(sorted(spellings)) for key, spellings in groups.items() if len(spellings) > 1
+    }

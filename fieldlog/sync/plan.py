@@ -98,12 +98,16 @@ def plan_logs(
     for _key, spellings in sorted(clashes.items()):
         on_site = ", ".join(n for n in spellings if n in site) or "none"
         on_target = ", ".join(n for n in spellings if n in target) or "none"
-        conflicts.append(Conflict(
-            name=spellings[0],
-            reason=("names differ only in case, which Windows and USB sticks treat as one file "
-                    f"(site: {on_site}; target: {on_target})"),
-            case_only=True,
-        ))
+        conflicts.append(
+            Conflict(
+                name=spellings[0],
+                reason=(
+                    "names differ only in case, which Windows and USB sticks treat as one file "
+                    f"(site: {on_site}; target: {on_target})"
+                ),
+                case_only=True,
+            )
+        )
     for name in sorted({*site, *target}):
         if fold(name) in clashes:
             continue
@@ -120,12 +124,15 @@ def plan_logs(
             if copy is not None:
                 copies.append(copy)
             else:
-                conflicts.append(Conflict(
-                    name=name,
-                    reason="the site's and the target's copies differ and neither is the start "
-                    "of the other (an entry was changed or lost on one side)",
-                    site=here, target=there,
-                ))
+                conflicts.append(
+                    Conflict(
+                        name=name,
+                        reason="the site's and the target's copies differ and neither is the start "
+                        "of the other (an entry was changed or lost on one side)",
+                        site=here,
+                        target=there,
+                    )
+                )
     return LogPlan(tuple(copies), tuple(conflicts), unchanged)
 
 

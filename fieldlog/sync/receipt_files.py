@@ -24,8 +24,10 @@ from fieldlog.sync.names import is_ignored
 from fieldlog.sync.receipts import RECEIPTS_DIR, ReceiptsFile, parse_receipts
 from fieldlog.sync.transfer import LinkedFolder, write_atomic
 
-_NAME = re.compile(r"^(?P<device>[a-z0-9][a-z0-9-]{4,22}[a-z0-9])(?:\.(?P<chain>[0-9a-f]{12}))?"
-                   r"\.toml$")
+_NAME = re.compile(
+    r"^(?P<device>[a-z0-9][a-z0-9-]{4,22}[a-z0-9])(?:\.(?P<chain>[0-9a-f]{12}))?"
+    r"\.toml$"
+)
 
 
 def folder_key(folder: Path) -> str:
@@ -81,8 +83,10 @@ def read_folder(folder: Path, label: str) -> FolderReceipts:
             where = f"{label}/{entry.name}"
             m = _NAME.match(entry.name)
             if m is None or not valid_device(m["device"]):
-                problems.append(f"{where}: not a receipts file name; fieldlog names them "
-                                "<device>.toml or <device>.<chain>.toml")
+                problems.append(
+                    f"{where}: not a receipts file name; fieldlog names them "
+                    "<device>.toml or <device>.<chain>.toml"
+                )
                 continue
             parsed = read_file(Path(entry.path), where)
             if isinstance(parsed, str):
@@ -105,9 +109,12 @@ def read_file(path: Path, label: str) -> ReceiptsFile | str:
 
 def device_copies(site_folder: Path, home: Path, device: str) -> tuple[ReceiptsFile, ...]:
     """This device's copies of its chains for ``site_folder`` (site folder and data folder)."""
-    found = [*read_folder(site_folder / RECEIPTS_DIR, RECEIPTS_DIR).for_device(device),
-             *read_folder(home_folder(home, site_folder), str(home_folder(home, site_folder)))
-             .for_device(device)]
+    found = [
+        *read_folder(site_folder / RECEIPTS_DIR, RECEIPTS_DIR).for_device(device),
+        *read_folder(
+            home_folder(home, site_folder), str(home_folder(home, site_folder))
+        ).for_device(device),
+    ]
     return tuple(f for f in found if f.receipts)
 
 

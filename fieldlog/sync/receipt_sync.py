@@ -52,9 +52,15 @@ class ReceiptOutcome:
     """Chains that do not verify, receipts restored, links refused: a person should look."""
 
 
-def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
-                 written: datetime | None, holds: tuple[Holding, ...],
-                 keep_copies: bool = True) -> ReceiptOutcome:
+def give_receipt(
+    site_folder: Path,
+    office: Path,
+    home: Path,
+    device: str,
+    written: datetime | None,
+    holds: tuple[Holding, ...],
+    keep_copies: bool = True,
+) -> ReceiptOutcome:
     """Record in the office (and on this device) what both folders hold after a sync.
 
     ``keep_copies=False`` leaves this device's copies alone: the git transport refreshes them
@@ -71,22 +77,30 @@ def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
     if isinstance(theirs, str):
         return ReceiptOutcome(problems=(f"office {theirs}; no receipt written",))
     if theirs is not None and theirs.problems:
-        return ReceiptOutcome(problems=tuple(f"office {p}" for p in theirs.problems) + (
-            f"office {label}: no receipt written; restore the file from this device's copy in "
-            f"{RECEIPTS_DIR}/ of the site folder, then run sync again",))
+        return ReceiptOutcome(
+            problems=tuple(f"office {p}" for p in theirs.problems)
+            + (
+                f"office {label}: no receipt written; restore the file from this device's copy in "
+                f"{RECEIPTS_DIR}/ of the site folder, then run sync again",
+            )
+        )
     on_disk = theirs.data if theirs is not None else None
     mine = [c for c in device_copies(site_folder, home, device) if not c.problems]
     if theirs is not None and theirs.receipts:
         ours = [c for c in mine if c.chain == theirs.chain]
         best = max(ours, key=lambda c: len(c.receipts), default=None)
         if best is not None and not _begins(theirs, best) and not _begins(best, theirs):
-            return ReceiptOutcome(problems=(
-                f"office {label}: differs from this device's copy {best.label} (neither begins "
-                "the other); no receipt written; decide which is right, then run sync again",))
+            return ReceiptOutcome(
+                problems=(
+                    f"office {label}: differs from this device's copy {best.label} (neither begins "
+                    "the other); no receipt written; decide which is right, then run sync again",
+                )
+            )
         if best is not None and len(best.receipts) > len(theirs.receipts):
             problems.append(
                 f"office {label}: had lost receipts {len(theirs.receipts) + 1} to "
-                f"{len(best.receipts)} since this device's last sync; restored from its copy")
+                f"{len(best.receipts)} since this device's last sync; restored from its copy"
+            )
             theirs = best
     data = theirs.data if theirs is not None and theirs.receipts else HEADER.encode("utf-8")
     latest = theirs.latest if theirs is not None else None
@@ -94,7 +108,8 @@ def give_receipt(site_folder: Path, office: Path, home: Path, device: str,
     try:
         known = known_to(office, device)
         if (holds or latest is not None) and (
-                latest is None or not latest.same_facts(holds, known)):
+            latest is None or not latest.same_facts(holds, known)
+        ):
             receipt = new_receipt(latest, device, written, holds, known)
             data += receipt_text(receipt).encode("utf-8")
             _check_round_trip(label, data, receipt.hash)
@@ -121,12 +136,14 @@ def copy_office_chain(site_folder: Path, office: Path, home: Path, device: str) 
     path = office_path(office, device)
     if not path.is_file() or path.is_symlink():
         return []
-    return _keep_copies(site_folder, home, device, f"{RECEIPTS_DIR}/{path.name}",
-                        path.read_bytes(), None)
+    return _keep_copies(
+        site_folder, home, device, f"{RECEIPTS_DIR}/{path.name}", path.read_bytes(), None
+    )
 
 
-def _keep_copies(site_folder: Path, home: Path, device: str, label: str, data: bytes,
-                 before: bytes | None) -> list[str]:
+def _keep_copies(
+    site_folder: Path, home: Path, device: str, label: str, data: bytes, before: bytes | None
+) -> list[str]:
     """Write ``data`` as this device's copies; a copy that was not ``before`` is reported."""
     problems = []
     chain = parse_receipts(label, data).chain
@@ -136,9 +153,11 @@ def _keep_copies(site_folder: Path, home: Path, device: str, label: str, data: b
         if held == data:
             continue
         if before is not None and held != before:
-            problems.append(f"this device's copy {target} was "
-                            f"{'missing' if held is None else 'not the office chain'}; "
-                            "refreshed from the office")
+            problems.append(
+                f"this device's copy {target} was "
+                f"{'missing' if held is None else 'not the office chain'}; "
+                "refreshed from the office"
+            )
         try:
             write_receipts(folder, target.name, data)
         except LinkedFolder as exc:
@@ -159,8 +178,11 @@ def _check_round_trip(label: str, data: bytes, expected_hash: str) -> None:
     """
     back = parse_receipts(label, data)
     if back.problems or back.latest is None or back.latest.hash != expected_hash:
-        raise SyncError("the receipt did not read back as written", file=label,
-                        fix="report this as a fieldlog bug; nothing was written")
+        raise SyncError(
+            "the receipt did not read back as written",
+            file=label,
+            fix="report this as a fieldlog bug; nothing was written",
+        )
 
 
 def known_to(office: Path, device: str) -> tuple[str, ...]:

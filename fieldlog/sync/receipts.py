@@ -47,8 +47,10 @@ from fieldlog.journal.names import parse_file_name, valid_device
 RECEIPTS_DIR = "receipts"
 MAX_NUMBER = MAX_COUNTER
 
-HEADER = ("# fieldlog office receipts: written only by fieldlog sync, by appending. Do not edit:\n"
-          "# 'fieldlog verify' detects a changed, removed or reordered receipt.\n")
+HEADER = (
+    "# fieldlog office receipts: written only by fieldlog sync, by appending. Do not edit:\n"
+    "# 'fieldlog verify' detects a changed, removed or reordered receipt.\n"
+)
 
 _HEX64 = re.compile(r"^[0-9a-f]{64}$")
 _RECEIPT_KEYS = {"number", "synced_by", "written", "known", "holds", "prev", "hash"}
@@ -72,8 +74,12 @@ class Holding:
 
     def content(self) -> dict[str, Any]:
         """The values as stored and hashed."""
-        return {"device": self.device, "seq": self.seq, "entry_hash": self.entry_hash,
-                "file": self.file}
+        return {
+            "device": self.device,
+            "seq": self.seq,
+            "entry_hash": self.entry_hash,
+            "file": self.file,
+        }
 
 
 @dataclass(frozen=True)
@@ -104,19 +110,39 @@ class Receipt:
 
     def same_facts(self, holds: tuple[Holding, ...], known: tuple[str, ...]) -> bool:
         """True when this receipt already says ``holds`` and ``known`` (no new one needed)."""
-        return (self.holds == tuple(sorted(holds, key=lambda h: h.device))
-                and self.known == tuple(sorted(set(known))))
+        return self.holds == tuple(sorted(holds, key=lambda h: h.device)) and self.known == tuple(
+            sorted(set(known))
+        )
 
 
-def new_receipt(previous: Receipt | None, synced_by: str, written: datetime | None,
-                holds: tuple[Holding, ...], known: tuple[str, ...] = ()) -> Receipt:
+def new_receipt(
+    previous: Receipt | None,
+    synced_by: str,
+    written: datetime | None,
+    holds: tuple[Holding, ...],
+    known: tuple[str, ...] = (),
+) -> Receipt:
     """The receipt that follows ``previous`` (None: the first of a file)."""
     number = previous.number + 1 if previous else 1
     prev = previous.hash if previous else ""
-    draft = Receipt(number, synced_by, written, tuple(sorted(holds, key=lambda h: h.device)),
-                    prev, "", tuple(sorted(set(known))))
-    return Receipt(draft.number, draft.synced_by, draft.written, draft.holds, prev,
-                   entry_hash(draft.content()), draft.known)
+    draft = Receipt(
+        number,
+        synced_by,
+        written,
+        tuple(sorted(holds, key=lambda h: h.device)),
+        prev,
+        "",
+        tuple(sorted(set(known))),
+    )
+    return Receipt(
+        draft.number,
+        draft.synced_by,
+        draft.written,
+        draft.holds,
+        prev,
+        entry_hash(draft.content()),
+        draft.known,
+    )
 
 
 def receipt_text(receipt: Receipt) -> str:
@@ -169,8 +195,9 @@ def parse_receipts(label: str, data: bytes) -> ReceiptsFile:
     try:
         doc = loads(data, "receipts", label)
     except UnreadableToml as exc:
-        return _broken(label, data, "is not TOML: " + exc.problem
-                       + (f" (line {exc.line})" if exc.line else ""))
+        return _broken(
+            label, data, "is not TOML: " + exc.problem + (f" (line {exc.line})" if exc.line else "")
+        )
     except OutOfBounds as exc:
         return _broken(label, data, exc.problem)
     rows = doc.get("receipt", [])
@@ -181,8 +208,10 @@ def parse_receipts(label: str, data: bytes) -> ReceiptsFile:
     for position, row in enumerate(rows, 1):
         receipt, problem = _receipt(row)
         if receipt is None:
-            problems.append(f"{label}: receipt {position}: {problem}; "
-                            "the file was not written this way by fieldlog")
+            problems.append(
+                f"{label}: receipt {position}: {problem}; "
+                "the file was not written this way by fieldlog"
+            )
             continue
         problems += _chain_problems(label, position, receipt, receipts[-1] if receipts else None)
         receipts.append(receipt)
@@ -199,13 +228,20 @@ def _chain_problems(label: str, position: int, r: Receipt, before: Receipt | Non
     if entry_hash(r.content()) != r.hash:
         out.append(f"{label}: receipt {r.number}: edited: its values no longer match its hash")
     if r.number != position:
-        out.append(f"{label}: receipt {r.number}: removed or reordered: it is receipt "
-                   f"{position} of the file")
+        out.append(
+            f"{label}: receipt {r.number}: removed or reordered: it is receipt "
+            f"{position} of the file"
+        )
     expected = before.hash if before else ""
     if r.prev != expected:
-        out.append(f"{label}: receipt {r.number}: removed or rewritten: it is not chained to "
-                   + (f"receipt {before.number} before it" if before else "nothing (the "
-                      "receipts before it are gone)"))
+        out.append(
+            f"{label}: receipt {r.number}: removed or rewritten: it is not chained to "
+            + (
+                f"receipt {before.number} before it"
+                if before
+                else "nothing (the receipts before it are gone)"
+            )
+        )
     return out
 
 
@@ -229,8 +265,11 @@ def _receipt(row: Any) -> tuple[Receipt | None, str]:
     if not isinstance(digest, str) or not _HEX64.match(digest):
         return None, "hash is not a SHA-256 hex digest"
     known = row.get("known", [])
-    if (not isinstance(known, list) or any(not isinstance(d, str) or not valid_device(d)
-                                           for d in known) or known != sorted(set(known))):
+    if (
+        not isinstance(known, list)
+        or any(not isinstance(d, str) or not valid_device(d) for d in known)
+        or known != sorted(set(known))
+    ):
         return None, "known is not a sorted list of device ids"
     if not isinstance(holds_raw, list):
         return None, "holds is not a list of tables"
@@ -268,8 +307,7 @@ def _files_for(name: str, device: str) -> bool:
 
 
 def _whole(value: Any, low: int) -> bool:
-    return (isinstance(value, int) and not isinstance(value, bool)
-            and low <= value <= MAX_NUMBER)
+    return isinstance(value, int) and not isinstance(value, bool) and low <= value <= MAX_NUMBER
 
 
 def _shown(value: Any) -> str:

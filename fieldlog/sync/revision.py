@@ -72,8 +72,11 @@ class RevisionChange:
     @property
     def is_problem(self) -> bool:
         """True when a person has to look at the schedules."""
-        return self.status in (RevisionStatus.DIFFERS, RevisionStatus.TARGET_BEHIND,
-                               RevisionStatus.REFUSED)
+        return self.status in (
+            RevisionStatus.DIFFERS,
+            RevisionStatus.TARGET_BEHIND,
+            RevisionStatus.REFUSED,
+        )
 
 
 def seed_target(site_folder: Path, target: Path) -> tuple[str, ...]:
@@ -126,15 +129,21 @@ def bring_in_schedule(
         if mine == theirs_file.data:
             return RevisionChange(RevisionStatus.SAME, ours, theirs)
         return RevisionChange(
-            RevisionStatus.DIFFERS, ours, theirs,
+            RevisionStatus.DIFFERS,
+            ours,
+            theirs,
             f"the site's and the target's {SCHEDULE_FILE} differ but both say revision {ours}; "
             "nothing changed. Fix: the office issues the change as a new revision "
-            f"(revision = {ours + 1})")
+            f"(revision = {ours + 1})",
+        )
     if theirs < ours:
         return RevisionChange(
-            RevisionStatus.TARGET_BEHIND, ours, theirs,
+            RevisionStatus.TARGET_BEHIND,
+            ours,
+            theirs,
             f"the target has revision {theirs}, older than the site's {ours}; nothing changed "
-            "(the field never sends schedules). Fix: check this is the right office folder")
+            "(the field never sends schedules). Fix: check this is the right office folder",
+        )
     return _bring_in(site_folder, src, site, theirs)
 
 
@@ -142,30 +151,40 @@ def _bring_in(site_folder: Path, src: Path, site: Site, theirs: int) -> Revision
     """Validate the target's schedule as it will land, keep the old one, then swap."""
     history = site_folder / HISTORY_DIR
     if os.path.islink(history) or (os.path.lexists(history) and not history.is_dir()):
-        return _refused(site.revision, theirs,
-                        f"{HISTORY_DIR} in the site folder is a link or a file, so the old "
-                        "schedule cannot be kept there (links are never followed). Fix: "
-                        f"replace it with a plain folder named {HISTORY_DIR}")
+        return _refused(
+            site.revision,
+            theirs,
+            f"{HISTORY_DIR} in the site folder is a link or a file, so the old "
+            "schedule cannot be kept there (links are never followed). Fix: "
+            f"replace it with a plain folder named {HISTORY_DIR}",
+        )
     try:
         data = read_plain_file(src)
     except SourceChanged:
-        return _refused(site.revision, theirs,
-                        "the target's schedule changed while syncing; run sync again")
+        return _refused(
+            site.revision, theirs, "the target's schedule changed while syncing; run sync again"
+        )
     tmp = write_temp(site_folder, data, sha256_bytes(data))
     try:
         try:
             new_site = build_site(read_toml(site_folder / SITE_FILE), read_toml(tmp))
         except SiteError as exc:
-            located = SiteError(exc.problem, file=src, line=exc.line, activity=exc.activity,
-                                fix=exc.fix)
+            located = SiteError(
+                exc.problem, file=src, line=exc.line, activity=exc.activity, fix=exc.fix
+            )
             remove_quietly(tmp)
-            return _refused(site.revision, theirs,
-                            f"revision {theirs} does not load with this site's {SITE_FILE}: "
-                            f"{located.message}")
+            return _refused(
+                site.revision,
+                theirs,
+                f"revision {theirs} does not load with this site's {SITE_FILE}: {located.message}",
+            )
         if new_site.revision <= site.revision:  # the office rewrote it while we read it
             remove_quietly(tmp)
-            return _refused(site.revision, new_site.revision,
-                            "the target's schedule changed while syncing; run sync again")
+            return _refused(
+                site.revision,
+                new_site.revision,
+                "the target's schedule changed while syncing; run sync again",
+            )
         kept = _keep_old(site_folder, site.revision)
         replace(tmp, site_folder / SCHEDULE_FILE)
     except BaseException:
@@ -177,8 +196,12 @@ def _bring_in(site_folder: Path, src: Path, site: Site, theirs: int) -> Revision
     except JournalError as exc:  # the new schedule is in; say why orphans could not be listed
         orphaned = (f"the journal could not be read to look for orphaned entries: {exc.message}",)
     return RevisionChange(
-        RevisionStatus.BROUGHT_IN, site.revision, new_site.revision, kept_as=kept,
-        removed=removed_activities(site, new_site), orphaned=orphaned,
+        RevisionStatus.BROUGHT_IN,
+        site.revision,
+        new_site.revision,
+        kept_as=kept,
+        removed=removed_activities(site, new_site),
+        orphaned=orphaned,
     )
 
 
@@ -194,9 +217,11 @@ def _keep_old(site_folder: Path, revision: int) -> str:
     try:
         make_folder(history)
     except OSError as exc:
-        raise SyncError(f"cannot use {HISTORY_DIR}/: {exc.strerror}", file=history,
-                        fix="replace a link there with a real folder; check the site folder "
-                        "is writable") from exc
+        raise SyncError(
+            f"cannot use {HISTORY_DIR}/: {exc.strerror}",
+            file=history,
+            fix="replace a link there with a real folder; check the site folder is writable",
+        ) from exc
     for name in (f"schedule.r{revision}.toml", f"schedule.r{revision}.{digest[:8]}.toml"):
         dest = history / name
         if not os.path.lexists(dest):

@@ -57,8 +57,10 @@ def find_sites(folder: Path, max_depth: int = MAX_DEPTH) -> Iterator[Path]:
     if max_depth <= 0:
         return
     with os.scandir(folder) as entries:
-        subdirs = sorted((e for e in entries if e.is_dir(follow_symlinks=False)
-                          and not e.name.startswith(".")), key=lambda e: e.name)
+        subdirs = sorted(
+            (e for e in entries if e.is_dir(follow_symlinks=False) and not e.name.startswith(".")),
+            key=lambda e: e.name,
+        )
     for entry in subdirs:
         yield from find_sites(Path(entry.path), max_depth - 1)
 
@@ -72,9 +74,13 @@ def site_row(folder: Path, base: Path) -> SiteRow:
     except FieldlogError as exc:
         return SiteRow(rel, schedule_revision(folder), conflicts=conflicts, error=exc.message)
     return SiteRow(
-        path=rel, revision=state.site.revision, last_log_day=state.journal.last_day,
-        finish=state.schedule.finish, finish_by=state.site.finish_by,
-        finish_float=state.schedule.finish_float, conflicts=conflicts,
+        path=rel,
+        revision=state.site.revision,
+        last_log_day=state.journal.last_day,
+        finish=state.schedule.finish,
+        finish_by=state.site.finish_by,
+        finish_float=state.schedule.finish_float,
+        conflicts=conflicts,
     )
 
 

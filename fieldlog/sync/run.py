@@ -99,8 +99,9 @@ class _Side:
     """The receiving side's key check (forged entries never land in its ``log/``)."""
 
 
-def sync_site(site_folder: Path | str, target: Path | str,
-              options: SyncOptions | None = None) -> SyncSummary:
+def sync_site(
+    site_folder: Path | str, target: Path | str, options: SyncOptions | None = None
+) -> SyncSummary:
     """Make the site and the target whole: journal files both ways, schedule revision in.
 
     Raises:
@@ -119,22 +120,34 @@ def sync_site(site_folder: Path | str, target: Path | str,
     seeded = seed_target(site_folder, target)
     devices = sync_devices(site_folder, target)
 
-    ours, theirs = (scan_log(site_folder, "site", max_bytes=opts.max_bytes),
-                    scan_log(target, "target", max_bytes=opts.max_bytes))
+    ours, theirs = (
+        scan_log(site_folder, "site", max_bytes=opts.max_bytes),
+        scan_log(target, "target", max_bytes=opts.max_bytes),
+    )
     held_site, held_office = listing_holdings(ours), listing_holdings(theirs)
     vouch = vouchers(site_folder, target, home, device)
     sides = {
-        Direction.RECEIVE: _Side(SideLosses.of("site", held_site, vouch.site), held_office,
-                                 "target", signature_check(site_folder)),
-        Direction.SEND: _Side(SideLosses.of("target", held_office, vouch.office), held_site,
-                              "site", signature_check(target)),
+        Direction.RECEIVE: _Side(
+            SideLosses.of("site", held_site, vouch.site),
+            held_office,
+            "target",
+            signature_check(site_folder),
+        ),
+        Direction.SEND: _Side(
+            SideLosses.of("target", held_office, vouch.office),
+            held_site,
+            "site",
+            signature_check(target),
+        ),
     }
     plan = plan_logs(ours.files, theirs.files, _is_prefix)
     refused = [*ours.refused, *theirs.refused]
-    done, skipped, copied_bytes, restored = _copy_all(plan, site_folder, target, check, opts,
-                                                      refused, sides)
-    conflicts = [_keep_both(c, site_folder, target, check, refused, skipped)
-                 for c in plan.conflicts]
+    done, skipped, copied_bytes, restored = _copy_all(
+        plan, site_folder, target, check, opts, refused, sides
+    )
+    conflicts = [
+        _keep_both(c, site_folder, target, check, refused, skipped) for c in plan.conflicts
+    ]
     for folder in {site_folder / LOG_DIR, target / LOG_DIR}:
         if folder.is_dir():
             fsync_folder(folder)
@@ -142,20 +155,43 @@ def sync_site(site_folder: Path | str, target: Path | str,
     revision = bring_in_schedule(site_folder, target, site, max_bytes=opts.max_bytes)
     after_site = listing_holdings(scan_log(site_folder, "site", max_bytes=opts.max_bytes))
     after_office = listing_holdings(scan_log(target, "target", max_bytes=opts.max_bytes))
-    lost = [*SideLosses.of("site", after_site, vouch.site).lines(),
-            *SideLosses.of("target", after_office, vouch.office).lines()]
-    written = (datetime.fromtimestamp(opts.now, UTC).replace(microsecond=0)
-               if opts.now is not None else None)
-    receipt = (give_receipt(site_folder, target, home, device, written,
-                            common_holdings(after_site, after_office), opts.receipt_copies)
-               if opts.receipts else ReceiptOutcome())
+    lost = [
+        *SideLosses.of("site", after_site, vouch.site).lines(),
+        *SideLosses.of("target", after_office, vouch.office).lines(),
+    ]
+    written = (
+        datetime.fromtimestamp(opts.now, UTC).replace(microsecond=0)
+        if opts.now is not None
+        else None
+    )
+    receipt = (
+        give_receipt(
+            site_folder,
+            target,
+            home,
+            device,
+            written,
+            common_holdings(after_site, after_office),
+            opts.receipt_copies,
+        )
+        if opts.receipts
+        else ReceiptOutcome()
+    )
     return SyncSummary(
         sent=tuple(c for c in done if c.direction is Direction.SEND),
         received=tuple(c for c in done if c.direction is Direction.RECEIVE),
-        unchanged=plan.unchanged, seeded=seeded, revision=revision,
-        conflicts=tuple(conflicts), refused=tuple(refused), skipped=tuple(skipped),
-        cleaned=cleaned, bytes_copied=copied_bytes, devices=devices, restored=tuple(restored),
-        lost=tuple(lost), receipt=receipt.written,
+        unchanged=plan.unchanged,
+        seeded=seeded,
+        revision=revision,
+        conflicts=tuple(conflicts),
+        refused=tuple(refused),
+        skipped=tuple(skipped),
+        cleaned=cleaned,
+        bytes_copied=copied_bytes,
+        devices=devices,
+        restored=tuple(restored),
+        lost=tuple(lost),
+        receipt=receipt.written,
         receipt_problems=tuple(dict.fromkeys((*vouch.problems, *receipt.problems))),
     )
 
@@ -163,19 +199,27 @@ def sync_site(site_folder: Path | str, target: Path | str,
 def _check_target(site_folder: Path, target: Path) -> None:
     """Refuse a target that does not exist, is the site itself, or holds many sites."""
     if not target.is_dir():
-        raise SyncError("the target folder does not exist", file=target,
-                        fix="create it first (an empty folder is fine: sync fills it from the "
-                        "site) or check the drive letter / mount point")
+        raise SyncError(
+            "the target folder does not exist",
+            file=target,
+            fix="create it first (an empty folder is fine: sync fills it from the "
+            "site) or check the drive letter / mount point",
+        )
     if os.path.samefile(site_folder, target):
-        raise SyncError("the target is the site folder itself", file=target,
-                        fix="give the office's folder for this site")
+        raise SyncError(
+            "the target is the site folder itself",
+            file=target,
+            fix="give the office's folder for this site",
+        )
     has_site_files = any((target / n).exists() for n in (SITE_FILE, SCHEDULE_FILE))
     if not has_site_files and any(
         (p / SITE_FILE).is_file() for p in target.iterdir() if p.is_dir() and not p.is_symlink()
     ):
-        raise SyncError("the target holds site folders, not one site's files", file=target,
-                        fix="give this site's own folder inside it, e.g. "
-                        f"{target / site_folder.name}")
+        raise SyncError(
+            "the target holds site folders, not one site's files",
+            file=target,
+            fix=f"give this site's own folder inside it, e.g. {target / site_folder.name}",
+        )
 
 
 def _clean(site_folder: Path, target: Path, opts: SyncOptions) -> int:
@@ -195,9 +239,15 @@ def _is_prefix(shorter: LogFile, longer: LogFile) -> bool:
     return sha256_file(longer.path, limit=shorter.size) == shorter.sha256
 
 
-def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalCheck,
-              opts: SyncOptions, refused: list[Refusal], sides: dict[Direction, _Side],
-              ) -> tuple[list[Copy], list[str], int, list[str]]:
+def _copy_all(
+    plan: LogPlan,
+    site_folder: Path,
+    target: Path,
+    check: JournalCheck,
+    opts: SyncOptions,
+    refused: list[Refusal],
+    sides: dict[Direction, _Side],
+) -> tuple[list[Copy], list[str], int, list[str]]:
     """Carry out every planned copy; returns (done, skipped names, bytes copied, restores)."""
     done: list[Copy] = []
     skipped: list[str] = []
@@ -213,17 +263,27 @@ def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalChec
         side = sides[copy.direction]
         try:
             copied += copy_verified(
-                copy.source.path, dest_side / LOG_DIR / copy.name, copy.source.sha256,
+                copy.source.path,
+                dest_side / LOG_DIR / copy.name,
+                copy.source.sha256,
                 replaces_sha256=copy.replaces.sha256 if copy.replaces else None,
                 validate=partial(_journal_and_keys, check, side.signatures, copy.name),
                 make_folder=True,
             )
         except ForgedEntries as exc:
-            refused.append(_quarantine(copy, dest_side, "site" if to_site else "target",
-                                       partial(check, copy.name), exc))
+            refused.append(
+                _quarantine(
+                    copy, dest_side, "site" if to_site else "target", partial(check, copy.name), exc
+                )
+            )
         except JournalError as exc:
-            refused.append(Refusal("target" if to_site else "site", f"{LOG_DIR}/{copy.name}",
-                                   _not_journal(copy.name, exc)))
+            refused.append(
+                Refusal(
+                    "target" if to_site else "site",
+                    f"{LOG_DIR}/{copy.name}",
+                    _not_journal(copy.name, exc),
+                )
+            )
         except SourceChanged:
             skipped.append(f"{LOG_DIR}/{copy.name}")
         except LinkedFolder:
@@ -238,15 +298,17 @@ def _copy_all(plan: LogPlan, site_folder: Path, target: Path, check: JournalChec
     return done, skipped, copied, restored
 
 
-def _journal_and_keys(check: JournalCheck, signatures: SignatureCheck, name: str,
-                      data: bytes) -> None:
+def _journal_and_keys(
+    check: JournalCheck, signatures: SignatureCheck, name: str, data: bytes
+) -> None:
     """A sound journal file whose every entry is signed as the receiving side's keys say."""
     check(name, data)
     signatures(name, data)
 
 
-def _quarantine(copy: Copy, dest_side: Path, dest_name: str, check: Callable[[bytes], None],
-                exc: ForgedEntries) -> Refusal:
+def _quarantine(
+    copy: Copy, dest_side: Path, dest_name: str, check: Callable[[bytes], None], exc: ForgedEntries
+) -> Refusal:
     """Keep a file with forged entries in the receiving side's quarantine; the refusal line."""
     from_side = "target" if dest_name == "site" else "site"
     try:
@@ -255,8 +317,9 @@ def _quarantine(copy: Copy, dest_side: Path, dest_name: str, check: Callable[[by
         where = f"not kept ({why})"
     else:
         where = f"kept in {dest_name} {rel}, not in {LOG_DIR}/"
-    return Refusal(from_side, f"{LOG_DIR}/{copy.name}",
-                   f"holds forged entries: {exc.problem}; {where}")
+    return Refusal(
+        from_side, f"{LOG_DIR}/{copy.name}", f"holds forged entries: {exc.problem}; {where}"
+    )
 
 
 def _restore_note(copy: Copy, side: _Side) -> str | None:
@@ -268,20 +331,29 @@ def _restore_note(copy: Copy, side: _Side) -> str | None:
     return side.losses.restore_note(copy.name, device, side.source, side.source_side)
 
 
-def _keep_both(conflict: Conflict, site_folder: Path, target: Path, check: JournalCheck,
-               refused: list[Refusal], skipped: list[str]) -> ConflictReport:
+def _keep_both(
+    conflict: Conflict,
+    site_folder: Path,
+    target: Path,
+    check: JournalCheck,
+    refused: list[Refusal],
+    skipped: list[str],
+) -> ConflictReport:
     """Save each side's version beside the other's; report where they went."""
     kept: list[str] = []
-    pairs = ((conflict.target, site_folder, "site", "target"),
-             (conflict.site, target, "target", "site"))
+    pairs = (
+        (conflict.target, site_folder, "site", "target"),
+        (conflict.site, target, "target", "site"),
+    )
     for version, dest, dest_side, from_side in pairs:
         if version is None:
             continue
         try:
             rel, _ = keep_aside(version, dest, partial(check, version.name))
         except JournalError as exc:
-            refused.append(Refusal(from_side, f"{LOG_DIR}/{version.name}",
-                                   _not_journal(version.name, exc)))
+            refused.append(
+                Refusal(from_side, f"{LOG_DIR}/{version.name}", _not_journal(version.name, exc))
+            )
         except SourceChanged:
             skipped.append(f"{LOG_DIR}/{version.name}")
         except LinkedFolder:

@@ -116,6 +116,8 @@ def _entry_problem(entry: os.DirEntry, max_bytes: int) -> str | None:
         return "is not a plain file"
     size = entry.stat(follow_symlinks=False).st_size
     if size > max_bytes:
-        return (f"is {size / 1048576:.1f} MB, over the {max_bytes / 1048576:.0f} MB limit "
-                "for a journal file")
+        return (
+            f"is {size / 1048576:.1f} MB, over the {max_bytes / 1048576:.0f} MB limit "
+            "for a journal file"
+        )
     return None

@@ -40,8 +40,7 @@ class SyncRecord:
     """The site's schedule revision after the sync."""
 
     @classmethod
-    def of(cls, site: Path, target: Path | str, summary: SyncSummary,
-           when: datetime) -> SyncRecord:
+    def of(cls, site: Path, target: Path | str, summary: SyncSummary, when: datetime) -> SyncRecord:
         """The record of a finished sync (``fieldlog sync`` and the app both save this).
 
         ``target`` is a folder, or the text of a git target (kept as given).
@@ -54,9 +53,12 @@ class SyncRecord:
             revision = change.target_revision
         return cls(
             site=str(site.resolve()),
-            target=str(target.resolve()) if isinstance(target, Path) else target, when=when,
-            sent=len(summary.sent), received=len(summary.received),
-            conflicts=len(summary.conflicts), refused=len(summary.refused),
+            target=str(target.resolve()) if isinstance(target, Path) else target,
+            when=when,
+            sent=len(summary.sent),
+            received=len(summary.received),
+            conflicts=len(summary.conflicts),
+            refused=len(summary.refused),
             revision=revision,
         )
 
@@ -72,9 +74,14 @@ def save_record(record: SyncRecord, home: Path | None = None) -> Path:
     path = record_path(home or fieldlog_home(), Path(record.site))
     path.parent.mkdir(parents=True, exist_ok=True)
     data = {
-        "site": record.site, "target": record.target, "when": record.when,
-        "sent": record.sent, "received": record.received, "conflicts": record.conflicts,
-        "refused": record.refused, "revision": record.revision,
+        "site": record.site,
+        "target": record.target,
+        "when": record.when,
+        "sent": record.sent,
+        "received": record.received,
+        "conflicts": record.conflicts,
+        "refused": record.refused,
+        "revision": record.revision,
     }
     write_atomic(path, tomli_w.dumps(data).encode("utf-8"))
     return path
@@ -92,10 +99,18 @@ def last_sync(site_folder: Path, home: Path | None = None) -> SyncRecord | None:
     try:
         data = loads(read_capped(path, "settings"), "settings", path.name)
         return SyncRecord(
-            site=data["site"], target=data["target"], when=data["when"], sent=data["sent"],
-            received=data["received"], conflicts=data["conflicts"], refused=data["refused"],
+            site=data["site"],
+            target=data["target"],
+            when=data["when"],
+            sent=data["sent"],
+            received=data["received"],
+            conflicts=data["conflicts"],
+            refused=data["refused"],
             revision=data["revision"],
         )
     except (OSError, FieldlogError, KeyError) as exc:
-        raise SyncError(f"the last-sync record cannot be read ({exc})", file=path,
-                        fix="delete this file; the next sync writes a new one") from exc
+        raise SyncError(
+            f"the last-sync record cannot be read ({exc})",
+            file=path,
+            fix="delete this file; the next sync writes a new one",
+        ) from exc

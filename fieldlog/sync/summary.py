@@ -60,17 +60,31 @@ class SyncSummary:
     def has_problems(self) -> bool:
         """True when a person should look: conflicts, refusals, skipped files, schedules,
         restored or lost entries, receipts that do not verify."""
-        return bool(self.conflicts or self.refused or self.skipped or self.revision.is_problem
-                    or self.restored or self.lost or self.receipt_problems
-                    or self.devices.has_problems)
+        return bool(
+            self.conflicts
+            or self.refused
+            or self.skipped
+            or self.revision.is_problem
+            or self.restored
+            or self.lost
+            or self.receipt_problems
+            or self.devices.has_problems
+        )
 
     @property
     def changed_anything(self) -> bool:
         """True when either folder was written to."""
-        return bool(self.sent or self.received or self.seeded or self.cleaned or self.receipt
-                    or self.devices.sent or self.devices.received
-                    or self.revision.status is RevisionStatus.BROUGHT_IN
-                    or any(r.kept for r in self.conflicts))
+        return bool(
+            self.sent
+            or self.received
+            or self.seeded
+            or self.cleaned
+            or self.receipt
+            or self.devices.sent
+            or self.devices.received
+            or self.revision.status is RevisionStatus.BROUGHT_IN
+            or any(r.kept for r in self.conflicts)
+        )
 
     @property
     def exit_code(self) -> int:
@@ -96,14 +110,18 @@ def render_text(s: SyncSummary) -> str:
     lines.extend(_device_lines(s.devices))
     lines.append(f"{'sent':<11}{_files(s.sent)} to the target")
     lines.append(f"{'received':<11}{_files(s.received)} from the target")
-    lines.append(f"{'unchanged':<11}{s.unchanged} journal "
-                 f"{'file' if s.unchanged == 1 else 'files'} already the same on both sides")
+    lines.append(
+        f"{'unchanged':<11}{s.unchanged} journal "
+        f"{'file' if s.unchanged == 1 else 'files'} already the same on both sides"
+    )
     lines.append(f"{'schedule':<11}{_revision_line(s.revision)}")
     if s.revision.removed:
         lines.append(f"{pad}activities no longer in the schedule: {', '.join(s.revision.removed)}")
     if s.revision.orphaned:
-        lines.append(f"{'orphaned':<11}{len(s.revision.orphaned)} journal entries name "
-                     "activities the new revision no longer has (kept in the journal):")
+        lines.append(
+            f"{'orphaned':<11}{len(s.revision.orphaned)} journal entries name "
+            "activities the new revision no longer has (kept in the journal):"
+        )
         lines.extend(f"{pad}- {m}" for m in s.revision.orphaned)
     lines.append(f"{'conflicts':<11}{len(s.conflicts)}")
     for c in s.conflicts:
@@ -115,22 +133,29 @@ def render_text(s: SyncSummary) -> str:
         lines.append(f"{'skipped':<11}{len(s.skipped)} changed while syncing; run sync again:")
         lines.extend(f"{pad}- {name}" for name in s.skipped)
     if s.restored:
-        lines.append(f"{'restored':<11}{len(s.restored)} journal "
-                     f"{'file' if len(s.restored) == 1 else 'files'} brought back after "
-                     "entries had been removed since a sync:")
+        lines.append(
+            f"{'restored':<11}{len(s.restored)} journal "
+            f"{'file' if len(s.restored) == 1 else 'files'} brought back after "
+            "entries had been removed since a sync:"
+        )
         lines.extend(f"{pad}- {r}" for r in s.restored)
     if s.lost:
-        lines.append(f"{'lost':<11}{len(s.lost)} receipted entries are on neither side; "
-                     "restore them from a backup:")
+        lines.append(
+            f"{'lost':<11}{len(s.lost)} receipted entries are on neither side; "
+            "restore them from a backup:"
+        )
         lines.extend(f"{pad}- {r}" for r in s.lost)
     lines.append(f"{'receipt':<11}{s.receipt or 'unchanged: the last receipt still holds'}")
     lines.extend(f"{pad}- {p}" for p in s.receipt_problems)
     if s.cleaned:
-        lines.append(f"{'cleaned':<11}{s.cleaned} leftover temporary files of an interrupted "
-                     "sync removed")
+        lines.append(
+            f"{'cleaned':<11}{s.cleaned} leftover temporary files of an interrupted sync removed"
+        )
     if s.has_problems:
-        lines.append("result     look at the findings above; both folders are valid and "
-                     "nothing was overwritten")
+        lines.append(
+            "result     look at the findings above; both folders are valid and "
+            "nothing was overwritten"
+        )
     elif not s.changed_anything:
         lines.append("result     nothing to do: both sides already match")
     else:
@@ -143,8 +168,9 @@ def _device_lines(d: DeviceSync) -> list[str]:
     pad = " " * 11
     lines = []
     if d.sent or d.received:
-        lines.append(f"{'keys':<11}{len(d.sent)} device key file(s) sent, {len(d.received)} "
-                     "received")
+        lines.append(
+            f"{'keys':<11}{len(d.sent)} device key file(s) sent, {len(d.received)} received"
+        )
     for c in d.conflicts:
         lines.append(f"{'KEY CLASH':<11}{c}")
     lines.extend(f"{pad}- {r.describe()}" for r in d.refused)
@@ -156,16 +182,21 @@ def _revision_line(r: RevisionChange) -> str:
     if r.status is RevisionStatus.SAME:
         return f"revision {r.site_revision} on both sides"
     if r.status is RevisionStatus.BROUGHT_IN:
-        return (f"revision {r.site_revision} -> {r.target_revision} brought in from the target "
-                f"(revision {r.site_revision} kept as {r.kept_as})")
+        return (
+            f"revision {r.site_revision} -> {r.target_revision} brought in from the target "
+            f"(revision {r.site_revision} kept as {r.kept_as})"
+        )
     return f"PROBLEM: {r.message}"
 
 
 def render_json(s: SyncSummary) -> str:
     """The summary as JSON for scripts and the app."""
+
     def copies(cs: tuple[Copy, ...]) -> list[dict]:
-        return [{"name": c.name, "grown": c.grown, "bytes": c.source.size,
-                 "sha256": c.source.sha256} for c in cs]
+        return [
+            {"name": c.name, "grown": c.grown, "bytes": c.source.size, "sha256": c.source.sha256}
+            for c in cs
+        ]
 
     data = {
         "sent": copies(s.sent),
@@ -181,15 +212,20 @@ def render_json(s: SyncSummary) -> str:
             "removed": list(s.revision.removed),
             "orphaned": list(s.revision.orphaned),
         },
-        "conflicts": [{"name": c.name, "reason": c.reason, "kept": list(c.kept)}
-                      for c in s.conflicts],
+        "conflicts": [
+            {"name": c.name, "reason": c.reason, "kept": list(c.kept)} for c in s.conflicts
+        ],
         "refused": [{"side": r.side, "path": r.path, "reason": r.reason} for r in s.refused],
         "skipped": list(s.skipped),
-        "devices": {"sent": list(s.devices.sent), "received": list(s.devices.received),
-                    "conflicts": list(s.devices.conflicts),
-                    "refused": [{"side": r.side, "path": r.path, "reason": r.reason}
-                                for r in s.devices.refused],
-                    "skipped": list(s.devices.skipped)},
+        "devices": {
+            "sent": list(s.devices.sent),
+            "received": list(s.devices.received),
+            "conflicts": list(s.devices.conflicts),
+            "refused": [
+                {"side": r.side, "path": r.path, "reason": r.reason} for r in s.devices.refused
+            ],
+            "skipped": list(s.devices.skipped),
+        },
         "restored": list(s.restored),
         "lost": list(s.lost),
         "receipt": {"written": s.receipt, "problems": list(s.receipt_problems)},

@@ -40,8 +40,10 @@ another time zone), so age alone never decides: another device may be copying no
 """
 THIS_HOST = re.sub(r"[^a-z0-9]+", "-", socket.gethostname().lower()).strip("-")[:24] or "host"
 """This machine's name as it appears in temporary file names."""
-_TEMP_NAME = re.compile(r"^\.fieldlog-sync-(?P<host>[a-z0-9-]+)-(?P<pid>\d{1,10})-[0-9a-f]{8}"
-                        r"\.tmp$")
+_TEMP_NAME = re.compile(
+    r"^\.fieldlog-sync-(?P<host>[a-z0-9-]+)-(?P<pid>\d{1,10})-[0-9a-f]{8}"
+    r"\.tmp$"
+)
 
 _CHUNK = 1 << 20
 
@@ -139,9 +141,11 @@ def read_plain_file(path: Path) -> bytes:
     except OSError as exc:
         if exc.errno == errno.ELOOP:
             raise SourceChanged(f"{path} became a link while syncing") from None
-        raise SyncError(f"cannot read: {exc.strerror or exc}", file=path,
-                        fix="check the file's permissions and the device, then run sync "
-                        "again") from exc
+        raise SyncError(
+            f"cannot read: {exc.strerror or exc}",
+            file=path,
+            fix="check the file's permissions and the device, then run sync again",
+        ) from exc
     with os.fdopen(fd, "rb") as f:
         return f.read()
 
@@ -153,8 +157,11 @@ def write_atomic(dest: Path, data: bytes) -> None:
         SyncError: the folder could not be written or the bytes did not read back identically.
     """
     if dest.is_symlink() or dest.parent.is_symlink():
-        raise SyncError("this or its folder is a link; fieldlog never writes through one",
-                        file=dest, fix="replace the link with the real file or folder")
+        raise SyncError(
+            "this or its folder is a link; fieldlog never writes through one",
+            file=dest,
+            fix="replace the link with the real file or folder",
+        )
     tmp = write_temp(dest.parent, data, sha256_bytes(data))
     try:
         replace(tmp, dest)
@@ -180,13 +187,15 @@ def write_temp(folder: Path, data: bytes, expected_sha256: str) -> Path:
             flush_to_disk(f.fileno())
         if sha256_file(tmp) != expected_sha256:
             raise SyncError(
-                "the copy did not read back identically", file=tmp,
+                "the copy did not read back identically",
+                file=tmp,
                 fix="the stick or share may be failing; try another, then run sync again",
             )
     except OSError as exc:
         remove_quietly(tmp)
         raise SyncError(
-            f"cannot write into this folder: {exc.strerror or exc}", file=folder,
+            f"cannot write into this folder: {exc.strerror or exc}",
+            file=folder,
             fix="check the folder is writable, has free space and the stick is still in; "
             "then run sync again (what was already copied is complete)",
         ) from exc
@@ -200,7 +209,7 @@ def _write_all(f: BinaryIO, data: bytes) -> None:
     """Write ``data`` in chunks (one place for tests to simulate a failure mid-file)."""
     view = memoryview(data)
     for start in range(0, len(view), _CHUNK):
-        f.write(view[start:start + _CHUNK])
+        f.write(view[start : start + _CHUNK])
 
 
 def replace(tmp: Path, dest: Path) -> None:
@@ -212,12 +221,17 @@ def replace(tmp: Path, dest: Path) -> None:
     try:
         replace_with_retry(tmp, dest)
     except PermissionError as exc:
-        raise SyncError(f"cannot rename into place: {exc.strerror}", file=dest,
-                        fix="close programs that have the file open, then run sync again",
-                        ) from exc
+        raise SyncError(
+            f"cannot rename into place: {exc.strerror}",
+            file=dest,
+            fix="close programs that have the file open, then run sync again",
+        ) from exc
     except OSError as exc:
-        raise SyncError(f"cannot rename into place: {exc.strerror or exc}", file=dest,
-                        fix="check the folder, then run sync again") from exc
+        raise SyncError(
+            f"cannot rename into place: {exc.strerror or exc}",
+            file=dest,
+            fix="check the folder, then run sync again",
+        ) from exc
 
 
 def fsync_folder(folder: Path) -> None:
@@ -232,9 +246,11 @@ def fsync_folder(folder: Path) -> None:
     try:
         durable.fsync_folder(folder)
     except OSError as exc:
-        raise SyncError(f"cannot flush the folder: {exc.strerror or exc}", file=folder,
-                        fix="check the stick or share is still there, then run sync again",
-                        ) from exc
+        raise SyncError(
+            f"cannot flush the folder: {exc.strerror or exc}",
+            file=folder,
+            fix="check the stick or share is still there, then run sync again",
+        ) from exc
 
 
 def clean_stale_temps(folder: Path, now: float, older_than_s: float = STALE_AFTER_S) -> int:
@@ -294,8 +310,11 @@ def _make_folder(folder: Path) -> None:
     try:
         folder.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
-        raise SyncError(f"cannot create the folder: {exc.strerror or exc}", file=folder,
-                        fix="check the folder is writable, then run sync again") from exc
+        raise SyncError(
+            f"cannot create the folder: {exc.strerror or exc}",
+            file=folder,
+            fix="check the folder is writable, then run sync again",
+        ) from exc
 
 
 def _check_destination(dest: Path, replaces_sha256: str | None) -> None:

@@ -57,15 +57,28 @@ def write_log(folder: Path, days: int) -> date:
         written = datetime(day.year, day.month, day.day, 17, tzinfo=UTC)
 
         def rec(kind: str, fields: dict, day: date = day, written: datetime = written) -> None:
-            record_entry(folder, site, kind, day, fields, today=day, device=DEVICE,
-                         author="Bench", clock=lambda: written)
+            record_entry(
+                folder,
+                site,
+                kind,
+                day,
+                fields,
+                today=day,
+                device=DEVICE,
+                author="Bench",
+                clock=lambda: written,
+            )
 
         acts = state.schedule.activities
-        for r in [a for a in acts if a.status.value == "in progress"
-                  and a.early_finish == day][:15]:
+        for r in [a for a in acts if a.status.value == "in progress" and a.early_finish == day][
+            :15
+        ]:
             rec("finished", {"activity": r.id})
-        for r in [a for a in acts if a.status.value == "not started"
-                  and a.early_start == day and a.duration > 0][:15]:
+        for r in [
+            a
+            for a in acts
+            if a.status.value == "not started" and a.early_start == day and a.duration > 0
+        ][:15]:
             rec("started", {"activity": r.id})
         rec("weather", {"conditions": "dry", "high": 14.0, "low": 6.0})
         rec("crew", {"trade": "groundworks", "headcount": 6})
@@ -212,8 +225,13 @@ def first_screen(code: str, *args: str) -> float:
     """Best of three fresh interpreters: seconds to the first frame (imports included)."""
     best = float("inf")
     for _ in range(3):
-        out = subprocess.run([sys.executable, "-c", code, *args], capture_output=True,
-                             text=True, check=True, cwd=ROOT)
+        out = subprocess.run(
+            [sys.executable, "-c", code, *args],
+            capture_output=True,
+            text=True,
+            check=True,
+            cwd=ROOT,
+        )
         best = min(best, float(out.stdout.strip().splitlines()[-1]))
     return best
 
@@ -232,16 +250,22 @@ def main() -> None:
         from fieldlog.journal import read_journal
 
         n = len(read_journal(folder).entries)
-        print(f"site: {size} activities, {n} log entries (written in "
-              f"{time.perf_counter() - t:.1f} s); app opens on {today}")
+        print(
+            f"site: {size} activities, {n} log entries (written in "
+            f"{time.perf_counter() - t:.1f} s); app opens on {today}"
+        )
         ours = asyncio.run(latency_of_a_finish(folder, today))
         ref = asyncio.run(reference_latency())
     med, ref_med = statistics.median(ours), statistics.median(ref)
-    print(f"finish -> repainted, {len(ours)} presses: median {med * 1000:.0f} ms, "
-          f"best {min(ours) * 1000:.0f} ms, worst {max(ours) * 1000:.0f} ms "
-          f"(target < 100 ms)")
-    print(f"reference bare app, 20-row table repaint: median {ref_med * 1000:.0f} ms; "
-          f"ratio {med / ref_med:.1f}x")
+    print(
+        f"finish -> repainted, {len(ours)} presses: median {med * 1000:.0f} ms, "
+        f"best {min(ours) * 1000:.0f} ms, worst {max(ours) * 1000:.0f} ms "
+        f"(target < 100 ms)"
+    )
+    print(
+        f"reference bare app, 20-row table repaint: median {ref_med * 1000:.0f} ms; "
+        f"ratio {med / ref_med:.1f}x"
+    )
     from fieldlog.commands.demo import demo_day
 
     sample = ROOT / "sample_sites" / "kestrel-yard"
@@ -251,8 +275,10 @@ def main() -> None:
         save_author("Bench")
         ours_first = first_screen(FIRST_SCREEN, str(sample), day.isoformat())
         bare_first = first_screen(BARE_FIRST_SCREEN)
-    print(f"first screen of the sample site: {ours_first * 1000:.0f} ms (target < 1000 ms); "
-          f"bare Textual app {bare_first * 1000:.0f} ms; ratio {ours_first / bare_first:.1f}x")
+    print(
+        f"first screen of the sample site: {ours_first * 1000:.0f} ms (target < 1000 ms); "
+        f"bare Textual app {bare_first * 1000:.0f} ms; ratio {ours_first / bare_first:.1f}x"
+    )
 
 
 if __name__ == "__main__":

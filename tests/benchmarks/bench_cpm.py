@@ -98,8 +98,9 @@ def reference_graph(site: Site) -> nx.DiGraph:
     return g
 
 
-def bench_engine(site: Site, label: str, status: date | None = None,
-                 progress: dict[str, Progress] | None = None) -> tuple[float, float, float]:
+def bench_engine(
+    site: Site, label: str, status: date | None = None, progress: dict[str, Progress] | None = None
+) -> tuple[float, float, float]:
     """Print and return (recompute, recompute + rows, networkx) in seconds."""
     status = status or site.start - timedelta(days=1)
     n = len(site.activities)
@@ -111,12 +112,17 @@ def bench_engine(site: Site, label: str, status: date | None = None,
     assert len(run().activities) == n  # warm: network arrays built, calendars and tables cached
     g = reference_graph(site)
     warm, rows, cold, ref = best_interleaved(
-        repeats, run, lambda: run().activities,
+        repeats,
+        run,
+        lambda: run().activities,
         lambda: run(dataclasses.replace(site)).activities,
-        lambda: nx.dag_longest_path_length(g))
-    print(f"{label:<24} {n:>6} act {len(site.links):>6} links | recompute {ms(warm)}"
-          f"  + rows {ms(rows)}  cold {ms(cold)} | networkx {ms(ref)} | networkx/engine"
-          f" {ref / warm:5.1f}x, with rows {ref / rows:4.1f}x, cold {ref / cold:4.1f}x")
+        lambda: nx.dag_longest_path_length(g),
+    )
+    print(
+        f"{label:<24} {n:>6} act {len(site.links):>6} links | recompute {ms(warm)}"
+        f"  + rows {ms(rows)}  cold {ms(cold)} | networkx {ms(ref)} | networkx/engine"
+        f" {ref / warm:5.1f}x, with rows {ref / rows:4.1f}x, cold {ref / cold:4.1f}x"
+    )
     return warm, rows, ref
 
 
@@ -136,8 +142,11 @@ def mid_job(site: Site) -> tuple[Site, date, dict[str, Progress]]:
         if k < n * 2 // 5:
             progress[a.id] = Progress(actual_start=begun, actual_finish=begun + timedelta(4))
         else:
-            progress[a.id] = Progress(actual_start=begun, remaining=rng.randint(1, 9),
-                                      remaining_as_of=status - timedelta(days=3))
+            progress[a.id] = Progress(
+                actual_start=begun,
+                remaining=rng.randint(1, 9),
+                remaining_as_of=status - timedelta(days=3),
+            )
     return dataclasses.replace(site, finish_by=site.start + timedelta(days=900)), status, progress
 
 
@@ -166,8 +175,10 @@ def bench_process(n: int) -> None:
 
         t_ours = best_of(3, lambda: run(ours))
         t_ref = best_of(3, lambda: run(ref))
-        print(f"process, {n} activities: fieldlog schedule {t_ours * 1e3:7.0f} ms | tomllib + "
-              f"networkx {t_ref * 1e3:7.0f} ms | reference/fieldlog {t_ref / t_ours:4.2f}x")
+        print(
+            f"process, {n} activities: fieldlog schedule {t_ours * 1e3:7.0f} ms | tomllib + "
+            f"networkx {t_ref * 1e3:7.0f} ms | reference/fieldlog {t_ref / t_ours:4.2f}x"
+        )
 
 
 def main(argv: list[str]) -> None:
@@ -178,10 +189,12 @@ def main(argv: list[str]) -> None:
         bench_engine(site, "layered, mid-job", status, progress)
         bench_engine(deep_site(10_000), "deep (~1,000 levels)")
         warm, rows, ref = results[10_000]
-        print(f"targets at 10k: recompute under 50 ms: {'met' if warm < 0.050 else 'MISSED'}"
-              f" ({warm * 1e3:.1f} ms; with rows {rows * 1e3:.1f} ms); >= 4x networkx: "
-              f"{'met' if ref / warm >= 4 else 'MISSED'} ({ref / warm:.1f}x; with rows "
-              f"{ref / rows:.1f}x)")
+        print(
+            f"targets at 10k: recompute under 50 ms: {'met' if warm < 0.050 else 'MISSED'}"
+            f" ({warm * 1e3:.1f} ms; with rows {rows * 1e3:.1f} ms); >= 4x networkx: "
+            f"{'met' if ref / warm >= 4 else 'MISSED'} ({ref / warm:.1f}x; with rows "
+            f"{ref / rows:.1f}x)"
+        )
         bench_process(10_000)
 
 

@@ -77,12 +77,17 @@ class Writer:
         self.seq[device] += 1
         seq = self.seq[device]
         name = file_name(day, device)
-        entry = Entry(id=f"{device}.{seq}", seq=seq, kind=kind, day=day,
-                      written=datetime(day.year, day.month, day.day, 16, tzinfo=UTC),
-                      author="Bench Foreman", device=device,
-                      fields=MappingProxyType({k: v for k, v in fields.items()
-                                               if v is not None}),
-                      prev=self.prev.get(name, ""))
+        entry = Entry(
+            id=f"{device}.{seq}",
+            seq=seq,
+            kind=kind,
+            day=day,
+            written=datetime(day.year, day.month, day.day, 16, tzinfo=UTC),
+            author="Bench Foreman",
+            device=device,
+            fields=MappingProxyType({k: v for k, v in fields.items() if v is not None}),
+            prev=self.prev.get(name, ""),
+        )
         body = entry.stored()
         body["hash"] = entry_hash(body)
         self.prev[name] = body["hash"]
@@ -105,8 +110,9 @@ def generate(site: Site, folder: Path, working_days: int, seed: int = 11) -> int
     day, logged, count = site.start, 0, 0
     while logged < working_days:
         status = day - timedelta(days=1)
-        result = compute_schedule(site, status, progress,
-                                  lost_days={k: frozenset(v) for k, v in lost.items()})
+        result = compute_schedule(
+            site, status, progress, lost_days={k: frozenset(v) for k, v in lost.items()}
+        )
         cal = result.calendars[cal_name]
         if not cal.is_working(day):
             day += timedelta(days=1)
@@ -121,8 +127,13 @@ def generate(site: Site, folder: Path, working_days: int, seed: int = 11) -> int
 
         add(DEVICES[0], "weather", conditions="dry", high=15.0, low=5.0, unit="C")
         if rng.random() < 0.04:
-            add(DEVICES[0], "lost-time", cause=rng.choice(["weather", "access", "client"]),
-                whole_day=True, note="site stood down")
+            add(
+                DEVICES[0],
+                "lost-time",
+                cause=rng.choice(["weather", "access", "client"]),
+                whole_day=True,
+                note="site stood down",
+            )
             for name in site.calendars:
                 lost.setdefault(name, set()).add(day)
         else:
@@ -142,21 +153,33 @@ def generate(site: Site, folder: Path, working_days: int, seed: int = 11) -> int
                         left = max(1, r.remaining - 1 + (1 if rng.random() < 0.2 else 0))
                         add(DEVICES[0], "remaining", activity=r.id, days=left)
                         p = progress[r.id]
-                        progress[r.id] = Progress(actual_start=p.actual_start, remaining=left,
-                                                  remaining_as_of=day)
+                        progress[r.id] = Progress(
+                            actual_start=p.actual_start, remaining=left, remaining_as_of=day
+                        )
             if rng.random() < 0.1:
-                add(DEVICES[0], "lost-time", cause=rng.choice(["weather", "materials"]),
-                    hours=2.0)
+                add(DEVICES[0], "lost-time", cause=rng.choice(["weather", "materials"]), hours=2.0)
         if rng.random() < 0.05:
             open_ = [r.id for r in result.activities if r.status is Status.NOT_STARTED]
             if open_:
-                needs.append(add(DEVICES[1], "need", activity=rng.choice(open_),
-                                 what="shop drawings", category="drawings"))
+                needs.append(
+                    add(
+                        DEVICES[1],
+                        "need",
+                        activity=rng.choice(open_),
+                        what="shop drawings",
+                        category="drawings",
+                    )
+                )
         if needs and rng.random() < 0.05:
             add(DEVICES[1], "cleared", item=needs.pop(0))
         if rng.random() < 0.05:
-            add(DEVICES[1], "instruction", text="revise the set-out", given_by="client (inv.)",
-                form="written")
+            add(
+                DEVICES[1],
+                "instruction",
+                text="revise the set-out",
+                given_by="client (inv.)",
+                form="written",
+            )
         for k in range(6):
             add(DEVICES[0], "crew", trade=f"trade {k}", headcount=rng.randint(2, 9), hours=40.0)
         while n < PER_DAY:
@@ -179,8 +202,9 @@ def from_scratch(site: Site, entries: Any, days: list[date], rows: bool = False)
     activity's row read too, as the history's evidence and PPC read them)."""
     for d in days:
         rp = replay(site, entries, d)
-        r = compute_schedule(site, d, rp.progress, lost_days=rp.lost_days,
-                             holds=holds(rp.readiness, d))
+        r = compute_schedule(
+            site, d, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, d)
+        )
         _ = (r.finish, r.driving_path, r.finish_float)
         if rows:
             _ = r.activities
@@ -195,8 +219,10 @@ def case(name: str, site_folder: Path, working_days: int, target: float) -> None
         site = load_site(folder)
         t = time.perf_counter()
         n = generate(site, folder, working_days)
-        print(f"[{name}] {len(site.activities)} activities, {working_days} working days, "
-              f"{n} entries, generated in {time.perf_counter() - t:.1f} s")
+        print(
+            f"[{name}] {len(site.activities)} activities, {working_days} working days, "
+            f"{n} entries, generated in {time.perf_counter() - t:.1f} s"
+        )
         t = time.perf_counter()
         journal = read_journal(folder)
         read = time.perf_counter() - t
@@ -211,13 +237,19 @@ def case(name: str, site_folder: Path, working_days: int, target: float) -> None
         t = time.perf_counter()
         from_scratch(site, journal.entries, days, rows=True)
         ref_rows = time.perf_counter() - t
-        print(f"[{name}] read journal {read:.2f} s; history by day {hist:.2f} s "
-              f"(target <= {target:.0f} s: {'ok' if hist <= target else 'MISSED'})")
-        print(f"[{name}] every day from scratch: {ref:.2f} s (finish and paths only), "
-              f"{ref_rows:.2f} s (rows read too); ratios {ref / hist:.1f}x and "
-              f"{ref_rows / hist:.1f}x")
-        print(f"[{name}] finish moved {h.total_movement:+d} working days over "
-              f"{len(h.windows)} days; weeks with PPC {len(h.weeks)}")
+        print(
+            f"[{name}] read journal {read:.2f} s; history by day {hist:.2f} s "
+            f"(target <= {target:.0f} s: {'ok' if hist <= target else 'MISSED'})"
+        )
+        print(
+            f"[{name}] every day from scratch: {ref:.2f} s (finish and paths only), "
+            f"{ref_rows:.2f} s (rows read too); ratios {ref / hist:.1f}x and "
+            f"{ref_rows / hist:.1f}x"
+        )
+        print(
+            f"[{name}] finish moved {h.total_movement:+d} working days over "
+            f"{len(h.windows)} days; weeks with PPC {len(h.weeks)}"
+        )
 
 
 def main(which: str) -> None:

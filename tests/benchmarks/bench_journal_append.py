@@ -45,9 +45,17 @@ def main(total: int) -> None:
         t0 = time.perf_counter()
         for i in range(total):
             day = start + timedelta(days=i // per_day)
-            record_entry(folder, site, "note", day, {"text": f"note {i} " + "x" * 60},
-                         today=date(2030, 1, 1), author="bench", device="bench-laptop-1",
-                         clock=CLOCK)
+            record_entry(
+                folder,
+                site,
+                "note",
+                day,
+                {"text": f"note {i} " + "x" * 60},
+                today=date(2030, 1, 1),
+                author="bench",
+                device="bench-laptop-1",
+                clock=CLOCK,
+            )
             if i + 1 in (100, 1000, 3000, 10000):
                 print(f"built {i + 1:>6} entries, {time.perf_counter() - t0:7.1f} s so far")
         last = start + timedelta(days=(total - 1) // per_day)
@@ -55,15 +63,31 @@ def main(total: int) -> None:
         target = folder / "log" / f"{last}_bench-laptop-1.toml"
         for k in range(7):
             t = time.perf_counter()
-            record_entry(folder, site, "note", last, {"text": f"timed {k}"},
-                         today=date(2030, 1, 1), author="bench", device="bench-laptop-1",
-                         clock=CLOCK)
+            record_entry(
+                folder,
+                site,
+                "note",
+                last,
+                {"text": f"timed {k}"},
+                today=date(2030, 1, 1),
+                author="bench",
+                device="bench-laptop-1",
+                clock=CLOCK,
+            )
             appends.append(time.perf_counter() - t)
             forget_checks()
             t = time.perf_counter()
-            record_entry(folder, site, "note", last, {"text": f"cold {k}"},
-                         today=date(2030, 1, 1), author="bench", device="bench-laptop-1",
-                         clock=CLOCK)
+            record_entry(
+                folder,
+                site,
+                "note",
+                last,
+                {"text": f"cold {k}"},
+                today=date(2030, 1, 1),
+                author="bench",
+                device="bench-laptop-1",
+                clock=CLOCK,
+            )
             cold.append(time.perf_counter() - t)
             data = target.read_bytes()
             t = time.perf_counter()
@@ -74,9 +98,11 @@ def main(total: int) -> None:
             read_journal(folder)
             reads.append(time.perf_counter() - t)
         a, c, b, r = (statistics.median(x) * 1000 for x in (appends, cold, bare, reads))
-        print(f"log of {total} entries (medians of 7): bare durable write {b:.1f} ms; "
-              f"append warm {a:.1f} ms ({a / b:.1f}x bare), cold {c:.1f} ms ({c / b:.1f}x "
-              f"bare); read+check whole log cold {r:.1f} ms")
+        print(
+            f"log of {total} entries (medians of 7): bare durable write {b:.1f} ms; "
+            f"append warm {a:.1f} ms ({a / b:.1f}x bare), cold {c:.1f} ms ({c / b:.1f}x "
+            f"bare); read+check whole log cold {r:.1f} ms"
+        )
 
 
 if __name__ == "__main__":

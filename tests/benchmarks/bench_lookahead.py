@@ -66,8 +66,10 @@ def crewed_site(n: int) -> Site:
         crew = {rng.choice(names): rng.randint(1, 6)} if a.duration else {}
         acts.append(dataclasses.replace(a, crew=MappingProxyType(crew)))
     return dataclasses.replace(
-        site, activities=tuple(acts),
-        crews=MappingProxyType({c: Crew(c, k) for c, k in CREWS.items()}))
+        site,
+        activities=tuple(acts),
+        crews=MappingProxyType({c: Crew(c, k) for c, k in CREWS.items()}),
+    )
 
 
 def mid_job_progress(site: Site, status) -> dict[str, Progress]:
@@ -80,8 +82,9 @@ def mid_job_progress(site: Site, status) -> dict[str, Progress]:
         elif r.early_start <= status:
             cal = plan.calendars[r.calendar]
             left = cal.count(status + timedelta(days=1), r.early_finish + timedelta(days=1))
-            progress[r.id] = Progress(actual_start=r.early_start, remaining=max(left, 1),
-                                      remaining_as_of=status)
+            progress[r.id] = Progress(
+                actual_start=r.early_start, remaining=max(left, 1), remaining_as_of=status
+            )
     return progress
 
 
@@ -101,12 +104,16 @@ def main(argv: list[str]) -> None:
     running = sum(1 for r in result.activities if r.status is Status.IN_PROGRESS)
     shown = sum(1 for r in la.rows if r.active)
     lev = la.levelling
-    print(f"{n} activities, status {status}: {open_rows} open ({running} in progress), "
-          f"{shown} with MUST/MAY days in the window")
+    print(
+        f"{n} activities, status {status}: {open_rows} open ({running} in progress), "
+        f"{shown} with MUST/MAY days in the window"
+    )
     if lev is not None:
-        print(f"levelling: crews over {', '.join(lev.crews)}; {len(lev.moves)} moves, "
-              f"{lev.passes} passes, sum of squares {lev.sum_of_squares_before} -> "
-              f"{lev.sum_of_squares_after}")
+        print(
+            f"levelling: crews over {', '.join(lev.crews)}; {len(lev.moves)} moves, "
+            f"{lev.passes} passes, sum of squares {lev.sum_of_squares_before} -> "
+            f"{lev.sum_of_squares_after}"
+        )
 
     reps = 15
     passes = best_of(reps, lambda: compute_schedule(site, status, progress))
@@ -133,8 +140,10 @@ def main(argv: list[str]) -> None:
     for label, (wall, cpu) in rows:
         print(f"{label:<28} {wall:8.1f} {wall / cpm[0]:7.2f} {cpu:8.1f} {cpu / cpm[1]:7.2f}")
     verdict = "OK" if full[0] < TARGET_MS else "OVER"
-    print(f"target: lookahead with levelling under {TARGET_MS:.0f} ms for {n} activities: "
-          f"{full[0]:.1f} ms wall ({full[1]:.1f} ms cpu) {verdict}")
+    print(
+        f"target: lookahead with levelling under {TARGET_MS:.0f} ms for {n} activities: "
+        f"{full[0]:.1f} ms wall ({full[1]:.1f} ms cpu) {verdict}"
+    )
 
 
 if __name__ == "__main__":

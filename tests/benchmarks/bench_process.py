@@ -35,7 +35,6 @@ from synthetic import synthetic_site, write_site_folder  # noqa: E402
 REPEATS = 5
 
 
-
 def timed(cmd: list[str], home: Path) -> tuple[float, bytes]:
     """Wall time of one process run with ``FIELDLOG_HOME=home``, and its stdout."""
     env = {**os.environ, "FIELDLOG_HOME": str(home)}
@@ -47,8 +46,10 @@ def timed(cmd: list[str], home: Path) -> tuple[float, bytes]:
 def bench(n: int, tmp: Path) -> dict[str, float]:
     folder = write_site_folder(synthetic_site(n), tmp / f"site{n}")
     ref_cmd = [sys.executable, "-c", REFERENCE_PROCESS, str(folder)]
-    ours = {fmt: [sys.executable, "-m", "fieldlog", "schedule", str(folder), "--format", fmt]
-            for fmt in ("json", "text")}
+    ours = {
+        fmt: [sys.executable, "-m", "fieldlog", "schedule", str(folder), "--format", fmt]
+        for fmt in ("json", "text")
+    }
     warm_home = tmp / "home-warm"
     printed = {fmt: timed(cmd, warm_home)[1] for fmt, cmd in ours.items()}  # fills the cache
     best: dict[str, float] = {}
@@ -66,11 +67,12 @@ def bench(n: int, tmp: Path) -> dict[str, float]:
             assert out == printed[fmt], f"warm {fmt} output differs"
             keep(f"{fmt} warm", seconds)
     ref = best["reference"]
-    print(f"{n} activities, best of {REPEATS}: tomllib + networkx reference "
-          f"{ref * 1e3:6.0f} ms")
+    print(f"{n} activities, best of {REPEATS}: tomllib + networkx reference {ref * 1e3:6.0f} ms")
     for name in ("json cold", "json warm", "text cold", "text warm"):
-        print(f"  fieldlog schedule --format {name:<9} {best[name] * 1e3:6.0f} ms   "
-              f"reference/fieldlog {ref / best[name]:4.2f}x")
+        print(
+            f"  fieldlog schedule --format {name:<9} {best[name] * 1e3:6.0f} ms   "
+            f"reference/fieldlog {ref / best[name]:4.2f}x"
+        )
     return best
 
 
@@ -82,8 +84,10 @@ def main(argv: list[str]) -> None:
         b = results[10_000]
         worst = max(b["json warm"], b["text warm"])
         verdict = "met" if worst <= b["reference"] else "MISSED"
-        print(f"target at 10k (warm cache no slower than the reference): {verdict} "
-              f"({b['reference'] / worst:.2f}x for the slower format)")
+        print(
+            f"target at 10k (warm cache no slower than the reference): {verdict} "
+            f"({b['reference'] / worst:.2f}x for the slower format)"
+        )
 
 
 if __name__ == "__main__":

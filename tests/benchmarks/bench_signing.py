@@ -56,8 +56,17 @@ def append_latency(total: int = 1000) -> None:
         start = date(2026, 9, 7)
 
         def add(day: date, text: str) -> None:
-            record_entry(folder, site, "note", day, {"text": text}, today=date(2030, 1, 1),
-                         device=DEVICES[0], clock=CLOCK, home=home)
+            record_entry(
+                folder,
+                site,
+                "note",
+                day,
+                {"text": text},
+                today=date(2030, 1, 1),
+                device=DEVICES[0],
+                clock=CLOCK,
+                home=home,
+            )
 
         for i in range(total):
             add(start + timedelta(days=i // 20), f"note {i} " + "x" * 60)
@@ -77,21 +86,28 @@ def append_latency(total: int = 1000) -> None:
             sign(key, "ab" * 32)
             sigs.append(time.perf_counter() - t)
         a, b, s = (statistics.median(x) * 1000 for x in (appends, bare, sigs))
-        print(f"sign+append, app path, log of {total} entries (medians of 15): {a:.1f} ms "
-              f"(target <= 25 ms); bare durable write {b:.1f} ms ({a / b:.1f}x); one Ed25519 "
-              f"signature {s:.3f} ms")
+        print(
+            f"sign+append, app path, log of {total} entries (medians of 15): {a:.1f} ms "
+            f"(target <= 25 ms); bare durable write {b:.1f} ms ({a / b:.1f}x); one Ed25519 "
+            f"signature {s:.3f} ms"
+        )
 
 
 def build_log(folder: Path, days: int, per_day: int, signed: bool) -> int:
     """Write ``days`` working days of ``per_day`` entries from two devices; returns entries."""
-    keys = {d: Ed25519PrivateKey.from_private_bytes(bytes([n + 1]) * 32)
-            for n, d in enumerate(DEVICES)}
+    keys = {
+        d: Ed25519PrivateKey.from_private_bytes(bytes([n + 1]) * 32) for n, d in enumerate(DEVICES)
+    }
     log = folder / "log"
     log.mkdir()
     if signed:
         for d in DEVICES:
-            register(folder, DeviceRecord(d, public_hex(keys[d].public_key()), "B. Enchmark",
-                                          date(2026, 3, 2), 1))
+            register(
+                folder,
+                DeviceRecord(
+                    d, public_hex(keys[d].public_key()), "B. Enchmark", date(2026, 3, 2), 1
+                ),
+            )
     seq = dict.fromkeys(DEVICES, 0)
     day, n = date(2026, 3, 2), 0
     for _ in range(days):
@@ -101,11 +117,17 @@ def build_log(folder: Path, days: int, per_day: int, signed: bool) -> int:
             prev, blocks = "", []
             for _ in range(per_day // len(DEVICES)):
                 seq[d] += 1
-                row = {"id": f"{d}.{seq[d]}", "seq": seq[d], "kind": "note", "day": day,
-                       "written": datetime(day.year, day.month, day.day, 17, tzinfo=UTC),
-                       "author": "B. Enchmark", "device": d,
-                       "text": f"pour {seq[d]} checked, slump within limits " + "x" * 40,
-                       "prev": prev}
+                row = {
+                    "id": f"{d}.{seq[d]}",
+                    "seq": seq[d],
+                    "kind": "note",
+                    "day": day,
+                    "written": datetime(day.year, day.month, day.day, 17, tzinfo=UTC),
+                    "author": "B. Enchmark",
+                    "device": d,
+                    "text": f"pour {seq[d]} checked, slump within limits " + "x" * 40,
+                    "prev": prev,
+                }
                 row["hash"] = entry_hash(row)
                 if signed:
                     row["sig"] = sign(keys[d], row["hash"])
@@ -137,13 +159,17 @@ def verify_time(days: int, per_day: int) -> None:
         plain_s, _ = timed_verify(plain_site)
         assert kept == n
         files = len(list((signed_site / "log").iterdir()))
-        print(f"verify, {days} working days x {per_day} entries/day, 2 devices = {n} entries "
-              f"in {files} files: signed {sig_s:.2f} s, unsigned chain only {plain_s:.2f} s "
-              f"({sig_s / plain_s:.2f}x); {sig_s / n * 1e6:.0f} us per entry")
+        print(
+            f"verify, {days} working days x {per_day} entries/day, 2 devices = {n} entries "
+            f"in {files} files: signed {sig_s:.2f} s, unsigned chain only {plain_s:.2f} s "
+            f"({sig_s / plain_s:.2f}x); {sig_s / n * 1e6:.0f} us per entry"
+        )
         shutil.rmtree(signed_site)
 
 
 if __name__ == "__main__":
     append_latency()
-    verify_time(int(sys.argv[1]) if len(sys.argv) > 1 else 500,
-                int(sys.argv[2]) if len(sys.argv) > 2 else 40)
+    verify_time(
+        int(sys.argv[1]) if len(sys.argv) > 1 else 500,
+        int(sys.argv[2]) if len(sys.argv) > 2 else 40,
+    )

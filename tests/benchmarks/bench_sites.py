@@ -52,10 +52,11 @@ def main() -> None:
         rows = [
             ("sites, cold cache", run([*exe, "sites", str(jobs)], home)),
             ("sites, warm cache", run([*exe, "sites", str(jobs)], home)),
-            ("export, new database", run([*exe, "export", str(jobs), "--sqlite", str(db)],
-                                         home)),
-            ("export, nothing changed", run([*exe, "export", str(jobs), "--sqlite", str(db)],
-                                            home)),
+            ("export, new database", run([*exe, "export", str(jobs), "--sqlite", str(db)], home)),
+            (
+                "export, nothing changed",
+                run([*exe, "export", str(jobs), "--sqlite", str(db)], home),
+            ),
         ]
     print(f"{count} sites; reference (tomllib read of every file, one process): {ref:.2f} s")
     for name, took in rows:

@@ -41,9 +41,18 @@ def build(site: Path, files: int, entries_per_file: int) -> int:
         day = date(2026, 3, 2) + timedelta(days=n % DAYS_PER_DEVICE)
         for k in range(entries_per_file):
             so_far = written.setdefault(device, [])
-            so_far.append(_append(log, Journal(EntryList(so_far)), device, "note", day,
-                                  {"text": f"entry {k}: " + "x" * 120}, "Bench Foreman",
-                                  lambda: WRITTEN))
+            so_far.append(
+                _append(
+                    log,
+                    Journal(EntryList(so_far)),
+                    device,
+                    "note",
+                    day,
+                    {"text": f"entry {k}: " + "x" * 120},
+                    "Bench Foreman",
+                    lambda: WRITTEN,
+                )
+            )
     return sum(p.stat().st_size for p in log.iterdir() if not p.name.startswith("."))
 
 

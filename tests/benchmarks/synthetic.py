@@ -32,7 +32,8 @@ from fieldlog.model import (
 
 START = date(2026, 3, 2)
 WEEKDAYS = CalendarSpec(
-    "weekdays", frozenset(range(5)),
+    "weekdays",
+    frozenset(range(5)),
     frozenset({date(2026, 4, 3), date(2026, 12, 25), date(2027, 1, 1), date(2027, 12, 24)}),
 )
 ALLWEEK = CalendarSpec("allweek", frozenset(range(7)))
@@ -62,25 +63,34 @@ def synthetic_site(n: int, *, seed: int = 7) -> Site:
             lag = rng.randint(-2, 5) if rng.random() < 0.3 else 0
             links.append(Link(ids[p], aid, kind, lag))
     return Site(
-        name="Synthetic works", start=START, calendar="weekdays",
+        name="Synthetic works",
+        start=START,
+        calendar="weekdays",
         calendars=MappingProxyType({"weekdays": WEEKDAYS, "allweek": ALLWEEK}),
         crews=MappingProxyType({"groundworks": Crew("groundworks", 8)}),
-        revision=1, activities=tuple(acts), links=tuple(links),
+        revision=1,
+        activities=tuple(acts),
+        links=tuple(links),
     )
 
 
 def site_toml(site: Site) -> str:
     """``site.toml`` text for ``site``."""
-    lines = ["[site]", f'name = "{site.name}"', f"start = {site.start.isoformat()}",
-             f'calendar = "{site.calendar}"']
+    lines = [
+        "[site]",
+        f'name = "{site.name}"',
+        f"start = {site.start.isoformat()}",
+        f'calendar = "{site.calendar}"',
+    ]
     if site.finish_by:
         lines.append(f"finish_by = {site.finish_by.isoformat()}")
     for spec in site.calendars.values():
         days = ", ".join(f'"{WEEKDAY_NAMES[d]}"' for d in sorted(spec.workdays))
         lines += ["", f"[calendars.{spec.name}]", f"workdays = [{days}]"]
         if spec.holidays:
-            lines.append("holidays = [" + ", ".join(d.isoformat()
-                                                   for d in sorted(spec.holidays)) + "]")
+            lines.append(
+                "holidays = [" + ", ".join(d.isoformat() for d in sorted(spec.holidays)) + "]"
+            )
     for crew in site.crews.values():
         lines += ["", f"[crews.{crew.name}]", f"available = {crew.available}"]
     return "\n".join(lines) + "\n"
@@ -97,16 +107,21 @@ def schedule_toml(site: Site) -> str:
             typed.append(lk)
     out = [f"revision = {site.revision}", ""]
     for a in site.activities:
-        out += ["[[activity]]", f'id = "{a.id}"', f'name = "{a.name}"',
-                f"duration = {a.duration}"]
+        out += ["[[activity]]", f'id = "{a.id}"', f'name = "{a.name}"', f"duration = {a.duration}"]
         if a.calendar != site.calendar:
             out.append(f'calendar = "{a.calendar}"')
         if after[a.id]:
             out.append("after = [" + ", ".join(f'"{p}"' for p in after[a.id]) + "]")
         out.append("")
     for lk in typed:
-        out += ["[[link]]", f'from = "{lk.pred}"', f'to = "{lk.succ}"',
-                f'type = "{lk.type.value}"', f"lag = {lk.lag}", ""]
+        out += [
+            "[[link]]",
+            f'from = "{lk.pred}"',
+            f'to = "{lk.succ}"',
+            f'type = "{lk.type.value}"',
+            f"lag = {lk.lag}",
+            "",
+        ]
     return "\n".join(out)
 
 

@@ -18,8 +18,15 @@ from fieldlog.journal.keys import MAX_AUTHOR, save_author
 
 AUTHOR_FORM = Form(
     "Who records on this device?",
-    (Field("author", "Your name", TEXT, required=True,
-           placeholder=f"as it should stand on the daily report (1-{MAX_AUTHOR} characters)"),),
+    (
+        Field(
+            "author",
+            "Your name",
+            TEXT,
+            required=True,
+            placeholder=f"as it should stand on the daily report (1-{MAX_AUTHOR} characters)",
+        ),
+    ),
     intro="Asked once: every entry from this device carries this name and is signed.",
     submit="Save",
 )
@@ -27,6 +34,7 @@ AUTHOR_FORM = Form(
 
 def author_screen(home: Path | None = None) -> FormScreen:
     """The first-run form; Enter keeps the name (a bad name keeps the form open, saying why)."""
+
     def keep(values: dict[str, Any]) -> str | None:
         try:
             save_author(str(values.get("author") or ""), home)

@@ -28,8 +28,16 @@ if TYPE_CHECKING:
 def bindings(area: str) -> list[BindingType]:
     """Textual bindings for the keys of ``area`` (from :data:`fieldlog.app.keymap.KEYS`)."""
     return [
-        Binding(k.keys, k.action, k.label, show=k.show, key_display=k.display, tooltip=k.help,
-                id=k.id, priority=k.priority)
+        Binding(
+            k.keys,
+            k.action,
+            k.label,
+            show=k.show,
+            key_display=k.display,
+            tooltip=k.help,
+            id=k.id,
+            priority=k.priority,
+        )
         for k in keys_for(area)
         if k.bound
     ]

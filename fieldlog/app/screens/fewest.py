@@ -46,16 +46,21 @@ def plan_grid(look: Lookahead) -> Table:
             cells.append(Text(" " + WORKS if m.start <= d <= m.finish and not off else ""))
         table.add_row(Text(m.activity), "", *cells)
     for a in fewest.crews:
-        table.add_row(Text(f"{a.crew} (has {a.available})", style="bold"), "",
-                      *(_count(v, a.available) for v in a.load))
+        table.add_row(
+            Text(f"{a.crew} (has {a.available})", style="bold"),
+            "",
+            *(_count(v, a.available) for v in a.load),
+        )
     return table
 
 
 def _count(people: int, available: int) -> Text:
     """People on a day, ``-`` for nobody, a trailing ``!`` when over what the crew has."""
     over = people > available
-    return Text(f"{people if people else '-':>2}{'!' if over else ' '}",
-                style="bold reverse" if over else "")
+    return Text(
+        f"{people if people else '-':>2}{'!' if over else ' '}",
+        style="bold reverse" if over else "",
+    )
 
 
 class FewestScreen(ModalScreen[None]):
@@ -79,11 +84,11 @@ class FewestScreen(ModalScreen[None]):
                 if fewest is None:
                     yield Static(Text(NOTHING), id="fewest-words")
                     return
-                words = [fewest_text.title(fewest),
-                         *fewest_text.lines(fewest, self.look.days)]
+                words = [fewest_text.title(fewest), *fewest_text.lines(fewest, self.look.days)]
                 yield Static(Text("\n".join(words)), id="fewest-words")
-                yield Static(Text(f"{WORKS} works that day with the moves made"),
-                             id="fewest-legend")
+                yield Static(
+                    Text(f"{WORKS} works that day with the moves made"), id="fewest-legend"
+                )
                 yield Static(plan_grid(self.look), id="fewest-grid")
 
     def action_close(self) -> None:

@@ -57,8 +57,7 @@ class FindScreen(ModalScreen[str | None]):
         with Vertical(id="pick-box") as box:
             box.border_title = "Find an activity"
             box.border_subtitle = "Enter picks · Esc cancels"
-            yield Input(placeholder="type part of the id or name", id="find-query",
-                        compact=True)
+            yield Input(placeholder="type part of the id or name", id="find-query", compact=True)
             yield OptionList(id="pick-list", compact=True)
             yield Static("", id="find-count")
 
@@ -73,14 +72,22 @@ class FindScreen(ModalScreen[str | None]):
         self.shown = matches(self.activities, text)
         lst = self.query_one(OptionList)
         lst.clear_options()
-        lst.add_options(Option(Text(f"{a.id}  {a.name}  {STATE[a.status]}".rstrip()), id=a.id)
-                        for a in self.shown[:MAX_SHOWN])
+        lst.add_options(
+            Option(Text(f"{a.id}  {a.name}  {STATE[a.status]}".rstrip()), id=a.id)
+            for a in self.shown[:MAX_SHOWN]
+        )
         if self.shown:
             lst.highlighted = 0
         more = len(self.shown) - MAX_SHOWN
-        self.query_one("#find-count", Static).update(Text(
-            "nothing matches" if not self.shown else
-            f"{more} more: type more of the id or name" if more > 0 else ""))
+        self.query_one("#find-count", Static).update(
+            Text(
+                "nothing matches"
+                if not self.shown
+                else f"{more} more: type more of the id or name"
+                if more > 0
+                else ""
+            )
+        )
 
     @on(Input.Changed, "#find-query")
     def _typed(self, event: Input.Changed) -> None:

@@ -29,9 +29,15 @@ from fieldlog.progress import Status
 from fieldlog.schedule_result import ActivityResult
 
 COLUMNS = (
-    Column("flag", "", 2), Column("id", "ID", 8), Column("name", "Activity", 20),
-    Column("state", "State", 7), Column("start", "Start", 6), Column("finish", "Finish", 6),
-    Column("tf", "TF", 4, True), Column("ff", "FF", 3, True), Column("lfinish", "Late fin", 6),
+    Column("flag", "", 2),
+    Column("id", "ID", 8),
+    Column("name", "Activity", 20),
+    Column("state", "State", 7),
+    Column("start", "Start", 6),
+    Column("finish", "Finish", 6),
+    Column("tf", "TF", 4, True),
+    Column("ff", "FF", 3, True),
+    Column("lfinish", "Late fin", 6),
     Column("left", "Left", 4, True),
 )
 """The float list's columns. TF total float, FF free float, Left: working days."""
@@ -58,10 +64,15 @@ def cells(r: ActivityResult, columns: Sequence[Column], wide: bool) -> tuple[str
         return day.strftime(fmt) if day else ""
 
     values = {
-        "flag": flag(r), "id": r.id, "name": r.name,
+        "flag": flag(r),
+        "id": r.id,
+        "name": r.name,
         "state": "overdue" if r.overdue else STATE_WORDS[r.status],
-        "start": d(start), "finish": d(r.actual_finish or r.early_finish),
-        "tf": _n(r.total_float), "ff": _n(r.free_float), "lfinish": d(r.late_finish),
+        "start": d(start),
+        "finish": d(r.actual_finish or r.early_finish),
+        "tf": _n(r.total_float),
+        "ff": _n(r.free_float),
+        "lfinish": d(r.late_finish),
         "left": str(r.remaining) if r.is_open else "",
     }
     return tuple(values[c.key] for c in columns)
@@ -98,8 +109,12 @@ class FloatScreen(RecordView):
     def compose_body(self) -> Iterable[Widget]:
         """Filter line, search box (hidden until ``/``), list, driver line."""
         yield Static(id="float-head", classes="view-head")
-        search = ExactInput(placeholder="id or name, Enter to keep, Esc to clear",
-                            id="float-search", compact=True, select_on_focus=False)
+        search = ExactInput(
+            placeholder="id or name, Enter to keep, Esc to clear",
+            id="float-search",
+            compact=True,
+            select_on_focus=False,
+        )
         search.display = False
         yield search
         yield RowList(id="float-table")
@@ -119,13 +134,17 @@ class FloatScreen(RecordView):
         id_width = max([len(a.id) for a in schedule.activities] + [4])
         columns = columns_for(width, id_width)
         wide = width >= WIDE
-        table.set_rows(columns, [(r.id, cells(r, columns, wide)) for r in self.shown],
-                       keep=table.current)
+        table.set_rows(
+            columns, [(r.id, cells(r, columns, wide)) for r in self.shown], keep=table.current
+        )
         search = f" · search '{self.query_text}'" if self.query_text else ""
         total = len(schedule.activities)
-        self.query_one("#float-head", Static).update(Text(
-            f"{FILTERS[self.kind].capitalize()} (v: next){search}: {len(self.shown)} of {total}"
-            " · !! late  * critical  > driving path"))
+        self.query_one("#float-head", Static).update(
+            Text(
+                f"{FILTERS[self.kind].capitalize()} (v: next){search}: {len(self.shown)} of {total}"
+                " · !! late  * critical  > driving path"
+            )
+        )
         self.show_driver()
 
     def selected_id(self) -> str | None:

@@ -52,7 +52,8 @@ class ForecastScreen(ViewScreen):
     def paint(self, snap: Snapshot) -> None:
         """Start computing the history for ``snap``; the worker paints it."""
         self.query_one("#forecast-head", Static).update(
-            Text(f"History by {self.by} · computing..."))
+            Text(f"History by {self.by} · computing...")
+        )
         self._compute(snap, self.by, max(MIN_WIDTH, self.size.width - 2))
 
     @work(thread=True, exclusive=True, group="forecast")
@@ -66,10 +67,14 @@ class ForecastScreen(ViewScreen):
         if version != self.fieldlog.snapshot.version or by != self.by:
             return  # an older computation: a newer one is on its way
         self.shown_text = text
-        moved_words = ("did not move" if not moved else
-                       f"moved {'+' if moved > 0 else '-'}{working_days(abs(moved))}")
-        self.query_one("#forecast-head", Static).update(Text(
-            f"History by {by} · finish {moved_words} · d day  w week  m month"))
+        moved_words = (
+            "did not move"
+            if not moved
+            else f"moved {'+' if moved > 0 else '-'}{working_days(abs(moved))}"
+        )
+        self.query_one("#forecast-head", Static).update(
+            Text(f"History by {by} · finish {moved_words} · d day  w week  m month")
+        )
         self.query_one("#forecast-body", Static).update(Text(text))
 
     def action_group(self, by: str) -> None:

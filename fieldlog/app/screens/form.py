@@ -67,9 +67,15 @@ class FormScreen(ModalScreen[dict[str, Any] | None]):
         Binding("ctrl+d", "discard", "Discard", id="form.discard", show=False, priority=True),
     ]
 
-    def __init__(self, form: Form, submit: Submit | None = None, *,
-                 days: DayContext | None = None, draft: dict[str, Any] | None = None,
-                 keep_draft: KeepDraft | None = None) -> None:
+    def __init__(
+        self,
+        form: Form,
+        submit: Submit | None = None,
+        *,
+        days: DayContext | None = None,
+        draft: dict[str, Any] | None = None,
+        keep_draft: KeepDraft | None = None,
+    ) -> None:
         super().__init__(classes="form-screen")
         self.form = form
         self.submit = submit
@@ -85,14 +91,16 @@ class FormScreen(ModalScreen[dict[str, Any] | None]):
                 yield Static(Text(self.form.intro), id="form-intro")
             with VerticalScroll(id="form-fields"):
                 for f in self.form.fields:
-                    with Horizontal(classes="form-row -lines" if f.kind == LINES
-                                    else "form-row"):
+                    with Horizontal(classes="form-row -lines" if f.kind == LINES else "form-row"):
                         mark = "*" if f.required else " "
                         yield Label(Text(f"{f.label}{mark}"), classes="form-label")
                         yield self._widget(f)
                     yield Static("", id=f"problem-{f.name}", classes="form-problem")
-            yield Static(Text("Draft restored: Ctrl+D discards it") if self.draft else "",
-                         id="form-refused", classes="-shown" if self.draft else "")
+            yield Static(
+                Text("Draft restored: Ctrl+D discards it") if self.draft else "",
+                id="form-refused",
+                classes="-shown" if self.draft else "",
+            )
             with Horizontal(id="form-buttons"):
                 enter = "Ctrl+S" if any(f.kind == LINES for f in self.form.fields) else "Enter"
                 yield Button(f"{self.form.submit} ({enter})", id="form-submit", compact=True)
@@ -114,16 +122,26 @@ class FormScreen(ModalScreen[dict[str, Any] | None]):
         if f.kind == CHOICE:
             chosen = held if self.draft else f.default
             return Select(
-                [(c, c) for c in f.choices], value=chosen if chosen in f.choices
-                else Select.NULL, allow_blank=not f.required or f.default is None,
-                prompt=f.placeholder or "choose", id=wid, compact=True,
+                [(c, c) for c in f.choices],
+                value=chosen if chosen in f.choices else Select.NULL,
+                allow_blank=not f.required or f.default is None,
+                prompt=f.placeholder or "choose",
+                id=wid,
+                compact=True,
             )
         text = str(held) if self.draft and held is not None else initial_text(f)
         if f.kind == LINES:
-            return ExactTextArea(text, id=wid, compact=True, placeholder=f.placeholder,
-                                 show_cursor=True, highlight_cursor_line=False)
-        return ExactInput(text, placeholder=placeholder_text(f), id=wid, compact=True,
-                          select_on_focus=False)
+            return ExactTextArea(
+                text,
+                id=wid,
+                compact=True,
+                placeholder=f.placeholder,
+                show_cursor=True,
+                highlight_cursor_line=False,
+            )
+        return ExactInput(
+            text, placeholder=placeholder_text(f), id=wid, compact=True, select_on_focus=False
+        )
 
     def on_mount(self) -> None:
         """Cursor steady (stable snapshots, calmer on a tablet) and focus on the first field."""

@@ -28,12 +28,18 @@ CAUTION = (
 )
 
 QUICK_START = (
-    ("1", "Today: pick an activity with Up/Down (/ finds any other), then s started, f "
-          "finished, r days left, n note; w weather, c crews, l lost time. The same keys work "
-          "on Two weeks and Float. Each key writes the log at once."),
-    ("2", "Tomorrow's MUST list: the Tmrw column on 1 Today, or the first day column of "
-          "2 Two weeks (the legend under the grid names each mark). p there prints the "
-          "sheet."),
+    (
+        "1",
+        "Today: pick an activity with Up/Down (/ finds any other), then s started, f "
+        "finished, r days left, n note; w weather, c crews, l lost time. The same keys work "
+        "on Two weeks and Float. Each key writes the log at once.",
+    ),
+    (
+        "2",
+        "Tomorrow's MUST list: the Tmrw column on 1 Today, or the first day column of "
+        "2 Two weeks (the legend under the grid names each mark). p there prints the "
+        "sheet.",
+    ),
     ("3", "Nothing to save: Ctrl+Q leaves, and every entry is already in the log."),
 )
 """The three steps of a shift, shown first."""
@@ -41,16 +47,24 @@ QUICK_START = (
 
 def marks(cursor: str) -> str:
     """The marks of the lists, with the selected row's mark as this screen draws it."""
-    return ("Marks in the lists: !! late (negative float)  * critical  > driving path  "
-            f"{cursor.strip()} selected row. Tmrw: what tomorrow asks (MUST / may / cannot / "
-            "off).")
+    return (
+        "Marks in the lists: !! late (negative float)  * critical  > driving path  "
+        f"{cursor.strip()} selected row. Tmrw: what tomorrow asks (MUST / may / cannot / "
+        "off)."
+    )
 
 
 def quick_start() -> Table:
     """The three steps, numbered, wrapping under their own text."""
-    table = Table(box=None, show_header=False, pad_edge=False, expand=True,
-                  title="End of shift, in three steps", title_justify="left",
-                  title_style="bold")
+    table = Table(
+        box=None,
+        show_header=False,
+        pad_edge=False,
+        expand=True,
+        title="End of shift, in three steps",
+        title_justify="left",
+        title_style="bold",
+    )
     table.add_column("step", no_wrap=True, width=3)
     table.add_column("what", ratio=1)
     for number, words in QUICK_START:
@@ -69,8 +83,15 @@ def key_table() -> Group:
         keys = [k for k in KEYS if k.area == area]
         if not keys:
             continue
-        table = Table(box=None, show_header=False, pad_edge=False, expand=True, title=heading,
-                      title_justify="left", title_style="bold underline")
+        table = Table(
+            box=None,
+            show_header=False,
+            pad_edge=False,
+            expand=True,
+            title=heading,
+            title_justify="left",
+            title_style="bold underline",
+        )
         table.add_column("key", no_wrap=True, width=14)
         table.add_column("what it does", ratio=1)
         for k in keys:
@@ -96,8 +117,9 @@ class HelpScreen(ModalScreen[None]):
                 yield Static(Text(CAUTION), id="help-caution")
                 views = "  ".join(f"{n} {name}" for n, name in enumerate(VIEWS.values(), 1))
                 cursor = PLAIN_CURSOR_MARK if self.app.has_class("-plain") else CURSOR_MARK
-                yield Static(Text(f"Views: {views}  (click a tab too)\n{marks(cursor)}"),
-                             id="help-views")
+                yield Static(
+                    Text(f"Views: {views}  (click a tab too)\n{marks(cursor)}"), id="help-views"
+                )
                 yield Static(key_table(), id="help-keys")
 
     def action_close(self) -> None:

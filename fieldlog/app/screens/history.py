@@ -28,8 +28,12 @@ from fieldlog.errors import FieldlogError
 from fieldlog.journal import Finding, verify
 from fieldlog.journal.entries import Entry
 
-COLUMNS = (Column("day", "Day", 9), Column("id", "Entry", 14), Column("what", "What", 30),
-           Column("status", "Status", 24))
+COLUMNS = (
+    Column("day", "Day", 9),
+    Column("id", "Entry", 14),
+    Column("what", "What", 30),
+    Column("status", "Status", 24),
+)
 """The journal list's columns; "What" takes whatever width is left."""
 
 
@@ -37,8 +41,10 @@ def check_words(findings: Iterable[Finding], n_entries: int, n_files: int) -> tu
     """The log check in one line, and whether it found a problem."""
     findings = list(findings)
     if not findings:
-        return (f"Log check: OK, {n_entries} entries in {n_files} file"
-                f"{'s' if n_files != 1 else ''}, none altered"), False
+        return (
+            f"Log check: OK, {n_entries} entries in {n_files} file"
+            f"{'s' if n_files != 1 else ''}, none altered"
+        ), False
     first = findings[0]
     more = f" (and {len(findings) - 1} more)" if len(findings) > 1 else ""
     problems = f"{len(findings)} PROBLEM{'S' if len(findings) > 1 else ''}"
@@ -50,12 +56,19 @@ def correction_form(entry: Entry) -> Form:
     base = entry_form(entry.kind, defaults=dict(entry.fields))
     own = (
         Field("reason", "Reason", required=True, placeholder="why the entry was wrong"),
-        Field("withdraw", "Withdraw it", YES_NO,
-              placeholder="recorded in error: drop it (new values are then ignored)"),
+        Field(
+            "withdraw",
+            "Withdraw it",
+            YES_NO,
+            placeholder="recorded in error: drop it (new values are then ignored)",
+        ),
     )
-    return Form(f"Correct {entry.id}", own + base.fields,
-                intro=f"{KIND_TITLES.get(entry.kind, entry.kind)} of {entry.day:%a %d %b %Y}: "
-                "the old entry stays in the log, marked as replaced")
+    return Form(
+        f"Correct {entry.id}",
+        own + base.fields,
+        intro=f"{KIND_TITLES.get(entry.kind, entry.kind)} of {entry.day:%a %d %b %Y}: "
+        "the old entry stays in the log, marked as replaced",
+    )
 
 
 def correction_fields(entry: Entry, values: dict[str, Any]) -> dict[str, Any]:
@@ -105,18 +118,23 @@ class JournalScreen(ViewScreen):
         id_width = max([len(r.entry.id) for r in self.rows] + [5])
         # The status column never takes more than a fifth of the line (the detail line under
         # the list always shows it in full).
-        status_width = min(max([len(r.status) for r in self.rows] + [6]),
-                           max(10, self.size.width // 5))
-        columns = [Column(c.key, c.heading, id_width) if c.key == "id" else
-                   Column(c.key, c.heading, status_width) if c.key == "status" else c
-                   for c in COLUMNS]
+        status_width = min(
+            max([len(r.status) for r in self.rows] + [6]), max(10, self.size.width // 5)
+        )
+        columns = [
+            Column(c.key, c.heading, id_width)
+            if c.key == "id"
+            else Column(c.key, c.heading, status_width)
+            if c.key == "status"
+            else c
+            for c in COLUMNS
+        ]
         lines = []
         for row in self.rows:
             e = row.entry
             mark = "x " if row.superseded else ""
             lines.append((e.id, (f"{e.day:%d %b %y}", e.id, mark + row.summary, row.status)))
-        table.set_rows(fit_columns(columns, self.size.width - 2, "what"), lines,
-                       keep=table.current)
+        table.set_rows(fit_columns(columns, self.size.width - 2, "what"), lines, keep=table.current)
         problems = snap.state.replay.problems
         box = self.query_one("#journal-problems")
         box.display = bool(problems)
@@ -155,9 +173,13 @@ class JournalScreen(ViewScreen):
             return
         e = row.entry
         status = f" · {row.status}" if row.status else ""
-        line.update(Text(f"{e.id} ({KIND_TITLES.get(e.kind, e.kind)}, day {e.day:%a %d %b %Y}) "
-                         f"by {e.author} on {e.device}, written {e.written:%d %b %H:%M} UTC"
-                         f"{status}: {row.summary}"))
+        line.update(
+            Text(
+                f"{e.id} ({KIND_TITLES.get(e.kind, e.kind)}, day {e.day:%a %d %b %Y}) "
+                f"by {e.author} on {e.device}, written {e.written:%d %b %H:%M} UTC"
+                f"{status}: {row.summary}"
+            )
+        )
 
     # -- keys -----------------------------------------------------------------------------------
 
@@ -185,12 +207,15 @@ class JournalScreen(ViewScreen):
         standing_id = replay.current.get(row.entry.id, row.entry.id)
         entry = next((e for e in replay.effective if e.id == standing_id), None)
         if entry is None:
-            self.say(f"{row.entry.id} is {row.status or 'withdrawn'}: nothing left to correct",
-                     problem=True)
+            self.say(
+                f"{row.entry.id} is {row.status or 'withdrawn'}: nothing left to correct",
+                problem=True,
+            )
             return
         if standing_id != row.entry.id:
-            self.say(f"{row.entry.id} was {row.status}; correcting its newest version "
-                     f"{standing_id}")
+            self.say(
+                f"{row.entry.id} was {row.status}; correcting its newest version {standing_id}"
+            )
         form = correction_form(entry)
 
         def submit(values: dict[str, Any]) -> str | None:

@@ -36,8 +36,13 @@ from fieldlog.lookahead.render_text import ASCII, UNICODE, Glyphs
 def glyphs(sheet: Glyphs) -> Mapping[Cell, str]:
     """Two characters per day cell, the printed sheet's own marks: each class has its own
     shape (solid, shaded, dotted, blank), so no colour is needed."""
-    return {Cell.MUST: sheet.must * 2, Cell.MAY: sheet.may * 2, Cell.CANNOT: sheet.cannot * 2,
-            Cell.DONE: sheet.done * 2, Cell.OFF: "  "}
+    return {
+        Cell.MUST: sheet.must * 2,
+        Cell.MAY: sheet.may * 2,
+        Cell.CANNOT: sheet.cannot * 2,
+        Cell.DONE: sheet.done * 2,
+        Cell.OFF: "  ",
+    }
 
 
 GLYPHS = glyphs(UNICODE)
@@ -45,20 +50,29 @@ PLAIN_GLYPHS = glyphs(ASCII)
 """Plain mode: the ``--ascii`` sheet's marks (``#``, ``:``, ``.``)."""
 
 CELL_WORDS: Mapping[Cell, str] = {
-    Cell.MUST: "MUST run", Cell.MAY: "may run", Cell.CANNOT: "cannot run",
-    Cell.DONE: "done", Cell.OFF: "not a working day",
+    Cell.MUST: "MUST run",
+    Cell.MAY: "may run",
+    Cell.CANNOT: "cannot run",
+    Cell.DONE: "done",
+    Cell.OFF: "not a working day",
 }
 
 CELL_STYLES: Mapping[Cell, str] = {
-    Cell.MUST: "bold #f0a030", Cell.MAY: "#70b0e0", Cell.CANNOT: "dim", Cell.DONE: "dim",
+    Cell.MUST: "bold #f0a030",
+    Cell.MAY: "#70b0e0",
+    Cell.CANNOT: "dim",
+    Cell.DONE: "dim",
     Cell.OFF: "",
 }
 """Colour helps where there is colour; the glyphs carry the meaning without it."""
 
+
 def legend(marks: Mapping[Cell, str]) -> str:
     """Fits 80 columns, so the whole legend is on screen at the smallest size."""
-    return (f"{marks[Cell.MUST]} MUST  {marks[Cell.MAY]} may  {marks[Cell.CANNOT]} cannot  "
-            f"{marks[Cell.DONE]} done  blank: day off  !! late  ?? not ready")
+    return (
+        f"{marks[Cell.MUST]} MUST  {marks[Cell.MAY]} may  {marks[Cell.CANNOT]} cannot  "
+        f"{marks[Cell.DONE]} done  blank: day off  !! late  ?? not ready"
+    )
 
 
 LEGEND = legend(GLYPHS)
@@ -102,8 +116,9 @@ class LookaheadScreen(RecordView):
     def compose_body(self) -> Iterable[Widget]:
         """Heading, grid, legend, the selected cell in words."""
         yield Static(id="look-head", classes="view-head")
-        table: DataTable[Text] = DataTable(id="look-table", cursor_type="cell", cell_padding=0,
-                                           header_height=2, fixed_columns=3)
+        table: DataTable[Text] = DataTable(
+            id="look-table", cursor_type="cell", cell_padding=0, header_height=2, fixed_columns=3
+        )
         yield table
         yield Static(Text(legend(self.marks)), id="look-legend")
         yield Static(id="look-why", classes="detail-line")
@@ -122,8 +137,9 @@ class LookaheadScreen(RecordView):
         if self.week == 0 and snap.lookahead is not None:
             return snap.lookahead
         start = snap.state.schedule.data_date + timedelta(days=7 * self.week)
-        return build_lookahead(snap.state.schedule, snap.state.replay.readiness, start=start,
-                               days=LOOKAHEAD_DAYS)
+        return build_lookahead(
+            snap.state.schedule, snap.state.replay.readiness, start=start, days=LOOKAHEAD_DAYS
+        )
 
     def paint(self, snap: Snapshot) -> None:
         """Rebuild the grid."""
@@ -144,14 +160,24 @@ class LookaheadScreen(RecordView):
         self.shown = list(look.rows if self.show_all else look.rows_with_work)
         for r in self.shown:
             table.add_row(
-                Text(f"{row_flag(r):<3}"), Text(r.id), Text(r.name[: name_width - 1]),
-                *(_cell(c, self.marks) for c in r.cells), Text(f"{r.total_float:>4}"), key=r.id)
+                Text(f"{row_flag(r):<3}"),
+                Text(r.id),
+                Text(r.name[: name_width - 1]),
+                *(_cell(c, self.marks) for c in r.cells),
+                Text(f"{r.total_float:>4}"),
+                key=r.id,
+            )
         for load in look.crews:
             if not any(load.most):
                 continue
-            table.add_row(Text(""), Text("crew"), Text(f"{load.crew} (has {load.available})"),
-                          *(crew_cell(load, k) for k in range(len(look.days))), Text(""),
-                          key=CREW_PREFIX + load.crew)
+            table.add_row(
+                Text(""),
+                Text("crew"),
+                Text(f"{load.crew} (has {load.available})"),
+                *(crew_cell(load, k) for k in range(len(look.days))),
+                Text(""),
+                key=CREW_PREFIX + load.crew,
+            )
         if table.row_count:
             # The cursor follows its activity (by id) when a recompute moves the rows.
             row = min(keep.row, table.row_count - 1)
@@ -161,8 +187,9 @@ class LookaheadScreen(RecordView):
         hidden = len(look.rows) - len(self.shown)
         more = f" · {hidden} with nothing to do now hidden (a shows all)" if hidden else ""
         first, last = look.days[0], look.days[-1]
-        self.query_one("#look-head", Static).update(Text(
-            f"{first:%a %d %b} to {last:%a %d %b} · {len(self.shown)} activities{more}"))
+        self.query_one("#look-head", Static).update(
+            Text(f"{first:%a %d %b} to {last:%a %d %b} · {len(self.shown)} activities{more}")
+        )
         self.explain()
 
     def selected_row_key(self) -> str | None:
@@ -195,9 +222,14 @@ class LookaheadScreen(RecordView):
         k = coord.column - 3
         in_days = 0 <= k < len(look.days)
         if key.startswith(CREW_PREFIX):
-            load = next(c for c in look.crews if c.crew == key[len(CREW_PREFIX):])
-            line.update(Text(_crew_words(load, look, k) if in_days else
-                             f"{load.crew}: has {load.available} people a day"))
+            load = next(c for c in look.crews if c.crew == key[len(CREW_PREFIX) :])
+            line.update(
+                Text(
+                    _crew_words(load, look, k)
+                    if in_days
+                    else f"{load.crew}: has {load.available} people a day"
+                )
+            )
             return
         row = next(r for r in self.shown if r.id == key)
         flags = []
@@ -253,8 +285,10 @@ def _cell(c: Cell, marks: Mapping[Cell, str]) -> Text:
 
 def _crew_words(load: CrewLoad, look: Lookahead, k: int) -> str:
     must, most, has = load.must[k], load.most[k], load.available
-    text = (f"{load.crew} {look.days[k]:%a %d %b}: {must} people MUST be on site, up to {most} "
-            f"if all work with float runs; has {has}")
+    text = (
+        f"{load.crew} {look.days[k]:%a %d %b}: {must} people MUST be on site, up to {most} "
+        f"if all work with float runs; has {has}"
+    )
     if must > has:
         text += f" · OVER by {must - has}"
     return text

@@ -33,8 +33,13 @@ class PickScreen(ModalScreen[str | None]):
         Binding("escape", "cancel", "Cancel", id="pick.cancel"),
     ]
 
-    def __init__(self, title: str, options: Sequence[tuple[str, str]], intro: str = "",
-                 hotkeys: Mapping[str, str] | None = None) -> None:
+    def __init__(
+        self,
+        title: str,
+        options: Sequence[tuple[str, str]],
+        intro: str = "",
+        hotkeys: Mapping[str, str] | None = None,
+    ) -> None:
         super().__init__(classes="pick-screen")
         self.title_text = title
         self.options = list(options)
@@ -48,8 +53,9 @@ class PickScreen(ModalScreen[str | None]):
             box.border_subtitle = "Enter picks · Esc cancels"
             if self.intro:
                 yield Static(Text(self.intro), id="pick-intro")
-            yield OptionList(*(Option(Text(words), id=oid) for oid, words in self.options),
-                             id="pick-list")
+            yield OptionList(
+                *(Option(Text(words), id=oid) for oid, words in self.options), id="pick-list"
+            )
 
     def on_mount(self) -> None:
         """Focus the list on its first option."""

@@ -67,8 +67,9 @@ class RecordView(ViewScreen):
         """The activity ``aid`` (given by a menu) or the selected one; None with a hint."""
         aid = aid or self.selected_id() or ""
         if not aid:
-            self.say("No activity is selected: move to one, or / finds one by id or name",
-                     problem=True)
+            self.say(
+                "No activity is selected: move to one, or / finds one by id or name", problem=True
+            )
             return None
         return self.app_.snapshot.state.schedule.by_id.get(aid)
 
@@ -80,8 +81,11 @@ class RecordView(ViewScreen):
         if r is None:
             return
         waiting = open_predecessors(self.app_, r.id)
-        note = (f"{r.id} started OUT OF SEQUENCE: {', '.join(waiting)} not finished (allowed)"
-                if waiting else "")
+        note = (
+            f"{r.id} started OUT OF SEQUENCE: {', '.join(waiting)} not finished (allowed)"
+            if waiting
+            else ""
+        )
         self.app_.write("started", {"activity": r.id}, note=note)
 
     def action_finished(self, aid: str = "") -> None:
@@ -95,25 +99,48 @@ class RecordView(ViewScreen):
         r = self._target(aid)
         if r is not None:
             intro = f"{r.id} {r.name}: working days still needed after the day"
-            self.app_.ask(entry_form("remaining", intro=intro, fixed={"activity": r.id},
-                                     defaults={"days": r.remaining or None}, dated=True),
-                          "remaining", fixed={"activity": r.id})
+            self.app_.ask(
+                entry_form(
+                    "remaining",
+                    intro=intro,
+                    fixed={"activity": r.id},
+                    defaults={"days": r.remaining or None},
+                    dated=True,
+                ),
+                "remaining",
+                fixed={"activity": r.id},
+            )
 
     def action_percent(self, aid: str = "") -> None:
         """Ask for the activity's physical percent complete."""
         r = self._target(aid)
         if r is not None:
             intro = f"{r.id} {r.name}: how much is built (does not change the days left)"
-            self.app_.ask(entry_form("percent", intro=intro, fixed={"activity": r.id},
-                                     defaults={"percent": r.percent}, dated=True),
-                          "percent", fixed={"activity": r.id})
+            self.app_.ask(
+                entry_form(
+                    "percent",
+                    intro=intro,
+                    fixed={"activity": r.id},
+                    defaults={"percent": r.percent},
+                    dated=True,
+                ),
+                "percent",
+                fixed={"activity": r.id},
+            )
 
     def action_note(self, aid: str = "") -> None:
         """A note, about the activity when one is selected (clear it for a note on the day)."""
         aid = aid or self.selected_id() or ""
-        self.app_.ask(entry_form("note", defaults={"activity": aid or None}, dated=True,
-                                 intro="Several lines are fine; Ctrl+S records. Clear the "
-                                 "activity to make it a note on the day"), "note")
+        self.app_.ask(
+            entry_form(
+                "note",
+                defaults={"activity": aid or None},
+                dated=True,
+                intro="Several lines are fine; Ctrl+S records. Clear the "
+                "activity to make it a note on the day",
+            ),
+            "note",
+        )
 
     def action_readiness(self, aid: str = "") -> None:
         """List every open readiness item to clear one, or open a new one for the activity."""
@@ -122,8 +149,9 @@ class RecordView(ViewScreen):
         options = []
         for i in items:
             when = f"expected {i.expected:%a %d %b}" if i.expected else "no date"
-            options.append((f"clear:{i.entry_id}", f"Clear: {i.activity} needs {i.what} "
-                            f"({i.kind}, {when})"))
+            options.append(
+                (f"clear:{i.entry_id}", f"Clear: {i.activity} needs {i.what} ({i.kind}, {when})")
+            )
         if aid:
             options.append(("need", f"New: {aid} needs something before it can start"))
         if not options:
@@ -135,16 +163,26 @@ class RecordView(ViewScreen):
             if choice == "need":
                 r = schedule.by_id[aid]
                 intro = f"{r.id} {r.name}: what it needs, and when it is expected"
-                self.app_.ask(entry_form("need", intro=intro, fixed={"activity": r.id},
-                                         dated=True), "need", fixed={"activity": r.id})
+                self.app_.ask(
+                    entry_form("need", intro=intro, fixed={"activity": r.id}, dated=True),
+                    "need",
+                    fixed={"activity": r.id},
+                )
             elif choice is not None:
                 item = next(i for i in items if i.entry_id == choice.split(":", 1)[1])
-                self.app_.ask(entry_form("cleared", intro=f"{item.activity} had {item.what}: "
-                                         "how it was cleared", dated=True),
-                              "cleared", fixed={"item": item.entry_id})
+                self.app_.ask(
+                    entry_form(
+                        "cleared",
+                        intro=f"{item.activity} had {item.what}: how it was cleared",
+                        dated=True,
+                    ),
+                    "cleared",
+                    fixed={"item": item.entry_id},
+                )
 
-        self.app.push_screen(PickScreen("Readiness items", options,
-                                        intro=f"{len(items)} open"), picked)
+        self.app.push_screen(
+            PickScreen("Readiness items", options, intro=f"{len(items)} open"), picked
+        )
 
     def action_menu(self, aid: str) -> None:
         """The record keys for one activity as a menu (a tap, Enter, or a find)."""
@@ -154,15 +192,22 @@ class RecordView(ViewScreen):
         keys = activity_keys()
         options = [(k.action, f"{k.shown_key}  {k.label}") for k in keys]
         hotkeys = {k.keys.split(",")[0]: k.action for k in keys}
-        state = {Status.FINISHED: "finished", Status.IN_PROGRESS: "running",
-                 Status.NOT_STARTED: "not started"}[r.status]
+        state = {
+            Status.FINISHED: "finished",
+            Status.IN_PROGRESS: "running",
+            Status.NOT_STARTED: "not started",
+        }[r.status]
 
         def chosen(action: str | None) -> None:
             if action is not None:
                 self.call_later(self.run_action, f"{action}('{r.id}')")
 
-        self.app.push_screen(PickScreen(f"{r.id} {r.name}", options, hotkeys=hotkeys,
-                                        intro=f"{state} · what happened?"), chosen)
+        self.app.push_screen(
+            PickScreen(
+                f"{r.id} {r.name}", options, hotkeys=hotkeys, intro=f"{state} · what happened?"
+            ),
+            chosen,
+        )
 
     def action_find(self) -> None:
         """Find any activity by part of its id or name, then offer its record keys."""
@@ -204,15 +249,28 @@ class RecordView(ViewScreen):
 
     def action_lost(self) -> None:
         """Time lost and why; a whole lost day moves the forecast."""
-        self.app_.ask(entry_form(
-            "lost-time", defaults={"cause": "weather"}, dated=True,
-            intro="A whole lost day is a non-working day: the forecast moves"), "lost-time")
+        self.app_.ask(
+            entry_form(
+                "lost-time",
+                defaults={"cause": "weather"},
+                dated=True,
+                intro="A whole lost day is a non-working day: the forecast moves",
+            ),
+            "lost-time",
+        )
 
     def action_plant(self) -> None:
         """Plant or equipment on site, and any breakdown."""
-        self.app_.ask(entry_form("plant", defaults={"activity": self.selected_id()}, dated=True,
-                                 intro="One machine or item per entry; a breakdown's lost "
-                                 "hours are lost time too (l)"), "plant")
+        self.app_.ask(
+            entry_form(
+                "plant",
+                defaults={"activity": self.selected_id()},
+                dated=True,
+                intro="One machine or item per entry; a breakdown's lost "
+                "hours are lost time too (l)",
+            ),
+            "plant",
+        )
 
     def action_visit(self) -> None:
         """A delivery, inspection, visitor, instruction or note."""
@@ -232,4 +290,3 @@ class RecordView(ViewScreen):
 
         options = [(k, KIND_TITLES[k]) for k in kinds]
         self.app.push_screen(PickScreen(title, options), picked)
-

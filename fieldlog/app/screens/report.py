@@ -59,8 +59,9 @@ class ReportScreen(ViewScreen):
             state = state_for(state.folder, state.site, state.journal, day)
         self.text = render_daily_report(state, day)
         self.query_one("#report-text", Static).update(Text(self.text))
-        self.query_one("#report-head", Static).update(Text(
-            f"Daily report {day:%a %d %b %Y} · , day back  . day on · p print"))
+        self.query_one("#report-head", Static).update(
+            Text(f"Daily report {day:%a %d %b %Y} · , day back  . day on · p print")
+        )
 
     def action_shift_day(self, days: int) -> None:
         """Another day: never after the shift being recorded, never before the site start."""

@@ -39,9 +39,11 @@ def last_sync_words(record: SyncRecord | None) -> str:
     """The last sync in one line."""
     if record is None:
         return "Never synced from this device"
-    return (f"Last sync {record.when:%a %d %b %Y %H:%M} with {record.target}: sent "
-            f"{record.sent}, received {record.received}, conflicts {record.conflicts}, refused "
-            f"{record.refused}; schedule revision {record.revision}")
+    return (
+        f"Last sync {record.when:%a %d %b %Y %H:%M} with {record.target}: sent "
+        f"{record.sent}, received {record.received}, conflicts {record.conflicts}, refused "
+        f"{record.refused}; schedule revision {record.revision}"
+    )
 
 
 class SyncScreen(ViewScreen):
@@ -57,8 +59,9 @@ class SyncScreen(ViewScreen):
         yield Static(id="sync-hint", classes="view-head")
         with Horizontal(id="sync-target-row"):
             yield Label("Office folder ", id="sync-target-label")
-            yield ExactInput(placeholder="e.g. /media/stick/kestrel-yard", id="sync-target",
-                             compact=True)
+            yield ExactInput(
+                placeholder="e.g. /media/stick/kestrel-yard", id="sync-target", compact=True
+            )
         with VerticalScroll(id="sync-panel"):
             yield Static(id="sync-summary")
             yield Static(id="sync-conflicts")
@@ -81,8 +84,11 @@ class SyncScreen(ViewScreen):
         target = self.query_one("#sync-target", Input)
         folder = target.value.strip()
         if self.focused is target:
-            words = ("Type the office folder, then press Enter to sync" if not folder else
-                     "Edit the office folder if needed, then press Enter to sync")
+            words = (
+                "Type the office folder, then press Enter to sync"
+                if not folder
+                else "Edit the office folder if needed, then press Enter to sync"
+            )
             words += " · Esc leaves the box"
         elif folder:
             words = f"Press s or Enter to sync with {folder} · Tab moves to the folder"
@@ -137,19 +143,25 @@ class SyncScreen(ViewScreen):
         app = self.app
 
         def progress(done: int, total: int, copied: int) -> None:
-            app.call_from_thread(self.fieldlog.set_status,
-                                 f"Syncing: {done} of {total} files ({copied / 1048576:.1f} MB)")
+            app.call_from_thread(
+                self.fieldlog.set_status,
+                f"Syncing: {done} of {total} files ({copied / 1048576:.1f} MB)",
+            )
 
         try:
             summary = sync_site(folder, target, SyncOptions(progress=progress, now=time.time()))
         except FieldlogError as exc:
-            app.call_from_thread(self.fieldlog.set_status, f"Sync stopped: {exc.message}",
-                                 problem=True)
+            app.call_from_thread(
+                self.fieldlog.set_status, f"Sync stopped: {exc.message}", problem=True
+            )
             return
         problem = ""
         try:
-            save_record(SyncRecord.of(folder, target, summary,
-                                      datetime.now().astimezone().replace(microsecond=0)))
+            save_record(
+                SyncRecord.of(
+                    folder, target, summary, datetime.now().astimezone().replace(microsecond=0)
+                )
+            )
         except FieldlogError as exc:  # the sync is complete; only the receipt is missing
             problem = f" (last-sync record not saved: {exc.message})"
         app.call_from_thread(self._synced, summary, problem)

@@ -32,9 +32,14 @@ from fieldlog.lookahead import Cell
 from fieldlog.schedule_result import ActivityResult
 
 COLUMNS = (
-    Column("flag", "", 2), Column("id", "ID", 8), Column("name", "Activity", 20),
-    Column("state", "Now", 8), Column("tomorrow", "Tmrw", 6), Column("float", "TF", 4, True),
-    Column("left", "Left", 7), Column("finish", "Finish", 6),
+    Column("flag", "", 2),
+    Column("id", "ID", 8),
+    Column("name", "Activity", 20),
+    Column("state", "Now", 8),
+    Column("tomorrow", "Tmrw", 6),
+    Column("float", "TF", 4, True),
+    Column("left", "Left", 7),
+    Column("finish", "Finish", 6),
 )
 """The activity list's columns; the name takes whatever width is left."""
 
@@ -42,7 +47,10 @@ PROGRESS_KINDS = frozenset({"started", "finished", "remaining", "percent"})
 """Entry kinds shown in the activity list rather than in the day panel."""
 
 TOMORROW_WORDS: Mapping[Cell, str] = {
-    Cell.MUST: "MUST", Cell.MAY: "may", Cell.CANNOT: "cannot", Cell.DONE: "done",
+    Cell.MUST: "MUST",
+    Cell.MAY: "may",
+    Cell.CANNOT: "cannot",
+    Cell.DONE: "done",
     Cell.OFF: "off",
 }
 
@@ -105,17 +113,29 @@ class TodayScreen(RecordView):
             cell = snap.tomorrow.get(r.id)
             must += cell is Cell.MUST
             finish = r.actual_finish or r.early_finish
-            lines.append((r.id, (
-                flag(r), r.id, r.name, row.state,
-                TOMORROW_WORDS[cell] if cell is not None else "", float_text(r), left_text(r),
-                f"{finish:%d %b}" if finish else "",
-            )))
+            lines.append(
+                (
+                    r.id,
+                    (
+                        flag(r),
+                        r.id,
+                        r.name,
+                        row.state,
+                        TOMORROW_WORDS[cell] if cell is not None else "",
+                        float_text(r),
+                        left_text(r),
+                        f"{finish:%d %b}" if finish else "",
+                    ),
+                )
+            )
         # The cursor follows its activity through the re-sort: after "started" the row moves
         # up, and the next key still means the activity the foreman was looking at.
         table.set_rows(columns, lines, keep=table.current)
         n = len(self.rows)
-        head = (f"{snap.today:%a %d %b %Y}: {n} activit{'y' if n == 1 else 'ies'} running or "
-                f"ready · {must} MUST run tomorrow")
+        head = (
+            f"{snap.today:%a %d %b %Y}: {n} activit{'y' if n == 1 else 'ies'} running or "
+            f"ready · {must} MUST run tomorrow"
+        )
         if not self.rows:
             head = f"{snap.today:%a %d %b %Y}: nothing running or ready to start"
         self.query_one("#today-head", Static).update(Text(head))
@@ -143,16 +163,17 @@ def day_text(snap: Snapshot) -> Text:
     text = Text()
     text.append(f"Recorded for {today:%a %d %b}", style="bold")
     kinds = {e.kind for e in day_entries}
-    missing = [w for k, w in (("weather", "weather (w)"), ("crew", "crews (c)"))
-               if k not in kinds]
+    missing = [w for k, w in (("weather", "weather (w)"), ("crew", "crews (c)")) if k not in kinds]
     if missing:
         text.append(f"  · not yet: {', '.join(missing)}")
     text.append("\n")
     if progress:
         # Progress shows in the list above, but "nothing yet" under it would read as if the
         # day's record were empty: say how much of it is there.
-        text.append(f"  {progress} progress entr{'y' if progress == 1 else 'ies'} "
-                    "(started, finished, days left, percent): see the list above\n")
+        text.append(
+            f"  {progress} progress entr{'y' if progress == 1 else 'ies'} "
+            "(started, finished, days left, percent): see the list above\n"
+        )
     if not recorded:
         text.append("  nothing yet for the day\n")
     for e in day_entries:

@@ -23,8 +23,7 @@ LINE_JOIN = " / "
 
 def keeps(character: str | None) -> bool:
     """True for a format character (ZWJ, tags, joiners) that Textual's ``Input`` would drop."""
-    return (character is not None and len(character) == 1
-            and unicodedata.category(character) == "Cf")
+    return character is not None and len(character) == 1 and unicodedata.category(character) == "Cf"
 
 
 def one_line(text: str) -> str:

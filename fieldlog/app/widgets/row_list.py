@@ -151,8 +151,13 @@ class RowList(ScrollView, can_focus=True):
 
     # -- filling --------------------------------------------------------------------------------
 
-    def set_rows(self, columns: Sequence[Column], rows: Sequence[tuple[str, Sequence[str | Text]]],
-                 *, keep: str | None = None) -> None:
+    def set_rows(
+        self,
+        columns: Sequence[Column],
+        rows: Sequence[tuple[str, Sequence[str | Text]]],
+        *,
+        keep: str | None = None,
+    ) -> None:
         """Replace every row; the cursor goes back to ``keep`` when it is still there.
 
         Args:
@@ -168,8 +173,11 @@ class RowList(ScrollView, can_focus=True):
         self._header = lay_out(self.columns, [c.heading for c in self.columns])
         self._width = GUTTER + self._header.cell_len
         self.virtual_size = Size(self._width, len(self._keys) + 1)
-        target = self._index.get(keep, min(self.cursor, len(self._keys) - 1)) if keep else (
-            min(self.cursor, max(0, len(self._keys) - 1)))
+        target = (
+            self._index.get(keep, min(self.cursor, len(self._keys) - 1))
+            if keep
+            else (min(self.cursor, max(0, len(self._keys) - 1)))
+        )
         self.cursor = max(0, target)
         self.refresh()
 
@@ -262,8 +270,9 @@ class RowList(ScrollView, can_focus=True):
             self._lines[index] = line
         if index == self.cursor:
             mark = PLAIN_CURSOR_MARK if self.app.has_class("-plain") else CURSOR_MARK
-            return self._strip(Text(mark) + line, self.get_component_rich_style(
-                "row-list--cursor"), x, width)
+            return self._strip(
+                Text(mark) + line, self.get_component_rich_style("row-list--cursor"), x, width
+            )
         return self._strip(Text(" " * GUTTER) + line, Style(), x, width)
 
     def _strip(self, text: Text, style: Style, x: int, width: int) -> Strip:
