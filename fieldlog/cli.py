@@ -12,11 +12,10 @@ import importlib
 import sys
 import warnings
 from collections.abc import Sequence
-from datetime import date
 
 from fieldlog import __version__
-from fieldlog.bounds import check_date, shown
-from fieldlog.errors import FieldlogError, OutOfBounds
+from fieldlog.commands.arguments import EXIT_BAD_INPUT, EXIT_OK
+from fieldlog.errors import FieldlogError
 
 COMMANDS = (
     "schedule",
@@ -34,47 +33,12 @@ COMMANDS = (
 )
 """Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
 
-EXIT_OK, EXIT_PROBLEM, EXIT_BAD_INPUT = 0, 1, 2
-
 
 class _Parser(argparse.ArgumentParser):
     """argparse that exits 2 with one line (its default, kept explicit for the contract)."""
 
     def error(self, message: str) -> None:  # type: ignore[override]
         self.exit(EXIT_BAD_INPUT, f"fieldlog: {message} (see '{self.prog} --help')\n")
-
-
-def iso_date(text: str) -> date:
-    """argparse type for YYYY-MM-DD dates, within fieldlog's range (see fieldlog.bounds)."""
-    try:
-        day = date.fromisoformat(text[:40])
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{shown(text)} is not a date like 2026-03-02") from None
-    try:
-        return check_date(day, "date")
-    except OutOfBounds as exc:
-        raise argparse.ArgumentTypeError(f"{exc.problem}; {exc.fix}") from None
-
-
-def shift_day(given: date | None, machine_today: date) -> date:
-    """The shift being recorded: ``--today`` if given, else the machine's date.
-
-    The caller reads the machine's date (the command line's edge is the one place it is
-    read) and passes it in. A ``--today`` later than it would let entries be written for days
-    that have not happened, so it is refused.
-
-    Raises:
-        OutOfBounds: ``given`` is later than ``machine_today``.
-    """
-    if given is None:
-        return machine_today
-    if given > machine_today:
-        raise OutOfBounds(
-            f"--today {given.isoformat()} is later than this computer's date "
-            f"{machine_today.isoformat()}",
-            fix="give today's date or an earlier one, or set the computer's clock",
-        )
-    return given
 
 
 def build_parser(only: str | None = None) -> argparse.ArgumentParser:

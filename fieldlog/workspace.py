@@ -10,12 +10,12 @@ from dataclasses import dataclass
 from datetime import date, timedelta
 from pathlib import Path
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.readiness import holds
+from fieldlog.engine.result import ScheduleResult
 from fieldlog.journal import Journal, Replay, read_journal, replay
-from fieldlog.model import Site
-from fieldlog.readiness import holds
-from fieldlog.schedule_result import ScheduleResult
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
+from fieldlog.site.model import Site
 
 
 @dataclass(frozen=True)

@@ -29,7 +29,7 @@ from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 
 from fieldlog.journal import record_entry
 from fieldlog.journal.registry import devices_folder
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 SITE = Path(__file__).resolve().parent / "kestrel-yard"
 LAPTOP = ("site-laptop-1", "R. Okafor")  # site manager (invented)

@@ -1,6 +1,6 @@
 """Small builders shared by the engine tests: sites from a few tuples, points from dates.
 
-The CPM engine is tested through its public entry, :func:`fieldlog.cpm.compute_schedule`, on
+The CPM engine is tested through its public entry, :func:`fieldlog.engine.cpm.compute_schedule`, on
 sites built here straight from the model's dataclasses (no TOML), so each test reads like the
 network it checks::
 
@@ -17,7 +17,8 @@ from types import MappingProxyType
 
 import numpy as np
 
-from fieldlog.model import (
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.site.model import (
     Activity,
     CalendarSpec,
     Crew,
@@ -26,7 +27,6 @@ from fieldlog.model import (
     LinkType,
     Site,
 )
-from fieldlog.schedule_result import ScheduleResult
 
 MONDAY = date(2026, 3, 2)
 """A Monday used as the default site start."""

@@ -16,7 +16,7 @@ from pathlib import Path
 from benchmarks.synthetic import START, synthetic_site, write_site_folder
 
 from fieldlog.journal import record_entry
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 ACTIVITIES = 12
 TODAY = date(2026, 6, 1)

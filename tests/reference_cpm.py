@@ -1,19 +1,19 @@
 """Reference CPM engine for tests: the pure-Python passes, kept as they were written.
 
-This is a frozen copy of the engine before it moved to array passes (fieldlog/cpm.py at the
+This is a frozen copy of the engine before it moved to array passes (fieldlog/engine/cpm.py at the
 commit that added numpy). It is deliberately plain: one loop over the topological order, one
 activity at a time, so that the array engine can be checked against it field by field on
 random sites (tests/test_cpm_differential.py). It is used only by tests; do not "improve" it
 along with the engine, or the comparison stops meaning anything. Changes from the copy: it
 caches its network under its own key, and the small result helpers it relied on
 (critical_threshold, find_out_of_sequence, ScheduleResult.assemble, ActivityResult.from_fields)
-are copied below so that changes to fieldlog/schedule_result.py cannot leak into it.
+are copied below so that changes to fieldlog/engine/result.py cannot leak into it.
 
 Original docstring follows.
 
 Critical path method: forward and backward passes over the precedence network.
 
-Pure: no I/O, no clock. Input is a :class:`~fieldlog.model.Site`, the status date ("as of the
+Pure: no I/O, no clock. Input is a :class:`~fieldlog.site.model.Site`, the status date ("as of the
 end of day D"; the data date is the next day) and each activity's :class:`Progress`.
 Output is a :class:`ScheduleResult`.
 
@@ -21,7 +21,7 @@ How the passes work (the rules are in DEVELOPERS.md, Rules of the trade; the for
 the precedence diagramming method's, e.g. Hendrickson, *Project Management for
 Construction*, section 10.7):
 
-* Times are integer *points* on each activity's own calendar (see :mod:`fieldlog.calendars`).
+* Times are integer *points* on each activity's own calendar (see :mod:`fieldlog.engine.calendars`).
   ES is the start point, EF = ES + duration the finish point. Shown dates are inclusive working
   days: first day ``day(ES)``, last day ``day(EF - 1)``.
 * A link's bound moves from the predecessor's calendar to the successor's by the date it
@@ -60,11 +60,11 @@ from collections.abc import Iterable, Mapping, Sequence
 from datetime import date, timedelta
 from types import MappingProxyType
 
-from fieldlog.calendars import HorizonExceeded, WorkCalendar, build_calendars
-from fieldlog.model import LagCalendar, Link, LinkType, Site
-from fieldlog.network import topological_order
-from fieldlog.progress import NO_PROGRESS, Progress, Status, remaining_at
-from fieldlog.schedule_result import ActivityResult, OutOfSequence, ScheduleResult
+from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
+from fieldlog.engine.progress import NO_PROGRESS, Progress, Status, remaining_at
+from fieldlog.engine.result import ActivityResult, OutOfSequence, ScheduleResult
+from fieldlog.engine.topology import topological_order
+from fieldlog.site.model import LagCalendar, Link, LinkType, Site
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 # Bit 1 set: the link reads the predecessor's start (SS, SF); bit 2 set: it bounds the
@@ -459,7 +459,7 @@ def _driving_path(
     return path
 
 
-# --- result helpers, copied from fieldlog/schedule_result.py as they were -----------------------
+# --- result helpers, copied from fieldlog/engine/result.py as they were -----------------------
 
 
 def _make_result(values: dict[str, object]) -> ActivityResult:

@@ -16,7 +16,7 @@ from typing import Any
 from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 
 from fieldlog.journal import device_id, record_entry
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 from fieldlog.sync import SyncOptions, SyncSummary, sync_site
 
 TODAY = date(2026, 12, 31)

@@ -17,7 +17,7 @@ from fieldlog.app.screens.find import FindScreen
 from fieldlog.app.screens.form import FormScreen
 from fieldlog.app.screens.pick import PickScreen
 from fieldlog.app.widgets.row_list import RowList
-from fieldlog.daily_report import render_daily_report
+from fieldlog.reports.daily_report import render_daily_report
 from fieldlog.workspace import load_state
 from tests.test_app_site import log, screen_text, settle
 from tests.test_app_today import entries_of, started_site

@@ -19,7 +19,7 @@ from pathlib import Path
 from typing import Any
 
 from fieldlog.journal import Entry, record_entry
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 from fieldlog.workspace import load_state
 
 DEVICE = "tab-test01"

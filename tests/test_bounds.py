@@ -15,7 +15,8 @@ import pytest
 from test_journal_helpers import AUTHOR, make_site
 
 from fieldlog import bounds
-from fieldlog.cli import main, shift_day
+from fieldlog.cli import main
+from fieldlog.commands.arguments import shift_day
 from fieldlog.errors import OutOfBounds
 from fieldlog.guarded_read import check_nesting
 from fieldlog.journal.device import DEVICE_FILE

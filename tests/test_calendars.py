@@ -17,9 +17,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fieldlog.calendars import build_calendar, build_calendars, public_holidays
+from fieldlog.engine.calendars import build_calendar, build_calendars, public_holidays
 from fieldlog.errors import CalendarError
-from fieldlog.model import CalendarSpec
+from fieldlog.site.model import CalendarSpec
 from tests.engine_helpers import np_calendar, np_date
 
 ORIGIN = date(2023, 1, 1)

@@ -16,7 +16,7 @@ from golden_files import assert_golden
 
 from fieldlog.checks.baseline import earliest_history_file, load_baseline
 from fieldlog.cli import main
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 
 def test_sample_report_is_golden_and_exits_1(capsys: pytest.CaptureFixture[str]) -> None:

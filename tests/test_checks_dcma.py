@@ -23,10 +23,10 @@ from engine_helpers import MONDAY, make_site
 from fieldlog.checks import dates, logic, path
 from fieldlog.checks.baseline import planned_baseline
 from fieldlog.checks.result import Outcome
-from fieldlog.cpm import compute_schedule
-from fieldlog.model import Site
-from fieldlog.progress import Progress
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.site.model import Site
 
 BEFORE = MONDAY - timedelta(days=1)
 

@@ -1,6 +1,6 @@
 """The array engine against the plain reference engine, field by field, on random sites.
 
-:mod:`fieldlog.cpm` computes the passes level by level with numpy. ``tests/reference_cpm.py``
+:mod:`fieldlog.engine.cpm` computes the passes level by level with numpy. ``tests/reference_cpm.py``
 is the engine as it was before: one activity at a time in topological order, checked by the
 oracle tests (networkx, numpy busday functions, textbook examples, brute force). Here both run
 on the same random sites and must agree exactly: every field of every ActivityResult (with the
@@ -25,8 +25,10 @@ from types import MappingProxyType
 
 import pytest
 
-from fieldlog.cpm import compute_schedule
-from fieldlog.model import (
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.result import ActivityResult, ScheduleResult, find_out_of_sequence
+from fieldlog.site.model import (
     Activity,
     CalendarSpec,
     Crew,
@@ -35,8 +37,6 @@ from fieldlog.model import (
     LinkType,
     Site,
 )
-from fieldlog.progress import Progress
-from fieldlog.schedule_result import ActivityResult, ScheduleResult, find_out_of_sequence
 from tests import reference_cpm
 from tests.benchmarks.synthetic import synthetic_site
 

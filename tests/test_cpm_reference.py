@@ -21,9 +21,9 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from fieldlog.cpm import compute_schedule
-from fieldlog.model import CalendarSpec, LagCalendar
-from fieldlog.progress import Progress
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress
+from fieldlog.site.model import CalendarSpec, LagCalendar
 from tests.engine_helpers import (
     ALLWEEK,
     MONDAY,

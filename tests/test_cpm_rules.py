@@ -19,10 +19,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fieldlog.cpm import compute_schedule
-from fieldlog.model import CalendarSpec, LagCalendar
-from fieldlog.progress import Progress, Status
-from fieldlog.schedule_result import ActivityResult
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress, Status
+from fieldlog.engine.result import ActivityResult
+from fieldlog.site.model import CalendarSpec, LagCalendar
 from tests.engine_helpers import ALLWEEK, MONDAY, WEEKDAYS, before_start, make_site
 
 D = date.fromisoformat

@@ -25,10 +25,10 @@ from pathlib import Path
 import pytest
 from test_lookahead_oracle import act, make_site
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
 from fieldlog.lookahead import build_lookahead
 from fieldlog.lookahead.fewest_problem import Problem, build_problem
-from fieldlog.model import Link
+from fieldlog.site.model import Link
 
 pytestmark = pytest.mark.skipif(
     importlib.util.find_spec("scipy") is None, reason="scipy (test extra) is not installed"

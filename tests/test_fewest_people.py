@@ -34,17 +34,17 @@ from hypothesis import strategies as st
 from test_lookahead_levelling import crewed_networks
 from test_lookahead_oracle import OracleCalendar, Placement, act, link_holds, make_site
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Status
 from fieldlog.lookahead import build_lookahead
 from fieldlog.lookahead import fewest_people as fewest_module
 from fieldlog.lookahead.fewest_bounds import lower_bound
 from fieldlog.lookahead.fewest_people import fewest_people, near_headcount
 from fieldlog.lookahead.fewest_problem import build_problem
 from fieldlog.lookahead.fewest_text import crew_line
-from fieldlog.lookahead.render_data import render_csv, render_json
-from fieldlog.lookahead.render_text import render_text
-from fieldlog.model import CalendarSpec, Link, LinkType
-from fieldlog.progress import Status
+from fieldlog.reports.lookahead_data import render_csv, render_json
+from fieldlog.reports.lookahead_text import render_text
+from fieldlog.site.model import CalendarSpec, Link, LinkType
 
 SUN = date(2026, 3, 1)
 CALS = (

@@ -15,8 +15,8 @@ from fieldlog.cli import main
 from fieldlog.history import DayRun, history_days
 from fieldlog.history.days import logged_days, replay_days
 from fieldlog.journal import read_journal, replay
-from fieldlog.render_schedule import render_schedule
-from fieldlog.site_files import load_site
+from fieldlog.reports.schedule_sheet import render_schedule
+from fieldlog.site.files import load_site
 from tests.conftest import SAMPLE_SITE
 from tests.engine_helpers import make_site
 from tests.history_helpers import Log

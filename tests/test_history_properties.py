@@ -22,15 +22,15 @@ from datetime import date, timedelta
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from fieldlog.calendars import build_calendar
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.calendars import build_calendar
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Status
+from fieldlog.engine.readiness import holds
 from fieldlog.history import DayRun, build_history, history_days
 from fieldlog.journal import replay
 from fieldlog.journal.entries import Entry
 from fieldlog.lookahead import Cell, build_lookahead
-from fieldlog.model import Site
-from fieldlog.progress import Status
-from fieldlog.readiness import holds
+from fieldlog.site.model import Site
 from tests.engine_helpers import make_site
 from tests.history_helpers import Log
 

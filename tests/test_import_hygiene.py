@@ -29,7 +29,7 @@ def core_modules() -> list[str]:
 
 def test_core_never_imports_textual() -> None:
     modules = core_modules()
-    assert "fieldlog.cpm" in modules and "fieldlog.cli" in modules
+    assert "fieldlog.engine.cpm" in modules and "fieldlog.cli" in modules
     assert "fieldlog.history.build" in modules and "fieldlog.commands.history" in modules
     code = (
         "import importlib, sys\n"

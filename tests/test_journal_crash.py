@@ -24,7 +24,7 @@ import pytest
 from test_journal_helpers import AUTHOR, DEVICE, ROOT, FixedClock, make_site
 
 from fieldlog.journal import read_journal, record_entry, verify
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 pytestmark = pytest.mark.skipif(
     not hasattr(signal, "SIGKILL") or not hasattr(os, "fork"), reason="needs POSIX signals and fork"

@@ -15,7 +15,7 @@ from datetime import UTC, date, datetime, timedelta
 from pathlib import Path
 
 from fieldlog.journal import Entry, record_entry
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 SITE_TOML = """\
 [site]

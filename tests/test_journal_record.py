@@ -29,7 +29,7 @@ from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, device_id, read_journal, record_entry, verify
 from fieldlog.journal.device import new_device_id
 from fieldlog.journal.names import DEVICE_RE, file_name, parse_file_name
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 
 @pytest.fixture

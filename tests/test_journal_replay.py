@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 from test_journal_helpers import make_site, rec
 
 from fieldlog.journal import Entry, replay
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 from fieldlog.workspace import load_state
 
 D = date(2026, 9, 1)

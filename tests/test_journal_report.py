@@ -17,7 +17,7 @@ import pytest
 from test_journal_helpers import OTHER, FixedClock, make_site, rec
 
 from fieldlog.cli import main
-from fieldlog.daily_report import WIDTH, render_daily_report
+from fieldlog.reports.daily_report import WIDTH, render_daily_report
 from fieldlog.workspace import load_state
 
 GOLDEN = Path(__file__).parent / "golden" / "daily_report.txt"

@@ -122,7 +122,7 @@ import sys
 from datetime import date, datetime, UTC
 from pathlib import Path
 from fieldlog.journal import record_entry
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 folder, tag, n, device = Path(sys.argv[1]), sys.argv[2], int(sys.argv[3]), sys.argv[4]
 site = load_site(folder)
 clock = lambda: datetime(2026, 9, 8, 17, 0, tzinfo=UTC)

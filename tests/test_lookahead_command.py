@@ -18,7 +18,7 @@ import pytest
 
 from fieldlog.cli import main
 from fieldlog.lookahead import build_lookahead
-from fieldlog.lookahead.render_text import render_text
+from fieldlog.reports.lookahead_text import render_text
 from fieldlog.workspace import load_state
 
 SITE_TOML = """\
@@ -202,8 +202,8 @@ def test_missing_site_exits_2(tmp_path: Path, capsysbinary) -> None:
 def test_core_lookahead_modules_never_import_textual_or_rich() -> None:
     """The core never imports textual (DEVELOPERS.md, Contracts), checked in a fresh interpreter."""
     code = (
-        "import sys, fieldlog.lookahead, fieldlog.lookahead.render_text, "
-        "fieldlog.lookahead.render_data, fieldlog.commands.lookahead; "
+        "import sys, fieldlog.lookahead, fieldlog.reports.lookahead_text, "
+        "fieldlog.reports.lookahead_data, fieldlog.commands.lookahead; "
         "print(sorted(m for m in sys.modules if m.split('.')[0] in ('textual', 'rich')))"
     )
     out = subprocess.run(

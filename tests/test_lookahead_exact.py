@@ -25,11 +25,11 @@ from test_lookahead_oracle import (
     make_site,
 )
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.readiness import OpenItem
 from fieldlog.lookahead import Cell, build_lookahead
-from fieldlog.model import CalendarSpec, LagCalendar, Link, LinkType
-from fieldlog.progress import Progress
-from fieldlog.readiness import OpenItem
+from fieldlog.site.model import CalendarSpec, LagCalendar, Link, LinkType
 
 MONDAY = date(2026, 3, 2)
 CALENDARS = (

@@ -12,12 +12,12 @@ from datetime import date, timedelta
 import pytest
 from test_lookahead_oracle import act, make_site
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.readiness import OpenItem
 from fieldlog.lookahead import Cell, build_lookahead
 from fieldlog.lookahead.classify import Window, classify
-from fieldlog.model import Link, LinkType
-from fieldlog.progress import Progress
-from fieldlog.readiness import OpenItem
+from fieldlog.site.model import Link, LinkType
 
 SUN = date(2026, 3, 1)
 MON = date(2026, 3, 2)

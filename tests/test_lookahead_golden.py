@@ -20,13 +20,13 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from test_lookahead_oracle import act, make_site
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.readiness import OpenItem
 from fieldlog.lookahead import build_lookahead
-from fieldlog.lookahead.render_text import CAUTION, PAGE_LINES, render_text
-from fieldlog.model import CalendarSpec, Link, LinkType
-from fieldlog.progress import Progress
-from fieldlog.readiness import OpenItem
-from fieldlog.text_fit import abbreviate, fit, width
+from fieldlog.reports.lookahead_text import CAUTION, PAGE_LINES, render_text
+from fieldlog.reports.text_fit import abbreviate, fit, width
+from fieldlog.site.model import CalendarSpec, Link, LinkType
 
 GOLDEN = Path(__file__).parent / "golden"
 STATUS = date(2026, 9, 11)  # end of Friday; the sheet starts Saturday

@@ -159,7 +159,7 @@ def test_bad_crew_options_are_exit_2(
 
 def test_icalendar_is_imported_only_when_writing() -> None:
     code = (
-        "import sys, fieldlog.commands.lookahead, fieldlog.lookahead.render_ics\n"
+        "import sys, fieldlog.commands.lookahead, fieldlog.reports.lookahead_ics\n"
         "print('icalendar' in sys.modules)"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)

@@ -25,11 +25,11 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from test_lookahead_oracle import WEEKDAYS, OracleCalendar, Placement, act, link_holds, make_site
 
-from fieldlog.cpm import compute_schedule
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.progress import Progress, Status
 from fieldlog.lookahead import build_lookahead
 from fieldlog.lookahead.levelling import METHOD
-from fieldlog.model import CalendarSpec, LagCalendar, Link, LinkType
-from fieldlog.progress import Progress, Status
+from fieldlog.site.model import CalendarSpec, LagCalendar, Link, LinkType
 
 SUN = date(2026, 3, 1)
 CALS = (
@@ -98,7 +98,8 @@ def _placements(result, la):
     """Every open activity's instants with the suggested moves made (oracle placements).
 
     A milestone takes no time. One at the end of the work driving it (``after_work``) is the
-    end of its shown day; any other is the start of its shown day (fieldlog.cpm's convention).
+    end of its shown day; any other is the start of its shown day (the convention of
+    fieldlog.engine.cpm).
     """
     moved = {m.activity: m for m in la.levelling.moves} if la.levelling else {}
     out = {}

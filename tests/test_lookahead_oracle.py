@@ -37,8 +37,8 @@ from types import MappingProxyType
 
 import numpy as np
 
-from fieldlog.model import Activity, CalendarSpec, Crew, LagCalendar, Link, LinkType, Site
-from fieldlog.progress import Progress, Status
+from fieldlog.engine.progress import Progress, Status
+from fieldlog.site.model import Activity, CalendarSpec, Crew, LagCalendar, Link, LinkType, Site
 
 ORIGIN = date(2025, 1, 1)
 END = date(2028, 1, 1)

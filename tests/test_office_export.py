@@ -22,7 +22,7 @@ from office_sites import TODAY, make_sites
 from fieldlog.cli import main
 from fieldlog.journal import record_entry
 from fieldlog.office import Outcome, expand_sites, export_sites
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 from fieldlog.sync.rollup import rollup
 
 SITES = 100

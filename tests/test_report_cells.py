@@ -3,7 +3,7 @@
 The outside reference is Rich's ``rich.cells`` (``cell_len`` and ``split_graphemes``), the cell
 tables Textual draws the app's screen with; a terminal or printer that follows Unicode's East
 Asian Width (UAX #11) and emoji presentation (UTS #51) rules shows the same widths. The core
-does not import Rich (tests/test_lookahead_command.py), so ``fieldlog.text_fit`` has its own
+does not import Rich (tests/test_lookahead_command.py), so ``fieldlog.reports.text_fit`` has its own
 small grapheme rules; here they are compared with Rich's, and every printed line is measured
 with Rich, never with the code under test.
 """
@@ -16,11 +16,11 @@ from pathlib import Path
 import pytest
 from rich.cells import cell_len, split_graphemes
 
-from fieldlog.daily_report import render_daily_report
 from fieldlog.lookahead import build_lookahead
-from fieldlog.lookahead.render_text import render_text
-from fieldlog.render_schedule import render_schedule
-from fieldlog.text_fit import fit, graphemes, right, width, wrap
+from fieldlog.reports.daily_report import render_daily_report
+from fieldlog.reports.lookahead_text import render_text
+from fieldlog.reports.schedule_sheet import render_schedule
+from fieldlog.reports.text_fit import fit, graphemes, right, width, wrap
 from fieldlog.workspace import load_state
 from tests.test_app_site import fix_device, log, write_site
 

@@ -88,7 +88,7 @@ def test_missing_folder_is_exit_2(capsys: pytest.CaptureFixture[str], tmp_path: 
 @pytest.mark.parametrize("names", [[], ["a"], ["a", 'q"uote', "é\n"]])
 def test_fast_json_matches_json_dumps(names: list[str]) -> None:
     """The fast JSON writer gives exactly the bytes of json.dumps(indent=2) (the reference)."""
-    from fieldlog.render_schedule import json_text
+    from fieldlog.reports.schedule_sheet import json_text
 
     doc = {
         "as_of": "2026-03-01",

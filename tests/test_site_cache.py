@@ -18,10 +18,11 @@ from types import MappingProxyType
 
 import pytest
 
-from fieldlog import site_cache, site_files
 from fieldlog.errors import DependencyLoopError, SiteError
-from fieldlog.site_cache import KEEP, SiteCacheWarning, cache_folder, cache_key
-from fieldlog.site_files import load_site
+from fieldlog.site import cache as site_cache
+from fieldlog.site import files as site_files
+from fieldlog.site.cache import KEEP, SiteCacheWarning, cache_folder, cache_key
+from fieldlog.site.files import load_site
 
 SITE = """\
 [site]

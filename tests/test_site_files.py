@@ -14,8 +14,8 @@ from pathlib import Path
 import pytest
 
 from fieldlog.errors import DependencyLoopError, SiteError
-from fieldlog.model import LinkType
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
+from fieldlog.site.model import LinkType
 
 SITE = """\
 [site]

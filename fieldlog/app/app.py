@@ -37,9 +37,9 @@ from fieldlog.app.screens.form import FormScreen, Submit
 from fieldlog.app.screens.help import HelpScreen
 from fieldlog.app.screens.today import TodayScreen
 from fieldlog.app.session import SiteSession, Snapshot
-from fieldlog.calendars import HorizonExceeded
-from fieldlog.cli import shift_day
+from fieldlog.commands.arguments import shift_day
 from fieldlog.day_words import earliest_day, long_day
+from fieldlog.engine.calendars import HorizonExceeded
 from fieldlog.errors import FieldlogError
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.keys import saved_author, take_warnings

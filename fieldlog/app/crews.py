@@ -16,7 +16,7 @@ from typing import Any
 from fieldlog.app.forms import Field, Form
 from fieldlog.app.recording import DAY_FIELD, day_field, entry_form, form_field
 from fieldlog.journal.entries import Entry, check_fields, spec
-from fieldlog.model import Crew
+from fieldlog.site.model import Crew
 
 NEW_TRADE, NEW_HEADCOUNT = "new_trade", "new_headcount"
 """The fields adding a crew that was not on site on the last day."""

@@ -1,6 +1,6 @@
 """The float view's filters and the "what drives this activity" line (pure functions).
 
-Rows come in the printed float list's order (:func:`fieldlog.render_schedule.sort_key`):
+Rows come in the printed float list's order (:func:`fieldlog.reports.schedule_sheet.sort_key`):
 open work by total float, then early start, then id; finished work last.
 """
 
@@ -8,8 +8,8 @@ from __future__ import annotations
 
 from datetime import date, timedelta
 
-from fieldlog.render_schedule import sort_key
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.engine.result import ActivityResult, ScheduleResult
+from fieldlog.reports.schedule_sheet import sort_key
 
 NEAR_CRITICAL_DAYS = 5
 """Near critical: open, not critical, total float of at most this many working days.

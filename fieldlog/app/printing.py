@@ -25,7 +25,7 @@ from pathlib import Path
 from fieldlog.durable import make_folder, refuse_links
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import Lookahead
-from fieldlog.lookahead.render_text import render_text
+from fieldlog.reports.lookahead_text import render_text
 
 PRINTS_FOLDER = "prints"
 """Sheets go to ``<site>/prints/``, next to the log, where the foreman finds them."""

@@ -29,8 +29,8 @@ from pathlib import Path
 from fieldlog.app.shift import ShiftRow, shift_rows
 from fieldlog.journal import read_journal
 from fieldlog.lookahead import Cell, Lookahead, build_lookahead
-from fieldlog.model import Site
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
+from fieldlog.site.model import Site
 from fieldlog.workspace import SiteState, state_for
 
 LOOKAHEAD_DAYS = 14

@@ -17,8 +17,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from datetime import date
 
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult, ScheduleResult
 
 RUNNING, READY, DONE_TODAY = 0, 1, 2
 

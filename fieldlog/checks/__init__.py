@@ -14,10 +14,10 @@ from datetime import date
 from fieldlog.checks import dates, logic, path
 from fieldlog.checks.baseline import Baseline, load_baseline
 from fieldlog.checks.result import CheckResult, Outcome
-from fieldlog.cpm import compute_schedule
-from fieldlog.model import Site
-from fieldlog.readiness import holds
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.readiness import holds
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.site.model import Site
 from fieldlog.workspace import SiteState, load_state
 
 __all__ = ["CheckResult", "HealthReport", "Outcome", "check_site", "check_state"]

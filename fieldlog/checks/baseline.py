@@ -14,9 +14,9 @@ from dataclasses import dataclass
 from datetime import date, timedelta
 from pathlib import Path
 
-from fieldlog.cpm import compute_schedule
-from fieldlog.model import Site
-from fieldlog.site_files import SITE_FILE, build_site, read_toml
+from fieldlog.engine.cpm import compute_schedule
+from fieldlog.site.files import SITE_FILE, build_site, read_toml
+from fieldlog.site.model import Site
 from fieldlog.sync.revision import HISTORY_DIR
 
 _HISTORY_NAME = re.compile(r"schedule\.r(\d{1,9})(?:\.[0-9a-f]{8,64})?\.toml")

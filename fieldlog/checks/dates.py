@@ -11,9 +11,9 @@ from __future__ import annotations
 from fieldlog.checks.baseline import Baseline
 from fieldlog.checks.result import CheckResult, Outcome, Threshold, at_most, none_allowed, share
 from fieldlog.checks.sources import DCMA_RECALLED, DCMA_SECONDARY
-from fieldlog.model import Site
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult, ScheduleResult
+from fieldlog.site.model import Site
 
 HIGH_FLOAT_DAYS = 44
 """Check 6: total float above 44 working days (about two months) is high."""

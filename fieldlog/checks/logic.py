@@ -22,8 +22,8 @@ from fieldlog.checks.result import (
     share,
 )
 from fieldlog.checks.sources import DCMA_GAO, DCMA_SECONDARY
-from fieldlog.model import Link, LinkType, Site
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.site.model import Link, LinkType, Site
 
 MAX_MISSING_LOGIC_PCT = 5.0
 """Check 1: at most 5% of unfinished activities without a predecessor or a successor."""

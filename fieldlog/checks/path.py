@@ -20,9 +20,9 @@ from fieldlog.checks.baseline import Baseline
 from fieldlog.checks.dates import due_by_status_date
 from fieldlog.checks.result import CheckResult, Outcome, Threshold, at_least
 from fieldlog.checks.sources import BEI_SHEET, DAU_CPLI, DCMA_RECALLED
-from fieldlog.model import Site
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.site.model import Site
 
 CRITICAL_PATH_DELAY = 600
 """Working days added in the critical path test (recalled value of the DCMA test)."""

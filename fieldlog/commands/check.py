@@ -9,7 +9,7 @@ from __future__ import annotations
 import argparse
 import sys
 
-from fieldlog.cli import EXIT_OK, EXIT_PROBLEM, iso_date
+from fieldlog.commands.arguments import EXIT_OK, EXIT_PROBLEM, iso_date
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
@@ -35,7 +35,7 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
 def run(args: argparse.Namespace) -> int:
     """Print the report; a failed check is exit 1."""
     from fieldlog.checks import check_site
-    from fieldlog.checks.render import render_json, render_text
+    from fieldlog.reports.health import render_json, render_text
 
     report = check_site(args.site, args.as_of)
     sys.stdout.write(render_json(report) if args.format == "json" else render_text(report))

@@ -15,7 +15,7 @@ import tempfile
 from datetime import date, timedelta
 from pathlib import Path
 
-from fieldlog.cli import iso_date, shift_day
+from fieldlog.commands.arguments import iso_date, shift_day
 from fieldlog.errors import SiteError
 
 SAMPLE = "kestrel-yard"
@@ -71,9 +71,9 @@ def demo_day(folder: Path) -> tuple[date, date | None]:
     The day after the last logged day, moved to the next working day of the site's default
     calendar; with an empty log, the first working day on or after the site start.
     """
-    from fieldlog.calendars import build_calendar
+    from fieldlog.engine.calendars import build_calendar
     from fieldlog.journal import read_journal
-    from fieldlog.site_files import load_site
+    from fieldlog.site.files import load_site
     from fieldlog.workspace import default_status_date
 
     site = load_site(folder)

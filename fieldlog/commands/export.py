@@ -12,7 +12,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from fieldlog.cli import EXIT_OK, EXIT_PROBLEM, iso_date
+from fieldlog.commands.arguments import EXIT_OK, EXIT_PROBLEM, iso_date
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:

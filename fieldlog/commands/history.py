@@ -5,11 +5,11 @@ from __future__ import annotations
 import argparse
 import sys
 
-from fieldlog.cli import EXIT_BAD_INPUT, iso_date
+from fieldlog.commands.arguments import EXIT_BAD_INPUT, iso_date
 from fieldlog.history import GROUPINGS, build_history
-from fieldlog.history.render import FORMATS, render_history
 from fieldlog.journal import read_journal
-from fieldlog.site_files import load_site
+from fieldlog.reports.history import FORMATS, render_history
+from fieldlog.site.files import load_site
 
 MIN_WIDTH, MAX_WIDTH = 60, 400
 

@@ -11,12 +11,12 @@ import argparse
 import sys
 from pathlib import Path
 
-from fieldlog.cli import EXIT_BAD_INPUT, EXIT_OK, iso_date
+from fieldlog.commands.arguments import EXIT_BAD_INPUT, EXIT_OK, iso_date
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead.build import DEFAULT_DAYS, Lookahead, build_lookahead
-from fieldlog.lookahead.render_data import render_csv, render_json
-from fieldlog.lookahead.render_ics import crew_calendars, render_ics
-from fieldlog.lookahead.render_text import WIDTHS, layout_for, render_text
+from fieldlog.reports.lookahead_data import render_csv, render_json
+from fieldlog.reports.lookahead_ics import crew_calendars, render_ics
+from fieldlog.reports.lookahead_text import WIDTHS, layout_for, render_text
 from fieldlog.workspace import SiteState, load_state
 
 FORMATS = ("text", "json", "csv", "ics")

@@ -13,7 +13,7 @@ import sys
 from collections.abc import Mapping
 from datetime import date
 
-from fieldlog.cli import iso_date, shift_day
+from fieldlog.commands.arguments import iso_date, shift_day
 from fieldlog.errors import FieldlogError
 
 MONO_TERMS = frozenset({"dumb", "vt52", "vt100", "vt102", "vt220", "vt320", "vt420"})

@@ -26,7 +26,7 @@ import argparse
 import sys
 from datetime import date
 
-from fieldlog.cli import iso_date, shift_day
+from fieldlog.commands.arguments import iso_date, shift_day
 from fieldlog.day_words import HELP as DAY_HELP
 from fieldlog.day_words import DayProblem, earliest_day, long_day, parse_day
 from fieldlog.errors import EntryRefused
@@ -34,7 +34,7 @@ from fieldlog.journal import KINDS, record_entry
 from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import FieldSpec
 from fieldlog.journal.keys import MAX_AUTHOR, check_author, save_author, saved_author
-from fieldlog.site_files import load_site
+from fieldlog.site.files import load_site
 
 VERBS = {
     "started": ("started", "an activity started (its actual start)"),

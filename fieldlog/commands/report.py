@@ -9,8 +9,8 @@ from __future__ import annotations
 import argparse
 import sys
 
-from fieldlog.cli import iso_date
-from fieldlog.daily_report import render_daily_report
+from fieldlog.commands.arguments import iso_date
+from fieldlog.reports.daily_report import render_daily_report
 from fieldlog.workspace import load_state
 
 

@@ -5,8 +5,8 @@ from __future__ import annotations
 import argparse
 import sys
 
-from fieldlog.cli import iso_date
-from fieldlog.render_schedule import FORMATS, render_schedule
+from fieldlog.commands.arguments import iso_date
+from fieldlog.reports.schedule_sheet import FORMATS, render_schedule
 from fieldlog.workspace import load_state
 
 

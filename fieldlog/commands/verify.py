@@ -24,8 +24,9 @@ from datetime import date
 from pathlib import Path
 
 from fieldlog.errors import SiteError
-from fieldlog.journal import Journal, fieldlog_home, read_journal, replay
-from fieldlog.site_files import load_site
+from fieldlog.home import fieldlog_home
+from fieldlog.journal import Journal, read_journal, replay
+from fieldlog.site.files import load_site
 from fieldlog.sync.audit import (
     Audit,
     audit,

@@ -2,7 +2,7 @@
 reliable the weekly plan was.
 
 :func:`build_history` is the entry point (pure; no Textual, no files, no clock). Readers get
-frozen values (:mod:`fieldlog.history.values`); :mod:`fieldlog.history.render` prints them as
+frozen values (:mod:`fieldlog.history.values`); :mod:`fieldlog.reports.history` prints them as
 text, JSON or CSV. The split of each movement by cause is a contemporaneous, observational
 windows analysis (AACE RP 29R-03, MIP 3.3 with a MIP 3.4-style split); its rules are in
 :mod:`fieldlog.history.movement` and DEVELOPERS.md.

@@ -14,6 +14,8 @@ from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from datetime import date, timedelta
 
+from fieldlog.engine.readiness import holds
+from fieldlog.engine.result import ScheduleResult
 from fieldlog.history.days import DayState, logged_days, replay_days
 from fieldlog.history.movement import DayMovement, Point
 from fieldlog.history.reliability import week_reliability
@@ -22,9 +24,7 @@ from fieldlog.history.values import DayRecord, History, WeekReliability
 from fieldlog.history.windows import GROUPINGS, group
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.replay import replay
-from fieldlog.model import Site
-from fieldlog.readiness import holds
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.site.model import Site
 
 _DAY = timedelta(days=1)
 

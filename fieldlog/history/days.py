@@ -27,12 +27,12 @@ from collections.abc import Iterator, Mapping, Sequence
 from dataclasses import dataclass
 from datetime import date
 
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.readiness import OpenItem
 from fieldlog.journal.corrections import Resolved, resolve_corrections
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.replay import _Fold
-from fieldlog.model import Site
-from fieldlog.progress import Progress
-from fieldlog.readiness import OpenItem
+from fieldlog.site.model import Site
 
 
 @dataclass(frozen=True)

@@ -11,10 +11,10 @@ from __future__ import annotations
 from datetime import timedelta
 from typing import TYPE_CHECKING
 
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ScheduleResult
 from fieldlog.history.causes import lost_time_category
 from fieldlog.history.values import Evidence
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ScheduleResult
 
 if TYPE_CHECKING:
     from fieldlog.history.days import DayState

@@ -27,6 +27,9 @@ from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from datetime import date, timedelta
 
+from fieldlog.engine.progress import Progress, Status
+from fieldlog.engine.readiness import OpenItem, holds
+from fieldlog.engine.result import ActivityResult, ScheduleResult
 from fieldlog.history.causes import (
     CAUSES,
     DESIGN,
@@ -41,9 +44,6 @@ from fieldlog.history.evidence import day_evidence, remaining_increase
 from fieldlog.history.scheduler import DayScheduler, LostDays
 from fieldlog.history.values import DayRecord, Step
 from fieldlog.journal.entries import Entry
-from fieldlog.progress import Progress, Status
-from fieldlog.readiness import OpenItem, holds
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
 
 _DAY = timedelta(days=1)
 

@@ -27,13 +27,13 @@ from __future__ import annotations
 from collections.abc import Sequence
 from datetime import date, timedelta
 
+from fieldlog.engine.progress import Status
+from fieldlog.engine.readiness import OpenItem
+from fieldlog.engine.result import ActivityResult, ScheduleResult
 from fieldlog.history.causes import lost_time_category
 from fieldlog.history.values import Assignment, WeekReliability
 from fieldlog.journal.entries import Entry
 from fieldlog.lookahead.classify import Cell, PatternCache, Window
-from fieldlog.progress import Status
-from fieldlog.readiness import OpenItem
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
 
 NO_REASON = "no reason recorded in the log"
 _DAY = timedelta(days=1)

@@ -1,6 +1,6 @@
 """The schedule as of many days, reusing the calendars and the network between them.
 
-:func:`fieldlog.cpm.compute_schedule` sizes its calendars around each status date, so asking
+:func:`fieldlog.engine.cpm.compute_schedule` sizes its calendars around each status date, so asking
 it for every day of a two-year log rebuilds them every day. Here the calendars are built once
 over a range wide enough for the whole history and rebuilt only when the set of lost days
 changes (a handful of times a season), and the network arrays are the site's own cached ones.
@@ -17,12 +17,12 @@ from collections.abc import Callable, Mapping
 from datetime import date, timedelta
 from typing import TypeVar
 
-from fieldlog.calendars import HorizonExceeded, WorkCalendar, build_calendars
-from fieldlog.cpm import forecast_finish_on_calendars, schedule_on_calendars
-from fieldlog.cpm_network import network_arrays
-from fieldlog.model import Site
-from fieldlog.progress import Progress
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
+from fieldlog.engine.cpm import forecast_finish_on_calendars, schedule_on_calendars
+from fieldlog.engine.network_arrays import network_arrays
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.site.model import Site
 
 LostDays = Mapping[str, frozenset[date]]
 T = TypeVar("T")

@@ -61,7 +61,7 @@ Recording (:mod:`~fieldlog.journal.record`): how the app adds an entry
 from __future__ import annotations
 
 from fieldlog.errors import EntryRefused, JournalError
-from fieldlog.journal.device import device_id, fieldlog_home
+from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import (
     INSPECTION_RESULTS,
     INSTRUCTION_FORMS,
@@ -92,7 +92,6 @@ __all__ = [
     "Replay",
     "check_journal_bytes",
     "device_id",
-    "fieldlog_home",
     "read_journal",
     "record_entry",
     "replay",

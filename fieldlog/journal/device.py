@@ -14,36 +14,20 @@ random hex digits so that two laptops both called "site-office" still differ. It
 
 from __future__ import annotations
 
-import os
 import re
 import secrets
 import socket
-import sys
 from pathlib import Path
 
 import tomli_w
 
 from fieldlog.errors import JournalError, OutOfBounds, UnreadableToml
 from fieldlog.guarded_read import loads
+from fieldlog.home import HOME_ENV, fieldlog_home
 from fieldlog.journal.names import valid_device
 from fieldlog.journal.store import atomic_write, device_lock, read_bytes
 
-HOME_ENV = "FIELDLOG_HOME"
 DEVICE_FILE = "device.toml"
-
-
-def fieldlog_home() -> Path:
-    """fieldlog's own data folder (not a site folder); created when first needed."""
-    env = os.environ.get(HOME_ENV)
-    if env:
-        return Path(env)
-    if sys.platform == "win32":
-        base = Path(os.environ.get("LOCALAPPDATA") or Path.home() / "AppData" / "Local")
-    elif sys.platform == "darwin":
-        base = Path.home() / "Library" / "Application Support"
-    else:
-        base = Path(os.environ.get("XDG_DATA_HOME") or Path.home() / ".local" / "share")
-    return base / "fieldlog"
 
 
 def read_settings(home: Path) -> dict:

@@ -42,8 +42,8 @@ from types import MappingProxyType
 from typing import Any
 
 from fieldlog.bounds import MAX_DAYS, MAX_HEADCOUNT
+from fieldlog.engine.readiness import READINESS_KINDS
 from fieldlog.journal.fields import FieldProblem, FieldSpec, coerce
-from fieldlog.readiness import READINESS_KINDS
 
 __all__ = ["FieldProblem", "FieldSpec", "coerce"]  # re-exported: the app builds forms from them
 

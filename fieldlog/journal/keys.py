@@ -32,7 +32,8 @@ from cryptography.hazmat.primitives.asymmetric.ed25519 import (
 
 from fieldlog.durable import PERMISSION_UNSUPPORTED, flush_to_disk, write_all
 from fieldlog.errors import EntryRefused, JournalError
-from fieldlog.journal.device import DEVICE_FILE, HOME_ENV, fieldlog_home, read_settings
+from fieldlog.home import HOME_ENV, fieldlog_home
+from fieldlog.journal.device import DEVICE_FILE, read_settings
 from fieldlog.journal.store import atomic_write, device_lock
 
 KEY_FILE = "device-key.pem"

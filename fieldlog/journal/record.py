@@ -41,7 +41,7 @@ from fieldlog.journal.store import (
     remove_stale_temps,
     write_error,
 )
-from fieldlog.model import Site
+from fieldlog.site.model import Site
 
 Clock = Callable[[], datetime]
 

@@ -23,11 +23,11 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from datetime import date
 
+from fieldlog.engine.progress import Progress
+from fieldlog.engine.readiness import OpenItem
 from fieldlog.journal.corrections import correction_base, resolve_corrections
 from fieldlog.journal.entries import Entry
-from fieldlog.model import Site
-from fieldlog.progress import Progress
-from fieldlog.readiness import OpenItem
+from fieldlog.site.model import Site
 
 
 @dataclass(frozen=True)

@@ -19,7 +19,7 @@ from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import EntryRefused, OutOfBounds
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.replay import ActivityEntries, Replay
-from fieldlog.model import Site
+from fieldlog.site.model import Site
 
 
 def refuse(problem: str, *, activity: str | None = None, fix: str | None = None) -> EntryRefused:

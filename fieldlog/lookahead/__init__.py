@@ -8,7 +8,7 @@ Modules, in the order data flows through them:
 * :mod:`~fieldlog.lookahead.positions` and :mod:`~fieldlog.lookahead.levelling`: a
   Burgess-Killebrew levelling suggestion that never moves the finish nor breaks a link;
 * :mod:`~fieldlog.lookahead.build`: :func:`build_lookahead`, which puts them together;
-* :mod:`~fieldlog.lookahead.render_text` and :mod:`~fieldlog.lookahead.render_data`: the
+* :mod:`~fieldlog.reports.lookahead_text` and :mod:`~fieldlog.reports.lookahead_data`: the
   printable sheet, JSON and CSV.
 """
 

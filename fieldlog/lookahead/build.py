@@ -21,14 +21,14 @@ from dataclasses import dataclass, fields, replace
 from datetime import date, timedelta
 from operator import attrgetter
 
+from fieldlog.engine.progress import Status
+from fieldlog.engine.readiness import OpenItem
+from fieldlog.engine.result import ScheduleResult
 from fieldlog.lookahead.classify import Cell, PatternCache, Why, Window
 from fieldlog.lookahead.crew_load import CrewLoad, CrewWork, crew_loads
 from fieldlog.lookahead.fewest_people import FewestPeople, fewest_people
 from fieldlog.lookahead.levelling import Levelling, level
 from fieldlog.lookahead.reasons import ReasonWriter
-from fieldlog.progress import Status
-from fieldlog.readiness import OpenItem
-from fieldlog.schedule_result import ScheduleResult
 
 DEFAULT_DAYS = 14
 

@@ -17,7 +17,7 @@ from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 
 from fieldlog.lookahead.classify import Cell
-from fieldlog.model import Crew
+from fieldlog.site.model import Crew
 
 
 @dataclass(frozen=True)

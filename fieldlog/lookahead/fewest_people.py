@@ -35,13 +35,13 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from datetime import date
 
+from fieldlog.engine.result import ScheduleResult
 from fieldlog.lookahead.fewest_bounds import LowerBound, lower_bound
 from fieldlog.lookahead.fewest_problem import Problem, build_problem
 from fieldlog.lookahead.fewest_repair import repair
 from fieldlog.lookahead.fewest_search import Outcome, find_plan
 from fieldlog.lookahead.levelling import Move
 from fieldlog.lookahead.positions import Network
-from fieldlog.schedule_result import ScheduleResult
 
 METHOD = "branch and bound with must-work and energy lower bounds"
 NODE_BUDGET = 100_000

@@ -27,11 +27,11 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from datetime import date, timedelta
 
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.engine.topology import topological_order
 from fieldlog.lookahead.positions import Network, Placed
-from fieldlog.model import Link
-from fieldlog.network import topological_order
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.site.model import Link
 
 
 @dataclass(frozen=True)

@@ -38,11 +38,11 @@ from datetime import date, timedelta
 from operator import attrgetter
 from typing import Protocol
 
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ScheduleResult
+from fieldlog.engine.topology import topological_order
 from fieldlog.lookahead.positions import Network, Placed
-from fieldlog.model import Site
-from fieldlog.network import topological_order
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.site.model import Site
 
 METHOD = "Burgess-Killebrew minimum sum of squares"
 MAX_PASSES = 50

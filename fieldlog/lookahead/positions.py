@@ -2,9 +2,9 @@
 
 Levelling moves activities and must prove that every link still holds, on each activity's own
 calendar. This module turns the dates of a :class:`ScheduleResult` back into *points* (see
-:mod:`fieldlog.calendars`: point p is the start of the p-th working day) and states each link as
-the earliest start point it allows its successor, following the conventions of
-:mod:`fieldlog.cpm`:
+:mod:`fieldlog.engine.calendars`: point p is the start of the p-th working day) and states each
+link as the earliest start point it allows its successor, following the conventions of
+:mod:`fieldlog.engine.cpm`:
 
 * work starts "at its first day" and finishes "after its last day"; a milestone is an instant,
   either the end of the work that drives it (``after_work``: dated on that work's last day) or
@@ -21,10 +21,10 @@ from collections import defaultdict
 from dataclasses import dataclass
 from datetime import date
 
-from fieldlog.calendars import WorkCalendar
-from fieldlog.model import LagCalendar, Link, LinkType, Site
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
+from fieldlog.engine.calendars import WorkCalendar
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult, ScheduleResult
+from fieldlog.site.model import LagCalendar, Link, LinkType, Site
 
 
 @dataclass(frozen=True)
@@ -43,7 +43,7 @@ class Placed:
     """Point of the actual start, which SS and SF successors of started work see."""
     after_work: bool
     """A milestone that marks the end of the work driving it: dated on the day before its
-    point, and read by other calendars as "after that day" (see :mod:`fieldlog.cpm`)."""
+    point, and read by other calendars as "after that day" (see :mod:`fieldlog.engine.cpm`)."""
 
     @property
     def start_after(self) -> bool:
@@ -71,7 +71,8 @@ class Placed:
 def start_point(calendar: WorkCalendar, day: date, after_work: bool) -> int:
     """The point of an activity whose shown first day is ``day``.
 
-    An ``after_work`` milestone is dated on the day before its point (see :mod:`fieldlog.cpm`).
+    An ``after_work`` milestone is dated on the day before its point (see
+    :mod:`fieldlog.engine.cpm`).
     """
     p = calendar.pos(day)
     return p + 1 if after_work else p
@@ -167,7 +168,7 @@ def _adjacency(site: Site) -> tuple[dict[str, list[Link]], dict[str, list[Link]]
     """Links out of and into each activity, cached on the site value.
 
     A :class:`Site` never changes, and the app asks for the lookahead again after every
-    journal entry; :mod:`fieldlog.cpm` caches its network on the site the same way.
+    journal entry; :mod:`fieldlog.engine.cpm` caches its network on the site the same way.
     """
     cached = site.__dict__.get("_lookahead_adjacency")
     if cached is None:

@@ -12,12 +12,12 @@ from collections import defaultdict
 from collections.abc import Sequence
 from datetime import date
 
+from fieldlog.engine.progress import Status
+from fieldlog.engine.readiness import OpenItem
+from fieldlog.engine.result import ActivityResult, ScheduleResult
 from fieldlog.lookahead.classify import Why
-from fieldlog.model import Link, LinkType, Site
-from fieldlog.progress import Status
-from fieldlog.readiness import OpenItem
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
-from fieldlog.words import working_days
+from fieldlog.reports.words import working_days
+from fieldlog.site.model import Link, LinkType, Site
 
 WEEKDAYS = ("Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun")
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")

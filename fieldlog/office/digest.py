@@ -12,7 +12,7 @@ from pathlib import Path
 
 from fieldlog.errors import OutOfBounds, SiteError
 from fieldlog.guarded_read import read_capped
-from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE
+from fieldlog.site.files import SCHEDULE_FILE, SITE_FILE
 from fieldlog.sync.scan import LOG_DIR
 
 MAX_SITE_BYTES = 512 * 1024 * 1024

@@ -37,8 +37,9 @@ from pathlib import Path
 from typing import Any
 
 from fieldlog.errors import SyncError
-from fieldlog.journal.device import device_id, fieldlog_home
-from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
+from fieldlog.home import fieldlog_home
+from fieldlog.journal.device import device_id
+from fieldlog.site.files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.git_remote import GitRemote, branch_for
 from fieldlog.sync.git_tree import overlay_tree, write_tree
 from fieldlog.sync.receipt_sync import copy_office_chain

@@ -11,7 +11,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from fieldlog.journal import read_journal, replay
-from fieldlog.model import Site
+from fieldlog.site.model import Site
 from fieldlog.workspace import default_status_date
 
 

@@ -19,8 +19,8 @@ from pathlib import Path
 from fieldlog.durable import make_folder
 from fieldlog.errors import FieldlogError, JournalError, SiteError, SyncError
 from fieldlog.guarded_read import loads, read_capped
-from fieldlog.model import Site
-from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, build_site, read_toml
+from fieldlog.site.files import SCHEDULE_FILE, SITE_FILE, build_site, read_toml
+from fieldlog.site.model import Site
 from fieldlog.sync.orphans import orphaned_entries, removed_activities
 from fieldlog.sync.transfer import (
     SourceChanged,

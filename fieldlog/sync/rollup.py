@@ -14,7 +14,7 @@ from datetime import date
 from pathlib import Path
 
 from fieldlog.errors import FieldlogError
-from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE
+from fieldlog.site.files import SCHEDULE_FILE, SITE_FILE
 from fieldlog.sync.conflicts import list_conflicts
 from fieldlog.sync.revision import schedule_revision
 from fieldlog.workspace import load_state

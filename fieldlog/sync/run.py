@@ -31,9 +31,10 @@ from functools import partial
 from pathlib import Path
 
 from fieldlog.errors import JournalError, SyncError
-from fieldlog.journal.device import device_id, fieldlog_home
+from fieldlog.home import fieldlog_home
+from fieldlog.journal.device import device_id
 from fieldlog.journal.names import parse_file_name
-from fieldlog.site_files import SCHEDULE_FILE, SITE_FILE, load_site
+from fieldlog.site.files import SCHEDULE_FILE, SITE_FILE, load_site
 from fieldlog.sync.checks import JournalCheck, default_check
 from fieldlog.sync.conflicts import conflicts_folder, keep_aside
 from fieldlog.sync.devices import sync_devices

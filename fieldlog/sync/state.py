@@ -17,7 +17,7 @@ import tomli_w
 
 from fieldlog.errors import FieldlogError, SyncError
 from fieldlog.guarded_read import loads, read_capped
-from fieldlog.journal.device import fieldlog_home
+from fieldlog.home import fieldlog_home
 from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.summary import SyncSummary
 from fieldlog.sync.transfer import write_atomic

@@ -45,7 +45,7 @@ PRESSES = 8
 def write_log(folder: Path, days: int) -> date:
     """Log ``days`` working days of starts, finishes, weather and crews; returns the next day."""
     from fieldlog.journal import record_entry
-    from fieldlog.site_files import load_site
+    from fieldlog.site.files import load_site
     from fieldlog.workspace import load_state
 
     site = load_site(folder)

@@ -42,10 +42,10 @@ import networkx as nx
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 from synthetic import synthetic_site, write_site_folder  # noqa: E402
 
-from fieldlog.cpm import compute_schedule  # noqa: E402
-from fieldlog.model import Activity, Link, Site  # noqa: E402
-from fieldlog.progress import Progress  # noqa: E402
-from fieldlog.schedule_result import ScheduleResult  # noqa: E402
+from fieldlog.engine.cpm import compute_schedule  # noqa: E402
+from fieldlog.engine.progress import Progress  # noqa: E402
+from fieldlog.engine.result import ScheduleResult  # noqa: E402
+from fieldlog.site.model import Activity, Link, Site  # noqa: E402
 
 REFERENCE_PROCESS = """
 import sys, tomllib, networkx as nx

@@ -30,10 +30,10 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from bench_lookahead import best_of, mid_job  # noqa: E402
 from synthetic import START  # noqa: E402
 
-from fieldlog.cpm import compute_schedule  # noqa: E402
+from fieldlog.engine.cpm import compute_schedule  # noqa: E402
 from fieldlog.lookahead import build_lookahead  # noqa: E402
 from fieldlog.lookahead.fewest_people import fewest_people  # noqa: E402
-from fieldlog.model import Activity, CalendarSpec, Crew, Link, LinkType, Site  # noqa: E402
+from fieldlog.site.model import Activity, CalendarSpec, Crew, Link, LinkType, Site  # noqa: E402
 
 BIG_TARGET_S = 1.0
 SMALL_TARGET_S = 0.2

@@ -45,17 +45,17 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
 from synthetic import synthetic_site, write_site_folder  # noqa: E402
 
-from fieldlog.cpm import compute_schedule  # noqa: E402
+from fieldlog.engine.cpm import compute_schedule  # noqa: E402
+from fieldlog.engine.progress import Progress, Status  # noqa: E402
+from fieldlog.engine.readiness import holds  # noqa: E402
 from fieldlog.history import build_history  # noqa: E402
 from fieldlog.journal import read_journal, replay  # noqa: E402
 from fieldlog.journal.chain import entry_hash  # noqa: E402
 from fieldlog.journal.entries import Entry  # noqa: E402
 from fieldlog.journal.names import file_name  # noqa: E402
 from fieldlog.journal.record import FILE_HEADER  # noqa: E402
-from fieldlog.model import Site  # noqa: E402
-from fieldlog.progress import Progress, Status  # noqa: E402
-from fieldlog.readiness import holds  # noqa: E402
-from fieldlog.site_files import load_site  # noqa: E402
+from fieldlog.site.files import load_site  # noqa: E402
+from fieldlog.site.model import Site  # noqa: E402
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLE = ROOT / "sample_sites" / "kestrel-yard"

@@ -28,7 +28,7 @@ from test_journal_helpers import make_site  # noqa: E402
 from fieldlog.journal import read_journal, record_entry  # noqa: E402
 from fieldlog.journal.reader import forget_checks  # noqa: E402
 from fieldlog.journal.store import atomic_write  # noqa: E402
-from fieldlog.site_files import load_site  # noqa: E402
+from fieldlog.site.files import load_site  # noqa: E402
 
 CLOCK = lambda: datetime(2026, 9, 8, 17, 0, tzinfo=UTC)  # noqa: E731
 

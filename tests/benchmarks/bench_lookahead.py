@@ -30,12 +30,12 @@ from types import MappingProxyType
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 from synthetic import START, synthetic_site  # noqa: E402
 
-from fieldlog.cpm import compute_schedule  # noqa: E402
+from fieldlog.engine.cpm import compute_schedule  # noqa: E402
+from fieldlog.engine.progress import Progress, Status  # noqa: E402
 from fieldlog.lookahead import build_lookahead  # noqa: E402
-from fieldlog.lookahead.render_data import render_csv, render_json  # noqa: E402
-from fieldlog.lookahead.render_text import render_text  # noqa: E402
-from fieldlog.model import Crew, Site  # noqa: E402
-from fieldlog.progress import Progress, Status  # noqa: E402
+from fieldlog.reports.lookahead_data import render_csv, render_json  # noqa: E402
+from fieldlog.reports.lookahead_text import render_text  # noqa: E402
+from fieldlog.site.model import Crew, Site  # noqa: E402
 
 CREWS = {"groundworks": 40, "concrete": 30, "carpenters": 30, "steelfixers": 25}
 TARGET_MS = 100.0

@@ -20,7 +20,7 @@ from datetime import date
 from pathlib import Path
 from types import MappingProxyType
 
-from fieldlog.model import (
+from fieldlog.site.model import (
     WEEKDAY_NAMES,
     Activity,
     CalendarSpec,

@@ -21,7 +21,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Static
 
 from fieldlog.lookahead import Cell, Lookahead, fewest_text
-from fieldlog.lookahead.render_text import UNICODE
+from fieldlog.reports.lookahead_text import UNICODE
 
 WORKS = UNICODE.must * 2
 NOTHING = "No crew is over or near its headcount in these two weeks: nothing to plan."

@@ -20,8 +20,8 @@ from textual.screen import ModalScreen
 from textual.widgets import Input, OptionList, Static
 from textual.widgets.option_list import Option
 
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult
 
 MAX_SHOWN = 8
 """Matches listed at once (the box fits 80x24 with the keyboard of a tablet up)."""

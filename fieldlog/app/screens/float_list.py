@@ -25,8 +25,8 @@ from fieldlog.app.screens.today import flag
 from fieldlog.app.session import Snapshot
 from fieldlog.app.widgets.exact_input import ExactInput
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult
 
 COLUMNS = (
     Column("flag", "", 2),

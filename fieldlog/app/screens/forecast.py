@@ -23,8 +23,8 @@ from textual.widgets import Static
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
 from fieldlog.history import build_history
-from fieldlog.history.render_text import render_text
-from fieldlog.words import working_days
+from fieldlog.reports.history_text import render_text
+from fieldlog.reports.words import working_days
 
 MIN_WIDTH = 60
 """The printout's narrowest layout; a narrower terminal scrolls sideways."""

@@ -30,7 +30,7 @@ from fieldlog.app.session import LOOKAHEAD_DAYS, Snapshot
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import ActivityRow, Cell, Lookahead, build_lookahead
 from fieldlog.lookahead.crew_load import CrewLoad
-from fieldlog.lookahead.render_text import ASCII, UNICODE, Glyphs
+from fieldlog.reports.lookahead_text import ASCII, UNICODE, Glyphs
 
 
 def glyphs(sheet: Glyphs) -> Mapping[Cell, str]:

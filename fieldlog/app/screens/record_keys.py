@@ -21,8 +21,8 @@ from fieldlog.app.keymap import Key, keys_for
 from fieldlog.app.recording import KIND_TITLES, PICK_INCIDENT, PICK_VISIT, entry_form
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.screens.pick import PickScreen
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult
 
 if TYPE_CHECKING:
     from fieldlog.app.app import FieldlogApp

@@ -23,8 +23,8 @@ from textual.widgets import Static
 from fieldlog.app.printing import deliver, report_path, write_print
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
-from fieldlog.daily_report import render_daily_report
 from fieldlog.errors import FieldlogError
+from fieldlog.reports.daily_report import render_daily_report
 from fieldlog.workspace import state_for
 
 

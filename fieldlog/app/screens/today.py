@@ -28,8 +28,8 @@ from fieldlog.app.screens.record_keys import RecordView
 from fieldlog.app.session import Snapshot
 from fieldlog.app.shift import ShiftRow
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
+from fieldlog.engine.result import ActivityResult
 from fieldlog.lookahead import Cell
-from fieldlog.schedule_result import ActivityResult
 
 COLUMNS = (
     Column("flag", "", 2),

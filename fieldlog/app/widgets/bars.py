@@ -20,7 +20,7 @@ from textual.containers import Horizontal
 from textual.widgets import Static
 
 from fieldlog.app.keymap import VIEWS
-from fieldlog.schedule_result import ScheduleResult
+from fieldlog.engine.result import ScheduleResult
 
 if TYPE_CHECKING:
     from fieldlog.app.app import FieldlogApp

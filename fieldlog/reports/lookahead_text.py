@@ -20,12 +20,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from fieldlog.engine.progress import Status
 from fieldlog.lookahead import fewest_text
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
 from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
-from fieldlog.progress import Status
-from fieldlog.text_fit import abbreviate, fit, right, to_ascii, width, wrap
+from fieldlog.reports.text_fit import abbreviate, fit, right, to_ascii, width, wrap
 
 WIDTHS = (80, 132)
 PAGE_LINES = 60

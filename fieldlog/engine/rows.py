@@ -1,10 +1,10 @@
-"""Result rows (:class:`~fieldlog.schedule_result.ActivityResult`) from the engine's arrays.
+"""Result rows (:class:`~fieldlog.engine.result.ActivityResult`) from the engine's arrays.
 
 The passes end with one array per column (points, floats, flags). Turning 10,000 activities
 into dated row objects costs about as much as the passes themselves, and a caller that only
 wants the finish or the driving path does not need them. So the engine hands
 :meth:`Columns.rows` to :meth:`ScheduleResult.deferred
-<fieldlog.schedule_result.ScheduleResult.deferred>`, which calls it the first time someone
+<fieldlog.engine.result.ScheduleResult.deferred>`, which calls it the first time someone
 reads ``activities`` or ``by_id``.
 
 Every value put in a row is a plain Python value (``int``, ``bool``, ``date``, ``None``), never
@@ -21,11 +21,11 @@ from datetime import date
 
 import numpy as np
 
-from fieldlog.cpm_calendars import CalendarTables
-from fieldlog.cpm_network import NetworkArrays
-from fieldlog.model import Link, Site
-from fieldlog.progress import Progress, Status
-from fieldlog.schedule_result import ActivityResult
+from fieldlog.engine.calendar_tables import CalendarTables
+from fieldlog.engine.network_arrays import NetworkArrays
+from fieldlog.engine.progress import Progress, Status
+from fieldlog.engine.result import ActivityResult
+from fieldlog.site.model import Link, Site
 
 REASONS = ("site start", "data date", "start not before", "readiness", "actual dates")
 """What sets an early start when no link does, by code (the engine's ``reason`` array)."""

@@ -1,4 +1,4 @@
-"""Build a validated :class:`~fieldlog.model.Site` from the parsed site.toml and schedule.toml.
+"""Build a validated :class:`~fieldlog.site.model.Site` from the parsed site.toml and schedule.toml.
 
 Validation happens here, at the boundary, so the engine can trust what it gets. Every mistake a
 user can make becomes a :class:`~fieldlog.errors.SiteError` naming the file, the line when it can
@@ -16,8 +16,9 @@ from types import MappingProxyType
 from typing import Any, Literal, overload
 
 from fieldlog import bounds
+from fieldlog.engine.topology import topological_order
 from fieldlog.errors import DependencyLoopError, OutOfBounds
-from fieldlog.model import (
+from fieldlog.site.model import (
     WEEKDAY_NAMES,
     Activity,
     CalendarSpec,
@@ -27,8 +28,7 @@ from fieldlog.model import (
     LinkType,
     Site,
 )
-from fieldlog.network import topological_order
-from fieldlog.toml_file import SITE_FILE, Line, TomlFile
+from fieldlog.site.toml_file import SITE_FILE, Line, TomlFile
 
 MAX_LAG = bounds.MAX_DAYS
 """Largest lag or lead accepted, in working days (about 14 years): beyond it is a typo."""

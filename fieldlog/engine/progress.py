@@ -18,7 +18,7 @@ from dataclasses import dataclass
 from datetime import date, timedelta
 from enum import StrEnum
 
-from fieldlog.calendars import WorkCalendar
+from fieldlog.engine.calendars import WorkCalendar
 
 
 class Status(StrEnum):

@@ -1,6 +1,6 @@
 """The precedence network as numpy arrays, built once per site and kept on the site value.
 
-The passes in :mod:`fieldlog.cpm_passes` work one *level* at a time: an activity's level is the
+The passes in :mod:`fieldlog.engine.passes` work one *level* at a time: an activity's level is the
 number of links on the longest chain of links leading to it, so every predecessor of an
 activity sits on a lower level and every successor on a higher one. All activities of a level
 can then be scheduled at once: their predecessors are already done.
@@ -23,8 +23,8 @@ from functools import cached_property
 
 import numpy as np
 
-from fieldlog.model import LinkType, Site
-from fieldlog.network import topological_order
+from fieldlog.engine.topology import topological_order
+from fieldlog.site.model import LinkType, Site
 
 _READS_START = frozenset({LinkType.SS, LinkType.SF})
 """Link types that read the predecessor's start (the others read its finish)."""
@@ -73,10 +73,10 @@ class NetworkArrays:
 
     @cached_property
     def rank(self) -> np.ndarray:
-        """Position of each activity in :func:`fieldlog.network.topological_order`.
+        """Position of each activity in :func:`fieldlog.engine.topology.topological_order`.
 
         Only needed to break a tie between activities that end the job together (see
-        ``fieldlog.cpm._driving_path``), so it is sorted on first use rather than up front: a
+        ``fieldlog.engine.cpm._driving_path``), so it is sorted on first use rather than up front: a
         plain Python sort costs more than the whole recompute on a large site.
         """
         ids = self.ids

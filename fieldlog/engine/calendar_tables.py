@@ -1,7 +1,7 @@
 """A site's working-day calendars as 2-D numpy tables, for converting many points at once.
 
-:class:`~fieldlog.calendars.WorkCalendar` answers one question at a time from two lists (see
-:mod:`fieldlog.calendars` for points). The array passes ask the same questions for a whole
+:class:`~fieldlog.engine.calendars.WorkCalendar` answers one question at a time from two lists (see
+:mod:`fieldlog.engine.calendars` for points). The array passes ask the same questions for a whole
 level of links at once, so the lists of every calendar of the site are stacked into tables
 indexed by (calendar number, position):
 
@@ -9,7 +9,7 @@ indexed by (calendar number, position):
   the longest calendar; ``length[c]`` says where the real days end);
 * ``before[c, o - origin]``: the point of calendar ``c`` at the start of ordinal ``o``.
 
-Every lookup checks its range and raises :class:`~fieldlog.calendars.HorizonExceeded` like
+Every lookup checks its range and raises :class:`~fieldlog.engine.calendars.HorizonExceeded` like
 the scalar methods, so the engine widens the range and tries again exactly when it did before.
 """
 
@@ -21,7 +21,7 @@ from functools import cached_property, lru_cache
 
 import numpy as np
 
-from fieldlog.calendars import HorizonExceeded, WorkCalendar
+from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar
 
 
 @dataclass(frozen=True, eq=False)
@@ -95,7 +95,7 @@ def calendar_tables(
 
 @lru_cache(maxsize=16)
 def _tables(calendars: tuple[WorkCalendar, ...]) -> CalendarTables:
-    # Calendars are remembered values (fieldlog.calendars._calendar_for), so the app's
+    # Calendars are remembered values (fieldlog.engine.calendars._calendar_for), so the app's
     # recompute after each entry finds the same tuple and reuses its tables.
     origins = {c.origin for c in calendars}
     spans = {len(c.before) for c in calendars}

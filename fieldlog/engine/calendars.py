@@ -24,7 +24,7 @@ from datetime import date, timedelta
 from functools import cached_property, lru_cache
 
 from fieldlog.errors import CalendarError
-from fieldlog.model import CalendarSpec
+from fieldlog.site.model import CalendarSpec
 
 
 class HorizonExceeded(Exception):

@@ -1,12 +1,13 @@
 """The forward and backward passes as array operations, one level of the network at a time.
 
-The rules are those of :mod:`fieldlog.cpm` (read its docstring first). Here they are applied to
-whole levels (see :mod:`fieldlog.cpm_network`): for every link into the level the bound it puts
-on its successor is computed at once, then the bounds are reduced per successor (maximum going
-forward, minimum going back). A 10,000-activity job has tens to a few hundred levels, so the
-Python loop runs that many times instead of once per activity and per link. (A network that
-is one long chain has as many levels as activities: the loop then costs more than the plain
-one-at-a-time passes would; tests/benchmarks/bench_cpm.py measures a deep case.)
+The rules are those of :mod:`fieldlog.engine.cpm` (read its docstring first). Here they are
+applied to whole levels (see :mod:`fieldlog.engine.network_arrays`): for every link into the
+level the bound it puts on its successor is computed at once, then the bounds are reduced per
+successor (maximum going forward, minimum going back). A 10,000-activity job has tens to a few
+hundred levels, so the Python loop runs that many times instead of once per activity and per
+link. (A network that is one long chain has as many levels as activities: the loop then costs
+more than the plain one-at-a-time passes would; tests/benchmarks/bench_cpm.py measures a deep
+case.)
 
 Points of all activities live in stacked tables so that one fancy index reads every link's
 input: going forward ``points[0]`` is ES, ``points[1]`` EF, ``points[2]`` the actual start of
@@ -25,8 +26,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from fieldlog.cpm_calendars import CalendarTables
-from fieldlog.cpm_network import NetworkArrays
+from fieldlog.engine.calendar_tables import CalendarTables
+from fieldlog.engine.network_arrays import NetworkArrays
 
 _NOTHING = np.iinfo(np.int64).min
 """Packed value of an activity no link reached."""
@@ -62,7 +63,7 @@ class Early:
     """How another calendar reads the start point: True = "after the working day before it"
     (a milestone at the end of the work driving it), False = "at the point's day"."""
     end_after: np.ndarray
-    """The same for the finish point (True for work, see :mod:`fieldlog.cpm`)."""
+    """The same for the finish point (True for work, see :mod:`fieldlog.engine.cpm`)."""
 
 
 @dataclass(frozen=True, eq=False)
@@ -170,7 +171,7 @@ def forward(
         source = np.where(net.reads_start & run[pred], 2 * n + pred, source)
     finish_shift = np.where(net.bounds_finish, dur[succ], 0)
     # Same calendar: bound = source + lag - shift. Across calendars the lag is added before
-    # (predecessor's calendar) or after (successor's) moving the point, see fieldlog.cpm.
+    # (predecessor's calendar) or after (successor's) moving the point, see fieldlog.engine.cpm.
     add = np.where(net.cross, 0 if lag_on_successor else lag, lag - finish_shift)
     keep = np.flatnonzero(live)
     source, add, owner = source[keep], add[keep], succ[keep]

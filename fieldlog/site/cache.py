@@ -3,7 +3,7 @@
 Reading ``schedule.toml`` is most of the time of ``fieldlog schedule`` on a large job: tomllib
 takes about 0.6 s for 10,000 activities, while the CPM pass and the printing take a fraction
 of that. The office changes the schedule once per revision; the field runs commands many
-times a day. So the validated :class:`~fieldlog.model.Site` is kept, pickled, in the user's
+times a day. So the validated :class:`~fieldlog.site.model.Site` is kept, pickled, in the user's
 cache folder and found again by the content of the two files.
 
 Where: ``$FIELDLOG_HOME/cache`` when ``FIELDLOG_HOME`` is set, otherwise the platform's cache
@@ -12,8 +12,8 @@ folder (``%LOCALAPPDATA%\\fieldlog\\cache`` on Windows, ``$XDG_CACHE_HOME/fieldl
 office and copied to USB sticks, and a cache there would travel with them.
 
 Key: the sha256 of ``site.toml`` and ``schedule.toml`` bytes, fieldlog's version, the Python
-version and a digest of the code that shapes a Site (this module, ``site_files`` and
-``model``), so an upgrade or an edited validation rule never serves an old answer.
+version and a digest of the code that shapes a Site (this module, ``files``, ``schema``,
+``toml_file`` and ``model``), so an upgrade or an edited validation rule never serves an old answer.
 
 Safety: each file is written to a temp file in the same folder and moved into place with
 ``os.replace``, so a reader sees a whole file or none. Each file starts with a header holding
@@ -47,7 +47,8 @@ from types import MappingProxyType
 from typing import Any
 
 from fieldlog import __version__
-from fieldlog.model import Site
+from fieldlog.home import HOME_ENV, fieldlog_home
+from fieldlog.site.model import Site
 
 CACHE_SUBFOLDER = "cache"
 """Sub-folder of ``$FIELDLOG_HOME`` that holds the cache."""
@@ -62,9 +63,9 @@ _MAGIC = b"fieldlog-site-cache\n"
 _PREFIX, _SUFFIX, _TEMP_SUFFIX = "site-", ".pickle", ".tmp"
 _STALE_TEMP_SECONDS = 3600.0
 _SHAPING_MODULES = (
-    "site_cache.py",
-    "site_files.py",
-    "site_schema.py",
+    "cache.py",
+    "files.py",
+    "schema.py",
     "toml_file.py",
     "model.py",
 )
@@ -82,11 +83,7 @@ class SiteCacheWarning(UserWarning):
 
 def cache_folder() -> Path:
     """The folder that holds cached sites (not created here)."""
-    # Imported here: the journal package is not needed to find a folder, and importing it at
-    # module level would make site_files depend on the journal.
-    from fieldlog.journal.device import fieldlog_home
-
-    if os.environ.get(_home_env()):
+    if os.environ.get(HOME_ENV):
         return fieldlog_home() / CACHE_SUBFOLDER
     if sys.platform == "win32":
         base = Path(os.environ.get("LOCALAPPDATA") or Path.home() / "AppData" / "Local")
@@ -199,7 +196,7 @@ def write_entry(path: Path, key: str, site: Site) -> None:
     except OSError as exc:
         _warn(
             f"cannot write the site cache in {folder}: {exc.strerror}; the site loads "
-            f"as usual, only slower (set {_home_env()} to a folder you can write)"
+            f"as usual, only slower (set {HOME_ENV} to a folder you can write)"
         )
         return
     finally:
@@ -293,12 +290,6 @@ def _code_digest() -> str | None:
     except OSError:
         return None  # running from a zip or a frozen build: no safe fingerprint, no cache
     return h.hexdigest()
-
-
-def _home_env() -> str:
-    from fieldlog.journal.device import HOME_ENV
-
-    return HOME_ENV
 
 
 def _warn(message: str) -> None:

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from fieldlog.history.causes import BUCKETS
 from fieldlog.history.values import History, WeekReliability, Window
-from fieldlog.text_fit import fit, right, wrap
+from fieldlog.reports.text_fit import fit, right, wrap
 
 CAUTION = (
     "Read from the log only: a cause is shown where an entry names it, anything else is 'not "

@@ -18,10 +18,10 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping
 from datetime import date
 
+from fieldlog.engine.progress import Status
 from fieldlog.journal import Entry
-from fieldlog.progress import Status
-from fieldlog.text_fit import fit, right, wrap
-from fieldlog.words import working_days
+from fieldlog.reports.text_fit import fit, right, wrap
+from fieldlog.reports.words import working_days
 from fieldlog.workspace import SiteState
 
 WIDTH = 80
@@ -48,7 +48,7 @@ def _stop(text: str) -> str:
 class _Page:
     """Lines of the report, with headings and wrapped text that never pass 80 columns.
 
-    Widths are display cells (:mod:`fieldlog.text_fit`), not characters: a crew
+    Widths are display cells (:mod:`fieldlog.reports.text_fit`), not characters: a crew
     company or a note in Chinese, or with an emoji, takes two cells a character on paper.
     """
 

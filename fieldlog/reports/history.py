@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from fieldlog.history.render_data import render_csv, render_json
-from fieldlog.history.render_text import render_text
 from fieldlog.history.values import History
+from fieldlog.reports.history_data import render_csv, render_json
+from fieldlog.reports.history_text import render_text
 
 FORMATS = ("text", "json", "csv")
 

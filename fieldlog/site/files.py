@@ -1,7 +1,7 @@
 """Read a site folder: site.toml (the field's) and schedule.toml (the office's).
 
-Reading and caching live here; what makes the files valid is :mod:`fieldlog.site_schema`, and
-line-aware parsing is :mod:`fieldlog.toml_file`. The names other modules import
+Reading and caching live here; what makes the files valid is :mod:`fieldlog.site.schema`, and
+line-aware parsing is :mod:`fieldlog.site.toml_file`. The names other modules import
 (``load_site``, ``build_site``, ``read_toml``, ``parse_toml``, ``TomlFile``, ``SITE_FILE``,
 ``SCHEDULE_FILE``, ``MAX_LAG``) are all available from here.
 """
@@ -12,10 +12,10 @@ from functools import lru_cache, partial
 from pathlib import Path
 
 from fieldlog.errors import SiteError
-from fieldlog.model import Site
-from fieldlog.site_cache import cached_site
-from fieldlog.site_schema import MAX_LAG, build_site
-from fieldlog.toml_file import (
+from fieldlog.site.cache import cached_site
+from fieldlog.site.model import Site
+from fieldlog.site.schema import MAX_LAG, build_site
+from fieldlog.site.toml_file import (
     SCHEDULE_FILE,
     SITE_FILE,
     TomlFile,
@@ -64,7 +64,7 @@ def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
     every sync. The same bytes give the same immutable Site, which also keeps the engine's
     cached network; any change to either file is a new key. Errors are never cached.
 
-    Across processes (each ``fieldlog`` command is one), :mod:`fieldlog.site_cache` keeps the
+    Across processes (each ``fieldlog`` command is one), :mod:`fieldlog.site.cache` keeps the
     validated Site in the user's cache folder, so only the first command after an office
     revision pays for the parse.
     """

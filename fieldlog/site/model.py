@@ -1,7 +1,7 @@
 """The site as the rest of fieldlog sees it: plain frozen values, no I/O.
 
-``site_files`` builds a :class:`Site` from the TOML in a site folder; everything downstream
-(calendars, cpm, lookahead, reports, the app) only reads these values.
+:mod:`fieldlog.site.files` builds a :class:`Site` from the TOML in a site folder; everything
+downstream (calendars, cpm, lookahead, reports, the app) only reads these values.
 """
 
 from __future__ import annotations

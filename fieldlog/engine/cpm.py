@@ -1,6 +1,6 @@
 """Critical path method: forward and backward passes over the precedence network.
 
-Pure: no I/O, no clock. Input is a :class:`~fieldlog.model.Site`, the status date ("as of the
+Pure: no I/O, no clock. Input is a :class:`~fieldlog.site.model.Site`, the status date ("as of the
 end of day D"; the data date is the next day) and each activity's :class:`Progress`.
 Output is a :class:`ScheduleResult`.
 
@@ -8,7 +8,7 @@ How the passes work (the rules are in DEVELOPERS.md, Rules of the trade; the for
 the precedence diagramming method's, e.g. Hendrickson, *Project Management for
 Construction*, section 10.7):
 
-* Times are integer *points* on each activity's own calendar (see :mod:`fieldlog.calendars`).
+* Times are integer *points* on each activity's own calendar (see :mod:`fieldlog.engine.calendars`).
   ES is the start point, EF = ES + duration the finish point. Shown dates are inclusive working
   days: first day ``day(ES)``, last day ``day(EF - 1)``.
 * A link's bound moves from the predecessor's calendar to the successor's by the date it
@@ -38,14 +38,14 @@ Construction*, section 10.7):
 
 How it is computed, so the app can recompute after every journal entry:
 
-* :mod:`fieldlog.cpm_network` turns the site into arrays once per site value: links sorted by
-  the *level* of their successor (the longest chain of links leading to it);
-* :mod:`fieldlog.cpm_calendars` stacks the calendars into tables, so moving a point to another
-  calendar is an array lookup;
+* :mod:`fieldlog.engine.network_arrays` turns the site into arrays once per site value: links
+  sorted by the *level* of their successor (the longest chain of links leading to it);
+* :mod:`fieldlog.engine.calendar_tables` stacks the calendars into tables, so moving a point to
+  another calendar is an array lookup;
 * this module fixes what dates and progress decide before the passes (:func:`_starting_point`),
-  then :mod:`fieldlog.cpm_passes` runs the forward and backward passes one level at a time with
+  then :mod:`fieldlog.engine.passes` runs the forward and backward passes one level at a time with
   numpy, and the summary (finish, critical set, driving path) is taken from the arrays;
-* :mod:`fieldlog.cpm_rows` builds the per-activity result rows only when they are read.
+* :mod:`fieldlog.engine.rows` builds the per-activity result rows only when they are read.
 
 A 10,000-activity site recomputes in about ten milliseconds, rows included in a few tens (see
 tests/benchmarks/bench_cpm.py). tests/reference_cpm.py keeps the earlier one-activity-at-a-time
@@ -60,11 +60,19 @@ from datetime import date, timedelta
 
 import numpy as np
 
-from fieldlog.calendars import HorizonExceeded, WorkCalendar, build_calendars
-from fieldlog.cpm_calendars import CalendarTables, calendar_tables
-from fieldlog.cpm_network import NetworkArrays, network_arrays
-from fieldlog.cpm_passes import Early, Start, backward, forward
-from fieldlog.cpm_rows import (
+from fieldlog.engine.calendar_tables import CalendarTables, calendar_tables
+from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
+from fieldlog.engine.network_arrays import NetworkArrays, network_arrays
+from fieldlog.engine.passes import Early, Start, backward, forward
+from fieldlog.engine.progress import Progress, remaining_at
+from fieldlog.engine.result import (
+    OUT_OF_SEQUENCE_KINDS,
+    OutOfSequence,
+    ScheduleResult,
+    critical_threshold,
+    finished_without_start,
+)
+from fieldlog.engine.rows import (
     ACTUAL_DATES,
     DATA_DATE,
     READINESS,
@@ -72,15 +80,7 @@ from fieldlog.cpm_rows import (
     START_NOT_BEFORE,
     Columns,
 )
-from fieldlog.model import LagCalendar, Site
-from fieldlog.progress import Progress, remaining_at
-from fieldlog.schedule_result import (
-    OUT_OF_SEQUENCE_KINDS,
-    OutOfSequence,
-    ScheduleResult,
-    critical_threshold,
-    finished_without_start,
-)
+from fieldlog.site.model import LagCalendar, Site
 
 _DAY = timedelta(days=1)
 
@@ -390,7 +390,7 @@ def _out_of_sequence(
 ) -> tuple[OutOfSequence, ...]:
     """Links whose successor moved on before the predecessor allowed, in file order.
 
-    See :data:`fieldlog.schedule_result.OUT_OF_SEQUENCE_KINDS`: the successor's side is its
+    See :data:`fieldlog.engine.result.OUT_OF_SEQUENCE_KINDS`: the successor's side is its
     finish for links that bound a finish (FF, SF), otherwise its start; the predecessor's side
     is its start for links that read a start (SS, SF), otherwise its finish.
     """

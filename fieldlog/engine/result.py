@@ -1,6 +1,6 @@
 """What a CPM pass returns: per-activity dates and floats, the paths, and what to flag.
 
-Kept apart from :mod:`fieldlog.cpm` so that readers of results (lookahead, reports, the app)
+Kept apart from :mod:`fieldlog.engine.cpm` so that readers of results (lookahead, reports, the app)
 depend on these plain values only, never on the passes themselves.
 
 The engine builds a :class:`ScheduleResult` with :meth:`ScheduleResult.deferred`: the summary
@@ -15,9 +15,9 @@ from dataclasses import dataclass, field, fields
 from datetime import date, timedelta
 from types import MappingProxyType
 
-from fieldlog.calendars import WorkCalendar
-from fieldlog.model import Link, LinkType, Site
-from fieldlog.progress import Progress, Status
+from fieldlog.engine.calendars import WorkCalendar
+from fieldlog.engine.progress import Progress, Status
+from fieldlog.site.model import Link, LinkType, Site
 
 
 @dataclass(frozen=True)
@@ -59,7 +59,7 @@ class ActivityResult:
     """The planned count-down ran out and no finish was recorded."""
     after_work: bool = False
     """A milestone that marks the end of the work driving it: its date is the last day of that
-    work, and its point (see :mod:`fieldlog.calendars`) is the next working day's start.
+    work, and its point (see :mod:`fieldlog.engine.calendars`) is the next working day's start.
     False for other milestones (dated on the day they fall at the start of) and for work."""
 
     @classmethod
@@ -278,7 +278,7 @@ def find_out_of_sequence(
     """Links whose successor has moved on while the predecessor has not (as of the status date).
 
     ``progress`` is in the order of ``site.activities``. See :data:`OUT_OF_SEQUENCE_KINDS`.
-    The engine finds the same links with arrays (``fieldlog.cpm``); tests compare the two.
+    The engine finds the same links with arrays (``fieldlog.engine.cpm``); tests compare the two.
     """
     moved = {
         a.id: p

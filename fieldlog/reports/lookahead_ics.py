@@ -23,7 +23,7 @@ from typing import Any
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
-from fieldlog.words import working_days
+from fieldlog.reports.words import working_days
 
 PRODID = "-//fieldlog//two-week lookahead//EN"
 UID_DOMAIN = "fieldlog.invalid"

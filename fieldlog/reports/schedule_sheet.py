@@ -13,10 +13,10 @@ import json
 from datetime import date
 from functools import lru_cache
 
-from fieldlog.progress import Status
-from fieldlog.schedule_result import ActivityResult, ScheduleResult
-from fieldlog.text_fit import fit, width
-from fieldlog.words import working_days
+from fieldlog.engine.progress import Status
+from fieldlog.engine.result import ActivityResult, ScheduleResult
+from fieldlog.reports.text_fit import fit, width
+from fieldlog.reports.words import working_days
 
 FORMATS = ("text", "json", "csv")
 

@@ -1,0 +1,1 @@
+"""The critical-path engine: calendars, progress, the passes and their results."""

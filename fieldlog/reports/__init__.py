@@ -1,0 +1,1 @@
+"""Everything fieldlog prints: sheets, reports, JSON and CSV, one home for renderers."""

@@ -1,0 +1,1 @@
+"""The site as the office drew it: its files read, checked and turned into values."""
