@@ -104,5 +104,8 @@ def main(total: int) -> None:
         )
 
 
+QUICK_ARGS = ("300",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main(int(sys.argv[1]) if len(sys.argv) > 1 else 3000)

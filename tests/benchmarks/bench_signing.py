@@ -167,6 +167,9 @@ def verify_time(days: int, per_day: int) -> None:
         shutil.rmtree(signed_site)
 
 
+QUICK_ARGS = ("40", "10")  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     append_latency()
     verify_time(

@@ -65,5 +65,8 @@ def main() -> None:
     print(f"fieldlog sites: {'OK' if worst <= 5 else 'OVER'} the 5 s target ({worst:.2f} s)")
 
 
+QUICK_ARGS = ("10",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main()

@@ -90,5 +90,8 @@ def main() -> None:
         print(f"second sync (no-op)      {again:7.3f} s   x{again / ref:5.1f} of reference")
 
 
+QUICK_ARGS = ("100",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main()
