@@ -52,3 +52,26 @@ def test_cli_parser_builds_without_textual() -> None:
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
+
+
+TEST_ONLY = ("networkx", "scipy")
+"""Outside references the tests check against; the installed tool must run without them."""
+
+
+def test_no_module_imports_a_test_only_library() -> None:
+    """networkx and scipy are in the test extra only, so no fieldlog module may import them."""
+    modules = sorted(
+        info.name
+        for info in pkgutil.walk_packages(fieldlog.__path__, "fieldlog.")
+        if info.name != "fieldlog.__main__"
+    )
+    assert "fieldlog.app.app" in modules and "fieldlog.engine.cpm" in modules
+    code = (
+        "import importlib, sys\n"
+        f"for name in {modules!r}:\n"
+        "    importlib.import_module(name)\n"
+        f"leaked = sorted(m for m in sys.modules if m.split('.')[0] in {TEST_ONLY!r})\n"
+        "print(','.join(leaked))\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "", f"fieldlog imported a test-only library: {out.stdout.strip()}"

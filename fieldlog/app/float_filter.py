@@ -9,6 +9,7 @@ from __future__ import annotations
 from datetime import date, timedelta
 
 from fieldlog.engine.result import ActivityResult, ScheduleResult
+from fieldlog.lookahead.build import LOOKAHEAD_DAYS
 from fieldlog.reports.schedule_sheet import sort_key
 
 NEAR_CRITICAL_DAYS = 5
@@ -17,8 +18,6 @@ NEAR_CRITICAL_DAYS = 5
 Common practice puts the near-critical band somewhere between 5 and 10 working days; five is a
 fortnight's look at one working week. The filter's label shows the number, so nobody has to
 guess."""
-
-FORTNIGHT_DAYS = 14
 
 FILTERS: dict[str, str] = {
     "all": "all activities",
@@ -44,7 +43,7 @@ def filtered(schedule: ScheduleResult, kind: str, query: str = "") -> list[Activ
     if kind not in FILTERS:
         raise KeyError(kind)
     words = query.lower().split()
-    horizon = schedule.data_date + timedelta(days=FORTNIGHT_DAYS - 1)
+    horizon = schedule.data_date + timedelta(days=LOOKAHEAD_DAYS - 1)
     out = []
     for r in sorted(schedule.activities, key=sort_key):
         if not _passes(r, kind, horizon):

@@ -12,6 +12,7 @@ from typing import Any
 
 from fieldlog.app.recording import KIND_TITLES, label
 from fieldlog.journal.entries import Entry
+from fieldlog.reports.words import working_days
 
 
 @dataclass(frozen=True)
@@ -132,9 +133,7 @@ def _need(f: Mapping[str, Any]) -> str:
 _SUMMARIES = {
     "started": lambda f: f"{f['activity']} started",
     "finished": lambda f: f"{f['activity']} finished",
-    "remaining": lambda f: (
-        f"{f['activity']}: {f['days']} working day{'' if f['days'] == 1 else 's'} left"
-    ),
+    "remaining": lambda f: f"{f['activity']}: {working_days(f['days'])} left",
     "percent": lambda f: f"{f['activity']}: {_v(f['percent'])}% built",
     "weather": _weather,
     "crew": _crew,

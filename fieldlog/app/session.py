@@ -29,12 +29,10 @@ from pathlib import Path
 from fieldlog.app.shift import ShiftRow, shift_rows
 from fieldlog.journal import read_journal
 from fieldlog.lookahead import Cell, Lookahead, build_lookahead
+from fieldlog.lookahead.build import LOOKAHEAD_DAYS
 from fieldlog.site.files import load_site
 from fieldlog.site.model import Site
 from fieldlog.workspace import SiteState, state_for
-
-LOOKAHEAD_DAYS = 14
-"""Calendar days shown in the lookahead (two weeks)."""
 
 
 @dataclass(frozen=True)

@@ -9,7 +9,7 @@ mark in the guidance and is reported for reading only.
 from __future__ import annotations
 
 from fieldlog.checks.baseline import Baseline
-from fieldlog.checks.result import CheckResult, Outcome, Threshold, at_most, none_allowed, share
+from fieldlog.checks.result import CheckResult, Counting, Threshold
 from fieldlog.checks.sources import DCMA_RECALLED, DCMA_SECONDARY
 from fieldlog.engine.progress import Status
 from fieldlog.engine.result import ActivityResult, ScheduleResult
@@ -23,6 +23,48 @@ HIGH_DURATION_DAYS = 44
 MAX_HIGH_DURATION_PCT = 5.0
 MAX_MISSED_PCT = 5.0
 """Check 11: at most 5% of the work due by the status date missed its baseline finish."""
+
+HIGH_FLOAT = Counting(
+    6,
+    "High float",
+    Threshold("<= 5% over 44 days", DCMA_SECONDARY),
+    "unfinished activities with total float over 44 working days",
+    most_pct=MAX_HIGH_FLOAT_PCT,
+)
+NEGATIVE_FLOAT = Counting(
+    7,
+    "Negative float",
+    Threshold("0%", DCMA_SECONDARY),
+    "unfinished activities with total float below zero",
+)
+HIGH_DURATION = Counting(
+    8,
+    "High duration",
+    Threshold("<= 5% over 44 days", DCMA_SECONDARY),
+    "unfinished activities with a baseline duration over 44 working days",
+    most_pct=MAX_HIGH_DURATION_PCT,
+)
+INVALID_DATES = Counting(
+    9,
+    "Invalid dates",
+    Threshold("0", DCMA_SECONDARY),
+    "activities with a forecast before the data date or an actual after the status date",
+)
+RESOURCES = Counting(
+    10,
+    "Resources",
+    Threshold("no mark", DCMA_RECALLED, recalled=True),
+    "unfinished activities (not milestones) with no crew",
+    info=True,
+)
+MISSED_TASKS = Counting(
+    11,
+    "Missed tasks",
+    Threshold("<= 5%", DCMA_RECALLED, recalled=True),
+    "work due by the status date in the baseline that finished late or is not finished",
+    most_pct=MAX_MISSED_PCT,
+)
+"""Checks 6-11, one row each: the functions below find the items, these say how to judge them."""
 
 
 def _open(result: ScheduleResult) -> list[ActivityResult]:
@@ -38,35 +80,14 @@ def check_high_float(result: ScheduleResult) -> CheckResult:
     high = [
         r.id for r in population if r.total_float is not None and r.total_float > HIGH_FLOAT_DAYS
     ]
-    value = share(len(high), len(population))
-    return CheckResult(
-        6,
-        "High float",
-        at_most(value, MAX_HIGH_FLOAT_PCT),
-        value,
-        len(high),
-        len(population),
-        Threshold("<= 5% over 44 days", DCMA_SECONDARY),
-        "unfinished activities with total float over 44 working days",
-        tuple(high),
-    )
+    return HIGH_FLOAT.result(high, len(population))
 
 
 def check_negative_float(result: ScheduleResult) -> CheckResult:
     """Check 7: unfinished activities with negative total float (the job is behind)."""
     population = [r for r in _open(result) if r.total_float is not None]
     late = [r.id for r in population if r.late]
-    return CheckResult(
-        7,
-        "Negative float",
-        none_allowed(len(late), len(population)),
-        share(len(late), len(population)),
-        len(late),
-        len(population),
-        Threshold("0%", DCMA_SECONDARY),
-        "unfinished activities with total float below zero",
-        tuple(late),
-    )
+    return NEGATIVE_FLOAT.result(late, len(population))
 
 
 def check_high_duration(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckResult:
@@ -83,19 +104,7 @@ def check_high_duration(site: Site, result: ScheduleResult, baseline: Baseline) 
         duration = planned.duration if planned is not None else r.duration
         if duration > HIGH_DURATION_DAYS:
             long.append(r.id)
-    value = share(len(long), len(population))
-    return CheckResult(
-        8,
-        "High duration",
-        at_most(value, MAX_HIGH_DURATION_PCT),
-        value,
-        len(long),
-        len(population),
-        Threshold("<= 5% over 44 days", DCMA_SECONDARY),
-        "unfinished activities with a baseline duration over 44 working days",
-        tuple(long),
-        note=f"baseline: {baseline.source}",
-    )
+    return HIGH_DURATION.result(long, len(population), note=f"baseline: {baseline.source}")
 
 
 def check_invalid_dates(result: ScheduleResult) -> CheckResult:
@@ -114,34 +123,14 @@ def check_invalid_dates(result: ScheduleResult) -> CheckResult:
         )
         if forecast_past or actual_future:
             bad.append(r.id)
-    return CheckResult(
-        9,
-        "Invalid dates",
-        none_allowed(len(bad), len(population)),
-        share(len(bad), len(population)),
-        len(bad),
-        len(population),
-        Threshold("0", DCMA_SECONDARY),
-        "activities with a forecast before the data date or an actual after the status date",
-        tuple(bad),
-    )
+    return INVALID_DATES.result(bad, len(population))
 
 
 def check_resources(site: Site, result: ScheduleResult) -> CheckResult:
     """Check 10: unfinished work with no crew assigned (for reading; no pass mark)."""
     population = [r for r in _open(result) if not site.activity(r.id).is_milestone]
     bare = [r.id for r in population if not site.activity(r.id).crew]
-    return CheckResult(
-        10,
-        "Resources",
-        Outcome.INFO,
-        share(len(bare), len(population)),
-        len(bare),
-        len(population),
-        Threshold("no mark", DCMA_RECALLED, recalled=True),
-        "unfinished activities (not milestones) with no crew",
-        tuple(bare),
-    )
+    return RESOURCES.result(bare, len(population))
 
 
 def check_missed_tasks(site: Site, result: ScheduleResult, baseline: Baseline) -> CheckResult:
@@ -156,19 +145,7 @@ def check_missed_tasks(site: Site, result: ScheduleResult, baseline: Baseline) -
         finished_by = r.actual_finish if r.status is Status.FINISHED else None
         if finished_by is None or finished_by > planned.finish:
             missed.append(r.id)
-    value = share(len(missed), len(population))
-    return CheckResult(
-        11,
-        "Missed tasks",
-        at_most(value, MAX_MISSED_PCT),
-        value,
-        len(missed),
-        len(population),
-        Threshold("<= 5%", DCMA_RECALLED, recalled=True),
-        "work due by the status date in the baseline that finished late or is not finished",
-        tuple(missed),
-        note=f"baseline: {baseline.source}",
-    )
+    return MISSED_TASKS.result(missed, len(population), note=f"baseline: {baseline.source}")
 
 
 def due_by_status_date(

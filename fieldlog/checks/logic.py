@@ -13,14 +13,7 @@ DCMA checks).
 
 from __future__ import annotations
 
-from fieldlog.checks.result import (
-    CheckResult,
-    Threshold,
-    at_least,
-    at_most,
-    none_allowed,
-    share,
-)
+from fieldlog.checks.result import CheckResult, Counting, Threshold
 from fieldlog.checks.sources import DCMA_GAO, DCMA_SECONDARY
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.site.model import Link, LinkType, Site
@@ -33,6 +26,42 @@ MIN_FS_PCT = 90.0
 """Check 4: at least 90% of links are finish-to-start."""
 MAX_HARD_CONSTRAINT_PCT = 5.0
 """Check 5: at most 5% of unfinished activities carry a hard date constraint."""
+
+LOGIC = Counting(
+    1,
+    "Logic",
+    Threshold("<= 5%", DCMA_GAO),
+    "unfinished activities with no predecessor or no successor",
+    most_pct=MAX_MISSING_LOGIC_PCT,
+)
+LEADS = Counting(
+    2,
+    "Leads",
+    Threshold("0 links", DCMA_SECONDARY),
+    "links into unfinished activities with a negative lag (lead)",
+)
+LAGS = Counting(
+    3,
+    "Lags",
+    Threshold("<= 5%", DCMA_SECONDARY),
+    "links into unfinished activities with a positive lag",
+    most_pct=MAX_LAG_PCT,
+)
+RELATIONSHIP_TYPES = Counting(
+    4,
+    "Relationship types",
+    Threshold(">= 90% FS", DCMA_SECONDARY),
+    "links into unfinished activities that are finish-to-start",
+    least_pct=MIN_FS_PCT,
+)
+HARD_CONSTRAINTS = Counting(
+    5,
+    "Hard constraints",
+    Threshold("<= 5%", DCMA_SECONDARY),
+    "unfinished activities with a 'finish not after' date",
+    most_pct=MAX_HARD_CONSTRAINT_PCT,
+)
+"""Checks 1-5, one row each: the functions below find the items, these say how to judge them."""
 
 
 def open_ids(result: ScheduleResult) -> list[str]:
@@ -66,53 +95,21 @@ def check_logic(site: Site, result: ScheduleResult) -> CheckResult:
         no_succ = aid not in has_succ and not milestone
         if no_pred or no_succ or (aid not in has_pred and aid not in has_succ):
             missing.append(aid)
-    value = share(len(missing), len(population))
-    return CheckResult(
-        1,
-        "Logic",
-        at_most(value, MAX_MISSING_LOGIC_PCT),
-        value,
-        len(missing),
-        len(population),
-        Threshold("<= 5%", DCMA_GAO),
-        "unfinished activities with no predecessor or no successor",
-        tuple(missing),
-    )
+    return LOGIC.result(missing, len(population))
 
 
 def check_leads(site: Site, result: ScheduleResult) -> CheckResult:
     """Check 2, leads: links with a negative lag (a successor starting before its cue)."""
     links = open_links(site, result)
     leads = [_link_name(k) for k in links if k.lag < 0]
-    return CheckResult(
-        2,
-        "Leads",
-        none_allowed(len(leads), len(links)),
-        share(len(leads), len(links)),
-        len(leads),
-        len(links),
-        Threshold("0 links", DCMA_SECONDARY),
-        "links into unfinished activities with a negative lag (lead)",
-        tuple(leads),
-    )
+    return LEADS.result(leads, len(links))
 
 
 def check_lags(site: Site, result: ScheduleResult) -> CheckResult:
     """Check 3, lags: links with a positive lag, which hide work or waiting time."""
     links = open_links(site, result)
     lags = [_link_name(k) for k in links if k.lag > 0]
-    value = share(len(lags), len(links))
-    return CheckResult(
-        3,
-        "Lags",
-        at_most(value, MAX_LAG_PCT),
-        value,
-        len(lags),
-        len(links),
-        Threshold("<= 5%", DCMA_SECONDARY),
-        "links into unfinished activities with a positive lag",
-        tuple(lags),
-    )
+    return LAGS.result(lags, len(links))
 
 
 def check_relationship_types(site: Site, result: ScheduleResult) -> CheckResult:
@@ -121,20 +118,9 @@ def check_relationship_types(site: Site, result: ScheduleResult) -> CheckResult:
     Items are the links of other types (SS, FF, SF), so the reader sees what to review.
     """
     links = open_links(site, result)
-    fs = [k for k in links if k.type is LinkType.FS]
-    others = tuple(f"{_link_name(k)} {k.type.value}" for k in links if k.type is not LinkType.FS)
-    value = share(len(fs), len(links))
-    return CheckResult(
-        4,
-        "Relationship types",
-        at_least(value, MIN_FS_PCT),
-        value,
-        len(fs),
-        len(links),
-        Threshold(">= 90% FS", DCMA_SECONDARY),
-        "links into unfinished activities that are finish-to-start",
-        others,
-    )
+    fs = sum(1 for k in links if k.type is LinkType.FS)
+    others = [f"{_link_name(k)} {k.type.value}" for k in links if k.type is not LinkType.FS]
+    return RELATIONSHIP_TYPES.result(others, len(links), count=fs)
 
 
 def check_hard_constraints(site: Site, result: ScheduleResult) -> CheckResult:
@@ -147,16 +133,8 @@ def check_hard_constraints(site: Site, result: ScheduleResult) -> CheckResult:
     """
     population = open_ids(result)
     pinned = [aid for aid in population if site.activity(aid).finish_not_after is not None]
-    value = share(len(pinned), len(population))
-    return CheckResult(
-        5,
-        "Hard constraints",
-        at_most(value, MAX_HARD_CONSTRAINT_PCT),
-        value,
-        len(pinned),
+    return HARD_CONSTRAINTS.result(
+        pinned,
         len(population),
-        Threshold("<= 5%", DCMA_SECONDARY),
-        "unfinished activities with a 'finish not after' date",
-        tuple(pinned),
         note="'finish not after' counted as hard (recalled from DCMA's definition)",
     )

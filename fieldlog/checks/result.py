@@ -8,6 +8,7 @@ thresholds "are not compliance triggers".
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 from enum import StrEnum
 
@@ -93,3 +94,60 @@ def none_allowed(count: int, population: int) -> Outcome:
     if population == 0:
         return Outcome.NOT_APPLICABLE
     return Outcome.PASS if count == 0 else Outcome.FAIL
+
+
+@dataclass(frozen=True)
+class Counting:
+    """The fixed parts of a counting check: its place in the list, name, pass mark and wording.
+
+    The check modules keep a table of these beside their functions, so a check's function only
+    finds its items and its population; the share, the outcome and the result are built here,
+    the same way for every check. The mark is ``most_pct`` (share at most), ``least_pct`` (share
+    at least), ``info`` (no mark: reported for reading) or, with none of them, none allowed.
+    """
+
+    number: int
+    """Position in the DCMA 14-point list."""
+    name: str
+    threshold: Threshold
+    what: str
+    """What was counted, in plain words."""
+    most_pct: float | None = None
+    least_pct: float | None = None
+    info: bool = False
+
+    def result(
+        self,
+        items: Sequence[str],
+        population: int,
+        *,
+        count: int | None = None,
+        note: str = "",
+    ) -> CheckResult:
+        """The finding for ``items`` out of ``population``.
+
+        ``count`` is given where what is counted is not what is listed (check 4 counts the
+        finish-to-start links and lists the others for review); by default it is the items.
+        """
+        counted = len(items) if count is None else count
+        value = share(counted, population)
+        if self.info:
+            outcome = Outcome.INFO
+        elif self.most_pct is not None:
+            outcome = at_most(value, self.most_pct)
+        elif self.least_pct is not None:
+            outcome = at_least(value, self.least_pct)
+        else:
+            outcome = none_allowed(counted, population)
+        return CheckResult(
+            self.number,
+            self.name,
+            outcome,
+            value,
+            counted,
+            population,
+            self.threshold,
+            self.what,
+            tuple(items),
+            note=note,
+        )

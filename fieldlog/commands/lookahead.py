@@ -13,7 +13,7 @@ from pathlib import Path
 
 from fieldlog.commands.arguments import EXIT_BAD_INPUT, EXIT_OK, iso_date
 from fieldlog.errors import FieldlogError
-from fieldlog.lookahead.build import DEFAULT_DAYS, Lookahead, build_lookahead
+from fieldlog.lookahead.build import LOOKAHEAD_DAYS, Lookahead, build_lookahead
 from fieldlog.reports.lookahead_data import render_csv, render_json
 from fieldlog.reports.lookahead_ics import crew_calendars, render_ics
 from fieldlog.reports.lookahead_text import WIDTHS, layout_for, render_text
@@ -49,9 +49,9 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
     p.add_argument(
         "--days",
         type=int,
-        default=DEFAULT_DAYS,
+        default=LOOKAHEAD_DAYS,
         metavar="N",
-        help=f"calendar days shown (default {DEFAULT_DAYS}, at most {MAX_DAYS})",
+        help=f"calendar days shown (default {LOOKAHEAD_DAYS}, at most {MAX_DAYS})",
     )
     p.add_argument("--format", choices=FORMATS, default="text")
     p.add_argument(

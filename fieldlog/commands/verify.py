@@ -26,6 +26,7 @@ from pathlib import Path
 from fieldlog.errors import SiteError
 from fieldlog.home import fieldlog_home
 from fieldlog.journal import Journal, read_journal, replay
+from fieldlog.reports.words import count
 from fieldlog.site.files import load_site
 from fieldlog.sync.audit import (
     Audit,
@@ -91,7 +92,7 @@ def run(args: argparse.Namespace) -> int:
     n_entries = len(journal.entries)
     if findings or contradictions or conflicts or receipt_lines:
         forged = (
-            f", {journal.forged} forged entr{'y' if journal.forged == 1 else 'ies'} not used"
+            f", {count(journal.forged, 'forged entry', 'forged entries')} not used"
             if journal.forged
             else ""
         )

@@ -20,7 +20,7 @@ cause of that name is recorded, and plant only from equipment readiness items.
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Mapping
+from collections.abc import Mapping
 from types import MappingProxyType
 
 WEATHER, ACCESS, MATERIALS, DESIGN = "weather", "access", "materials", "design/instruction"
@@ -76,12 +76,3 @@ def readiness_category(kind: str) -> str:
 def empty_split() -> dict[str, int]:
     """Every bucket at zero, in report order."""
     return dict.fromkeys(BUCKETS, 0)
-
-
-def add_splits(splits: Iterable[Mapping[str, int]]) -> dict[str, int]:
-    """Bucket-by-bucket sum of several splits."""
-    out = empty_split()
-    for split in splits:
-        for bucket, days in split.items():
-            out[bucket] += days
-    return out

@@ -253,8 +253,9 @@ KINDS: Mapping[str, tuple[FieldSpec, ...]] = MappingProxyType(
 CORRECTION_OWN = frozenset(s.name for s in KINDS["correction"])
 """A correction's own fields; any other field is a replacement value for the corrected kind."""
 
-ACTIVITY_KINDS = frozenset({"started", "finished", "remaining", "percent"})
-"""Kinds that report progress of one activity."""
+PROGRESS_KINDS = frozenset({"started", "finished", "remaining", "percent"})
+"""Kinds that report progress of one activity (the app lists them with the activity, not in the
+day panel)."""
 
 
 def spec(kind: str, name: str) -> FieldSpec | None:

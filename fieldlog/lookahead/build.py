@@ -30,7 +30,8 @@ from fieldlog.lookahead.fewest_people import FewestPeople, fewest_people
 from fieldlog.lookahead.levelling import Levelling, level
 from fieldlog.lookahead.reasons import ReasonWriter
 
-DEFAULT_DAYS = 14
+LOOKAHEAD_DAYS = 14
+"""Calendar days in the lookahead window: two weeks (common practice), the one definition."""
 
 
 @dataclass(frozen=True)
@@ -128,7 +129,7 @@ def build_lookahead(
     result: ScheduleResult,
     readiness: Sequence[OpenItem] = (),
     start: date | None = None,
-    days: int = DEFAULT_DAYS,
+    days: int = LOOKAHEAD_DAYS,
     *,
     suggest_levelling: bool = True,
     suggest_fewest: bool = True,

@@ -77,13 +77,6 @@ class Window:
     data_date: int
     """Ordinal of the data date (the first day that is not past)."""
 
-    def clip(self, ordinal: int) -> int:
-        """Index of ``ordinal`` in the window, clamped to ``-1 .. length`` (just outside)."""
-        k = ordinal - self.first
-        if k < 0:
-            return -1
-        return k if k < self.length else self.length
-
 
 @dataclass(frozen=True)
 class Pattern:

@@ -21,7 +21,7 @@ from datetime import date
 from fieldlog.engine.progress import Status
 from fieldlog.journal import Entry
 from fieldlog.reports.text_fit import fit, right, wrap
-from fieldlog.reports.words import working_days
+from fieldlog.reports.words import against_required, working_days
 from fieldlog.workspace import SiteState
 
 WIDTH = 80
@@ -259,10 +259,7 @@ def _schedule(p: _Page, state: SiteState) -> None:
     p.heading("Schedule as of the end of the day")
     text = f"Forecast finish {_d(sched.finish)}"
     if state.site.finish_by is not None and sched.finish_float is not None:
-        ff = sched.finish_float
-        text += f"; required {_d(state.site.finish_by)}: " + (
-            f"{working_days(ff)} to spare" if ff >= 0 else f"LATE by {working_days(-ff)}"
-        )
+        text += f"; required {_d(state.site.finish_by)}: {against_required(sched.finish_float)}"
     p.wrap(text + ".", 2, 4)
     driving = [sched.by_id[a] for a in sched.driving_path if sched.by_id[a].is_open][:3]
     if driving:

@@ -9,7 +9,7 @@ that moved or hold evidence), the movement by cause over the range, and plan rel
 from __future__ import annotations
 
 from fieldlog.history.causes import BUCKETS
-from fieldlog.history.values import History, WeekReliability, Window
+from fieldlog.history.values import History, WeekReliability
 from fieldlog.reports.text_fit import fit, right, wrap
 
 CAUTION = (
@@ -173,8 +173,3 @@ def _reliability(weeks: tuple[WeekReliability, ...], width: int) -> list[str]:
     if not weeks:
         out.append("  no week in the range")
     return out
-
-
-def window_line(w: Window) -> str:
-    """One line per window, for logs and the app's status line."""
-    return f"{w.label} finish {w.finish} float {_float(w.finish_float)} move {signed(w.movement)}"

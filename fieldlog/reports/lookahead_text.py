@@ -26,6 +26,7 @@ from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.classify import Cell
 from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
 from fieldlog.reports.text_fit import abbreviate, fit, right, to_ascii, width, wrap
+from fieldlog.reports.words import against_required, count, days
 
 WIDTHS = (80, 132)
 PAGE_LINES = 60
@@ -142,7 +143,7 @@ class _Sheet:
             text.append(
                 [""]
                 + self._wrap(
-                    f"{hidden} more open activit{'y has' if hidden == 1 else 'ies have'} "
+                    f"{count(hidden, 'more open activity has', 'more open activities have')} "
                     "nothing to do in this window; the JSON and CSV outputs list every one."
                 )
             )
@@ -190,8 +191,7 @@ class _Sheet:
         lines = [
             fit(self.t(f"{la.site} - lookahead, schedule revision {la.revision}"), w, self.g.cut),
             f"Status as of the end of {date_text(la.as_of)}; data date {date_text(la.data_date)}",
-            f"Window {date_text(la.days[0])} to {date_text(la.days[-1])} "
-            f"({n} day{'s' if n != 1 else ''})",
+            f"Window {date_text(la.days[0])} to {date_text(la.days[-1])} ({days(n)})",
         ]
         lines += self._wrap(self._finish_text())
         return [*lines, ""]
@@ -201,12 +201,7 @@ class _Sheet:
         text = f"Forecast finish {date_text(la.finish)}"
         if la.finish_by is None or la.finish_float is None:
             return text + " (no required finish set: float is measured to the forecast finish)"
-        ff = la.finish_float
-        state = "on time" if ff >= 0 else "LATE"
-        spare = "to spare" if ff >= 0 else "behind"
-        return (
-            f"{text}; required {date_text(la.finish_by)}: {state}, {working_days(abs(ff))} {spare}"
-        )
+        return f"{text}; required {date_text(la.finish_by)}: {against_required(la.finish_float)}"
 
     def _footer(self, page: int, pages: int) -> list[str]:
         g, w = self.g, self.lay.cell_w

@@ -16,7 +16,7 @@ from functools import lru_cache
 from fieldlog.engine.progress import Status
 from fieldlog.engine.result import ActivityResult, ScheduleResult
 from fieldlog.reports.text_fit import fit, width
-from fieldlog.reports.words import working_days
+from fieldlog.reports.words import against_required
 
 FORMATS = ("text", "json", "csv")
 
@@ -172,11 +172,9 @@ def _text(result: ScheduleResult) -> str:
 def _finish_line(result: ScheduleResult) -> str:
     text = f"Forecast finish {result.finish:%a %d %b %Y}"
     if result.site.finish_by is not None and result.finish_float is not None:
-        ff = result.finish_float
-        state = "on time" if ff >= 0 else "LATE"
         text += (
-            f"; required {result.site.finish_by:%a %d %b %Y}: {state}, "
-            f"{working_days(abs(ff))} {'to spare' if ff >= 0 else 'behind'}"
+            f"; required {result.site.finish_by:%a %d %b %Y}: "
+            f"{against_required(result.finish_float)}"
         )
     return text
 

@@ -62,16 +62,6 @@ class LogPlan:
     conflicts: tuple[Conflict, ...]
     unchanged: int
 
-    @property
-    def sends(self) -> tuple[Copy, ...]:
-        """Copies from the site to the target."""
-        return tuple(c for c in self.copies if c.direction is Direction.SEND)
-
-    @property
-    def receives(self) -> tuple[Copy, ...]:
-        """Copies from the target into the site."""
-        return tuple(c for c in self.copies if c.direction is Direction.RECEIVE)
-
 
 PrefixCheck = Callable[[LogFile, LogFile], bool]
 """``is_prefix(shorter, longer)``: True when ``shorter``'s bytes begin ``longer``."""

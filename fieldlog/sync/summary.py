@@ -10,6 +10,7 @@ from __future__ import annotations
 import json
 from dataclasses import dataclass, field
 
+from fieldlog.reports.words import count
 from fieldlog.sync.devices import DeviceSync
 from fieldlog.sync.plan import Copy
 from fieldlog.sync.revision import RevisionChange, RevisionStatus
@@ -94,11 +95,8 @@ class SyncSummary:
 
 def _files(copies: tuple[Copy, ...]) -> str:
     grown = sum(1 for c in copies if c.grown)
-    n = len(copies)
-    word = "file" if n == 1 else "files"
-    if not n:
-        return f"0 journal {word}"
-    return f"{n} journal {word} ({n - grown} new, {grown} grown)"
+    files = count(len(copies), "journal file", "journal files")
+    return f"{files} ({len(copies) - grown} new, {grown} grown)" if copies else files
 
 
 def render_text(s: SyncSummary) -> str:
@@ -111,8 +109,8 @@ def render_text(s: SyncSummary) -> str:
     lines.append(f"{'sent':<11}{_files(s.sent)} to the target")
     lines.append(f"{'received':<11}{_files(s.received)} from the target")
     lines.append(
-        f"{'unchanged':<11}{s.unchanged} journal "
-        f"{'file' if s.unchanged == 1 else 'files'} already the same on both sides"
+        f"{'unchanged':<11}{count(s.unchanged, 'journal file', 'journal files')} "
+        "already the same on both sides"
     )
     lines.append(f"{'schedule':<11}{_revision_line(s.revision)}")
     if s.revision.removed:
@@ -134,8 +132,8 @@ def render_text(s: SyncSummary) -> str:
         lines.extend(f"{pad}- {name}" for name in s.skipped)
     if s.restored:
         lines.append(
-            f"{'restored':<11}{len(s.restored)} journal "
-            f"{'file' if len(s.restored) == 1 else 'files'} brought back after "
+            f"{'restored':<11}{count(len(s.restored), 'journal file', 'journal files')} "
+            "brought back after "
             "entries had been removed since a sync:"
         )
         lines.extend(f"{pad}- {r}" for r in s.restored)

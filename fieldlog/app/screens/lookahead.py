@@ -26,9 +26,10 @@ from fieldlog.app.printing import deliver_sheet
 from fieldlog.app.screens.base import bindings
 from fieldlog.app.screens.fewest import FewestScreen
 from fieldlog.app.screens.record_keys import RecordView
-from fieldlog.app.session import LOOKAHEAD_DAYS, Snapshot
+from fieldlog.app.session import Snapshot
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead import ActivityRow, Cell, Lookahead, build_lookahead
+from fieldlog.lookahead.build import LOOKAHEAD_DAYS
 from fieldlog.lookahead.crew_load import CrewLoad
 from fieldlog.reports.lookahead_text import ASCII, UNICODE, Glyphs
 

@@ -29,6 +29,7 @@ from fieldlog.app.session import Snapshot
 from fieldlog.app.shift import ShiftRow
 from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
 from fieldlog.engine.result import ActivityResult
+from fieldlog.journal.entries import PROGRESS_KINDS
 from fieldlog.lookahead import Cell
 
 COLUMNS = (
@@ -42,9 +43,6 @@ COLUMNS = (
     Column("finish", "Finish", 6),
 )
 """The activity list's columns; the name takes whatever width is left."""
-
-PROGRESS_KINDS = frozenset({"started", "finished", "remaining", "percent"})
-"""Entry kinds shown in the activity list rather than in the day panel."""
 
 TOMORROW_WORDS: Mapping[Cell, str] = {
     Cell.MUST: "MUST",

@@ -21,6 +21,7 @@ from textual.widgets import Static
 
 from fieldlog.app.keymap import VIEWS
 from fieldlog.engine.result import ScheduleResult
+from fieldlog.reports.words import days
 
 if TYPE_CHECKING:
     from fieldlog.app.app import FieldlogApp
@@ -33,12 +34,8 @@ def finish_words(schedule: ScheduleResult) -> str:
     if ff is None:
         return text
     if ff >= 0:
-        return f"{text}: {_days(ff)} to spare"
-    return f"{text}: LATE {_days(-ff)}"
-
-
-def _days(n: int) -> str:
-    return f"{n} day" if n == 1 else f"{n} days"
+        return f"{text}: {days(ff)} to spare"
+    return f"{text}: LATE {days(-ff)}"
 
 
 class SiteBar(Horizontal):
