@@ -21,77 +21,36 @@ from typing import Any
 from fieldlog.journal import Entry, record_entry
 from fieldlog.site.files import load_site
 from fieldlog.workspace import load_state
+from tests.helpers import site_builder
+from tests.helpers.site_builder import Act, schedule_toml, site_toml
 
 DEVICE = "tab-test01"
 AUTHOR = "T. Foreman"
 START = date(2026, 3, 2)
 
-SITE_TOML = """\
-[site]
-name = "Test yard (invented)"
-start = 2026-03-02
-finish_by = 2026-03-12
-calendar = "weekdays"
+SITE_TOML = site_toml(
+    "Test yard (invented)",
+    START,
+    finish_by=date(2026, 3, 12),
+    crews={"groundworks": 6, "concrete": 5},
+)
 
-[calendars.weekdays]
-workdays = ["mon", "tue", "wed", "thu", "fri"]
-
-[crews.groundworks]
-available = 6
-
-[crews.concrete]
-available = 5
-"""
-
-SCHEDULE_TOML = """\
-revision = 1
-
-[[activity]]
-id = "START"
-name = "Site possession"
-duration = 0
-
-[[activity]]
-id = "EXC-010"
-name = "Excavate pad footings"
-duration = 3
-after = ["START"]
-crew = { groundworks = 4 }
-
-[[activity]]
-id = "CON-010"
-name = "Pour pad footings"
-duration = 2
-after = ["EXC-010"]
-crew = { concrete = 5 }
-
-[[activity]]
-id = "FRM-010"
-name = "Erect timber frame"
-duration = 4
-after = ["CON-010"]
-
-[[activity]]
-id = "DRN-010"
-name = "Lay site drains"
-duration = 3
-after = ["EXC-010"]
-crew = { groundworks = 3 }
-
-[[activity]]
-id = "END"
-name = "Handover"
-duration = 0
-after = ["FRM-010", "DRN-010"]
-"""
+SCHEDULE_TOML = schedule_toml(
+    1,
+    [
+        Act("START", "Site possession", 0),
+        Act("EXC-010", "Excavate pad footings", 3, after=("START",), crew={"groundworks": 4}),
+        Act("CON-010", "Pour pad footings", 2, after=("EXC-010",), crew={"concrete": 5}),
+        Act("FRM-010", "Erect timber frame", 4, after=("CON-010",)),
+        Act("DRN-010", "Lay site drains", 3, after=("EXC-010",), crew={"groundworks": 3}),
+        Act("END", "Handover", 0, after=("FRM-010", "DRN-010")),
+    ],
+)
 
 
 def write_site(folder: Path) -> Path:
     """Write the test site into ``folder`` (created) and return it."""
-    folder.mkdir(parents=True, exist_ok=True)
-    (folder / "site.toml").write_text(SITE_TOML, encoding="utf-8")
-    (folder / "schedule.toml").write_text(SCHEDULE_TOML, encoding="utf-8")
-    return folder
+    return site_builder.write_site(folder, SITE_TOML, SCHEDULE_TOML)
 
 
 def fix_device() -> None:

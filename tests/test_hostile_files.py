@@ -227,6 +227,24 @@ def test_duration_of_a_billion_days(tmp_path):
     _schedule_refused(tmp_path, site, "EXC-010", "line 6", "Fix:")
 
 
+def record_note(
+    tmp_path: Path, site: Path, home: Path | None = None
+) -> subprocess.CompletedProcess:
+    """``fieldlog record SITE note hello`` on a fixed day and author, in a watched child."""
+    return run_hostile(
+        tmp_path,
+        "record",
+        str(site),
+        "note",
+        "hello",
+        "--today",
+        "2026-09-25",
+        "--author",
+        "P. Tester",
+        home=home,
+    )
+
+
 def _schedule_refused(tmp_path: Path, site: Path, *words: str) -> None:
     done = run_hostile(tmp_path, "schedule", str(site))
     assert done.returncode == 2
@@ -257,17 +275,7 @@ def test_log_folder_linked_outside_is_never_written(tmp_path):
     outside = _outside(tmp_path)
     (site / "log").symlink_to(outside, target_is_directory=True)
     before = _snapshot(outside)
-    done = run_hostile(
-        tmp_path,
-        "record",
-        str(site),
-        "note",
-        "hello",
-        "--today",
-        "2026-09-25",
-        "--author",
-        "P. Tester",
-    )
+    done = record_note(tmp_path, site)
     assert done.returncode == 2
     assert "link" in done.stderr
     assert _snapshot(outside) == before
@@ -289,18 +297,7 @@ def test_day_file_linked_to_a_system_file(tmp_path):
     home = tmp_path / "home"
     home.mkdir(exist_ok=True)
     (home / "device.toml").write_text(f'device = "{DEVICE}"\n')
-    done = run_hostile(
-        tmp_path,
-        "record",
-        str(site),
-        "note",
-        "hello",
-        "--today",
-        "2026-09-25",
-        "--author",
-        "P. Tester",
-        home=home,
-    )
+    done = record_note(tmp_path, site, home=home)
     assert done.returncode == 2
     assert "link" in done.stderr
     assert _snapshot(outside) == before
@@ -311,18 +308,7 @@ def test_read_only_home_is_one_line(tmp_path):
     if not Path("/sys").is_dir() or os.access("/sys", os.W_OK) and _can_create(home):
         pytest.skip("no read-only folder to point FIELDLOG_HOME at")
     site = make_site(tmp_path / "site")
-    done = run_hostile(
-        tmp_path,
-        "record",
-        str(site),
-        "note",
-        "hello",
-        "--today",
-        "2026-09-25",
-        "--author",
-        "P. Tester",
-        home=home,
-    )
+    done = record_note(tmp_path, site, home=home)
     assert done.returncode == 2
     assert "FIELDLOG_HOME" in done.stderr
 
@@ -344,18 +330,7 @@ def test_damaged_day_file_with_a_5000_digit_number_does_not_break_recording(tmp_
     (home / "device.toml").write_text(f'device = "{DEVICE}"\n')
     (site / "log").mkdir()
     (site / "log" / f"2026-09-08_{DEVICE}.toml").write_text("[[entry]]\nseq = " + "9" * 5000 + "\n")
-    done = run_hostile(
-        tmp_path,
-        "record",
-        str(site),
-        "note",
-        "hello",
-        "--today",
-        "2026-09-25",
-        "--author",
-        "P. Tester",
-        home=home,
-    )
+    done = record_note(tmp_path, site, home=home)
     assert done.returncode == 2
     assert "used every entry number" in done.stderr
 

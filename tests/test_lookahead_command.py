@@ -20,79 +20,46 @@ from fieldlog.cli import main
 from fieldlog.lookahead import build_lookahead
 from fieldlog.reports.lookahead_text import render_text
 from fieldlog.workspace import load_state
+from tests.helpers.site_builder import (
+    WEEKDAYS_AND_ALL_WEEK,
+    Act,
+    schedule_toml,
+    site_toml,
+    write_site,
+)
 
-SITE_TOML = """\
-[site]
-name = "Heron Wharf pump house (invented)"
-start = 2026-09-07
-finish_by = 2026-10-30
-calendar = "weekdays"
+SITE_TOML = site_toml(
+    "Heron Wharf pump house (invented)",
+    date(2026, 9, 7),
+    finish_by=date(2026, 10, 30),
+    calendars=WEEKDAYS_AND_ALL_WEEK,
+    holidays={"weekdays": [date(2026, 10, 12)]},
+    crews={"groundworks": 6, "concrete": 5},
+)
 
-[calendars.weekdays]
-workdays = ["mon", "tue", "wed", "thu", "fri"]
-holidays = [2026-10-12]
-
-[calendars.allweek]
-workdays = ["mon", "tue", "wed", "thu", "fri", "sat", "sun"]
-
-[crews.groundworks]
-available = 6
-[crews.concrete]
-available = 5
-"""
-
-SCHEDULE_TOML = """\
-revision = 2
-
-[[activity]]
-id = "START"
-name = "Site possession"
-duration = 0
-
-[[activity]]
-id = "EXC-010"
-name = "Excavate wet well"
-duration = 4
-after = ["START"]
-crew = { groundworks = 4 }
-
-[[activity]]
-id = "DRN-010"
-name = "Lay site drainage runs"
-duration = 3
-after = ["START"]
-crew = { groundworks = 3 }
-
-[[activity]]
-id = "CON-010"
-name = "Pour wet well base"
-duration = 2
-after = ["EXC-010"]
-start_not_before = 2026-09-14
-crew = { concrete = 5 }
-
-[[activity]]
-id = "CUR-010"
-name = "Base cure"
-duration = 7
-calendar = "allweek"
-after = ["CON-010"]
-
-[[activity]]
-id = "DONE"
-name = "Handover"
-duration = 0
-after = ["CUR-010", "DRN-010"]
-"""
+SCHEDULE_TOML = schedule_toml(
+    2,
+    [
+        Act("START", "Site possession", 0),
+        Act("EXC-010", "Excavate wet well", 4, after=("START",), crew={"groundworks": 4}),
+        Act("DRN-010", "Lay site drainage runs", 3, after=("START",), crew={"groundworks": 3}),
+        Act(
+            "CON-010",
+            "Pour wet well base",
+            2,
+            after=("EXC-010",),
+            start_not_before=date(2026, 9, 14),
+            crew={"concrete": 5},
+        ),
+        Act("CUR-010", "Base cure", 7, calendar="allweek", after=("CON-010",)),
+        Act("DONE", "Handover", 0, after=("CUR-010", "DRN-010")),
+    ],
+)
 
 
 @pytest.fixture
 def site(tmp_path: Path) -> Path:
-    folder = tmp_path / "heron-wharf"
-    folder.mkdir()
-    (folder / "site.toml").write_text(SITE_TOML, encoding="utf-8")
-    (folder / "schedule.toml").write_text(SCHEDULE_TOML, encoding="utf-8")
-    return folder
+    return write_site(tmp_path / "heron-wharf", SITE_TOML, SCHEDULE_TOML)
 
 
 def _run(capsysbinary, *args: str) -> tuple[int, bytes, str]:

@@ -13,6 +13,7 @@ import os
 import pickle
 import tomllib
 import warnings
+from datetime import date
 from pathlib import Path
 from types import MappingProxyType
 
@@ -23,43 +24,23 @@ from fieldlog.site import cache as site_cache
 from fieldlog.site import files as site_files
 from fieldlog.site.cache import KEEP, SiteCacheWarning, cache_folder, cache_key
 from fieldlog.site.files import load_site
+from tests.helpers.site_builder import Act, Lnk, schedule_toml, site_toml
 
-SITE = """\
-[site]
-name = "Quarry lane sheds"
-start = 2026-03-02
-calendar = "weekdays"
+SITE = site_toml(
+    "Quarry lane sheds",
+    date(2026, 3, 2),
+    holidays={"weekdays": [date(2026, 4, 3)]},
+    crews={"steel": 5},
+)
 
-[calendars.weekdays]
-workdays = ["mon", "tue", "wed", "thu", "fri"]
-holidays = [2026-04-03]
-
-[crews.steel]
-available = 5
-"""
-
-SCHEDULE = """\
-revision = 2
-
-[[activity]]
-id = "PAD"
-name = "Pad foundations"
-duration = 4
-crew = { steel = 2 }
-
-[[activity]]
-id = "FRAME"
-name = "Erect frame"
-duration = 6
-after = ["PAD"]
-finish_not_after = 2026-04-30
-
-[[link]]
-from = "PAD"
-to = "FRAME"
-type = "SS"
-lag = 2
-"""
+SCHEDULE = schedule_toml(
+    2,
+    [
+        Act("PAD", "Pad foundations", 4, crew={"steel": 2}),
+        Act("FRAME", "Erect frame", 6, after=("PAD",), finish_not_after=date(2026, 4, 30)),
+    ],
+    [Lnk("PAD", "FRAME", "SS", lag=2)],
+)
 
 
 def write(folder: Path, site: str = SITE, schedule: str = SCHEDULE) -> Path:

@@ -16,67 +16,43 @@ import pytest
 from fieldlog.errors import DependencyLoopError, SiteError
 from fieldlog.site.files import load_site
 from fieldlog.site.model import LinkType
+from tests.helpers.site_builder import (
+    WEEKDAYS_AND_ALL_WEEK,
+    Act,
+    Lnk,
+    changed,
+    line_of,
+    schedule_toml,
+    site_toml,
+    write_site,
+)
 
-SITE = """\
-[site]
-name = "Harbour depot"
-start = 2026-03-02
-calendar = "weekdays"
+SITE = site_toml(
+    "Harbour depot",
+    date(2026, 3, 2),
+    calendars=WEEKDAYS_AND_ALL_WEEK,
+    crews={"groundworks": 4},
+)
 
-[calendars.weekdays]
-workdays = ["mon", "tue", "wed", "thu", "fri"]
-
-[calendars.allweek]
-workdays = ["mon", "tue", "wed", "thu", "fri", "sat", "sun"]
-
-[crews.groundworks]
-available = 4
-"""
-
-SCHEDULE = """\
-revision = 3
-
-[[activity]]
-id = "EXC"
-name = "Excavate"
-duration = 3
-crew = { groundworks = 3 }
-
-[[activity]]
-id = "POUR"
-name = "Pour footings"
-duration = 1
-after = ["EXC"]
-
-[[activity]]
-id = "CURE"
-name = "Cure"
-duration = 7
-calendar = "allweek"
-
-[[link]]
-from = "POUR"
-to = "CURE"
-type = "FS"
-lag = 0
-"""
+SCHEDULE = schedule_toml(
+    3,
+    [
+        Act("EXC", "Excavate", 3, crew={"groundworks": 3}),
+        Act("POUR", "Pour footings", 1, after=("EXC",)),
+        Act("CURE", "Cure", 7, calendar="allweek"),
+    ],
+    [Lnk("POUR", "CURE", "FS", lag=0)],
+)
 
 
 def write(folder: Path, site: str = SITE, schedule: str = SCHEDULE) -> Path:
-    folder.mkdir(parents=True, exist_ok=True)
-    (folder / "site.toml").write_text(site, encoding="utf-8")
-    (folder / "schedule.toml").write_text(schedule, encoding="utf-8")
-    return folder
+    return write_site(folder, site, schedule)
 
 
 def error_for(tmp_path: Path, site: str = SITE, schedule: str = SCHEDULE) -> SiteError:
     with pytest.raises(SiteError) as info:
         load_site(write(tmp_path / "site", site, schedule))
     return info.value
-
-
-def line_of(text: str, fragment: str, nth: int = 0) -> int:
-    return [i for i, line in enumerate(text.splitlines(), 1) if fragment in line][nth]
 
 
 def test_a_valid_folder_loads(tmp_path):
@@ -274,82 +250,52 @@ def test_cli_schedules_a_good_folder(tmp_path):
 # Every bad input the foundation issue lists, through the real command line (in-process, so
 # the whole table costs milliseconds): exit code 2, one line on stderr naming the file, the
 # activity where there is one, and what is wrong; nothing on stdout; no traceback.
-_DUP = SCHEDULE.replace('id = "POUR"', 'id = "EXC"')
+
+
+def _schedule_case(case: str, old: str, new: str, words: str) -> tuple:
+    """A row of BAD_INPUTS: the valid site with one change made to its schedule.toml."""
+    return (case, SITE, changed(SCHEDULE, old, new), "schedule.toml", words)
+
+
+def _site_case(case: str, old: str, new: str, words: str) -> tuple:
+    """A row of BAD_INPUTS: the valid site with one change made to its site.toml."""
+    return (case, changed(SITE, old, new), SCHEDULE, "site.toml", words)
+
+
 BAD_INPUTS = [
     # (case, site text or None to omit, schedule text or None to omit, file, words)
-    (
-        "toml syntax",
-        SITE,
-        SCHEDULE.replace("revision = 3", "revision = = 3"),
-        "schedule.toml",
-        "TOML syntax error",
-    ),
+    _schedule_case("toml syntax", "revision = 3", "revision = = 3", "TOML syntax error"),
     ("missing site.toml", None, SCHEDULE, "site.toml", "site.toml is missing"),
     ("missing schedule.toml", SITE, None, "schedule.toml", "schedule.toml is missing"),
-    ("duplicate id", SITE, _DUP, "schedule.toml", "duplicate activity id 'EXC'"),
-    (
-        "unknown id in after",
-        SITE,
-        SCHEDULE.replace('after = ["EXC"]', 'after = ["EXX"]'),
-        "schedule.toml",
-        "unknown activity 'EXX'",
+    _schedule_case("duplicate id", 'id = "POUR"', 'id = "EXC"', "duplicate activity id 'EXC'"),
+    _schedule_case(
+        "unknown id in after", 'after = ["EXC"]', 'after = ["EXX"]', "unknown activity 'EXX'"
     ),
-    (
-        "unknown id in link",
-        SITE,
-        SCHEDULE.replace('to = "CURE"', 'to = "CURING"'),
-        "schedule.toml",
-        "'CURING'",
-    ),
-    (
+    _schedule_case("unknown id in link", 'to = "CURE"', 'to = "CURING"', "'CURING'"),
+    _schedule_case(
         "unknown calendar",
-        SITE,
-        SCHEDULE.replace('calendar = "allweek"', 'calendar = "7day"'),
-        "schedule.toml",
+        'calendar = "allweek"',
+        'calendar = "7day"',
         "unknown calendar '7day'",
     ),
-    (
-        "unknown crew",
-        SITE,
-        SCHEDULE.replace("groundworks = 3", "steelfixers = 3"),
-        "schedule.toml",
-        "unknown crew 'steelfixers'",
+    _schedule_case(
+        "unknown crew", "groundworks = 3", "steelfixers = 3", "unknown crew 'steelfixers'"
     ),
-    (
-        "negative duration",
-        SITE,
-        SCHEDULE.replace("duration = 3", "duration = -3"),
-        "schedule.toml",
-        "negative duration",
-    ),
-    (
-        "bad link type",
-        SITE,
-        SCHEDULE.replace('type = "FS"', 'type = "XS"'),
-        "schedule.toml",
-        "unknown type 'XS'",
-    ),
-    (
+    _schedule_case("negative duration", "duration = 3", "duration = -3", "negative duration"),
+    _schedule_case("bad link type", 'type = "FS"', 'type = "XS"', "unknown type 'XS'"),
+    _schedule_case(
         "dependency loop",
-        SITE,
-        SCHEDULE.replace('name = "Excavate"', 'name = "Excavate"\nafter = ["CURE"]'),
-        "schedule.toml",
+        'name = "Excavate"',
+        'name = "Excavate"\nafter = ["CURE"]',
         "dependency loop: EXC -> POUR -> CURE -> EXC",
     ),
-    (
+    _site_case(
         "not a date",
-        SITE.replace("start = 2026-03-02", 'start = "next Monday"'),
-        SCHEDULE,
-        "site.toml",
+        "start = 2026-03-02",
+        'start = "next Monday"',
         "'next Monday' is not a date",
     ),
-    (
-        "impossible date",
-        SITE.replace("start = 2026-03-02", "start = 2026-02-30"),
-        SCHEDULE,
-        "site.toml",
-        "TOML syntax error",
-    ),
+    _site_case("impossible date", "start = 2026-03-02", "start = 2026-02-30", "TOML syntax error"),
 ]
 
 

@@ -16,63 +16,33 @@ from pathlib import Path
 
 from fieldlog.journal import Entry, record_entry
 from fieldlog.site.files import load_site
+from tests.helpers.site_builder import (
+    WEEKDAYS_AND_ALL_WEEK,
+    Act,
+    schedule_toml,
+    site_toml,
+    write_site,
+)
 
-SITE_TOML = """\
-[site]
-name = "Pump house groundworks (test site)"
-start = 2026-09-07
-finish_by = 2026-10-16
-calendar = "weekdays"
+SITE_TOML = site_toml(
+    "Pump house groundworks (test site)",
+    date(2026, 9, 7),
+    finish_by=date(2026, 10, 16),
+    calendars=WEEKDAYS_AND_ALL_WEEK,
+    crews={"groundworks": 6},
+)
 
-[calendars.weekdays]
-workdays = ["mon", "tue", "wed", "thu", "fri"]
-
-[calendars.allweek]
-workdays = ["mon", "tue", "wed", "thu", "fri", "sat", "sun"]
-
-[crews.groundworks]
-available = 6
-"""
-
-SCHEDULE_TOML = """\
-revision = 3
-
-[[activity]]
-id = "EXC-010"
-name = "Excavate base"
-duration = 4
-
-[[activity]]
-id = "BLD-010"
-name = "Blinding and rebar"
-duration = 3
-after = ["EXC-010"]
-
-[[activity]]
-id = "CON-010"
-name = "Pour base slab"
-duration = 1
-after = ["BLD-010"]
-
-[[activity]]
-id = "CUR-010"
-name = "Cure base slab"
-duration = 7
-calendar = "allweek"
-after = ["CON-010"]
-
-[[activity]]
-id = "WAL-010"
-name = "Wall formwork and pour"
-duration = 6
-after = ["CUR-010"]
-
-[[activity]]
-id = "BFL-010"
-name = "Backfill and compact"
-duration = 3
-after = ["WAL-010"]
-"""
+SCHEDULE_TOML = schedule_toml(
+    3,
+    [
+        Act("EXC-010", "Excavate base", 4),
+        Act("BLD-010", "Blinding and rebar", 3, after=("EXC-010",)),
+        Act("CON-010", "Pour base slab", 1, after=("BLD-010",)),
+        Act("CUR-010", "Cure base slab", 7, calendar="allweek", after=("CON-010",)),
+        Act("WAL-010", "Wall formwork and pour", 6, after=("CUR-010",)),
+        Act("BFL-010", "Backfill and compact", 3, after=("WAL-010",)),
+    ],
+)
 
 DEVICE = "test-laptop-1"
 OTHER = "test-tablet-2"
@@ -83,10 +53,7 @@ ROOT = Path(__file__).resolve().parents[2]
 
 def make_site(folder: Path) -> Path:
     """Write the test site into ``folder`` (created) and return it."""
-    folder.mkdir(parents=True, exist_ok=True)
-    (folder / "site.toml").write_text(SITE_TOML, encoding="utf-8")
-    (folder / "schedule.toml").write_text(SCHEDULE_TOML, encoding="utf-8")
-    return folder
+    return write_site(folder, SITE_TOML, SCHEDULE_TOML)
 
 
 class FixedClock:

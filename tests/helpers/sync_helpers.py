@@ -18,36 +18,24 @@ from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 from fieldlog.journal import device_id, record_entry
 from fieldlog.site.files import load_site
 from fieldlog.sync import SyncOptions, SyncSummary, sync_site
+from tests.helpers import site_builder
+from tests.helpers.site_builder import chain, site_toml, write_site
 
 TODAY = date(2026, 12, 31)
 """The "real" date the tests record on (entries may not describe a later day)."""
 WRITTEN = datetime(2026, 3, 2, 17, 30, tzinfo=UTC)
 
-SITE_TOML = """\
-[site]
-name = "Test yard (invented)"
-start = 2026-03-02
-finish_by = 2026-06-30
-calendar = "weekdays"
-
-[calendars.weekdays]
-workdays = ["mon", "tue", "wed", "thu", "fri"]
-
-[crews.groundworks]
-available = 6
-"""
+SITE_TOML = site_toml(
+    "Test yard (invented)",
+    date(2026, 3, 2),
+    finish_by=date(2026, 6, 30),
+    crews={"groundworks": 6},
+)
 
 
 def schedule_toml(revision: int, ids: tuple[str, ...] = ("A10", "A20", "A30")) -> str:
     """A chain of activities ``ids`` (5 days each) at ``revision``."""
-    parts = [f"revision = {revision}\n"]
-    prev = None
-    for aid in ids:
-        parts.append(f'\n[[activity]]\nid = "{aid}"\nname = "Work {aid}"\nduration = 5\n')
-        if prev:
-            parts.append(f'after = ["{prev}"]\n')
-        prev = aid
-    return "".join(parts)
+    return site_builder.schedule_toml(revision, chain(ids))
 
 
 def make_site(
@@ -56,11 +44,7 @@ def make_site(
     ids: tuple[str, ...] = ("A10", "A20", "A30"),
 ) -> Path:
     """Create a valid site folder (site.toml, schedule.toml, empty log/)."""
-    folder.mkdir(parents=True, exist_ok=True)
-    (folder / "site.toml").write_text(SITE_TOML, encoding="utf-8")
-    (folder / "schedule.toml").write_text(schedule_toml(revision, ids), encoding="utf-8")
-    (folder / "log").mkdir(exist_ok=True)
-    return folder
+    return write_site(folder, SITE_TOML, schedule_toml(revision, ids), log=True)
 
 
 def journal_name(day: date, device: str) -> str:
