@@ -12,7 +12,6 @@ from __future__ import annotations
 import json
 from datetime import date
 
-from golden_files import assert_golden
 from test_lookahead_oracle import act, make_site
 
 from fieldlog.engine.cpm import compute_schedule
@@ -21,6 +20,7 @@ from fieldlog.lookahead.fewest_text import lines, raised_line
 from fieldlog.reports.lookahead_data import render_json
 from fieldlog.reports.lookahead_text import render_text
 from fieldlog.site.model import Link
+from tests.helpers.golden_files import assert_golden
 
 SUN = date(2026, 3, 1)
 

@@ -5,7 +5,7 @@ fresh process, as in the office. Prints wall times and ratios against a referenc
 the same run on the same folders: a process that reads every site's TOML files with tomllib
 and does nothing else (the cost of looking at the files at all). Cold = an empty fieldlog cache
 folder; warm = the cache the cold run left. Target: `fieldlog sites` on 100 sites <= 5 s.
-Data is invented (tests/office_sites.py).
+Data is invented (tests/helpers/office_sites.py).
 """
 
 from __future__ import annotations
@@ -20,7 +20,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path[:0] = [str(ROOT), str(ROOT / "tests")]
 
-from office_sites import make_sites  # noqa: E402
+from tests.helpers.office_sites import make_sites  # noqa: E402
 
 REFERENCE = """
 import sys, tomllib

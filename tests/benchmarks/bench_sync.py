@@ -22,7 +22,7 @@ sys.path.insert(0, str(ROOT))
 from fieldlog.journal.reader import EntryList, Journal  # noqa: E402
 from fieldlog.journal.record import _append, _Signer  # noqa: E402
 from fieldlog.sync import SyncOptions, sync_site  # noqa: E402
-from tests.sync_helpers import WRITTEN, fixed_key, make_site  # noqa: E402
+from tests.helpers.sync_helpers import WRITTEN, fixed_key, make_site  # noqa: E402
 
 DAYS_PER_DEVICE = 10
 
