@@ -52,8 +52,9 @@ Every entry point takes the compiled site, or a plain :class:`Site` that it comp
 (convenient for one-off callers and tests; a caller that recomputes should compile once).
 
 A 10,000-activity site recomputes in about ten milliseconds, rows included in a few tens (see
-tests/benchmarks/bench_cpm.py). tests/reference_cpm.py keeps the earlier one-activity-at-a-time
-engine, and tests/test_cpm_differential.py checks that both agree on random sites.
+tests/benchmarks/bench_cpm.py). tests/helpers/reference_cpm.py keeps the earlier
+one-activity-at-a-time engine, and tests/test_cpm_differential.py checks that both agree on
+random sites.
 """
 
 from __future__ import annotations
