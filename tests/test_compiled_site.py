@@ -2,7 +2,7 @@
 the Site.
 
 The schedule computed from a compiled site must equal the one computed from the plain Site
-and the one of the independent reference engine (tests/reference_cpm.py, the one-activity-
+and the one of the independent reference engine (tests/helpers/reference_cpm.py, the one-activity-
 at-a-time passes); the compiled value must survive a pickle round trip (the site cache may
 store it beside the Site) and give the same schedule afterwards.
 """
@@ -22,7 +22,7 @@ from fieldlog.engine.compiled import CompiledSite, compile_site, compiled
 from fieldlog.engine.cpm import compute_schedule
 from fieldlog.lookahead import build_lookahead
 from fieldlog.site.cache import frozen_mapping
-from tests import reference_cpm
+from tests.helpers import reference_cpm
 from tests.test_cpm_differential import assert_same, random_case
 
 

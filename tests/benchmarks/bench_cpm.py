@@ -9,8 +9,8 @@ For each size it prints (best of N rounds; each round runs the four measurements
 
 * ``recompute``: ``compute_schedule`` on the same compiled site again, as the app does after
   an entry (the site compiled once, calendars cached). The result's rows are not built;
-* ``+ rows``: the same, then reading a row of ``result.activities`` (every row is built). This is what a
-  caller that shows every activity pays;
+* ``+ rows``: the same, then reading a row of ``result.activities`` (every row is built).
+  This is what a caller that shows every activity pays;
 * ``cold``: a plain site value, compiled on the way (the network is sorted again), rows
   included;
 * ``networkx``: ``networkx.dag_longest_path_length`` alone on the same network (the graph is
