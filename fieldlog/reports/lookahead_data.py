@@ -139,6 +139,7 @@ def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | N
                 "bound_to": _iso(days[a.bound.last]),
                 "bound_person_days": a.bound.person_days,
                 "bound_work_days": a.bound.work_days,
+                "bound_days": [_iso(days[d]) for d in a.bound.days],
                 "load": list(a.load),
             }
             for a in fewest.crews
@@ -154,6 +155,16 @@ def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | N
                 "crew": dict(m.crew),
             }
             for m in fewest.moves
+        ],
+        "raised": [
+            {
+                "crew": r.crew,
+                "early_peak": r.early_peak,
+                "people": r.peak,
+                "available": r.available,
+                "to_make_room_for": list(r.room_for),
+            }
+            for r in fewest.raised
         ],
     }
 
