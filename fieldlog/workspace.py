@@ -55,7 +55,7 @@ def load_state(folder: Path | str, as_of: date | None = None) -> SiteState:
 def state_for(folder: Path, site: Site, journal: Journal, as_of: date | None = None) -> SiteState:
     """Schedule an already-loaded site and journal as of ``as_of``."""
     status = as_of or default_status_date(site, journal)
-    rp = replay(site, journal.entries, status)
+    rp = replay(site, journal, status)
     result = compute_schedule(
         site, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
     )
