@@ -44,7 +44,7 @@ def sample_site(tmp_path: Path) -> Path:
 @pytest.fixture
 def synced_sample(sample_site: Path, tmp_path: Path) -> tuple[Path, Path]:
     """A scratch copy of the sample site after one clean sync with an empty office folder."""
-    from tests.sync_helpers import sync
+    from tests.helpers.sync_helpers import sync
 
     office = tmp_path / "office"
     office.mkdir()

@@ -12,7 +12,6 @@ from datetime import date, timedelta
 from pathlib import Path
 
 import pytest
-from test_journal_helpers import AUTHOR, make_site
 
 from fieldlog import bounds
 from fieldlog.cli import main
@@ -20,6 +19,7 @@ from fieldlog.commands.arguments import shift_day
 from fieldlog.errors import OutOfBounds
 from fieldlog.guarded_read import check_nesting
 from fieldlog.journal.device import DEVICE_FILE
+from tests.helpers.journal_helpers import AUTHOR, make_site
 
 TODAY = "2026-09-25"
 

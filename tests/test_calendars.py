@@ -20,7 +20,7 @@ from hypothesis import strategies as st
 from fieldlog.engine.calendars import build_calendar, build_calendars, public_holidays
 from fieldlog.errors import CalendarError
 from fieldlog.site.model import CalendarSpec
-from tests.engine_helpers import np_calendar, np_date
+from tests.helpers.engine_helpers import np_calendar, np_date
 
 ORIGIN = date(2023, 1, 1)
 END = date(2030, 1, 1)

@@ -12,11 +12,11 @@ from pathlib import Path
 
 import pytest
 from conftest import SAMPLE_SITE
-from golden_files import assert_golden
 
 from fieldlog.checks.baseline import earliest_history_file, load_baseline
 from fieldlog.cli import main
 from fieldlog.site.files import load_site
+from tests.helpers.golden_files import assert_golden
 
 
 def test_sample_report_is_golden_and_exits_1(capsys: pytest.CaptureFixture[str]) -> None:

@@ -18,7 +18,6 @@ from __future__ import annotations
 from datetime import date, timedelta
 
 import pytest
-from engine_helpers import MONDAY, make_site
 
 from fieldlog.checks import dates, logic, path
 from fieldlog.checks.baseline import planned_baseline
@@ -27,6 +26,7 @@ from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.progress import Progress
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.site.model import Site
+from tests.helpers.engine_helpers import MONDAY, make_site
 
 BEFORE = MONDAY - timedelta(days=1)
 

@@ -1,11 +1,11 @@
 """The array engine against the plain reference engine, field by field, on random sites.
 
-:mod:`fieldlog.engine.cpm` computes the passes level by level with numpy. ``tests/reference_cpm.py``
-is the engine as it was before: one activity at a time in topological order, checked by the
-oracle tests (networkx, numpy busday functions, textbook examples, brute force). Here both run
-on the same random sites and must agree exactly: every field of every ActivityResult (with the
-same Python types), the finish, finish float, driving path, lowest-float set, out-of-sequence
-list and the calendar range.
+:mod:`fieldlog.engine.cpm` computes the passes level by level with numpy.
+``tests/helpers/reference_cpm.py`` is the engine as it was before: one activity at a time in
+topological order, checked by the oracle tests (networkx, numpy busday functions, textbook examples,
+brute force). Here both run on the same random sites and must agree exactly: every field of every
+ActivityResult (with the same Python types), the finish, finish float, driving path, lowest-float
+set, out-of-sequence list and the calendar range.
 
 The sites are drawn from a seeded generator (one seed per test case, so a failure names the
 seed that reproduces it). They mix every link type, lags and leads, one to three calendars
@@ -37,8 +37,8 @@ from fieldlog.site.model import (
     LinkType,
     Site,
 )
-from tests import reference_cpm
 from tests.benchmarks.synthetic import synthetic_site
+from tests.helpers import reference_cpm
 
 MONDAY = date(2026, 3, 2)
 _TYPES = tuple(LinkType)

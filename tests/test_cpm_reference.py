@@ -24,7 +24,7 @@ from hypothesis import strategies as st
 from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.progress import Progress
 from fieldlog.site.model import CalendarSpec, LagCalendar
-from tests.engine_helpers import (
+from tests.helpers.engine_helpers import (
     ALLWEEK,
     MONDAY,
     WEEKDAYS,

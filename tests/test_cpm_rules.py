@@ -23,7 +23,7 @@ from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.progress import Progress, Status
 from fieldlog.engine.result import ActivityResult
 from fieldlog.site.model import CalendarSpec, LagCalendar
-from tests.engine_helpers import ALLWEEK, MONDAY, WEEKDAYS, before_start, make_site
+from tests.helpers.engine_helpers import ALLWEEK, MONDAY, WEEKDAYS, before_start, make_site
 
 D = date.fromisoformat
 WK = "weekdays"

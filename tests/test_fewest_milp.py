@@ -3,8 +3,8 @@
 The brute force in tests/test_fewest_people.py checks what may move and where (the problem)
 as well as the answer, but only on a handful of activities. Here the same problem, as built by
 fieldlog.lookahead.fewest_problem, is handed to an outside solver as a 0-1 program
-(tests/milp_reference.py, run in a child process). Checked, crew by crew in the order answered,
-under the same limits fieldlog keeps (crews already answered at their answers, the others
+(tests/helpers/milp_reference.py, run in a child process). Checked, crew by crew in the order
+answered, under the same limits fieldlog keeps (crews already answered at their answers, the others
 within their headcount or early peak):
 
 * the answer is never below the solver's optimum (it would have to break a limit);
@@ -33,7 +33,7 @@ from fieldlog.site.model import Link
 pytestmark = pytest.mark.skipif(
     importlib.util.find_spec("scipy") is None, reason="scipy (test extra) is not installed"
 )
-REFERENCE = Path(__file__).with_name("milp_reference.py")
+REFERENCE = Path(__file__).parent / "helpers" / "milp_reference.py"
 SEEDS = (1, 3, 4)
 
 START = date(2026, 3, 2)

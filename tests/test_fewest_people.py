@@ -227,6 +227,17 @@ def _check_plan(site, result, la, cals) -> None:
         # A crew settled later may rise above its early peak to make room for one settled
         # earlier, never above its headcount (or its early peak, if that is higher).
         assert answer.peak <= max(answer.available, answer.early_peak)
+    # Every crew the plan puts above its early peak is listed (the sheet says so), and no other.
+    early_places = {r.id: _early_placement(r) for r in result.activities if r.id in places}
+    early_load = _loads(site, result, cals, early_places, la.days)
+    raised = {
+        c: (max(early_load[c]), max(load[c]))
+        for c in site.crews
+        if max(load[c], default=0) > max(early_load[c], default=0)
+    }
+    assert {r.crew: (r.early_peak, r.peak) for r in fewest.raised} == raised
+    for r in fewest.raised:
+        assert r.peak <= r.available
 
 
 @settings(

@@ -15,7 +15,7 @@ import pytest
 from fieldlog.cli import main
 from fieldlog.history import BUCKETS
 from tests.conftest import SAMPLE_SITE
-from tests.golden_files import assert_golden
+from tests.helpers.golden_files import assert_golden
 
 
 def run(capsys: pytest.CaptureFixture[str], *args: str) -> tuple[int, str, str]:

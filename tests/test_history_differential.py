@@ -18,8 +18,8 @@ from fieldlog.journal import read_journal, replay
 from fieldlog.reports.schedule_sheet import render_schedule
 from fieldlog.site.files import load_site
 from tests.conftest import SAMPLE_SITE
-from tests.engine_helpers import make_site
-from tests.history_helpers import Log
+from tests.helpers.engine_helpers import make_site
+from tests.helpers.history_helpers import Log
 
 
 def test_every_logged_day_matches_schedule_as_of(capsys: pytest.CaptureFixture[str]) -> None:

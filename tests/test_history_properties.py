@@ -31,8 +31,8 @@ from fieldlog.journal import replay
 from fieldlog.journal.entries import Entry
 from fieldlog.lookahead import Cell, build_lookahead
 from fieldlog.site.model import Site
-from tests.engine_helpers import make_site
-from tests.history_helpers import Log
+from tests.helpers.engine_helpers import make_site
+from tests.helpers.history_helpers import Log
 
 QUIET = {
     "weather",

@@ -52,8 +52,8 @@ from datetime import date, timedelta
 import pytest
 
 from fieldlog.history import NOT_EXPLAINED, build_history
-from tests.engine_helpers import make_site
-from tests.history_helpers import Log
+from tests.helpers.engine_helpers import make_site
+from tests.helpers.history_helpers import Log
 
 D = date(2026, 3, 2)
 

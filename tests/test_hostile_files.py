@@ -22,9 +22,9 @@ from pathlib import Path
 
 import pytest
 import tomli_w
-from test_journal_helpers import DEVICE, ROOT, make_site, rec
 
 from fieldlog.journal.chain import entry_hash
+from tests.helpers.journal_helpers import DEVICE, ROOT, make_site, rec
 
 MAX_SECONDS = 5.0
 MAX_RSS_MB = 200

@@ -21,10 +21,10 @@ import time
 from datetime import date
 
 import pytest
-from test_journal_helpers import AUTHOR, DEVICE, ROOT, FixedClock, make_site
 
 from fieldlog.journal import read_journal, record_entry, verify
 from fieldlog.site.files import load_site
+from tests.helpers.journal_helpers import AUTHOR, DEVICE, ROOT, FixedClock, make_site
 
 pytestmark = pytest.mark.skipif(
     not hasattr(signal, "SIGKILL") or not hasattr(os, "fork"), reason="needs POSIX signals and fork"

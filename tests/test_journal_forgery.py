@@ -22,12 +22,12 @@ from pathlib import Path
 import pytest
 import tomli_w
 from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
-from test_journal_helpers import run_cli
 
 from fieldlog.cli import main
 from fieldlog.journal import read_journal
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.signing import sign
+from tests.helpers.journal_helpers import run_cli
 
 LAPTOP = "site-laptop-1"
 TABLET = "tablet-2"

@@ -13,7 +13,14 @@ from datetime import date, time
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from test_journal_helpers import (
+
+from fieldlog.cli import main
+from fieldlog.errors import EntryRefused
+from fieldlog.journal import KINDS, device_id, read_journal, record_entry, verify
+from fieldlog.journal.device import new_device_id
+from fieldlog.journal.names import DEVICE_RE, file_name, parse_file_name
+from fieldlog.site.files import load_site
+from tests.helpers.journal_helpers import (
     AUTHOR,
     DEVICE,
     TODAY,
@@ -23,13 +30,6 @@ from test_journal_helpers import (
     rec,
     run_cli,
 )
-
-from fieldlog.cli import main
-from fieldlog.errors import EntryRefused
-from fieldlog.journal import KINDS, device_id, read_journal, record_entry, verify
-from fieldlog.journal.device import new_device_id
-from fieldlog.journal.names import DEVICE_RE, file_name, parse_file_name
-from fieldlog.site.files import load_site
 
 
 @pytest.fixture
@@ -496,7 +496,7 @@ def test_the_sample_journal_is_what_the_generator_writes(tmp_path):
     import shutil
     import sys
 
-    from test_journal_helpers import ROOT
+    from tests.helpers.journal_helpers import ROOT
 
     sample = ROOT / "sample_sites" / "kestrel-yard"
     copy = tmp_path / "kestrel-yard"

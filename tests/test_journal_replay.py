@@ -14,11 +14,11 @@ from types import MappingProxyType
 import numpy as np
 from hypothesis import given, settings
 from hypothesis import strategies as st
-from test_journal_helpers import make_site, rec
 
 from fieldlog.journal import Entry, replay
 from fieldlog.site.files import load_site
 from fieldlog.workspace import load_state
+from tests.helpers.journal_helpers import make_site, rec
 
 D = date(2026, 9, 1)
 

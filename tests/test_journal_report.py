@@ -14,11 +14,11 @@ from datetime import date
 from pathlib import Path
 
 import pytest
-from test_journal_helpers import OTHER, FixedClock, make_site, rec
 
 from fieldlog.cli import main
 from fieldlog.reports.daily_report import WIDTH, render_daily_report
 from fieldlog.workspace import load_state
+from tests.helpers.journal_helpers import OTHER, FixedClock, make_site, rec
 
 GOLDEN = Path(__file__).parent / "golden" / "daily_report.txt"
 DAY = date(2026, 9, 10)

@@ -17,11 +17,11 @@ import time
 from datetime import date
 
 import pytest
-from test_journal_helpers import DEVICE, ROOT, log_bytes, make_site, rec
 
 from fieldlog import durable
 from fieldlog.errors import JournalError
 from fieldlog.journal import read_journal, store, verify
+from tests.helpers.journal_helpers import DEVICE, ROOT, log_bytes, make_site, rec
 
 
 @pytest.fixture

@@ -11,11 +11,11 @@ import hashlib
 from datetime import date
 
 import pytest
-from test_journal_helpers import DEVICE, make_site, rec, run_cli
 
 from fieldlog.errors import JournalError
 from fieldlog.journal import check_journal_bytes, verify
 from fieldlog.journal.chain import canonical, entry_hash
+from tests.helpers.journal_helpers import DEVICE, make_site, rec, run_cli
 
 DAY_FILE = f"2026-09-08_{DEVICE}.toml"
 SEP = "\n[[entry]]\n"

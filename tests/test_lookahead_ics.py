@@ -17,12 +17,12 @@ from pathlib import Path
 import icalendar
 import pytest
 from conftest import SAMPLE_SITE
-from golden_files import assert_golden
 
 from fieldlog.cli import main
 from fieldlog.lookahead.build import build_lookahead
 from fieldlog.lookahead.classify import Cell
 from fieldlog.workspace import load_state
+from tests.helpers.golden_files import assert_golden
 
 AS_OF = "2026-09-25"
 

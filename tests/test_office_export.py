@@ -17,13 +17,13 @@ from pathlib import Path
 
 import pytest
 from conftest import SAMPLE_SITE
-from office_sites import TODAY, make_sites
 
 from fieldlog.cli import main
 from fieldlog.journal import record_entry
 from fieldlog.office import Outcome, expand_sites, export_sites
 from fieldlog.site.files import load_site
 from fieldlog.sync.rollup import rollup
+from tests.helpers.office_sites import TODAY, make_sites
 
 SITES = 100
 

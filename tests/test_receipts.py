@@ -28,7 +28,7 @@ from fieldlog.journal.keys import public_hex
 from fieldlog.journal.registry import DeviceRecord, key_file_bytes
 from fieldlog.sync.audit import known_device
 from fieldlog.sync.receipt_files import home_folder
-from tests.sync_helpers import append_entry, fixed_key, sync
+from tests.helpers.sync_helpers import append_entry, fixed_key, sync
 
 
 def key_file(device: str) -> bytes:

@@ -13,7 +13,7 @@ from pathlib import Path
 import pytest
 
 from fieldlog.cli import main
-from tests.golden_files import assert_golden
+from tests.helpers.golden_files import assert_golden
 
 SMALL = Path(__file__).parent / "data" / "small-site"
 

@@ -5,9 +5,8 @@ from __future__ import annotations
 
 from datetime import date
 
-from sync_helpers import append_entry, make_site, sync
-
 from fieldlog.journal import verify
+from tests.helpers.sync_helpers import append_entry, make_site, sync
 
 MON = date(2026, 3, 2)
 

@@ -15,7 +15,7 @@ from pathlib import Path
 import pytest
 
 from fieldlog.cli import main
-from tests.sync_helpers import sync, tree
+from tests.helpers.sync_helpers import sync, tree
 from tests.test_journal_forgery import FORGED_TEXT, FORGERIES
 
 

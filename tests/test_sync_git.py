@@ -18,7 +18,6 @@ import time
 from pathlib import Path
 
 import pytest
-from sync_helpers import append_entry, journal_name, make_site, schedule_toml
 
 from fieldlog.cli import main
 from fieldlog.errors import SyncError
@@ -26,6 +25,7 @@ from fieldlog.sync import SyncOptions
 from fieldlog.sync.git_remote import branch_for, parse_remote
 from fieldlog.sync.git_transport import sync_git
 from fieldlog.sync.git_tree import _path_problem
+from tests.helpers.sync_helpers import append_entry, journal_name, make_site, schedule_toml
 
 pytestmark = pytest.mark.skipif(
     shutil.which("git") is None, reason="needs the git CLI (.ci/run installs it)"

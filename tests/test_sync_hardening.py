@@ -27,7 +27,7 @@ from fieldlog.cli import main
 from fieldlog.sync import transfer
 from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.scan import MAX_FILE_BYTES
-from tests.sync_helpers import append_entry, make_site, schedule_toml, sync, tree
+from tests.helpers.sync_helpers import append_entry, make_site, schedule_toml, sync, tree
 
 MON, TUE = date(2026, 3, 2), date(2026, 3, 3)
 

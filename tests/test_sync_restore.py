@@ -15,7 +15,7 @@ import pytest
 
 from fieldlog.cli import main
 from fieldlog.sync.receipt_files import home_folder
-from tests.sync_helpers import sync, tree
+from tests.helpers.sync_helpers import sync, tree
 from tests.test_receipts import CASES, LAPTOP, device_files, last_entries
 
 
@@ -90,7 +90,7 @@ def test_new_entries_from_another_device_are_not_a_restore(synced_sample, tmp_pa
     shutil.rmtree(other / "receipts")
     from datetime import date
 
-    from tests.sync_helpers import append_entry
+    from tests.helpers.sync_helpers import append_entry
 
     append_entry(other, date(2026, 9, 28), "tab-east-9", "crane booked")
     assert sync(other, office, home=tmp_path / "other-home").exit_code == 0

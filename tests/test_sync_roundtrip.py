@@ -21,8 +21,8 @@ from fieldlog.commands.sync import PROGRESS_MIN_FILES
 from fieldlog.journal import device_id, read_journal
 from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.summary import render_text
-from tests.golden_files import assert_golden
-from tests.sync_helpers import append_entry, make_site, schedule_toml, sync, tree
+from tests.helpers.golden_files import assert_golden
+from tests.helpers.sync_helpers import append_entry, make_site, schedule_toml, sync, tree
 
 MON, TUE = date(2026, 3, 2), date(2026, 3, 3)
 

@@ -24,7 +24,14 @@ from fieldlog.sync import list_conflicts, transfer
 from fieldlog.sync.revision import RevisionStatus
 from fieldlog.sync.scan import MAX_FILE_BYTES
 from fieldlog.sync.summary import render_text
-from tests.sync_helpers import append_entry, journal_name, make_site, schedule_toml, sync, tree
+from tests.helpers.sync_helpers import (
+    append_entry,
+    journal_name,
+    make_site,
+    schedule_toml,
+    sync,
+    tree,
+)
 
 MON, TUE, WED = date(2026, 3, 2), date(2026, 3, 3), date(2026, 3, 4)
 

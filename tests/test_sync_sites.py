@@ -14,7 +14,7 @@ from datetime import date
 import numpy as np
 
 from fieldlog.cli import main
-from tests.sync_helpers import append_entry, make_site
+from tests.helpers.sync_helpers import append_entry, make_site
 
 START, FINISH_BY = date(2026, 3, 2), date(2026, 6, 30)
 

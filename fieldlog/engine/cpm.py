@@ -48,8 +48,9 @@ How it is computed, so the app can recompute after every journal entry:
 * :mod:`fieldlog.engine.rows` builds the per-activity result rows only when they are read.
 
 A 10,000-activity site recomputes in about ten milliseconds, rows included in a few tens (see
-tests/benchmarks/bench_cpm.py). tests/reference_cpm.py keeps the earlier one-activity-at-a-time
-engine, and tests/test_cpm_differential.py checks that both agree on random sites.
+tests/benchmarks/bench_cpm.py). tests/helpers/reference_cpm.py keeps the earlier
+one-activity-at-a-time engine, and tests/test_cpm_differential.py checks that both agree on
+random sites.
 """
 
 from __future__ import annotations

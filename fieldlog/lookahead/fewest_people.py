@@ -21,7 +21,9 @@ How the answer is found and how sure it is:
 * **several crews** are settled one after another, the most over first: each is as small as it
   can be while the crews already settled keep their answers and every other crew stays within
   its headcount (or its early-start peak, if that is higher). An activity that needs two crews
-  counts for both;
+  counts for both. So a crew settled later, or one not asked about, may end above its
+  early-start peak (never above its headcount) to make room for a crew settled before it; the
+  plan lists every such crew (:class:`Raised`) so the sheet can say so;
 * the node budget is a count of starts tried, not a clock, so the same site always gives the
   same answer (printed sheets and golden files stay stable).
 
@@ -84,6 +86,19 @@ class CrewAnswer:
 
 
 @dataclass(frozen=True)
+class Raised:
+    """A crew whose plan peak is above its early-start peak: it takes work moved to make room
+    for crews settled before it, and stays within its headcount."""
+
+    crew: str
+    early_peak: int
+    peak: int
+    available: int
+    room_for: tuple[str, ...]
+    """The crews settled before it (for a crew not asked about: every crew settled)."""
+
+
+@dataclass(frozen=True)
 class FewestPeople:
     """The plan for the crews asked about, and how sure it is."""
 
@@ -98,6 +113,8 @@ class FewestPeople:
     budget: int
     finish: date
     """Forecast finish, which the plan keeps."""
+    raised: tuple[Raised, ...] = ()
+    """Crews the plan puts above their early-start peak, in settling order, then by name."""
 
 
 def near_headcount(available: int, early_peak: int) -> bool:
@@ -157,6 +174,14 @@ def fewest_people(
         caps[crew] = peak
         answers.append((crew, early[crew], peak, bound, optimal))
     final = loads_of(problem, plan)
+    settled = [c for c, *_ in answers]
+    raised = tuple(
+        Raised(c, early[c], top, available[c], tuple(settled[: settled.index(c)]))
+        if c in settled
+        else Raised(c, early[c], top, available[c], tuple(settled))
+        for c in [*settled, *sorted(set(problem.crews) - set(settled))]
+        if (top := max(final[c], default=0)) > early[c]
+    )
     return FewestPeople(
         METHOD,
         tuple(
@@ -166,6 +191,7 @@ def fewest_people(
         budget - left,
         budget,
         result.finish,
+        raised,
     )
 
 

@@ -2,8 +2,10 @@
 
 One sentence per crew, always with its proof beside it: "groundworks: 8 people, optimal" when
 the plan meets its lower bound or the search ruled out anything smaller, else "8 people; no plan
-needs fewer than 7". Then the starts to move, then what the bound rests on, then the caution
-that a smaller crew is a suggestion and not a safe staffing level.
+needs fewer than 7". Then the starts to move, then any crew the moves put above its early-start
+peak (a crew settled later makes room for one settled before it, within its headcount: the
+rule is printed where it applies, so a higher number is never a surprise), then what the bound
+rests on, then the caution that a smaller crew is a suggestion and not a safe staffing level.
 """
 
 from __future__ import annotations
@@ -11,7 +13,7 @@ from __future__ import annotations
 from datetime import date
 
 from fieldlog.lookahead.fewest_bounds import LowerBound
-from fieldlog.lookahead.fewest_people import CAUTION, CrewAnswer, FewestPeople
+from fieldlog.lookahead.fewest_people import CAUTION, CrewAnswer, FewestPeople, Raised
 from fieldlog.lookahead.reasons import date_text, working_days
 
 
@@ -41,6 +43,16 @@ def moves_line(fewest: FewestPeople) -> str:
         return f"With {crews}: every start stays on its early date."
     moves = ", ".join(f"{m.activity} ({m.name}) to {date_text(m.start)}" for m in fewest.moves)
     return f"With {crews}: move {moves}."
+
+
+def raised_line(raised: Raised) -> str:
+    """``fixers rises to 4 people (3 if all work starts early) to make room for carpenters;
+    never above its headcount of 4.``"""
+    room = ", ".join(raised.room_for)
+    return (
+        f"{raised.crew} rises to {_people(raised.peak)} ({raised.early_peak} if all work starts "
+        f"early) to make room for {room}; never above its headcount of {raised.available}."
+    )
 
 
 def bound_line(answer: CrewAnswer, days: tuple[date, ...]) -> str | None:
@@ -79,6 +91,7 @@ def lines(fewest: FewestPeople, days: tuple[date, ...]) -> list[str]:
     """Every sentence of the section after the title, in print order."""
     out = [crew_line(a) for a in fewest.crews]
     out.append(moves_line(fewest))
+    out += [raised_line(r) for r in fewest.raised]
     out += [t for a in fewest.crews if (t := bound_line(a, days)) is not None]
     out.append(search_line(fewest))
     out.append(CAUTION)

@@ -155,6 +155,16 @@ def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | N
             }
             for m in fewest.moves
         ],
+        "raised": [
+            {
+                "crew": r.crew,
+                "early_peak": r.early_peak,
+                "people": r.peak,
+                "available": r.available,
+                "to_make_room_for": list(r.room_for),
+            }
+            for r in fewest.raised
+        ],
     }
 
 

@@ -281,5 +281,8 @@ def main() -> None:
     )
 
 
+QUICK_ARGS = ("300",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main()

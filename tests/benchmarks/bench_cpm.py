@@ -198,5 +198,8 @@ def main(argv: list[str]) -> None:
         bench_process(10_000)
 
 
+QUICK_ARGS = ("1000",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main(sys.argv[1:])

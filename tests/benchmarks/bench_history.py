@@ -275,5 +275,8 @@ def main(which: str) -> None:
             case("big", big, 60, 10.0)
 
 
+QUICK_ARGS = ("sample",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main(sys.argv[1] if len(sys.argv) > 1 else "all")

@@ -21,14 +21,13 @@ import time
 from datetime import UTC, date, datetime, timedelta
 from pathlib import Path
 
-sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
-
-from test_journal_helpers import make_site  # noqa: E402
+sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
 from fieldlog.journal import read_journal, record_entry  # noqa: E402
 from fieldlog.journal.reader import forget_checks  # noqa: E402
 from fieldlog.journal.store import atomic_write  # noqa: E402
 from fieldlog.site.files import load_site  # noqa: E402
+from tests.helpers.journal_helpers import make_site  # noqa: E402
 
 CLOCK = lambda: datetime(2026, 9, 8, 17, 0, tzinfo=UTC)  # noqa: E731
 
@@ -103,6 +102,9 @@ def main(total: int) -> None:
             f"append warm {a:.1f} ms ({a / b:.1f}x bare), cold {c:.1f} ms ({c / b:.1f}x "
             f"bare); read+check whole log cold {r:.1f} ms"
         )
+
+
+QUICK_ARGS = ("300",)  # tests/benchmarks/run.py --quick
 
 
 if __name__ == "__main__":

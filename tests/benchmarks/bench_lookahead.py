@@ -146,5 +146,8 @@ def main(argv: list[str]) -> None:
     )
 
 
+QUICK_ARGS = ("2000",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main(sys.argv)

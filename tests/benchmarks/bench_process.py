@@ -90,5 +90,8 @@ def main(argv: list[str]) -> None:
         )
 
 
+QUICK_ARGS = ("1000",)  # tests/benchmarks/run.py --quick
+
+
 if __name__ == "__main__":
     main(sys.argv[1:])

@@ -41,7 +41,7 @@ from fieldlog.journal.registry import DeviceRecord, register  # noqa: E402
 from fieldlog.journal.signing import forget_signatures, sign  # noqa: E402
 from fieldlog.journal.store import atomic_write  # noqa: E402
 from fieldlog.site.files import load_site  # noqa: E402
-from tests.test_journal_helpers import make_site  # noqa: E402
+from tests.helpers.journal_helpers import make_site  # noqa: E402
 
 CLOCK = lambda: datetime(2026, 9, 8, 17, 0, tzinfo=UTC)  # noqa: E731
 DEVICES = ("bench-laptop-1", "bench-tablet-2")
@@ -165,6 +165,9 @@ def verify_time(days: int, per_day: int) -> None:
             f"({sig_s / plain_s:.2f}x); {sig_s / n * 1e6:.0f} us per entry"
         )
         shutil.rmtree(signed_site)
+
+
+QUICK_ARGS = ("40", "10")  # tests/benchmarks/run.py --quick
 
 
 if __name__ == "__main__":

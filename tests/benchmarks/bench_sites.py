@@ -5,7 +5,7 @@ fresh process, as in the office. Prints wall times and ratios against a referenc
 the same run on the same folders: a process that reads every site's TOML files with tomllib
 and does nothing else (the cost of looking at the files at all). Cold = an empty fieldlog cache
 folder; warm = the cache the cold run left. Target: `fieldlog sites` on 100 sites <= 5 s.
-Data is invented (tests/office_sites.py).
+Data is invented (tests/helpers/office_sites.py).
 """
 
 from __future__ import annotations
@@ -20,7 +20,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path[:0] = [str(ROOT), str(ROOT / "tests")]
 
-from office_sites import make_sites  # noqa: E402
+from tests.helpers.office_sites import make_sites  # noqa: E402
 
 REFERENCE = """
 import sys, tomllib
@@ -63,6 +63,9 @@ def main() -> None:
         print(f"  {name:<26} {took:6.2f} s   {took / ref:5.1f}x reference")
     worst = max(t for name, t in rows if name.startswith("sites"))
     print(f"fieldlog sites: {'OK' if worst <= 5 else 'OVER'} the 5 s target ({worst:.2f} s)")
+
+
+QUICK_ARGS = ("10",)  # tests/benchmarks/run.py --quick
 
 
 if __name__ == "__main__":

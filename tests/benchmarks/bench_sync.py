@@ -22,7 +22,7 @@ sys.path.insert(0, str(ROOT))
 from fieldlog.journal.reader import Journal  # noqa: E402
 from fieldlog.journal.record import _append  # noqa: E402
 from fieldlog.sync import SyncOptions, sync_site  # noqa: E402
-from tests.sync_helpers import WRITTEN, make_site  # noqa: E402
+from tests.helpers.sync_helpers import WRITTEN, make_site  # noqa: E402
 
 DAYS_PER_DEVICE = 10
 
@@ -88,6 +88,9 @@ def main() -> None:
         print(f"reference plain copy     {ref:7.3f} s")
         print(f"first sync (all sent)    {first:7.3f} s   x{first / ref:5.1f} of reference")
         print(f"second sync (no-op)      {again:7.3f} s   x{again / ref:5.1f} of reference")
+
+
+QUICK_ARGS = ("100",)  # tests/benchmarks/run.py --quick
 
 
 if __name__ == "__main__":

@@ -9,7 +9,7 @@ from __future__ import annotations
 import os
 from pathlib import Path
 
-GOLDEN = Path(__file__).resolve().parent / "golden"
+GOLDEN = Path(__file__).resolve().parent.parent / "golden"
 
 
 def assert_golden(name: str, text: str) -> None:

@@ -13,10 +13,9 @@ import shutil
 from datetime import UTC, date, datetime, timedelta
 from pathlib import Path
 
-from benchmarks.synthetic import START, synthetic_site, write_site_folder
-
 from fieldlog.journal import record_entry
 from fieldlog.site.files import load_site
+from tests.benchmarks.synthetic import START, synthetic_site, write_site_folder
 
 ACTIVITIES = 12
 TODAY = date(2026, 6, 1)

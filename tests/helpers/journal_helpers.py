@@ -78,7 +78,7 @@ DEVICE = "test-laptop-1"
 OTHER = "test-tablet-2"
 AUTHOR = "P. Tester"
 TODAY = date(2026, 9, 25)
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 
 
 def make_site(folder: Path) -> Path:
