@@ -42,6 +42,7 @@ TOMLLIB_ONLY = (
     "for p in sorted(pathlib.Path(sys.argv[1], 'log').glob('*.toml')):\n"
     "    tomllib.loads(p.read_text(encoding='utf-8'))\n"
 )
+QUICK_ARGS = ("20",)  # tests/benchmarks/run.py --quick
 TARGETS = {"record": 0.15, "verify warm": 0.5, "history": 3.0}
 
 
