@@ -74,7 +74,7 @@ def state_for(
     comp = site if isinstance(site, CompiledSite) else compile_site(site)
     site = comp.site
     status = as_of or default_status_date(site, journal)
-    rp = replay(site, journal.entries, status)
+    rp = replay(site, journal, status)
     result = compute_schedule(
         comp, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
     )

@@ -130,7 +130,7 @@ def record_entry(
             day, clean = _correction(site, journal, day, fields, today, site_name)
         else:
             assert day is not None  # set to ``day or today`` above for every other kind
-            view = replay(site, journal.entries, _FAR_FUTURE)
+            view = replay(site, journal, _FAR_FUTURE)
             check_entry(site, view, kind, day, clean, site_name)
         return _append(
             log, journal, device, kind, day, clean, author, clock, _Signer(key, folder, today)
@@ -189,7 +189,7 @@ def _correction(
             f"there is no entry {target_id or '(none given)'} in the log",
             fix="give the id printed when the entry was recorded (see the daily report)",
         )
-    view = replay(site, journal.entries, _FAR_FUTURE)
+    view = replay(site, journal, _FAR_FUTURE)
     if target.id in view.superseded:
         later = view.superseded[target.id]
         raise refuse(

@@ -32,14 +32,9 @@ from __future__ import annotations
 import copyreg
 import dataclasses
 import functools
-import gc
 import hashlib
-import io
 import os
-import pickle
 import sys
-import tempfile
-import time
 import warnings
 from collections.abc import Callable
 from pathlib import Path
@@ -47,6 +42,7 @@ from types import MappingProxyType
 from typing import Any
 
 from fieldlog import __version__
+from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
 from fieldlog.home import HOME_ENV, fieldlog_home
 from fieldlog.site.model import Site
 
@@ -60,8 +56,7 @@ FORMAT = 1
 """Bump when the file layout below changes."""
 
 _MAGIC = b"fieldlog-site-cache\n"
-_PREFIX, _SUFFIX, _TEMP_SUFFIX = "site-", ".pickle", ".tmp"
-_STALE_TEMP_SECONDS = 3600.0
+_PREFIX, _SUFFIX = "site-", ".pickle"
 _SHAPING_MODULES = (
     "cache.py",
     "files.py",
@@ -70,11 +65,6 @@ _SHAPING_MODULES = (
     "model.py",
 )
 """Source files whose code decides what a cached Site holds (all in this package)."""
-
-# What makes a cached file unreadable once its digest matched: a stream pickle refuses
-# (UnpicklingError, EOFError) or a class it names that is no longer there (AttributeError,
-# ImportError). Anything else is a real error and is raised.
-_UNREADABLE = (pickle.UnpicklingError, EOFError, AttributeError, ImportError)
 
 
 class SiteCacheWarning(UserWarning):
@@ -144,7 +134,7 @@ def read_entry(path: Path, key: str) -> Site | None:
         _remove(path)
         return None
     try:
-        os.utime(path)  # most recently used: kept longest by _prune
+        os.utime(path)  # most recently used: kept longest by prune
     except OSError as exc:  # FileNotFoundError too: another process pruned it meanwhile
         _warn(f"cannot mark the site cache {path} as used: {exc.strerror}")
     return site
@@ -159,18 +149,7 @@ def _decode(data: bytes, key: str) -> Site | None:
     payload = data[digest_end:]
     if hashlib.sha256(payload).digest() != data[len(header) : digest_end]:
         return None  # truncated or damaged: a flipped digit must never become a duration
-    # Unpickling a tree of ~40,000 small immutable values creates no reference cycles, but
-    # every allocation counts towards the cycle collector, which then runs again and again
-    # over the growing tree (about 4x the unpickling time itself); it is paused meanwhile.
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
-        site = pickle.loads(payload)
-    except _UNREADABLE:
-        return None
-    finally:
-        if was_enabled:
-            gc.enable()
+    site = unpickle(payload)
     return site if type(site) is Site else None
 
 
@@ -181,60 +160,19 @@ def write_entry(path: Path, key: str, site: Site) -> None:
     """Store ``site`` in ``path`` atomically, then keep only the :data:`KEEP` newest entries."""
     payload = _pickle(site)
     data = b"".join((_MAGIC, key.encode("ascii"), b"\n", hashlib.sha256(payload).digest(), payload))
-    folder = path.parent
-    temp: Path | None = None
     try:
-        folder.mkdir(parents=True, exist_ok=True)
-        fd, name = tempfile.mkstemp(prefix=f".{_PREFIX}", suffix=_TEMP_SUFFIX, dir=folder)
-        temp = Path(name)
-        with os.fdopen(fd, "wb") as out:
-            out.write(data)
-        # No fsync: after a power cut the file may be empty or partial, which the payload
-        # digest turns into a miss; a cache need not survive, only never be wrong.
-        os.replace(temp, path)
-        temp = None
+        replace_file(path, data, _PREFIX)
     except OSError as exc:
         _warn(
-            f"cannot write the site cache in {folder}: {exc.strerror}; the site loads "
+            f"cannot write the site cache in {path.parent}: {exc.strerror}; the site loads "
             f"as usual, only slower (set {HOME_ENV} to a folder you can write)"
         )
         return
-    finally:
-        if temp is not None:
-            _remove(temp)
-    _prune(folder, keep=path)
-
-
-def _prune(folder: Path, keep: Path) -> None:
-    """Delete all but the :data:`KEEP` most recently used entries and old temp files."""
-    entries: list[tuple[float, Path]] = []
-    now = time.time()
-    try:
-        with os.scandir(folder) as it:
-            for item in it:
-                if item.name.startswith(_PREFIX) and item.name.endswith(_SUFFIX):
-                    entries.append((item.stat().st_mtime, Path(item.path)))
-                elif (
-                    item.name.startswith(f".{_PREFIX}")
-                    and item.name.endswith(_TEMP_SUFFIX)
-                    and now - item.stat().st_mtime > _STALE_TEMP_SECONDS
-                ):
-                    _remove(Path(item.path))  # left by a process that was killed mid-write
-    except FileNotFoundError:
-        return  # an entry vanished while listing: another process is pruning
-    except OSError as exc:
-        _warn(f"cannot tidy the site cache in {folder}: {exc.strerror}")
-        return
-    entries.sort(key=lambda e: (e[1] != keep, -e[0]))  # the new entry stays, then newest
-    for _, old in entries[KEEP:]:
-        _remove(old)
+    prune(path.parent, _PREFIX, _SUFFIX, KEEP, path, _warn)
 
 
 def _remove(path: Path) -> None:
-    try:
-        path.unlink(missing_ok=True)
-    except OSError as exc:
-        _warn(f"cannot delete {path}: {exc.strerror}")
+    remove(path, _warn)
 
 
 # --- pickling -----------------------------------------------------------------------------
@@ -264,11 +202,7 @@ _DISPATCH[Site] = _reduce_site
 
 
 def _pickle(site: Site) -> bytes:
-    buf = io.BytesIO()
-    pickler = pickle.Pickler(buf, protocol=pickle.HIGHEST_PROTOCOL)
-    pickler.dispatch_table = _DISPATCH
-    pickler.dump(site)
-    return buf.getvalue()
+    return pickled(site, _DISPATCH)
 
 
 # --- the code's fingerprint ---------------------------------------------------------------
