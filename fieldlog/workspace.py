@@ -15,7 +15,7 @@ from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.readiness import holds
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.journal import Journal, Replay, read_journal, replay
-from fieldlog.site.files import load_site
+from fieldlog.site.files import load_compiled
 from fieldlog.site.model import Site
 
 
@@ -54,9 +54,9 @@ def load_state(folder: Path | str, as_of: date | None = None) -> SiteState:
         JournalError: the log cannot be read.
     """
     folder = Path(folder)
-    site = load_site(folder)
+    comp = load_compiled(folder)  # cached with the site: compiled once per revision
     journal = read_journal(folder)
-    return state_for(folder, site, journal, as_of)
+    return state_for(folder, comp, journal, as_of)
 
 
 def state_for(

@@ -36,16 +36,19 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from datetime import date
 from functools import lru_cache
-
-from cryptography.exceptions import InvalidSignature
-from cryptography.hazmat.primitives.asymmetric.ed25519 import (
-    Ed25519PrivateKey,
-    Ed25519PublicKey,
-)
+from typing import TYPE_CHECKING
 
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.filecheck import CONTENT_EDITED, Finding
 from fieldlog.journal.registry import DEVICES_DIR, Registry, key_file_name
+
+# cryptography is imported where a key or signature is used (about 30 ms of start-up that
+# `fieldlog schedule` on an unsigned or already-checked log never needs).
+if TYPE_CHECKING:
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import (
+        Ed25519PrivateKey,
+        Ed25519PublicKey,
+    )
 
 CONTEXT = b"fieldlog journal entry v1\n"
 """Prefixed to the hash before signing (domain separation)."""
@@ -63,6 +66,8 @@ def sign(key: Ed25519PrivateKey, entry_hash: str) -> str:
 
 @lru_cache(maxsize=64)
 def _public(public_hex: str) -> Ed25519PublicKey:
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PublicKey
+
     return Ed25519PublicKey.from_public_bytes(bytes.fromhex(public_hex))
 
 
@@ -81,6 +86,8 @@ def signature_ok(public_hex: str, entry_hash: str, sig: str) -> bool:
     token = hashlib.blake2b(f"{public_hex}:{entry_hash}:{sig}".encode(), digest_size=20).digest()
     if token in _VERIFIED:
         return True
+    from cryptography.exceptions import InvalidSignature
+
     try:
         _public(public_hex).verify(bytes.fromhex(sig), signed_message(entry_hash))
     except (InvalidSignature, ValueError):

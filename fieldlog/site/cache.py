@@ -4,7 +4,9 @@ Reading ``schedule.toml`` is most of the time of ``fieldlog schedule`` on a larg
 takes about 0.6 s for 10,000 activities, while the CPM pass and the printing take a fraction
 of that. The office changes the schedule once per revision; the field runs commands many
 times a day. So the validated :class:`~fieldlog.site.model.Site` is kept, pickled, in the user's
-cache folder and found again by the content of the two files.
+cache folder and found again by the content of the two files, together with the engine's
+compiled form of it (:class:`~fieldlog.engine.compiled.CompiledSite`: the network as arrays,
+lookups by id), which costs about as much as the rest of a warm command to build.
 
 Where: ``$FIELDLOG_HOME/cache`` when ``FIELDLOG_HOME`` is set, otherwise the platform's cache
 folder (``%LOCALAPPDATA%\\fieldlog\\cache`` on Windows, ``$XDG_CACHE_HOME/fieldlog`` or
@@ -12,14 +14,16 @@ folder (``%LOCALAPPDATA%\\fieldlog\\cache`` on Windows, ``$XDG_CACHE_HOME/fieldl
 office and copied to USB sticks, and a cache there would travel with them.
 
 Key: the sha256 of ``site.toml`` and ``schedule.toml`` bytes, fieldlog's version, the Python
-version and a digest of the code that shapes a Site (this module, ``files``, ``schema``,
-``toml_file`` and ``model``), so an upgrade or an edited validation rule never serves an old answer.
+version and a digest of the code that shapes a Site and its compiled form (this module,
+``files``, ``schema``, ``toml_file``, ``model`` and the engine's ``compiled``,
+``network_arrays`` and ``topology``), so an upgrade or an edited rule never serves an old
+answer.
 
 Safety: each file is written to a temp file in the same folder and moved into place with
 ``os.replace``, so a reader sees a whole file or none. Each file starts with a header holding
 its key and the sha256 of its payload; a file that is truncated, damaged, from another
-version, or does not unpickle to a Site is a miss: it is deleted and rebuilt. Only sites that
-passed validation are stored; errors are always raised again from the files. At most
+version, or does not unpickle to a compiled Site is a miss: it is deleted and rebuilt. Only
+sites that passed validation are stored; errors are always raised again from the files. At most
 :data:`KEEP` files are kept (most recently used first).
 
 Pickle runs code from the file it reads. That is acceptable here: the folder belongs to the
@@ -39,12 +43,15 @@ import warnings
 from collections.abc import Callable
 from pathlib import Path
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from fieldlog import __version__
 from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
 from fieldlog.home import HOME_ENV, fieldlog_home
 from fieldlog.site.model import Site
+
+if TYPE_CHECKING:  # the engine (and numpy) is imported only when an entry is read or built
+    from fieldlog.engine.compiled import CompiledSite
 
 CACHE_SUBFOLDER = "cache"
 """Sub-folder of ``$FIELDLOG_HOME`` that holds the cache."""
@@ -52,19 +59,22 @@ CACHE_SUBFOLDER = "cache"
 KEEP = 8
 """How many cached sites are kept; the least recently used go first."""
 
-FORMAT = 1
+FORMAT = 2
 """Bump when the file layout below changes."""
 
 _MAGIC = b"fieldlog-site-cache\n"
 _PREFIX, _SUFFIX = "site-", ".pickle"
 _SHAPING_MODULES = (
-    "cache.py",
-    "files.py",
-    "schema.py",
-    "toml_file.py",
-    "model.py",
+    "site/cache.py",
+    "site/files.py",
+    "site/schema.py",
+    "site/toml_file.py",
+    "site/model.py",
+    "engine/compiled.py",
+    "engine/network_arrays.py",
+    "engine/topology.py",
 )
-"""Source files whose code decides what a cached Site holds (all in this package)."""
+"""Source files (under fieldlog/) whose code decides what a cached entry holds."""
 
 
 class SiteCacheWarning(UserWarning):
@@ -98,8 +108,10 @@ def cache_key(site_raw: bytes, schedule_raw: bytes) -> str | None:
     return h.hexdigest()
 
 
-def cached_site(site_raw: bytes, schedule_raw: bytes, build: Callable[[], Site]) -> Site:
-    """The Site for these bytes from the cache, else ``build()`` (stored when it succeeds).
+def cached_site(
+    site_raw: bytes, schedule_raw: bytes, build: Callable[[], CompiledSite]
+) -> CompiledSite:
+    """The compiled Site for these bytes from the cache, else ``build()`` (then stored).
 
     ``build`` parses and validates; whatever it raises is raised unchanged and nothing is
     stored. Problems with the cache folder itself (not writable, full) are reported with a
@@ -120,8 +132,9 @@ def cached_site(site_raw: bytes, schedule_raw: bytes, build: Callable[[], Site])
 # --- reading ------------------------------------------------------------------------------
 
 
-def read_entry(path: Path, key: str) -> Site | None:
-    """The Site stored in ``path`` under ``key``; None (and the file deleted) when unusable."""
+def read_entry(path: Path, key: str) -> Any:
+    """The value (a compiled Site, or a Site) stored in ``path`` under ``key``; None (and the
+    file deleted) when unusable."""
     try:
         data = path.read_bytes()
     except (FileNotFoundError, NotADirectoryError):
@@ -140,8 +153,8 @@ def read_entry(path: Path, key: str) -> Site | None:
     return site
 
 
-def _decode(data: bytes, key: str) -> Site | None:
-    """The Site in a cache file's bytes, or None when they are not a whole, matching entry."""
+def _decode(data: bytes, key: str) -> Any:
+    """The value in a cache file's bytes, or None when they are not a whole, matching entry."""
     header = _MAGIC + key.encode("ascii") + b"\n"
     digest_end = len(header) + 32
     if not data.startswith(header) or len(data) < digest_end:
@@ -150,14 +163,21 @@ def _decode(data: bytes, key: str) -> Site | None:
     if hashlib.sha256(payload).digest() != data[len(header) : digest_end]:
         return None  # truncated or damaged: a flipped digit must never become a duration
     site = unpickle(payload)
-    return site if type(site) is Site else None
+    if type(site) is Site:
+        return site
+    from fieldlog.engine.compiled import CompiledSite
+
+    if type(site) is CompiledSite and type(site.site) is Site:
+        return site
+    return None
 
 
 # --- writing ------------------------------------------------------------------------------
 
 
-def write_entry(path: Path, key: str, site: Site) -> None:
-    """Store ``site`` in ``path`` atomically, then keep only the :data:`KEEP` newest entries."""
+def write_entry(path: Path, key: str, site: Site | CompiledSite) -> None:
+    """Store ``site`` (or its compiled form) in ``path`` atomically, then keep only the
+    :data:`KEEP` newest entries."""
     payload = _pickle(site)
     data = b"".join((_MAGIC, key.encode("ascii"), b"\n", hashlib.sha256(payload).digest(), payload))
     try:
@@ -201,7 +221,7 @@ _DISPATCH[MappingProxyType] = _reduce_mapping
 _DISPATCH[Site] = _reduce_site
 
 
-def _pickle(site: Site) -> bytes:
+def _pickle(site: Site | CompiledSite) -> bytes:
     return pickled(site, _DISPATCH)
 
 
@@ -210,13 +230,13 @@ def _pickle(site: Site) -> bytes:
 
 @functools.cache
 def _code_digest() -> str | None:
-    """sha256 of the modules that shape a Site; None turns caching off (source not readable).
+    """sha256 of the modules that shape an entry; None turns caching off (source not readable).
 
     An editable install changes code without changing ``__version__``; a Site pickled by
     older code could lack a field the new code reads, or have passed a check that the new code
     refuses. Reading three small files costs well under a millisecond.
     """
-    here = Path(__file__).parent
+    here = Path(__file__).resolve().parents[1]
     h = hashlib.sha256()
     try:
         for name in _SHAPING_MODULES:
