@@ -17,6 +17,9 @@ from fieldlog.errors import DependencyLoopError, SiteError
 from fieldlog.site.files import load_site
 from fieldlog.site.model import LinkType
 
+# Every test reads its files with rtoml and with it hidden (tests/conftest.py).
+pytestmark = pytest.mark.usefixtures("toml_reader")
+
 SITE = """\
 [site]
 name = "Harbour depot"
