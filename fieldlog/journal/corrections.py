@@ -90,7 +90,10 @@ def resolve_corrections(entries: Sequence[Entry], status_date: date) -> Resolved
             continue  # refused above, and reported there
         if eff is not None and eff.id not in placed:
             placed.add(eff.id)
-            keyed.append((_place(eff, by_id), eff))
+            # An entry standing for itself keeps its own place (what _place gives it too,
+            # without walking a correction chain: most entries of a long log).
+            place = eff.sort_key() if by_id.get(eff.id) is eff else _place(eff, by_id)
+            keyed.append((place, eff))
     keyed.sort(key=lambda pair: pair[0])
     return Resolved([e for _, e in keyed], problems, superseded, alias)
 

@@ -21,7 +21,7 @@ from fieldlog.journal.entries import Entry
 from fieldlog.journal.filecheck import FileCheck, Finding, check_bytes
 from fieldlog.journal.names import LOG_DIR, is_working_file, parse_file_name
 from fieldlog.journal.registry import DeviceRecord, read_registry
-from fieldlog.journal.signing import VerdictKey, check_signatures, signature_ok, verdict_key
+from fieldlog.journal.signing import check_signatures, signature_ok
 
 
 @dataclass(frozen=True)
@@ -67,14 +67,14 @@ def log_folder(folder: Path | str) -> Path:
 def scan(
     folder: Path | str,
     devices: Mapping[str, DeviceRecord] | None = None,
-    verdicts: dict[VerdictKey, bool] | None = None,
+    verdicts: dict[int, bool] | None = None,
 ) -> list[FileCheck]:
     """Check every file in the site's ``log/`` folder (fieldlog's working files excepted).
 
     Files whose check is cached (:mod:`fieldlog.journal.check_cache`) for their exact bytes
     and their device's key in ``devices`` are not parsed again; their signature verdicts go
-    into ``verdicts`` (by :func:`~fieldlog.journal.signing.verdict_key`) for
-    :func:`check_signatures`.
+    into ``verdicts`` by ``id()`` of the entry returned (the checks returned keep every entry
+    alive while :func:`check_signatures` reads them).
     """
     log = log_folder(folder)
     if log.is_symlink():  # never followed: it could lead anywhere on the machine
@@ -145,7 +145,7 @@ def _cached_check(
     name: str,
     data: bytes,
     keys: Mapping[str, str],
-    verdicts: dict[VerdictKey, bool] | None,
+    verdicts: dict[int, bool] | None,
 ) -> FileCheck:
     """One file's check: from this process, from the cache, or made afresh (then cached).
 
@@ -169,7 +169,7 @@ def _cached_check(
     if verdicts is not None:
         for e, ok in zip(cached.check.entries, cached.verdicts, strict=True):
             if ok is not None:
-                verdicts[verdict_key(e)] = ok
+                verdicts[id(e)] = ok
     return remember(name, data, cached.check)
 
 
@@ -232,7 +232,7 @@ def read_journal(folder: Path | str) -> Journal:
             damaged content is reported as findings instead.
     """
     registry = read_registry(folder)
-    verdicts: dict[VerdictKey, bool] = {}
+    verdicts: dict[int, bool] = {}
     checks = scan(folder, registry.devices, verdicts)
     entries = [e for c in checks for e in c.entries]
     entries.sort(key=Entry.sort_key)

@@ -103,15 +103,6 @@ def forget_signatures() -> None:
     _VERIFIED.clear()
 
 
-VerdictKey = tuple[str, int, str, str]
-"""An entry's file, position, hash and signature: what a signature verdict is about."""
-
-
-def verdict_key(e: Entry) -> VerdictKey:
-    """The key of ``e``'s signature verdict (its place and the very values verified)."""
-    return (e.file, e.position, e.hash, e.sig)
-
-
 @dataclass(frozen=True)
 class Checked:
     """The entries that may be used, and every forged one as a finding."""
@@ -128,7 +119,7 @@ def check_signatures(
     entries: Iterable[Entry],
     registry: Registry,
     findings: Iterable[Finding],
-    verdicts: Mapping[VerdictKey, bool] | None = None,
+    verdicts: Mapping[int, bool] | None = None,
 ) -> Checked:
     """Sort ``entries`` into kept and forged (see the module docstring for the rules).
 
@@ -137,8 +128,9 @@ def check_signatures(
         registry: the site's device keys.
         findings: the file checks' findings (content edits are read from them).
         verdicts: signatures already verified against the very key ``registry`` holds for
-            the entry's device, by :func:`verdict_key` (the journal cache's, see
-            :mod:`fieldlog.journal.check_cache`); any other entry is verified here.
+            the entry's device, by ``id()`` of the entry object in ``entries`` (the journal
+            cache's, see :mod:`fieldlog.journal.check_cache`); any other entry is verified
+            here.
     """
     entries = list(entries)
     good = _Verifier(registry, verdicts or {})
@@ -172,7 +164,7 @@ class _Verifier:
     """Whether an entry's signature verifies against its device's registered key, decided
     once per entry: from the verdicts given, else by Ed25519 (remembered per process)."""
 
-    def __init__(self, registry: Registry, verdicts: Mapping[VerdictKey, bool]) -> None:
+    def __init__(self, registry: Registry, verdicts: Mapping[int, bool]) -> None:
         self.registry, self.verdicts = registry, verdicts
         self.seen: dict[int, bool] = {}
         """By ``id()`` of the entry: the caller's list keeps every entry alive meanwhile."""
@@ -184,7 +176,7 @@ class _Verifier:
             if not e.sig or record is None:
                 found = False
             else:
-                known = self.verdicts.get(verdict_key(e))
+                known = self.verdicts.get(id(e))
                 found = (
                     known if known is not None else signature_ok(record.public_key, e.hash, e.sig)
                 )
