@@ -203,3 +203,16 @@ def test_an_unusable_cache_folder_only_warns(sample_site: Path, _isolated_home: 
         journal = read_journal(sample_site)
     assert journal.entries and not journal.findings
     assert any(issubclass(w.category, check_cache.JournalCacheWarning) for w in caught)
+
+
+def test_a_truncated_file_is_checked_afresh(sample_site: Path) -> None:
+    """Cutting a day file short after it was cached: the whole-log numbering check (run on
+    every read, never cached) names the entries that are gone."""
+    cold = read_journal(sample_site)
+    path = sample_site / "log" / DAY_FILE
+    data = path.read_bytes()
+    path.write_bytes(data[: data.rindex(b"[[entry]]")])
+    gone = max((e for e in cold.entries if e.file == DAY_FILE), key=lambda e: e.seq)
+    new_process()
+    removed = {f.entry_id for f in verify(sample_site) if f.problem == "removed"}
+    assert gone.id in removed
