@@ -17,7 +17,7 @@ from pathlib import Path
 from fieldlog.errors import JournalError, OutOfBounds
 from fieldlog.guarded_read import read_capped
 from fieldlog.journal.check_cache import Cached, CheckPack, Verdicts, record_key
-from fieldlog.journal.entries import Entry
+from fieldlog.journal.entries import REPLAY_ORDER, Entry
 from fieldlog.journal.filecheck import FileCheck, Finding, check_bytes
 from fieldlog.journal.names import LOG_DIR, is_working_file, parse_file_name
 from fieldlog.journal.registry import DeviceRecord, read_registry
@@ -235,7 +235,7 @@ def read_journal(folder: Path | str) -> Journal:
     verdicts: dict[int, bool] = {}
     checks = scan(folder, registry.devices, verdicts)
     entries = [e for c in checks for e in c.entries]
-    entries.sort(key=Entry.sort_key)
+    entries.sort(key=REPLAY_ORDER)
     findings = [*registry.findings, *(f for c in checks for f in c.findings)]
     findings += cross_file_findings(entries)
     signatures = check_signatures(entries, registry, findings, verdicts)
