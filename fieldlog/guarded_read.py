@@ -15,6 +15,8 @@ stop a site:
   100,000 ``[`` make it recurse until Python gives up. A cheap pre-scan (strings and comments
   blanked by one regex, then the brackets counted by C-level ``accumulate``) refuses anything
   nested deeper than :data:`fieldlog.bounds.MAX_NESTING`, and dotted keys of that many parts.
+* **a faster reader for big files**: a large schedule is read by rtoml when it is installed
+  (:mod:`fieldlog.fast_toml`); tomllib stays the judge, so a bad file's error is unchanged.
 * **one error for any parse failure**: invalid UTF-8, a NUL byte, a syntax error, a number
   too long to convert, a RecursionError: each is one :class:`~fieldlog.errors.UnreadableToml`
   with the line when tomllib gives one.
@@ -33,6 +35,7 @@ from typing import Any
 
 from fieldlog.bounds import FILE_CAPS, MAX_NESTING, check_size
 from fieldlog.errors import OutOfBounds, UnreadableToml
+from fieldlog.fast_toml import fast_loads
 
 _STRINGS_AND_COMMENTS = re.compile(
     r'"""[\s\S]*?"""|\'\'\'[\s\S]*?\'\'\'|"(?:[^"\\\n]++|\\.)*+"|\'[^\'\n]*+\'|#[^\n]*+'
@@ -108,7 +111,10 @@ def loads(raw: bytes | str, kind: str, what: str, *, bom: bool = False) -> dict[
     else:
         check_size(len(raw), kind, what)
         text = raw
-    check_nesting(text)
+    code = check_nesting(text)
+    fast = fast_loads(text, code)
+    if fast is not None:
+        return fast
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
@@ -134,8 +140,10 @@ def decode(raw: bytes, *, bom: bool = False) -> str:
         raise UnreadableToml(f"not UTF-8 text (byte {exc.start})") from exc
 
 
-def check_nesting(text: str) -> None:
+def check_nesting(text: str) -> str:
     """Refuse TOML nested deeper than MAX_NESTING, without parsing (linear, C-level loops).
+
+    Returns the text with strings and comments blanked, which the fast reader scans too.
 
     Raises:
         UnreadableToml: too deep; the line of the first dotted key too long is named.
@@ -158,6 +166,7 @@ def check_nesting(text: str) -> None:
             f"arrays or tables are nested more than {MAX_NESTING} deep",
             fix="this is not a file fieldlog wrote or expects",
         )
+    return code
 
 
 def _first_words(exc: BaseException) -> str:

@@ -10,11 +10,12 @@ from dataclasses import dataclass
 from datetime import date, timedelta
 from pathlib import Path
 
+from fieldlog.engine.compiled import CompiledSite, compile_site
 from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.readiness import holds
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.journal import Journal, Replay, read_journal, replay
-from fieldlog.site.files import load_site
+from fieldlog.site.files import load_compiled
 from fieldlog.site.model import Site
 
 
@@ -27,6 +28,12 @@ class SiteState:
     journal: Journal
     replay: Replay
     schedule: ScheduleResult
+
+    @property
+    def compiled(self) -> CompiledSite:
+        """The site's compiled form the schedule was computed from (pass it to
+        :func:`state_for` to recompute without compiling again)."""
+        return self.schedule.compiled
 
     @property
     def as_of(self) -> date:
@@ -47,16 +54,28 @@ def load_state(folder: Path | str, as_of: date | None = None) -> SiteState:
         JournalError: the log cannot be read.
     """
     folder = Path(folder)
-    site = load_site(folder)
+    comp = load_compiled(folder)  # cached with the site: compiled once per revision
     journal = read_journal(folder)
-    return state_for(folder, site, journal, as_of)
+    return state_for(folder, comp, journal, as_of)
 
 
-def state_for(folder: Path, site: Site, journal: Journal, as_of: date | None = None) -> SiteState:
-    """Schedule an already-loaded site and journal as of ``as_of``."""
+def state_for(
+    folder: Path,
+    site: Site | CompiledSite,
+    journal: Journal,
+    as_of: date | None = None,
+) -> SiteState:
+    """Schedule an already-loaded site and journal as of ``as_of``.
+
+    ``site`` may be the compiled form of an earlier state (:attr:`SiteState.compiled`): the
+    app recomputes after every entry, and compiling is the costly part of a first schedule.
+    A plain Site is compiled here, once, and the engine and lookahead share that value.
+    """
+    comp = site if isinstance(site, CompiledSite) else compile_site(site)
+    site = comp.site
     status = as_of or default_status_date(site, journal)
-    rp = replay(site, journal.entries, status)
+    rp = replay(site, journal, status)
     result = compute_schedule(
-        site, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
+        comp, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
     )
     return SiteState(folder=folder, site=site, journal=journal, replay=rp, schedule=result)

@@ -50,3 +50,22 @@ def synced_sample(sample_site: Path, tmp_path: Path) -> tuple[Path, Path]:
     office.mkdir()
     assert sync(sample_site, office).exit_code == 0
     return sample_site, office
+
+
+@pytest.fixture(params=["rtoml", "tomllib"])
+def toml_reader(request: pytest.FixtureRequest, monkeypatch: pytest.MonkeyPatch) -> str:
+    """Run a test once with rtoml reading every file (however small) and once with rtoml
+    hidden, so both readers of fieldlog/fast_toml.py meet the same files and errors.
+
+    Child processes started through tests/test_hostile_files.py's wrapper follow the same
+    choice through ``TOML_READER`` (read only by that wrapper, never by fieldlog)."""
+    from fieldlog import fast_toml
+
+    if request.param == "rtoml":
+        if fast_toml.rtoml_module() is None:
+            pytest.skip("rtoml is not installed")
+        monkeypatch.setattr(fast_toml, "FAST_MIN_CHARS", 0)
+    else:
+        monkeypatch.setattr(fast_toml, "_parser", None)
+    monkeypatch.setenv("TOML_READER", request.param)
+    return request.param

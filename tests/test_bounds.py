@@ -21,6 +21,9 @@ from fieldlog.guarded_read import check_nesting
 from fieldlog.journal.device import DEVICE_FILE
 from tests.helpers.journal_helpers import AUTHOR, make_site
 
+# Every test reads its files with rtoml and with it hidden (tests/conftest.py).
+pytestmark = pytest.mark.usefixtures("toml_reader")
+
 TODAY = "2026-09-25"
 
 

@@ -26,12 +26,20 @@ import tomli_w
 from fieldlog.journal.chain import entry_hash
 from tests.helpers.journal_helpers import DEVICE, ROOT, make_site, rec
 
+# Every case runs with rtoml reading the files and with it hidden (tests/conftest.py).
+pytestmark = pytest.mark.usefixtures("toml_reader")
+
 MAX_SECONDS = 5.0
 MAX_RSS_MB = 200
 
 _WRAPPER = """\
 import os, resource, sys
+from fieldlog import fast_toml
 from fieldlog.cli import main
+if os.environ.get("TOML_READER") == "rtoml":  # the toml_reader fixture (tests/conftest.py)
+    fast_toml.FAST_MIN_CHARS = 0
+elif os.environ.get("TOML_READER") == "tomllib":
+    fast_toml._parser = None
 try:
     code = main(sys.argv[1:])
 finally:

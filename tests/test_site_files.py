@@ -27,6 +27,9 @@ from tests.helpers.site_builder import (
     write_site,
 )
 
+# Every test reads its files with rtoml and with it hidden (tests/conftest.py).
+pytestmark = pytest.mark.usefixtures("toml_reader")
+
 SITE = site_toml(
     "Harbour depot",
     date(2026, 3, 2),

@@ -67,7 +67,7 @@ def run(args: argparse.Namespace) -> int:
         return EXIT_BAD_INPUT
     site = load_site(args.site)
     journal = read_journal(args.site)
-    history = build_history(site, journal.entries, first=args.first, last=args.last, by=args.by)
+    history = build_history(site, journal, first=args.first, last=args.last, by=args.by)
     sys.stdout.write(render_history(history, args.format, args.width))
     for problem in history.problems:
         print(f"fieldlog: log: {problem}", file=sys.stderr)

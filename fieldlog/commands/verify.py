@@ -68,7 +68,7 @@ def run(args: argparse.Namespace) -> int:
     for f in findings:
         print(f)
     site = load_site(args.site)
-    rp = replay(site, journal.entries, date.max)
+    rp = replay(site, journal, date.max)
     contradictions = [p for p in rp.problems if not p.integrity]
     if contradictions:
         print("Contradictions in the log (record a correction to settle each):")

@@ -38,14 +38,18 @@ Construction*, section 10.7):
 
 How it is computed, so the app can recompute after every journal entry:
 
-* :mod:`fieldlog.engine.network_arrays` turns the site into arrays once per site value: links
-  sorted by the *level* of their successor (the longest chain of links leading to it);
+* :mod:`fieldlog.engine.compiled` compiles the site once (the workspace does it and passes the
+  value in): :mod:`fieldlog.engine.network_arrays` turns it into arrays, links sorted by the
+  *level* of their successor (the longest chain of links leading to it);
 * :mod:`fieldlog.engine.calendar_tables` stacks the calendars into tables, so moving a point to
   another calendar is an array lookup;
 * this module fixes what dates and progress decide before the passes (:func:`_starting_point`),
   then :mod:`fieldlog.engine.passes` runs the forward and backward passes one level at a time with
   numpy, and the summary (finish, critical set, driving path) is taken from the arrays;
 * :mod:`fieldlog.engine.rows` builds the per-activity result rows only when they are read.
+
+Every entry point takes the compiled site, or a plain :class:`Site` that it compiles first
+(convenient for one-off callers and tests; a caller that recomputes should compile once).
 
 A 10,000-activity site recomputes in about ten milliseconds, rows included in a few tens (see
 tests/benchmarks/bench_cpm.py). tests/helpers/reference_cpm.py keeps the earlier
@@ -58,12 +62,14 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from datetime import date, timedelta
+from types import MappingProxyType
 
 import numpy as np
 
 from fieldlog.engine.calendar_tables import CalendarTables, calendar_tables
 from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
-from fieldlog.engine.network_arrays import NetworkArrays, network_arrays
+from fieldlog.engine.compiled import CompiledSite, compiled
+from fieldlog.engine.network_arrays import NetworkArrays
 from fieldlog.engine.passes import Early, Start, backward, forward
 from fieldlog.engine.progress import Progress, remaining_at
 from fieldlog.engine.result import (
@@ -71,6 +77,7 @@ from fieldlog.engine.result import (
     OutOfSequence,
     ScheduleResult,
     critical_threshold,
+    finish_float,
     finished_without_start,
 )
 from fieldlog.engine.rows import (
@@ -80,6 +87,8 @@ from fieldlog.engine.rows import (
     SITE_START,
     START_NOT_BEFORE,
     Columns,
+    RowsById,
+    ScheduleRows,
 )
 from fieldlog.site.model import LagCalendar, Site
 
@@ -87,7 +96,7 @@ _DAY = timedelta(days=1)
 
 
 def compute_schedule(
-    site: Site,
+    site: Site | CompiledSite,
     status_date: date,
     progress: Mapping[str, Progress] | None = None,
     *,
@@ -97,7 +106,7 @@ def compute_schedule(
     """Schedule ``site`` as of the end of ``status_date``.
 
     Args:
-        site: the validated site.
+        site: the validated site, or its compiled form (see :mod:`fieldlog.engine.compiled`).
         status_date: the last day whose progress is known; the data date is the next day.
         progress: field progress per activity id (missing ids have not started).
         lost_days: per calendar name, days lost on site; they become non-working days.
@@ -106,36 +115,38 @@ def compute_schedule(
     Returns:
         Dates, floats, status and the driving predecessor of every activity.
     """
+    comp = compiled(site)
     progress = progress or {}
     lost = {name: tuple(days) for name, days in (lost_days or {}).items()}
     holds = holds or {}
-    lo, hi = _initial_range(site, status_date, progress, holds)
+    lo, hi = _initial_range(comp, status_date, progress, holds)
     while True:
-        calendars = build_calendars(site.calendars, lo, hi, lost)
+        calendars = build_calendars(comp.site.calendars, lo, hi, lost)
         try:
-            return _run(site, status_date, progress, holds, calendars)
+            return _run(comp, status_date, progress, holds, calendars)
         except HorizonExceeded:
             span = (hi - lo).days
             lo, hi = lo - timedelta(days=span), hi + timedelta(days=span)
 
 
 def _initial_range(
-    site: Site, status: date, progress: Mapping[str, Progress], holds: Mapping[str, date]
+    comp: CompiledSite, status: date, progress: Mapping[str, Progress], holds: Mapping[str, date]
 ) -> tuple[date, date]:
     """The first date range to build calendars over: every known date with a wide margin, and
     room for all the work after them. :func:`compute_schedule` widens it when a pass leaves it.
     """
+    site = comp.site
     known = [site.start, status, *holds.values()]
     known += [d for d in (site.finish_by,) if d]
     for field in ("actual_start", "actual_finish"):
         days = [d for p in progress.values() if (d := getattr(p, field))]
         known += [min(days), max(days)] if days else []
-    ahead = min(network_arrays(site).total_work * 2, 365 * 6) + 400
+    ahead = min(comp.net.total_work * 2, 365 * 6) + 400
     return min(known) - timedelta(days=400), max(known) + timedelta(days=ahead)
 
 
 def schedule_on_calendars(
-    site: Site,
+    site: Site | CompiledSite,
     status_date: date,
     progress: Mapping[str, Progress],
     holds: Mapping[str, date],
@@ -150,11 +161,11 @@ def schedule_on_calendars(
     Raises:
         HorizonExceeded: the work runs outside the calendars' range; widen it and call again.
     """
-    return _run(site, status_date, progress, holds, calendars)
+    return _run(compiled(site), status_date, progress, holds, calendars)
 
 
 def forecast_finish_on_calendars(
-    site: Site,
+    site: Site | CompiledSite,
     status_date: date,
     progress: Mapping[str, Progress],
     holds: Mapping[str, date],
@@ -166,18 +177,18 @@ def forecast_finish_on_calendars(
     Raises:
         HorizonExceeded: as :func:`schedule_on_calendars`.
     """
-    return _forward(site, status_date, progress, holds, calendars)[-1]
+    return _forward(compiled(site), status_date, progress, holds, calendars)[-1]
 
 
 def _forward(
-    site: Site,
+    comp: CompiledSite,
     status_date: date,
     progress: Mapping[str, Progress],
     holds: Mapping[str, date],
     calendars: Mapping[str, WorkCalendar],
 ) -> tuple[NetworkArrays, CalendarTables, _Fixed, Early, np.ndarray, int, date]:
     """The forward pass and what it fixes: last working day of every activity and the finish."""
-    net = network_arrays(site)
+    site, net = comp.site, comp.net
     tables = calendar_tables(calendars, net.calendar_names)
     fixed = _starting_point(site, net, tables, status_date, progress, holds)
     start = fixed.start
@@ -201,15 +212,16 @@ def _options(site: Site) -> dict[str, bool]:
 
 
 def _run(
-    site: Site,
+    comp: CompiledSite,
     status_date: date,
     progress: Mapping[str, Progress],
     holds: Mapping[str, date],
     calendars: Mapping[str, WorkCalendar],
 ) -> ScheduleResult:
     net, tables, fixed, early, last, finish_ord, finish = _forward(
-        site, status_date, progress, holds, calendars
+        comp, status_date, progress, holds, calendars
     )
+    site = comp.site
     start = fixed.start
     options = _options(site)
     fin, dur = start.finished, start.duration
@@ -228,8 +240,7 @@ def _run(
     on_path = np.zeros(net.size, dtype=bool)
     on_path[[net.index[aid] for aid in path]] = True
     columns = Columns(
-        site=site,
-        net=net,
+        compiled=comp,
         tables=tables,
         progress=fixed.reported,
         finished=fin,
@@ -248,16 +259,20 @@ def _run(
         end_after=early.end_after,
     )
     ids = net.ids
-    return ScheduleResult.deferred(
+    rows = ScheduleRows(columns)
+    return ScheduleResult(
         site=site,
         as_of=status_date,
         finish=finish,
-        calendars=calendars,
+        finish_float=finish_float(site, finish, calendars),
+        activities=rows,
         driving_path=tuple(path),
         lowest_float=tuple(ids[k] for k in np.flatnonzero(critical).tolist()),
         out_of_sequence=_out_of_sequence(site, net, fin, fixed.started)
         + finished_without_start(site, progress),
-        rows=columns.rows,
+        calendars=MappingProxyType(dict(calendars)),
+        by_id=RowsById(rows),
+        compiled=comp,
     )
 
 

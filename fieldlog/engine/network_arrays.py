@@ -1,4 +1,4 @@
-"""The precedence network as numpy arrays, built once per site and kept on the site value.
+"""The precedence network as numpy arrays, built once per site (into its compiled form).
 
 The passes in :mod:`fieldlog.engine.passes` work one *level* at a time: an activity's level is the
 number of links on the longest chain of links leading to it, so every predecessor of an
@@ -11,8 +11,9 @@ the same early start, the first one in the file is the driving link, as it alway
 ``by_pred`` is the same links grouped by (predecessor's level, predecessor) for the backward
 pass.
 
-A site value never changes, so the arrays are cached on it (like the site's id index); a new
-revision is a new site value and gets new arrays.
+A site value never changes, so the arrays are built once, into
+:class:`fieldlog.engine.compiled.CompiledSite`; a new revision is a new site value and is
+compiled again.
 """
 
 from __future__ import annotations
@@ -94,16 +95,8 @@ class NetworkArrays:
         return rank
 
 
-def network_arrays(site: Site) -> NetworkArrays:
-    """The arrays of ``site``, built on first use and cached on the site value."""
-    cached = site.__dict__.get("_cpm_arrays")
-    if cached is None:
-        cached = _build(site)
-        object.__setattr__(site, "_cpm_arrays", cached)
-    return cached
-
-
-def _build(site: Site) -> NetworkArrays:
+def build_network(site: Site) -> NetworkArrays:
+    """The arrays of ``site`` (see module docstring)."""
     acts, links = site.activities, site.links
     ids = tuple(a.id for a in acts)
     index = {aid: k for k, aid in enumerate(ids)}

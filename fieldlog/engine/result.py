@@ -3,30 +3,35 @@
 Kept apart from :mod:`fieldlog.engine.cpm` so that readers of results (lookahead, reports, the app)
 depend on these plain values only, never on the passes themselves.
 
-The engine builds a :class:`ScheduleResult` with :meth:`ScheduleResult.deferred`: the summary
-(finish, paths, flags) is ready at once, and the per-activity rows are built the first time
-``activities`` or ``by_id`` is read. To every reader it is the same frozen value.
+The summary of a :class:`ScheduleResult` (finish, paths, flags) is ready at once; the engine's
+per-activity rows are built the first time they are read
+(:class:`fieldlog.engine.rows.ScheduleRows`).
 """
 
 from __future__ import annotations
 
-from collections.abc import Callable, Iterable, Mapping, Sequence
-from dataclasses import dataclass, field, fields
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
 from datetime import date, timedelta
 from types import MappingProxyType
+from typing import NamedTuple
 
 from fieldlog.engine.calendars import WorkCalendar
+from fieldlog.engine.compiled import CompiledSite
 from fieldlog.engine.progress import Progress, Status
 from fieldlog.site.model import Link, LinkType, Site
 
 
-@dataclass(frozen=True)
-class ActivityResult:
+class ActivityResult(NamedTuple):
     """One activity's schedule as of the status date.
 
     Open activities carry forecast dates (for work in progress: of the remaining work) and
     floats in working days of their own calendar; finished ones carry their actual dates and no
     float.
+
+    A named tuple rather than a dataclass: a recompute makes one per activity (10,000 and more
+    on a big job), and a tuple is built several times faster and takes a third of the memory.
+    It is as immutable, and readers use the field names only.
     """
 
     id: str
@@ -62,18 +67,6 @@ class ActivityResult:
     work, and its point (see :mod:`fieldlog.engine.calendars`) is the next working day's start.
     False for other milestones (dated on the day they fall at the start of) and for work."""
 
-    @classmethod
-    def from_fields(cls, values: dict[str, object]) -> ActivityResult:
-        """Build from a dict holding every field by name, skipping ``__init__``.
-
-        The engine builds one result per activity on every recompute; the generated frozen
-        ``__init__`` sets each of the 21 fields through ``object.__setattr__`` and costs about
-        twice as much. Only for callers that pass every field (checked in tests).
-        """
-        result = object.__new__(cls)
-        result.__dict__.update(values)
-        return result
-
     @property
     def is_open(self) -> bool:
         """Not finished."""
@@ -83,9 +76,6 @@ class ActivityResult:
     def late(self) -> bool:
         """Negative total float: the job slips unless this activity catches up."""
         return self.total_float is not None and self.total_float < 0
-
-
-_FIELD_NAMES = tuple(f.name for f in fields(ActivityResult))
 
 
 @dataclass(frozen=True)
@@ -137,8 +127,10 @@ def finished_without_start(
 class ScheduleResult:
     """The whole schedule as of ``as_of`` (end of day); the data date is the next day.
 
-    ``activities`` and ``by_id`` of a result made by :meth:`deferred` are built on first read
-    (see :meth:`__getattr__`); everything else is set when the result is made.
+    The engine hands over ``activities`` as :class:`fieldlog.engine.rows.ScheduleRows`, a
+    sequence that builds its rows on first read (the summary needs none of them); any other
+    sequence of rows (a tuple) is as good, e.g. when a caller narrows a result with
+    ``dataclasses.replace``.
     """
 
     site: Site
@@ -148,7 +140,8 @@ class ScheduleResult:
     finish_float: int | None
     """Working days (default calendar) between forecast finish and ``finish_by``; negative
     means late. None when the site sets no required finish."""
-    activities: tuple[ActivityResult, ...]
+    activities: Sequence[ActivityResult]
+    """One row per activity, in the order of ``site.activities``."""
     driving_path: tuple[str, ...]
     """Activities traced back from the finish along driving links (the longest path)."""
     lowest_float: tuple[str, ...]
@@ -156,6 +149,8 @@ class ScheduleResult:
     out_of_sequence: tuple[OutOfSequence, ...]
     calendars: Mapping[str, WorkCalendar] = field(repr=False)
     by_id: Mapping[str, ActivityResult] = field(repr=False)
+    compiled: CompiledSite = field(repr=False, compare=False)
+    """The site's compiled form the result was computed from (the lookahead reuses it)."""
 
     @property
     def data_date(self) -> date:
@@ -167,76 +162,6 @@ class ScheduleResult:
         """True when the driving path and the lowest-float set name different open work."""
         open_driving = {a for a in self.driving_path if self.by_id[a].is_open}
         return open_driving != set(self.lowest_float)
-
-    @classmethod
-    def assemble(
-        cls,
-        *,
-        site: Site,
-        as_of: date,
-        finish: date,
-        results: Sequence[ActivityResult],
-        calendars: Mapping[str, WorkCalendar],
-        out_of_sequence: tuple[OutOfSequence, ...],
-        driving_path: tuple[str, ...],
-    ) -> ScheduleResult:
-        """Freeze results that are already marked critical / on the driving path."""
-        return cls(
-            site=site,
-            as_of=as_of,
-            finish=finish,
-            finish_float=finish_float(site, finish, calendars),
-            activities=tuple(results),
-            driving_path=driving_path,
-            lowest_float=tuple(r.id for r in results if r.critical),
-            out_of_sequence=out_of_sequence,
-            calendars=MappingProxyType(dict(calendars)),
-            by_id=MappingProxyType({r.id: r for r in results}),
-        )
-
-    @classmethod
-    def deferred(
-        cls,
-        *,
-        site: Site,
-        as_of: date,
-        finish: date,
-        calendars: Mapping[str, WorkCalendar],
-        driving_path: tuple[str, ...],
-        lowest_float: tuple[str, ...],
-        out_of_sequence: tuple[OutOfSequence, ...],
-        rows: Callable[[], Sequence[ActivityResult]],
-    ) -> ScheduleResult:
-        """A result whose rows ``rows()`` builds on first read of ``activities``/``by_id``.
-
-        For the engine: building 10,000 dated row objects costs as much as the passes, and
-        a caller that wants only the finish or the paths never pays for it.
-        """
-        result = object.__new__(cls)
-        result.__dict__.update(
-            site=site,
-            as_of=as_of,
-            finish=finish,
-            finish_float=finish_float(site, finish, calendars),
-            driving_path=driving_path,
-            lowest_float=lowest_float,
-            out_of_sequence=out_of_sequence,
-            calendars=MappingProxyType(dict(calendars)),
-            _rows=rows,
-        )
-        return result
-
-    def __getattr__(self, name: str) -> object:
-        """Build the rows of a deferred result (reached only while they are not set yet)."""
-        build = self.__dict__.get("_rows")
-        if build is None or name not in ("activities", "by_id"):
-            raise AttributeError(f"'{type(self).__name__}' object has no attribute '{name}'")
-        rows = tuple(build())
-        # Two threads may both get here; they build equal rows and either set is fine.
-        object.__setattr__(self, "activities", rows)
-        object.__setattr__(self, "by_id", MappingProxyType({r.id: r for r in rows}))
-        self.__dict__.pop("_rows", None)  # the engine's arrays are no longer needed
-        return self.__dict__[name]
 
 
 def finish_float(site: Site, finish: date, calendars: Mapping[str, WorkCalendar]) -> int | None:

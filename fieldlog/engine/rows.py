@@ -2,10 +2,10 @@
 
 The passes end with one array per column (points, floats, flags). Turning 10,000 activities
 into dated row objects costs about as much as the passes themselves, and a caller that only
-wants the finish or the driving path does not need them. So the engine hands
-:meth:`Columns.rows` to :meth:`ScheduleResult.deferred
-<fieldlog.engine.result.ScheduleResult.deferred>`, which calls it the first time someone
-reads ``activities`` or ``by_id``.
+wants the finish or the driving path does not need them. So the engine hands the result a
+:class:`ScheduleRows`: a sequence that holds the :class:`Columns` and builds the rows the
+first time one is read; :class:`RowsById` looks them up by id without building anything
+until a row is asked for.
 
 Every value put in a row is a plain Python value (``int``, ``bool``, ``date``, ``None``), never
 a numpy scalar: results are compared, hashed and written to JSON downstream.
@@ -14,18 +14,19 @@ a numpy scalar: results are compared, hashed and written to JSON downstream.
 from __future__ import annotations
 
 import gc
-from collections.abc import Iterator, Sequence
+import threading
+from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass
 from datetime import date
+from typing import overload
 
 import numpy as np
 
 from fieldlog.engine.calendar_tables import CalendarTables
-from fieldlog.engine.network_arrays import NetworkArrays
+from fieldlog.engine.compiled import CompiledSite
 from fieldlog.engine.progress import Progress, Status
 from fieldlog.engine.result import ActivityResult
-from fieldlog.site.model import Link, Site
 
 REASONS = ("site start", "data date", "start not before", "readiness", "actual dates")
 """What sets an early start when no link does, by code (the engine's ``reason`` array)."""
@@ -40,8 +41,7 @@ class Columns:
     progress are not used.
     """
 
-    site: Site
-    net: NetworkArrays
+    compiled: CompiledSite
     tables: CalendarTables
     progress: Sequence[tuple[int, Progress]]
     """(position, progress) of every activity the field reported on."""
@@ -62,20 +62,30 @@ class Columns:
     overdue: np.ndarray
     end_after: np.ndarray
 
-    def rows(self) -> tuple[ActivityResult, ...]:
-        """One result per activity, in the order of ``site.activities``."""
-        n, fin = self.net.size, self.finished
-        names, calendars, durations, links, link_preds = _site_columns(self.site)
-        dur = self.remaining
+    def day_points(self) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+        """``(after_work, early first, early last, late first, late last)``: the flag and the
+        working-day positions whose dates a row shows.
+
+        A milestone's dates are the day of its point (the day before, after work). Finished
+        work reads position 0 here; its rows get their actual dates instead.
+        """
+        fin, dur = self.finished, self.remaining
         after = self.end_after & (dur == 0) & ~fin  # a milestone at the end of its work
-        # A milestone's dates are the day of its point (the day before, after work).
-        # Finished work reads position 0 here and gets its actual dates below.
         point = fin | (dur == 0)
         e_first = np.where(fin, 0, self.early_start - after)
         e_last = np.where(point, e_first, self.early_finish - 1)
         l_first = np.where(fin, 0, self.late_start - after)
         l_last = np.where(point, l_first, self.late_finish - 1)
-        days, cal = self.tables.dates, self.net.calendar
+        return after, e_first, e_last, l_first, l_last
+
+    def rows(self) -> tuple[ActivityResult, ...]:
+        """One result per activity, in the order of ``site.activities``."""
+        c = self.compiled
+        n, fin = c.net.size, self.finished
+        links, link_preds = c.links, c.link_preds
+        dur = self.remaining
+        after, e_first, e_last, l_first, l_last = self.day_points()
+        days, cal = self.tables.dates, c.net.calendar
         early_start, early_finish = days[cal, e_first], days[cal, e_last]
         late_start, late_finish = days[cal, l_first], days[cal, l_last]
         total_float = self.total_float.astype(object)
@@ -102,94 +112,33 @@ class Columns:
         with _collector_paused():
             return tuple(
                 map(
-                    _row,
-                    self.net.ids,
-                    names,
-                    calendars,
-                    durations,
-                    status,
-                    early_start.tolist(),
-                    early_finish.tolist(),
-                    late_start.tolist(),
-                    late_finish.tolist(),
-                    total_float.tolist(),
-                    free_float.tolist(),
-                    self.critical.tolist(),
-                    self.on_driving_path.tolist(),
-                    actual_start,
-                    actual_finish,
-                    np.where(fin, 0, dur).tolist(),
-                    percent,
-                    driving.tolist(),
-                    driven_by.tolist(),
-                    self.overdue.tolist(),
-                    after.tolist(),
+                    ActivityResult._make,
+                    zip(
+                        c.net.ids,
+                        c.names,
+                        c.calendars,
+                        c.durations,
+                        status,
+                        early_start.tolist(),
+                        early_finish.tolist(),
+                        late_start.tolist(),
+                        late_finish.tolist(),
+                        total_float.tolist(),
+                        free_float.tolist(),
+                        self.critical.tolist(),
+                        self.on_driving_path.tolist(),
+                        actual_start,
+                        actual_finish,
+                        np.where(fin, 0, dur).tolist(),
+                        percent,
+                        driving.tolist(),
+                        driven_by.tolist(),
+                        self.overdue.tolist(),
+                        after.tolist(),
+                        strict=True,
+                    ),
                 )
             )
-
-
-def _row(
-    id: str,
-    name: str,
-    calendar: str,
-    duration: int,
-    status: Status,
-    early_start: date | None,
-    early_finish: date | None,
-    late_start: date | None,
-    late_finish: date | None,
-    total_float: int | None,
-    free_float: int | None,
-    critical: bool,
-    on_driving_path: bool,
-    actual_start: date | None,
-    actual_finish: date | None,
-    remaining: int,
-    percent: float | None,
-    driving: Link | None,
-    driven_by: str,
-    overdue: bool,
-    after_work: bool,
-) -> ActivityResult:
-    """An :class:`ActivityResult` from every field, without the generated ``__init__``.
-
-    The frozen ``__init__`` sets each field through ``object.__setattr__``; a dict display
-    handed over as the instance dict is several times faster, and the result is the same
-    value (tests compare both ways of building).
-    """
-    result = _new(ActivityResult)
-    _set(
-        result,
-        "__dict__",
-        {
-            "id": id,
-            "name": name,
-            "calendar": calendar,
-            "duration": duration,
-            "status": status,
-            "early_start": early_start,
-            "early_finish": early_finish,
-            "late_start": late_start,
-            "late_finish": late_finish,
-            "total_float": total_float,
-            "free_float": free_float,
-            "critical": critical,
-            "on_driving_path": on_driving_path,
-            "actual_start": actual_start,
-            "actual_finish": actual_finish,
-            "remaining": remaining,
-            "percent": percent,
-            "driving": driving,
-            "driven_by": driven_by,
-            "overdue": overdue,
-            "after_work": after_work,
-        },
-    )
-    return result
-
-
-_new = object.__new__
-_set = object.__setattr__
 
 
 @contextmanager
@@ -211,19 +160,84 @@ def _collector_paused() -> Iterator[None]:
         gc.enable()
 
 
-def _site_columns(site: Site) -> tuple[list[str], list[str], list[int], np.ndarray, np.ndarray]:
-    """Names, calendars, durations, links and link predecessors of ``site``, cached on it."""
-    cached = site.__dict__.get("_cpm_row_columns")
-    if cached is None:
-        links = np.empty(len(site.links), dtype=object)
-        links[:] = site.links
-        preds = np.array([lk.pred for lk in site.links], dtype=object)
-        cached = (
-            [a.name for a in site.activities],
-            [a.calendar for a in site.activities],
-            [a.duration for a in site.activities],
-            links,
-            preds,
-        )
-        object.__setattr__(site, "_cpm_row_columns", cached)
-    return cached
+class ScheduleRows(Sequence[ActivityResult]):
+    """The rows of one recompute, built from its :class:`Columns` the first time one is read.
+
+    Explicitly lazy: the length is known at once, the rows are made on the first index,
+    iteration or comparison, all together (one pass over the columns is the fast way), and
+    kept. :attr:`columns` stays readable for renderers that work from the arrays. Two threads
+    reading at once build the rows once (a lock).
+    """
+
+    __slots__ = ("columns", "_rows", "_lock")
+
+    def __init__(self, columns: Columns) -> None:
+        self.columns = columns
+        self._rows: tuple[ActivityResult, ...] | None = None
+        self._lock = threading.Lock()
+
+    @property
+    def built(self) -> bool:
+        """True once the rows exist (for tests and benchmarks)."""
+        return self._rows is not None
+
+    def rows(self) -> tuple[ActivityResult, ...]:
+        """Every row, built now if not yet."""
+        rows = self._rows
+        if rows is None:
+            with self._lock:
+                rows = self._rows
+                if rows is None:
+                    rows = self._rows = self.columns.rows()
+        return rows
+
+    def __len__(self) -> int:
+        return self.columns.compiled.net.size
+
+    @overload
+    def __getitem__(self, index: int) -> ActivityResult: ...
+    @overload
+    def __getitem__(self, index: slice) -> tuple[ActivityResult, ...]: ...
+    def __getitem__(self, index: int | slice) -> ActivityResult | tuple[ActivityResult, ...]:
+        return self.rows()[index]
+
+    def __iter__(self) -> Iterator[ActivityResult]:
+        return iter(self.rows())
+
+    def __eq__(self, other: object) -> bool:
+        if isinstance(other, ScheduleRows):
+            return self.rows() == other.rows()
+        if isinstance(other, Sequence):
+            return self.rows() == tuple(other)
+        return NotImplemented
+
+    __hash__ = None  # type: ignore[assignment]
+
+    def __repr__(self) -> str:
+        return repr(self.rows())
+
+
+class RowsById(Mapping[str, ActivityResult]):
+    """Rows by activity id, answering ``in``, ``len`` and the keys from the site's index
+    without building any row (see :class:`ScheduleRows`)."""
+
+    __slots__ = ("_rows", "_index", "_ids")
+
+    def __init__(self, rows: ScheduleRows) -> None:
+        net = rows.columns.compiled.net
+        self._rows, self._index, self._ids = rows, net.index, net.ids
+
+    def __getitem__(self, activity_id: str) -> ActivityResult:
+        return self._rows.rows()[self._index[activity_id]]
+
+    def __contains__(self, activity_id: object) -> bool:
+        return activity_id in self._index
+
+    def __iter__(self) -> Iterator[str]:
+        return iter(self._ids)
+
+    def __len__(self) -> int:
+        return len(self._ids)
+
+    def __repr__(self) -> str:
+        return f"RowsById({len(self)} activities)"

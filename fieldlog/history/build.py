@@ -1,6 +1,6 @@
 """The forecast history of a site: every logged day recomputed, grouped, with PPC per week.
 
-Pure: the site and the journal's entries in, a frozen :class:`History` out; no files, no clock.
+Pure: the site and the journal in, a frozen :class:`History` out; no files, no clock.
 The days are replayed one after another (:mod:`fieldlog.history.days`) and scheduled on shared
 calendars (:mod:`fieldlog.history.scheduler`); each day's movement is split by cause
 (:mod:`fieldlog.history.movement`), the days are grouped into windows
@@ -23,6 +23,7 @@ from fieldlog.history.scheduler import DayScheduler
 from fieldlog.history.values import DayRecord, History, WeekReliability
 from fieldlog.history.windows import GROUPINGS, group
 from fieldlog.journal.entries import Entry
+from fieldlog.journal.reader import Journal
 from fieldlog.journal.replay import replay
 from fieldlog.site.model import Site
 
@@ -108,7 +109,7 @@ def _plan(scheduler: DayScheduler, prev: Point, sunday: date) -> ScheduleResult:
 
 def build_history(
     site: Site,
-    entries: Sequence[Entry],
+    journal: Journal | Sequence[Entry],
     *,
     first: date | None = None,
     last: date | None = None,
@@ -116,6 +117,9 @@ def build_history(
 ) -> History:
     """The forecast history over the logged days in ``[first, last]`` grouped ``by`` day,
     week or month, with PPC for every week that has a logged day in the range.
+
+    Give the :class:`~fieldlog.journal.Journal` itself, so a damaged file is among the
+    problems; a plain sequence of entries has no file findings.
 
     Raises:
         ValueError: ``by`` is not one of :data:`~fieldlog.history.windows.GROUPINGS`, or
@@ -125,6 +129,7 @@ def build_history(
         raise ValueError(f"unknown grouping {by!r} (known: {', '.join(GROUPINGS)})")
     if first is not None and last is not None and first > last:
         raise ValueError(f"--from {first} is after --to {last}")
+    entries = journal.entries if isinstance(journal, Journal) else journal
     weeks: list[WeekReliability] = []
     records: list[DayRecord] = []
     start: Point | None = None
@@ -135,7 +140,7 @@ def build_history(
             records.append(item.record)
     assert start is not None
     status = last or (records[-1].day if records else start.status)
-    problems = tuple(p.message for p in replay(site, entries, status).problems)
+    problems = tuple(p.message for p in replay(site, journal, status).problems)
     return History(
         site=site.name,
         revision=site.revision,

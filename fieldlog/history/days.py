@@ -31,7 +31,7 @@ from fieldlog.engine.progress import Progress
 from fieldlog.engine.readiness import OpenItem
 from fieldlog.journal.corrections import Resolved, resolve_corrections
 from fieldlog.journal.entries import Entry
-from fieldlog.journal.replay import _Fold
+from fieldlog.journal.replay import Fold
 from fieldlog.site.model import Site
 
 
@@ -57,7 +57,7 @@ def replay_days(site: Site, entries: Sequence[Entry], days: Sequence[date]) -> I
     """The state as of the end of each of ``days`` (ascending), one by one."""
     cuts = sorted({e.day for e in entries if e.kind == "correction"})
     segment: int | None = None
-    fold: _Fold | None = None
+    fold: Fold | None = None
     resolved: Resolved | None = None
     at = 0
     for day in days:
@@ -67,7 +67,7 @@ def replay_days(site: Site, entries: Sequence[Entry], days: Sequence[date]) -> I
             end = cuts[here] if here < len(cuts) else None
             status = date.fromordinal(end.toordinal() - 1) if end else date.max
             resolved = resolve_corrections(entries, status)
-            fold, at = _Fold(site, []), 0
+            fold, at = Fold(site, []), 0
         todays: list[Entry] = []
         ordered = resolved.entries
         while at < len(ordered) and ordered[at].day <= day:
@@ -86,7 +86,7 @@ def replay_days(site: Site, entries: Sequence[Entry], days: Sequence[date]) -> I
         )
 
 
-def _open_items(fold: _Fold, alias: Mapping[str, Entry | None]) -> tuple[OpenItem, ...]:
+def _open_items(fold: Fold, alias: Mapping[str, Entry | None]) -> tuple[OpenItem, ...]:
     """The readiness items still open, by the rules of the replay's own ``open_items``
     (a clear of an unknown item, or a second clear, changes nothing)."""
     cleared: set[str] = set()

@@ -3,8 +3,8 @@
 :func:`fieldlog.engine.cpm.compute_schedule` sizes its calendars around each status date, so asking
 it for every day of a two-year log rebuilds them every day. Here the calendars are built once
 over a range wide enough for the whole history and rebuilt only when the set of lost days
-changes (a handful of times a season), and the network arrays are the site's own cached ones.
-Asking only for the finish runs just the forward pass.
+changes (a handful of times a season), and the site is compiled once
+(:mod:`fieldlog.engine.compiled`). Asking only for the finish runs just the forward pass.
 
 The dates do not depend on the range, only on the days inside it, so the results are the
 same as ``compute_schedule``'s (tests/test_history_differential.py).
@@ -18,8 +18,8 @@ from datetime import date, timedelta
 from typing import TypeVar
 
 from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
+from fieldlog.engine.compiled import compile_site
 from fieldlog.engine.cpm import forecast_finish_on_calendars, schedule_on_calendars
-from fieldlog.engine.network_arrays import network_arrays
 from fieldlog.engine.progress import Progress
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.site.model import Site
@@ -36,7 +36,8 @@ class DayScheduler:
 
     def __init__(self, site: Site, first: date, last: date) -> None:
         self.site = site
-        ahead = min(network_arrays(site).total_work * 2, 365 * 6) + 400
+        self.compiled = compile_site(site)
+        ahead = min(self.compiled.net.total_work * 2, 365 * 6) + 400
         self._lo = min(first, site.start) - timedelta(days=400)
         self._hi = max(last, site.finish_by or last, site.start) + timedelta(days=ahead)
         self._sets: OrderedDict[tuple, dict[str, WorkCalendar]] = OrderedDict()
@@ -88,7 +89,7 @@ class DayScheduler:
         while True:
             try:
                 self.runs += 1
-                return run(self.site, status, progress, holds, self.calendars(lost))
+                return run(self.compiled, status, progress, holds, self.calendars(lost))
             except HorizonExceeded:
                 self._widen()
 

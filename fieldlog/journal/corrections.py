@@ -15,7 +15,7 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
 from datetime import date
 
-from fieldlog.journal.entries import CORRECTION_OWN, Entry
+from fieldlog.journal.entries import CORRECTION_OWN, REPLAY_ORDER, Entry
 
 
 @dataclass(frozen=True)
@@ -38,7 +38,7 @@ def resolve_corrections(entries: Sequence[Entry], status_date: date) -> Resolved
         if e.id in by_id:
             problems.append((f"entry id {e.id} is used twice", (e.id,)))
         by_id.setdefault(e.id, e)
-    active = [e for e in sorted(entries, key=Entry.sort_key) if e.day <= status_date]
+    active = [e for e in sorted(entries, key=REPLAY_ORDER) if e.day <= status_date]
     superseded: dict[str, Entry] = {}
     for c in active:
         if c.kind != "correction":
@@ -90,7 +90,10 @@ def resolve_corrections(entries: Sequence[Entry], status_date: date) -> Resolved
             continue  # refused above, and reported there
         if eff is not None and eff.id not in placed:
             placed.add(eff.id)
-            keyed.append((_place(eff, by_id), eff))
+            # An entry standing for itself keeps its own place (what _place gives it too,
+            # without walking a correction chain: most entries of a long log).
+            place = REPLAY_ORDER(eff) if by_id.get(eff.id) is eff else _place(eff, by_id)
+            keyed.append((place, eff))
     keyed.sort(key=lambda pair: pair[0])
     return Resolved([e for _, e in keyed], problems, superseded, alias)
 

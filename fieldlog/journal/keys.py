@@ -22,19 +22,23 @@ import contextlib
 import os
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import tomli_w
-from cryptography.hazmat.primitives import serialization
-from cryptography.hazmat.primitives.asymmetric.ed25519 import (
-    Ed25519PrivateKey,
-    Ed25519PublicKey,
-)
 
 from fieldlog.durable import PERMISSION_UNSUPPORTED, flush_to_disk, write_all
 from fieldlog.errors import EntryRefused, JournalError
 from fieldlog.home import HOME_ENV, fieldlog_home
 from fieldlog.journal.device import DEVICE_FILE, read_settings
 from fieldlog.journal.store import atomic_write, device_lock
+
+# cryptography is imported where a key or signature is used (about 30 ms of start-up that
+# `fieldlog schedule` on an unsigned or already-checked log never needs).
+if TYPE_CHECKING:
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import (
+        Ed25519PrivateKey,
+        Ed25519PublicKey,
+    )
 
 KEY_FILE = "device-key.pem"
 MAX_AUTHOR = 80
@@ -67,6 +71,8 @@ class DeviceKey:
 
 def public_hex(key: Ed25519PublicKey) -> str:
     """Raw public key bytes as 64 hex digits."""
+    from cryptography.hazmat.primitives import serialization
+
     return key.public_bytes(serialization.Encoding.Raw, serialization.PublicFormat.Raw).hex()
 
 
@@ -138,6 +144,8 @@ def device_key(home: Path | None = None) -> DeviceKey:
     with device_lock(home, "device-key"):
         if path.exists():  # another fieldlog made it meanwhile
             return DeviceKey(_load(path))
+        from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
+
         key = Ed25519PrivateKey.generate()
         warning = _write_private(path, key)
     if warning:
@@ -157,6 +165,9 @@ def _make_home(home: Path) -> None:
 
 
 def _load(path: Path) -> Ed25519PrivateKey:
+    from cryptography.hazmat.primitives import serialization
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
+
     try:
         key = serialization.load_pem_private_key(path.read_bytes(), password=None)
     except OSError as exc:
@@ -183,6 +194,8 @@ def _load(path: Path) -> Ed25519PrivateKey:
 
 def _write_private(path: Path, key: Ed25519PrivateKey) -> str | None:
     """Write the key owner-only, durably; returns a warning when permissions are unsupported."""
+    from cryptography.hazmat.primitives import serialization
+
     pem = key.private_bytes(
         serialization.Encoding.PEM, serialization.PrivateFormat.PKCS8, serialization.NoEncryption()
     )

@@ -16,35 +16,27 @@ from pathlib import Path
 
 from fieldlog.errors import JournalError, OutOfBounds
 from fieldlog.guarded_read import read_capped
-from fieldlog.journal.entries import Entry
+from fieldlog.journal.check_cache import Cached, CheckPack, Verdicts, record_key
+from fieldlog.journal.entries import REPLAY_ORDER, Entry
 from fieldlog.journal.filecheck import FileCheck, Finding, check_bytes
-from fieldlog.journal.names import LOG_DIR, is_working_file
+from fieldlog.journal.names import LOG_DIR, is_working_file, parse_file_name
 from fieldlog.journal.registry import DeviceRecord, read_registry
-from fieldlog.journal.signing import check_signatures
-
-
-class EntryList(tuple):
-    """A tuple of entries that also carries what could not be read from the files.
-
-    ``Journal.entries`` is one of these, so code that passes only the entries on (to
-    :func:`fieldlog.journal.replay`) still passes the findings with them.
-    """
-
-    findings: tuple[Finding, ...] = ()
-
-    def __new__(cls, entries: Iterable[Entry] = (), findings: Iterable[Finding] = ()):
-        obj = super().__new__(cls, entries)
-        obj.findings = tuple(findings)
-        return obj
+from fieldlog.journal.signing import check_signatures, signature_ok
 
 
 @dataclass(frozen=True)
 class Journal:
-    """Every entry read from a site's log folder, in replay order."""
+    """Every entry read from a site's log folder, in replay order, and what is wrong with it.
 
-    entries: EntryList = field(default_factory=EntryList)
+    The findings travel with the entries in this one value, so whatever replays the journal
+    (:func:`fieldlog.journal.replay` takes the journal itself) also reports a damaged file.
+    """
+
+    entries: tuple[Entry, ...] = ()
     """The entries that may be used: forged and content-edited entries are left out (they
     are in :attr:`findings`)."""
+    findings: tuple[Finding, ...] = ()
+    """What is wrong with the files (empty for a sound journal)."""
     files: tuple[str, ...] = ()
     """Journal file names found, sorted."""
     devices: Mapping[str, DeviceRecord] = field(default_factory=dict)
@@ -53,11 +45,6 @@ class Journal:
     unsigned: int = 0
     """Entries kept although unsigned: written before this site's devices signed."""
     forged: int = 0
-
-    @property
-    def findings(self) -> tuple[Finding, ...]:
-        """What is wrong with the files (empty for a sound journal)."""
-        return self.entries.findings
 
     @property
     def last_day(self) -> date | None:
@@ -77,8 +64,18 @@ def log_folder(folder: Path | str) -> Path:
     return Path(folder) / LOG_DIR
 
 
-def scan(folder: Path | str) -> list[FileCheck]:
-    """Check every file in the site's ``log/`` folder (fieldlog's working files excepted)."""
+def scan(
+    folder: Path | str,
+    devices: Mapping[str, DeviceRecord] | None = None,
+    verdicts: dict[int, bool] | None = None,
+) -> list[FileCheck]:
+    """Check every file in the site's ``log/`` folder (fieldlog's working files excepted).
+
+    Files whose check is cached (:mod:`fieldlog.journal.check_cache`) for their exact bytes
+    and their device's key in ``devices`` are not parsed again; their signature verdicts go
+    into ``verdicts`` by ``id()`` of the entry returned (the checks returned keep every entry
+    alive while :func:`check_signatures` reads them).
+    """
     log = log_folder(folder)
     if log.is_symlink():  # never followed: it could lead anywhere on the machine
         return [
@@ -106,6 +103,8 @@ def scan(folder: Path | str) -> list[FileCheck]:
             fix="rename that file; fieldlog keeps the field log in log/",
         )
     checks = []
+    pack = CheckPack.open(log)
+    keys = {d: r.public_key for d, r in (devices or {}).items()}
     for path in sorted(log.iterdir(), key=lambda p: p.name):
         if is_working_file(path.name):
             continue
@@ -136,8 +135,59 @@ def scan(folder: Path | str) -> list[FileCheck]:
             continue
         except OSError as exc:
             raise JournalError(f"cannot read the log file: {exc.strerror}", file=path) from exc
-        checks.append(checked(path.name, data))
+        checks.append(_cached_check(pack, path.name, data, keys, verdicts))
+    pack.save()
     return checks
+
+
+def _cached_check(
+    pack: CheckPack,
+    name: str,
+    data: bytes,
+    keys: Mapping[str, str],
+    verdicts: dict[int, bool] | None,
+) -> FileCheck:
+    """One file's check: from this process, from the cache, or made afresh (then cached).
+
+    A file this process has checked already is not unpickled again, but its record is kept
+    in the pack (or added), so the next command finds it too.
+    """
+    device = file_device(name)
+    key = keys.get(device, "") if device else ""
+    record = record_key(name, data, key)
+    found = _CACHE.get((name, data))
+    if found is not None:
+        _CACHE.move_to_end((name, data))
+        if not pack.keep(record):
+            pack.store(record, Cached(found, _verdicts(found, device, key)))
+        return found
+    cached = pack.lookup(record)
+    if cached is None:
+        check = check_bytes(name, data)
+        cached = Cached(check, _verdicts(check, device, key))
+        pack.store(record, cached)
+    if verdicts is not None:
+        for e, ok in zip(cached.check.entries, cached.verdicts, strict=True):
+            if ok is not None:
+                verdicts[id(e)] = ok
+    return remember(name, data, cached.check)
+
+
+def file_device(name: str) -> str:
+    """The device a journal file's name says it belongs to (``""`` for a bad name)."""
+    try:
+        return parse_file_name(name)[1]
+    except JournalError:
+        return ""
+
+
+def _verdicts(check: FileCheck, device: str, key: str) -> Verdicts:
+    """Whether each entry of the file's own device verifies against ``key`` (None: not
+    decided here, see :data:`fieldlog.journal.check_cache.Verdicts`)."""
+    return tuple(
+        signature_ok(key, e.hash, e.sig) if key and e.sig and e.device == device else None
+        for e in check.entries
+    )
 
 
 _CACHE: OrderedDict[tuple[str, bytes], FileCheck] = OrderedDict()
@@ -181,17 +231,19 @@ def read_journal(folder: Path | str) -> Journal:
         JournalError: the log folder or one of its files cannot be read at all (permissions);
             damaged content is reported as findings instead.
     """
-    checks = scan(folder)
     registry = read_registry(folder)
+    verdicts: dict[int, bool] = {}
+    checks = scan(folder, registry.devices, verdicts)
     entries = [e for c in checks for e in c.entries]
-    entries.sort(key=Entry.sort_key)
+    entries.sort(key=REPLAY_ORDER)
     findings = [*registry.findings, *(f for c in checks for f in c.findings)]
     findings += cross_file_findings(entries)
-    signatures = check_signatures(entries, registry, findings)
+    signatures = check_signatures(entries, registry, findings, verdicts)
     findings += signatures.findings
     files = tuple(c.name for c in checks if c.entries)
     return Journal(
-        EntryList(signatures.kept, findings),
+        signatures.kept,
+        tuple(findings),
         files,
         registry.devices,
         signatures.signed,

@@ -15,10 +15,9 @@ from dataclasses import replace
 from datetime import UTC, date, datetime
 from pathlib import Path
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import tomli_w
-from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 
 from fieldlog.bounds import MAX_COUNTER
 from fieldlog.durable import make_folder
@@ -28,6 +27,9 @@ from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
 from fieldlog.journal.filecheck import FileCheck
 from fieldlog.journal.keys import check_author, device_key, public_hex, saved_author
+
+if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys are used
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
 from fieldlog.journal.registry import DeviceRecord, register
@@ -130,7 +132,7 @@ def record_entry(
             day, clean = _correction(site, journal, day, fields, today, site_name)
         else:
             assert day is not None  # set to ``day or today`` above for every other kind
-            view = replay(site, journal.entries, _FAR_FUTURE)
+            view = replay(site, journal, _FAR_FUTURE)
             check_entry(site, view, kind, day, clean, site_name)
         return _append(
             log, journal, device, kind, day, clean, author, clock, _Signer(key, folder, today)
@@ -189,7 +191,7 @@ def _correction(
             f"there is no entry {target_id or '(none given)'} in the log",
             fix="give the id printed when the entry was recorded (see the daily report)",
         )
-    view = replay(site, journal.entries, _FAR_FUTURE)
+    view = replay(site, journal, _FAR_FUTURE)
     if target.id in view.superseded:
         later = view.superseded[target.id]
         raise refuse(

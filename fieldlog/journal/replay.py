@@ -27,6 +27,8 @@ from fieldlog.engine.progress import Progress
 from fieldlog.engine.readiness import OpenItem
 from fieldlog.journal.corrections import correction_base, resolve_corrections
 from fieldlog.journal.entries import Entry
+from fieldlog.journal.filecheck import Finding
+from fieldlog.journal.reader import Journal
 from fieldlog.site.model import Site
 
 
@@ -82,15 +84,25 @@ class _Activity:
     percent: Entry | None = None
 
 
-def replay(site: Site, entries: Sequence[Entry], status_date: date) -> Replay:
-    """Fold entries dated on or before ``status_date`` into progress and lost days."""
+def replay(site: Site, journal: Journal | Sequence[Entry], status_date: date) -> Replay:
+    """Fold entries dated on or before ``status_date`` into progress and lost days.
+
+    Give the :class:`~fieldlog.journal.reader.Journal` itself: its findings (a damaged file)
+    become problems with ``integrity=True``. A plain sequence of entries (tests, a log with
+    one entry left out to check a correction) has no file findings.
+    """
+    if isinstance(journal, Journal):
+        entries: Sequence[Entry] = journal.entries
+        findings: Sequence[Finding] = journal.findings
+    else:
+        entries, findings = journal, ()
     problems = [
         Problem(f"log file damaged: {f}", (f.entry_id,) if f.entry_id else (), True)
-        for f in getattr(entries, "findings", ())
+        for f in findings
     ]
     resolved = resolve_corrections(entries, status_date)
     problems += [Problem(message, ids) for message, ids in resolved.problems]
-    fold = _Fold(site, problems)
+    fold = Fold(site, problems)
     for e in resolved.entries:
         fold.apply(e)
     fold.close()
@@ -110,8 +122,14 @@ def replay(site: Site, entries: Sequence[Entry], status_date: date) -> Replay:
     )
 
 
-class _Fold:
-    """Applies effective entries one by one, collecting contradictions as it goes."""
+class Fold:
+    """Applies effective entries one by one, collecting contradictions as it goes.
+
+    Public for :mod:`fieldlog.history.days`, which keeps one fold running from day to day
+    instead of replaying every day from scratch: :meth:`apply` each entry in replay order,
+    then read :meth:`progress`, :meth:`lost_days`, and :attr:`needs` / :attr:`clears` for
+    the readiness items.
+    """
 
     def __init__(self, site: Site, problems: list[Problem]) -> None:
         self.site = site
@@ -119,10 +137,13 @@ class _Fold:
         self.acts: dict[str, _Activity] = {}
         self.lost: dict[str, set[date]] = {}
         self.needs: dict[str, Entry] = {}
+        """Readiness items opened so far, by the id of their ``need`` entry."""
         self.cleared: dict[str, Entry] = {}
         self.clears: list[Entry] = []
+        """Every ``cleared`` entry applied so far, in replay order."""
 
     def apply(self, e: Entry) -> None:
+        """Apply one effective entry (corrections already resolved), in replay order."""
         missing = [a for a in e.activities() if not self.site.has_activity(a)]
         for a in missing:
             self.problems.append(
@@ -214,6 +235,7 @@ class _Fold:
         )
 
     def progress(self) -> dict[str, Progress]:
+        """Per activity, the progress the entries applied so far give."""
         out = {}
         for aid, a in self.acts.items():
             out[aid] = Progress(
@@ -244,6 +266,7 @@ class _Fold:
             self.lost.setdefault(name, set()).add(e.day)
 
     def lost_days(self) -> dict[str, frozenset[date]]:
+        """Per calendar name, the whole days lost so far."""
         return {name: frozenset(days) for name, days in sorted(self.lost.items())}
 
     # -- readiness ------------------------------------------------------------------------
@@ -255,6 +278,8 @@ class _Fold:
         self.clears.append(e)
 
     def open_items(self, alias: Mapping[str, Entry | None]) -> tuple[OpenItem, ...]:
+        """The readiness items still open; a clear of an unknown item or a second clear of
+        one is a problem (call once, at the end)."""
         for c in self.clears:
             item_id = c.fields["item"]
             need = alias.get(item_id, self.needs.get(item_id))
@@ -291,4 +316,4 @@ class _Fold:
         )
 
 
-__all__ = ["ActivityEntries", "Problem", "Replay", "correction_base", "replay"]
+__all__ = ["ActivityEntries", "Fold", "Problem", "Replay", "correction_base", "replay"]

@@ -32,20 +32,23 @@ An entry whose content does not match its hash is never used either.
 from __future__ import annotations
 
 import hashlib
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from datetime import date
 from functools import lru_cache
-
-from cryptography.exceptions import InvalidSignature
-from cryptography.hazmat.primitives.asymmetric.ed25519 import (
-    Ed25519PrivateKey,
-    Ed25519PublicKey,
-)
+from typing import TYPE_CHECKING
 
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.filecheck import CONTENT_EDITED, Finding
 from fieldlog.journal.registry import DEVICES_DIR, Registry, key_file_name
+
+# cryptography is imported where a key or signature is used (about 30 ms of start-up that
+# `fieldlog schedule` on an unsigned or already-checked log never needs).
+if TYPE_CHECKING:
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import (
+        Ed25519PrivateKey,
+        Ed25519PublicKey,
+    )
 
 CONTEXT = b"fieldlog journal entry v1\n"
 """Prefixed to the hash before signing (domain separation)."""
@@ -63,6 +66,8 @@ def sign(key: Ed25519PrivateKey, entry_hash: str) -> str:
 
 @lru_cache(maxsize=64)
 def _public(public_hex: str) -> Ed25519PublicKey:
+    from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PublicKey
+
     return Ed25519PublicKey.from_public_bytes(bytes.fromhex(public_hex))
 
 
@@ -81,6 +86,8 @@ def signature_ok(public_hex: str, entry_hash: str, sig: str) -> bool:
     token = hashlib.blake2b(f"{public_hex}:{entry_hash}:{sig}".encode(), digest_size=20).digest()
     if token in _VERIFIED:
         return True
+    from cryptography.exceptions import InvalidSignature
+
     try:
         _public(public_hex).verify(bytes.fromhex(sig), signed_message(entry_hash))
     except (InvalidSignature, ValueError):
@@ -109,7 +116,10 @@ class Checked:
 
 
 def check_signatures(
-    entries: Iterable[Entry], registry: Registry, findings: Iterable[Finding]
+    entries: Iterable[Entry],
+    registry: Registry,
+    findings: Iterable[Finding],
+    verdicts: Mapping[int, bool] | None = None,
 ) -> Checked:
     """Sort ``entries`` into kept and forged (see the module docstring for the rules).
 
@@ -117,8 +127,13 @@ def check_signatures(
         entries: every entry read from the log, in any order.
         registry: the site's device keys.
         findings: the file checks' findings (content edits are read from them).
+        verdicts: signatures already verified against the very key ``registry`` holds for
+            the entry's device, by ``id()`` of the entry object in ``entries`` (the journal
+            cache's, see :mod:`fieldlog.journal.check_cache`); any other entry is verified
+            here.
     """
     entries = list(entries)
+    good = _Verifier(registry, verdicts or {})
     edited = {
         (f.file, f.entry_id)
         for f in findings
@@ -128,12 +143,12 @@ def check_signatures(
     for e in entries:
         if e.sig:
             first_signed[e.device] = min(first_signed.get(e.device, e.seq), e.seq)
-    began = _signing_began(entries, registry)
+    began = _signing_began(entries, registry, good)
     kept: list[Entry] = []
     out: list[Finding] = []
     signed = unsigned = 0
     for e in entries:
-        why = _forged_because(e, registry, (e.file, e.id) in edited, first_signed, began)
+        why = _forged_because(e, registry, (e.file, e.id) in edited, first_signed, began, good)
         if why is None:
             kept.append(e)
             if e.sig:
@@ -145,13 +160,34 @@ def check_signatures(
     return Checked(tuple(kept), tuple(out), signed, unsigned, len(entries) - len(kept))
 
 
-def _signing_began(entries: list[Entry], registry: Registry) -> date | None:
+class _Verifier:
+    """Whether an entry's signature verifies against its device's registered key, decided
+    once per entry: from the verdicts given, else by Ed25519 (remembered per process)."""
+
+    def __init__(self, registry: Registry, verdicts: Mapping[int, bool]) -> None:
+        self.registry, self.verdicts = registry, verdicts
+        self.seen: dict[int, bool] = {}
+        """By ``id()`` of the entry: the caller's list keeps every entry alive meanwhile."""
+
+    def __call__(self, e: Entry) -> bool:
+        found = self.seen.get(id(e))
+        if found is None:
+            record = self.registry.devices.get(e.device)
+            if not e.sig or record is None:
+                found = False
+            else:
+                known = self.verdicts.get(id(e))
+                found = (
+                    known if known is not None else signature_ok(record.public_key, e.hash, e.sig)
+                )
+            self.seen[id(e)] = found
+        return found
+
+
+def _signing_began(entries: list[Entry], registry: Registry, good: _Verifier) -> date | None:
     """The first day this site signed: the earliest registration or validly signed entry."""
     days = [record.registered for record in registry.devices.values()]
-    for e in entries:
-        record = registry.devices.get(e.device)
-        if e.sig and record is not None and signature_ok(record.public_key, e.hash, e.sig):
-            days.append(e.day)
+    days += [e.day for e in entries if e.sig and good(e)]
     return min(days, default=None)
 
 
@@ -161,16 +197,12 @@ def _forged_because(
     content_edited: bool,
     first_signed: dict[str, int],
     began: date | None,
+    good: _Verifier,
 ) -> str | None:
     """Why ``e`` is forged; None when it may be used; ``""`` when unusable but already
     reported (an unsigned older entry whose content no longer matches its hash)."""
     record = registry.devices.get(e.device)
-    if (
-        record is not None
-        and e.sig
-        and not content_edited  # the usual case, first
-        and signature_ok(record.public_key, e.hash, e.sig)
-    ):
+    if record is not None and e.sig and not content_edited and good(e):  # the usual case
         return None
     key_file = f"{DEVICES_DIR}/{key_file_name(e.device)}"
     if content_edited:
@@ -182,7 +214,7 @@ def _forged_because(
             return (
                 f"signed, but device {e.device} has no registered key ({key_file}); it is not used"
             )
-        if not signature_ok(record.public_key, e.hash, e.sig):
+        if not good(e):
             return (
                 f"its signature does not match device {e.device}'s registered key "
                 f"({key_file}); it is not used"

@@ -13,6 +13,13 @@ Two arguments, both about work that cannot get out of the way:
   latest start. That energy has to fit on the days in ``a..b`` on which the crew can work at
   all, so the peak is at least the energy divided by those days, rounded up.
 
+* **energy over chosen days**: the same argument holds for any set of days, not only a run of
+  them: each activity puts at least its smallest overlap with the set into it, whatever start
+  it takes. Two busy days with a quiet one between can need more people than any interval
+  shows (an activity can dodge one of the two days, never both). When the crew can work on at
+  most :data:`SUBSET_DAYS` of the window's days, every set of them is tried (2^14 - 1 sets,
+  counted with a bit table), so this bound is never below the interval one.
+
 Every movable activity whose every start touches the window also needs its own headcount on
 at least one day, so the peak is at least its headcount.
 
@@ -23,10 +30,16 @@ site's bound to a few milliseconds.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cache
 
 import numpy as np
 
 from fieldlog.lookahead.fewest_problem import Problem
+
+_TABLE_BITS = 14
+SUBSET_DAYS = _TABLE_BITS
+"""Most work days of a crew in the window for which every set of them is tried (2^14 sets:
+milliseconds per activity; a longer window keeps the interval bound only)."""
 
 
 @dataclass(frozen=True)
@@ -35,8 +48,9 @@ class LowerBound:
 
     people: int
     reason: str
-    """``"must"`` (one day's must work), ``"energy"`` (an interval), ``"headcount"`` (one
-    activity's own headcount) or ``"none"`` (nothing to do)."""
+    """``"must"`` (one day's must work), ``"energy"`` (an interval), ``"days"`` (a set of days
+    that is not an interval), ``"headcount"`` (one activity's own headcount) or ``"none"``
+    (nothing to do)."""
     first: int
     """Window-day index where the argument's days begin."""
     last: int
@@ -45,6 +59,8 @@ class LowerBound:
     """Person-days that must fall on those days (the day's people for ``"must"``)."""
     work_days: int
     """Days in that span on which the crew can work."""
+    days: tuple[int, ...] = ()
+    """For ``"days"``: the window-day indices of the chosen set (empty for the others)."""
 
 
 def lower_bound(problem: Problem, crew: str) -> LowerBound:
@@ -97,9 +113,62 @@ def lower_bound(problem: Problem, crew: str) -> LowerBound:
             best = LowerBound(
                 int(need[k]), "must" if lo == hi else "energy", lo, hi, int(energy[k]), int(days[k])
             )
+    work = [d for d in range(n) if can_work[d]]
+    if len(work) <= min(SUBSET_DAYS, _TABLE_BITS):
+        chosen = _over_day_sets(fixed, work, problem, crew)
+        if chosen is not None and chosen.people > best.people:
+            best = chosen
     if single > best.people:
         best = LowerBound(single, "headcount", 0, n - 1, single, 1)
     return best
+
+
+def _over_day_sets(
+    fixed: np.ndarray, work: list[int], problem: Problem, crew: str
+) -> LowerBound | None:
+    """The best energy bound over every non-empty set of the crew's work days (bit ``j`` of a
+    set stands for day ``work[j]``)."""
+    m = len(work)
+    if not m:
+        return None
+    sets = np.arange(1, 1 << m, dtype=np.int64)
+    bits = (sets[:, None] >> np.arange(m)) & 1
+    energy = bits @ fixed[work]
+    bit_of = {d: j for j, d in enumerate(work)}
+    count = _bit_count()
+    for mv in problem.movables:
+        rate = mv.crew.get(crew, 0)
+        if not rate:
+            continue
+        least = None
+        for run in mv.runs:
+            mask = sum(1 << bit_of[d] for d in run)
+            overlap = count[sets & mask]
+            least = overlap if least is None else np.minimum(least, overlap)
+        assert least is not None  # every movable activity has at least one start
+        energy = energy + rate * least.astype(np.int64)
+    size = count[sets].astype(np.int64)
+    need = -(-energy // size)
+    k = int(np.argmax(need))
+    chosen = tuple(work[j] for j in range(m) if (int(sets[k]) >> j) & 1)
+    if chosen == tuple(d for d in work if chosen[0] <= d <= chosen[-1]):  # an interval
+        reason = "must" if len(chosen) == 1 else "energy"
+        chosen_days: tuple[int, ...] = ()
+    else:
+        reason, chosen_days = "days", chosen
+    return LowerBound(
+        int(need[k]), reason, chosen[0], chosen[-1], int(energy[k]), len(chosen), chosen_days
+    )
+
+
+@cache
+def _bit_count() -> np.ndarray:
+    """Set bits of every number below 2^14 (numpy 1.26 has no bit count)."""
+    n = np.arange(1 << _TABLE_BITS, dtype=np.int64)
+    table = np.zeros(1 << _TABLE_BITS, dtype=np.int8)
+    for b in range(_TABLE_BITS):
+        table += ((n >> b) & 1).astype(np.int8)
+    return table
 
 
 def _row(run: tuple[int, ...], n: int) -> np.ndarray:

@@ -10,7 +10,7 @@ reach it; what may move is set out in :mod:`fieldlog.lookahead.fewest_problem`.
 How the answer is found and how sure it is:
 
 * a proven **lower bound** first (:mod:`fieldlog.lookahead.fewest_bounds`: must work per day,
-  and work that must fall inside an interval over the days in it);
+  and work that must fall inside an interval, or any set of days, over the days in it);
 * then ask for one person fewer than the best plan so far (from the early-start plan): a quick
   **branch and bound** (:mod:`fieldlog.lookahead.fewest_search`), then the **repair search**
   (:mod:`fieldlog.lookahead.fewest_repair`) that slides starts off the busiest day, then the

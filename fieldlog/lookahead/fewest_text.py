@@ -70,6 +70,13 @@ def bound_line(answer: CrewAnswer, days: tuple[date, ...]) -> str | None:
             f"{working_days(b.work_days)} the crew can work: at least "
             f"{_people(b.people)} a day."
         )
+    if b.reason == "days":
+        chosen = ", ".join(date_text(days[d]) for d in b.days)
+        return (
+            f"{answer.crew}: {b.person_days} person-days must fall on these "
+            f"{working_days(b.work_days)}, whatever starts the work takes ({chosen}): at least "
+            f"{_people(b.people)} a day."
+        )
     if b.reason == "headcount":
         return f"{answer.crew}: one activity alone needs {_people(b.people)}."
     return None

@@ -17,14 +17,13 @@ link as the earliest start point it allows its successor, following the conventi
 
 from __future__ import annotations
 
-from collections import defaultdict
 from dataclasses import dataclass
 from datetime import date
 
 from fieldlog.engine.calendars import WorkCalendar
 from fieldlog.engine.progress import Status
 from fieldlog.engine.result import ActivityResult, ScheduleResult
-from fieldlog.site.model import LagCalendar, Link, LinkType, Site
+from fieldlog.site.model import LagCalendar, Link, LinkType
 
 
 @dataclass(frozen=True)
@@ -110,7 +109,7 @@ class Network:
         self._placed: dict[str, Placed | None] = {}
         self._pred_lag = site.lag_calendar is LagCalendar.PREDECESSOR
         self._override = site.progress_override
-        self._out, self._in = _adjacency(site)
+        self._out, self._in = result.compiled.links_out, result.compiled.links_in
 
     def placed(self, aid: str) -> Placed | None:
         """The activity as points, or None when it is finished."""
@@ -162,24 +161,6 @@ class Network:
         if link.type in (LinkType.FF, LinkType.SF):
             b -= s.duration
         return b
-
-
-def _adjacency(site: Site) -> tuple[dict[str, list[Link]], dict[str, list[Link]]]:
-    """Links out of and into each activity, cached on the site value.
-
-    A :class:`Site` never changes, and the app asks for the lookahead again after every
-    journal entry; :mod:`fieldlog.engine.cpm` caches its network on the site the same way.
-    """
-    cached = site.__dict__.get("_lookahead_adjacency")
-    if cached is None:
-        out: defaultdict[str, list[Link]] = defaultdict(list)
-        into: defaultdict[str, list[Link]] = defaultdict(list)
-        for link in site.links:
-            out[link.pred].append(link)
-            into[link.succ].append(link)
-        cached = (dict(out), dict(into))
-        object.__setattr__(site, "_lookahead_adjacency", cached)
-    return cached
 
 
 def _move(b: int, frm: WorkCalendar, to: WorkCalendar, after: bool) -> int:

@@ -139,6 +139,7 @@ def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | N
                 "bound_to": _iso(days[a.bound.last]),
                 "bound_person_days": a.bound.person_days,
                 "bound_work_days": a.bound.work_days,
+                "bound_days": [_iso(days[d]) for d in a.bound.days],
                 "load": list(a.load),
             }
             for a in fewest.crews

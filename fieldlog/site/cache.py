@@ -4,7 +4,9 @@ Reading ``schedule.toml`` is most of the time of ``fieldlog schedule`` on a larg
 takes about 0.6 s for 10,000 activities, while the CPM pass and the printing take a fraction
 of that. The office changes the schedule once per revision; the field runs commands many
 times a day. So the validated :class:`~fieldlog.site.model.Site` is kept, pickled, in the user's
-cache folder and found again by the content of the two files.
+cache folder and found again by the content of the two files, together with the engine's
+compiled form of it (:class:`~fieldlog.engine.compiled.CompiledSite`: the network as arrays,
+lookups by id), which costs about as much as the rest of a warm command to build.
 
 Where: ``$FIELDLOG_HOME/cache`` when ``FIELDLOG_HOME`` is set, otherwise the platform's cache
 folder (``%LOCALAPPDATA%\\fieldlog\\cache`` on Windows, ``$XDG_CACHE_HOME/fieldlog`` or
@@ -12,14 +14,16 @@ folder (``%LOCALAPPDATA%\\fieldlog\\cache`` on Windows, ``$XDG_CACHE_HOME/fieldl
 office and copied to USB sticks, and a cache there would travel with them.
 
 Key: the sha256 of ``site.toml`` and ``schedule.toml`` bytes, fieldlog's version, the Python
-version and a digest of the code that shapes a Site (this module, ``files``, ``schema``,
-``toml_file`` and ``model``), so an upgrade or an edited validation rule never serves an old answer.
+version and a digest of the code that shapes a Site and its compiled form (this module,
+``files``, ``schema``, ``toml_file``, ``model`` and the engine's ``compiled``,
+``network_arrays`` and ``topology``), so an upgrade or an edited rule never serves an old
+answer.
 
 Safety: each file is written to a temp file in the same folder and moved into place with
 ``os.replace``, so a reader sees a whole file or none. Each file starts with a header holding
 its key and the sha256 of its payload; a file that is truncated, damaged, from another
-version, or does not unpickle to a Site is a miss: it is deleted and rebuilt. Only sites that
-passed validation are stored; errors are always raised again from the files. At most
+version, or does not unpickle to a compiled Site is a miss: it is deleted and rebuilt. Only
+sites that passed validation are stored; errors are always raised again from the files. At most
 :data:`KEEP` files are kept (most recently used first).
 
 Pickle runs code from the file it reads. That is acceptable here: the folder belongs to the
@@ -32,23 +36,22 @@ from __future__ import annotations
 import copyreg
 import dataclasses
 import functools
-import gc
 import hashlib
-import io
 import os
-import pickle
 import sys
-import tempfile
-import time
 import warnings
 from collections.abc import Callable
 from pathlib import Path
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from fieldlog import __version__
+from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
 from fieldlog.home import HOME_ENV, fieldlog_home
 from fieldlog.site.model import Site
+
+if TYPE_CHECKING:  # the engine (and numpy) is imported only when an entry is read or built
+    from fieldlog.engine.compiled import CompiledSite
 
 CACHE_SUBFOLDER = "cache"
 """Sub-folder of ``$FIELDLOG_HOME`` that holds the cache."""
@@ -56,25 +59,22 @@ CACHE_SUBFOLDER = "cache"
 KEEP = 8
 """How many cached sites are kept; the least recently used go first."""
 
-FORMAT = 1
+FORMAT = 2
 """Bump when the file layout below changes."""
 
 _MAGIC = b"fieldlog-site-cache\n"
-_PREFIX, _SUFFIX, _TEMP_SUFFIX = "site-", ".pickle", ".tmp"
-_STALE_TEMP_SECONDS = 3600.0
+_PREFIX, _SUFFIX = "site-", ".pickle"
 _SHAPING_MODULES = (
-    "cache.py",
-    "files.py",
-    "schema.py",
-    "toml_file.py",
-    "model.py",
+    "site/cache.py",
+    "site/files.py",
+    "site/schema.py",
+    "site/toml_file.py",
+    "site/model.py",
+    "engine/compiled.py",
+    "engine/network_arrays.py",
+    "engine/topology.py",
 )
-"""Source files whose code decides what a cached Site holds (all in this package)."""
-
-# What makes a cached file unreadable once its digest matched: a stream pickle refuses
-# (UnpicklingError, EOFError) or a class it names that is no longer there (AttributeError,
-# ImportError). Anything else is a real error and is raised.
-_UNREADABLE = (pickle.UnpicklingError, EOFError, AttributeError, ImportError)
+"""Source files (under fieldlog/) whose code decides what a cached entry holds."""
 
 
 class SiteCacheWarning(UserWarning):
@@ -108,8 +108,10 @@ def cache_key(site_raw: bytes, schedule_raw: bytes) -> str | None:
     return h.hexdigest()
 
 
-def cached_site(site_raw: bytes, schedule_raw: bytes, build: Callable[[], Site]) -> Site:
-    """The Site for these bytes from the cache, else ``build()`` (stored when it succeeds).
+def cached_site(
+    site_raw: bytes, schedule_raw: bytes, build: Callable[[], CompiledSite]
+) -> CompiledSite:
+    """The compiled Site for these bytes from the cache, else ``build()`` (then stored).
 
     ``build`` parses and validates; whatever it raises is raised unchanged and nothing is
     stored. Problems with the cache folder itself (not writable, full) are reported with a
@@ -130,8 +132,9 @@ def cached_site(site_raw: bytes, schedule_raw: bytes, build: Callable[[], Site])
 # --- reading ------------------------------------------------------------------------------
 
 
-def read_entry(path: Path, key: str) -> Site | None:
-    """The Site stored in ``path`` under ``key``; None (and the file deleted) when unusable."""
+def read_entry(path: Path, key: str) -> Any:
+    """The value (a compiled Site, or a Site) stored in ``path`` under ``key``; None (and the
+    file deleted) when unusable."""
     try:
         data = path.read_bytes()
     except (FileNotFoundError, NotADirectoryError):
@@ -144,14 +147,14 @@ def read_entry(path: Path, key: str) -> Site | None:
         _remove(path)
         return None
     try:
-        os.utime(path)  # most recently used: kept longest by _prune
+        os.utime(path)  # most recently used: kept longest by prune
     except OSError as exc:  # FileNotFoundError too: another process pruned it meanwhile
         _warn(f"cannot mark the site cache {path} as used: {exc.strerror}")
     return site
 
 
-def _decode(data: bytes, key: str) -> Site | None:
-    """The Site in a cache file's bytes, or None when they are not a whole, matching entry."""
+def _decode(data: bytes, key: str) -> Any:
+    """The value in a cache file's bytes, or None when they are not a whole, matching entry."""
     header = _MAGIC + key.encode("ascii") + b"\n"
     digest_end = len(header) + 32
     if not data.startswith(header) or len(data) < digest_end:
@@ -159,82 +162,37 @@ def _decode(data: bytes, key: str) -> Site | None:
     payload = data[digest_end:]
     if hashlib.sha256(payload).digest() != data[len(header) : digest_end]:
         return None  # truncated or damaged: a flipped digit must never become a duration
-    # Unpickling a tree of ~40,000 small immutable values creates no reference cycles, but
-    # every allocation counts towards the cycle collector, which then runs again and again
-    # over the growing tree (about 4x the unpickling time itself); it is paused meanwhile.
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
-        site = pickle.loads(payload)
-    except _UNREADABLE:
-        return None
-    finally:
-        if was_enabled:
-            gc.enable()
-    return site if type(site) is Site else None
+    site = unpickle(payload)
+    if type(site) is Site:
+        return site
+    from fieldlog.engine.compiled import CompiledSite
+
+    if type(site) is CompiledSite and type(site.site) is Site:
+        return site
+    return None
 
 
 # --- writing ------------------------------------------------------------------------------
 
 
-def write_entry(path: Path, key: str, site: Site) -> None:
-    """Store ``site`` in ``path`` atomically, then keep only the :data:`KEEP` newest entries."""
+def write_entry(path: Path, key: str, site: Site | CompiledSite) -> None:
+    """Store ``site`` (or its compiled form) in ``path`` atomically, then keep only the
+    :data:`KEEP` newest entries."""
     payload = _pickle(site)
     data = b"".join((_MAGIC, key.encode("ascii"), b"\n", hashlib.sha256(payload).digest(), payload))
-    folder = path.parent
-    temp: Path | None = None
     try:
-        folder.mkdir(parents=True, exist_ok=True)
-        fd, name = tempfile.mkstemp(prefix=f".{_PREFIX}", suffix=_TEMP_SUFFIX, dir=folder)
-        temp = Path(name)
-        with os.fdopen(fd, "wb") as out:
-            out.write(data)
-        # No fsync: after a power cut the file may be empty or partial, which the payload
-        # digest turns into a miss; a cache need not survive, only never be wrong.
-        os.replace(temp, path)
-        temp = None
+        replace_file(path, data, _PREFIX)
     except OSError as exc:
         _warn(
-            f"cannot write the site cache in {folder}: {exc.strerror}; the site loads "
+            f"cannot write the site cache in {path.parent}: {exc.strerror}; the site loads "
             f"as usual, only slower (set {HOME_ENV} to a folder you can write)"
         )
         return
-    finally:
-        if temp is not None:
-            _remove(temp)
-    _prune(folder, keep=path)
-
-
-def _prune(folder: Path, keep: Path) -> None:
-    """Delete all but the :data:`KEEP` most recently used entries and old temp files."""
-    entries: list[tuple[float, Path]] = []
-    now = time.time()
-    try:
-        with os.scandir(folder) as it:
-            for item in it:
-                if item.name.startswith(_PREFIX) and item.name.endswith(_SUFFIX):
-                    entries.append((item.stat().st_mtime, Path(item.path)))
-                elif (
-                    item.name.startswith(f".{_PREFIX}")
-                    and item.name.endswith(_TEMP_SUFFIX)
-                    and now - item.stat().st_mtime > _STALE_TEMP_SECONDS
-                ):
-                    _remove(Path(item.path))  # left by a process that was killed mid-write
-    except FileNotFoundError:
-        return  # an entry vanished while listing: another process is pruning
-    except OSError as exc:
-        _warn(f"cannot tidy the site cache in {folder}: {exc.strerror}")
-        return
-    entries.sort(key=lambda e: (e[1] != keep, -e[0]))  # the new entry stays, then newest
-    for _, old in entries[KEEP:]:
-        _remove(old)
+    prune(path.parent, _PREFIX, _SUFFIX, KEEP, path, _warn)
 
 
 def _remove(path: Path) -> None:
-    try:
-        path.unlink(missing_ok=True)
-    except OSError as exc:
-        _warn(f"cannot delete {path}: {exc.strerror}")
+    remove(path, _warn)
 
 
 # --- pickling -----------------------------------------------------------------------------
@@ -263,12 +221,8 @@ _DISPATCH[MappingProxyType] = _reduce_mapping
 _DISPATCH[Site] = _reduce_site
 
 
-def _pickle(site: Site) -> bytes:
-    buf = io.BytesIO()
-    pickler = pickle.Pickler(buf, protocol=pickle.HIGHEST_PROTOCOL)
-    pickler.dispatch_table = _DISPATCH
-    pickler.dump(site)
-    return buf.getvalue()
+def _pickle(site: Site | CompiledSite) -> bytes:
+    return pickled(site, _DISPATCH)
 
 
 # --- the code's fingerprint ---------------------------------------------------------------
@@ -276,13 +230,13 @@ def _pickle(site: Site) -> bytes:
 
 @functools.cache
 def _code_digest() -> str | None:
-    """sha256 of the modules that shape a Site; None turns caching off (source not readable).
+    """sha256 of the modules that shape an entry; None turns caching off (source not readable).
 
     An editable install changes code without changing ``__version__``; a Site pickled by
     older code could lack a field the new code reads, or have passed a check that the new code
     refuses. Reading three small files costs well under a millisecond.
     """
-    here = Path(__file__).parent
+    here = Path(__file__).resolve().parents[1]
     h = hashlib.sha256()
     try:
         for name in _SHAPING_MODULES:

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from functools import lru_cache, partial
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from fieldlog.errors import SiteError
 from fieldlog.site.cache import cached_site
@@ -24,12 +25,16 @@ from fieldlog.site.toml_file import (
     read_toml,
 )
 
+if TYPE_CHECKING:  # the engine (numpy) is imported only when a site is compiled or unpickled
+    from fieldlog.engine.compiled import CompiledSite
+
 __all__ = [
     "MAX_LAG",
     "SCHEDULE_FILE",
     "SITE_FILE",
     "TomlFile",
     "build_site",
+    "load_compiled",
     "load_site",
     "parse_toml",
     "read_toml",
@@ -37,7 +42,12 @@ __all__ = [
 
 
 def load_site(folder: Path | str) -> Site:
-    """Load and validate the site folder ``folder``.
+    """Load and validate the site folder ``folder`` (see :func:`load_compiled`)."""
+    return load_compiled(folder).site
+
+
+def load_compiled(folder: Path | str) -> CompiledSite:
+    """Load and validate ``folder``, with the engine's compiled form of it (cached with it).
 
     Raises:
         SiteError: anything wrong in the files, located and explained.
@@ -56,7 +66,7 @@ def load_site(folder: Path | str) -> Site:
 
 
 @lru_cache(maxsize=4)
-def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
+def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> CompiledSite:
     """Parse and validate, remembered by the files' content, in this process and on disk.
 
     Parsing dominates loading (tomllib takes about 0.4 s for a 10,000-activity schedule, the
@@ -66,11 +76,15 @@ def _load_bytes(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
 
     Across processes (each ``fieldlog`` command is one), :mod:`fieldlog.site.cache` keeps the
     validated Site in the user's cache folder, so only the first command after an office
-    revision pays for the parse.
+    revision pays for the parse (and the compiled form is built once per revision too).
     """
-    return cached_site(
-        site_raw, schedule_raw, partial(_parse_and_build, folder, site_raw, schedule_raw)
-    )
+    return cached_site(site_raw, schedule_raw, partial(_compile, folder, site_raw, schedule_raw))
+
+
+def _compile(folder: Path, site_raw: bytes, schedule_raw: bytes) -> CompiledSite:
+    from fieldlog.engine.compiled import compile_site
+
+    return compile_site(_parse_and_build(folder, site_raw, schedule_raw))
 
 
 def _parse_and_build(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:

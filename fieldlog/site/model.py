@@ -10,6 +10,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 from datetime import date
 from enum import StrEnum
+from functools import cached_property
 from types import MappingProxyType
 
 WEEKDAY_NAMES = ("mon", "tue", "wed", "thu", "fri", "sat", "sun")
@@ -107,13 +108,16 @@ class Site:
         """The activity with this id (KeyError when there is none)."""
         return self._by_id[activity_id]
 
-    @property
+    @cached_property
     def _by_id(self) -> Mapping[str, Activity]:
-        cached = self.__dict__.get("_by_id_cache")
-        if cached is None:
-            cached = {a.id: a for a in self.activities}
-            object.__setattr__(self, "_by_id_cache", cached)
-        return cached
+        """Id -> activity, made on the first lookup and then kept with the value.
+
+        Checks and the journal ask by id inside loops over every activity, so a scan would be
+        quadratic. It is derived from ``activities`` alone and never changes; it is not a
+        field, so it takes no part in equality, and the site cache pickles the fields only.
+        (The engine's own index lives in :class:`fieldlog.engine.compiled.CompiledSite`.)
+        """
+        return {a.id: a for a in self.activities}
 
     def has_activity(self, activity_id: str) -> bool:
         """True when the current schedule has this activity."""

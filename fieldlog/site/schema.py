@@ -49,6 +49,14 @@ _ACTIVITY_KEYS = {
 }
 _LINK_KEYS = {"from", "to", "type", "lag"}
 _ID_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,31}$")
+_LINK_TYPES = {t.value: t for t in LinkType}
+_DATE_KEYS = ("start_not_before", "finish_not_after")
+_NO_CREW: MappingProxyType[str, int] = MappingProxyType({})
+"""Shared by every activity without a crew (most of a big schedule): read-only and empty."""
+
+# The per-activity checks below run 200,000 times on a big schedule, so each bound is first
+# tested inline and the located check (_bounded, which words the error) runs only when the
+# value is outside it; line finders are built only for the keys present.
 
 
 def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
@@ -197,7 +205,9 @@ def _schedule(
             line=f.line_of(r"^\s*revision\s*="),
             fix="add revision = 1 at the top",
         )
-    _bounded(f, bounds.check_counter, revision, "revision", line=f.line_of(r"^\s*revision\s*="))
+    _bounded(
+        f, bounds.check_counter, revision, "revision", line=partial(f.line_of, r"^\s*revision\s*=")
+    )
     rows = f.data.get("activity", [])
     if not isinstance(rows, list):
         raise f.error("activities must be [[activity]] tables")
@@ -224,7 +234,8 @@ def _schedule(
                 activity=aid,
                 fix="give every activity its own id",
             )
-        _no_unknown(f, row, _ACTIVITY_KEYS, f"activity '{aid}'", line=line, activity=aid)
+        if not row.keys() <= _ACTIVITY_KEYS:
+            _no_unknown(f, row, _ACTIVITY_KEYS, f"activity '{aid}'", line=line, activity=aid)
         name = row.get("name")
         if not isinstance(name, str) or not name.strip():
             raise f.error(
@@ -233,7 +244,8 @@ def _schedule(
                 activity=aid,
                 fix='add name = "what the crew does"',
             )
-        _bounded(f, bounds.check_text, name, f"activity '{aid}' name", line=line, activity=aid)
+        if len(name) > bounds.MAX_TEXT:
+            _bounded(f, bounds.check_text, name, f"activity '{aid}' name", line=line, activity=aid)
         duration = row.get("duration")
         if not isinstance(duration, int) or isinstance(duration, bool):
             raise f.error(
@@ -249,14 +261,15 @@ def _schedule(
                 activity=aid,
                 fix="use 0 for a milestone or a positive number",
             )
-        _bounded(
-            f,
-            bounds.check_days,
-            duration,
-            f"activity '{aid}' duration",
-            activity=aid,
-            line=partial(f.key_line, "duration", line),
-        )
+        if duration > bounds.MAX_DAYS:
+            _bounded(
+                f,
+                bounds.check_days,
+                duration,
+                f"activity '{aid}' duration",
+                activity=aid,
+                line=partial(f.key_line, "duration", line),
+            )
         cal = row.get("calendar", default_cal)
         if cal not in calendars:
             raise f.error(
@@ -287,40 +300,36 @@ def _schedule(
                     line=line,
                     activity=aid,
                 )
-            _bounded(
-                f,
-                bounds.check_headcount,
-                count,
-                f"activity '{aid}' crew '{cname}'",
-                line=line,
-                activity=aid,
-            )
-        where = f"activity '{aid}'"
+            if count > bounds.MAX_HEADCOUNT:
+                _bounded(
+                    f,
+                    bounds.check_headcount,
+                    count,
+                    f"activity '{aid}' crew '{cname}'",
+                    line=line,
+                    activity=aid,
+                )
+        limits: dict[str, date | None] = {}
+        for key in _DATE_KEYS:
+            if key in row:
+                limits[key] = _date(
+                    f,
+                    row,
+                    key,
+                    f"activity '{aid}'",
+                    activity=aid,
+                    line=partial(f.key_line, key, line),
+                    site_start=start,
+                )
         activities.append(
             Activity(
                 id=aid,
                 name=name.strip(),
                 duration=duration,
                 calendar=cal,
-                start_not_before=_date(
-                    f,
-                    row,
-                    "start_not_before",
-                    where,
-                    activity=aid,
-                    line=partial(f.key_line, "start_not_before", line),
-                    site_start=start,
-                ),
-                finish_not_after=_date(
-                    f,
-                    row,
-                    "finish_not_after",
-                    where,
-                    activity=aid,
-                    line=partial(f.key_line, "finish_not_after", line),
-                    site_start=start,
-                ),
-                crew=MappingProxyType(dict(crew)),
+                start_not_before=limits.get("start_not_before"),
+                finish_not_after=limits.get("finish_not_after"),
+                crew=MappingProxyType(dict(crew)) if crew else _NO_CREW,
             )
         )
         after = row.get("after", [])
@@ -355,7 +364,8 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
         line = partial(f.line_of, r"^\s*\[\[link\]\]", n)
         if not isinstance(row, dict):
             raise f.error("links must be [[link]] tables", line=line)
-        _no_unknown(f, row, _LINK_KEYS, "[[link]]", line=line)
+        if not row.keys() <= _LINK_KEYS:
+            _no_unknown(f, row, _LINK_KEYS, "[[link]]", line=line)
         pred, succ = row.get("from"), row.get("to")
         for key, value in (("from", pred), ("to", succ)):
             if not isinstance(value, str):
@@ -369,16 +379,17 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
                 )
         if pred == succ:
             raise f.error(f"[[link]] from '{pred}' to itself", line=line, activity=pred)
-        kind = str(row.get("type", "FS")).upper()
-        try:
-            link_type = LinkType(kind)
-        except ValueError:
+        kind = row.get("type", "FS")
+        link_type = _LINK_TYPES.get(kind) if type(kind) is str else None
+        if link_type is None:
+            link_type = _LINK_TYPES.get(str(kind).upper())
+        if link_type is None:
             raise f.error(
                 f"[[link]] {pred} -> {succ} has unknown type {bounds.shown(row.get('type'))}",
                 line=line,
                 activity=succ,
                 fix="use FS, SS, FF or SF",
-            ) from None
+            )
         lag = row.get("lag", 0)
         if not isinstance(lag, int) or isinstance(lag, bool):
             raise f.error(
@@ -387,15 +398,16 @@ def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
                 activity=succ,
                 fix="e.g. lag = 2, or lag = -1 for a lead",
             )
-        _bounded(
-            f,
-            bounds.check_days,
-            lag,
-            f"[[link]] {pred} -> {succ} lag",
-            low=-MAX_LAG,
-            line=line,
-            activity=succ,
-        )
+        if not -MAX_LAG <= lag <= MAX_LAG:
+            _bounded(
+                f,
+                bounds.check_days,
+                lag,
+                f"[[link]] {pred} -> {succ} lag",
+                low=-MAX_LAG,
+                line=line,
+                activity=succ,
+            )
         out.append(Link(str(pred), str(succ), link_type, lag))
     return out
 

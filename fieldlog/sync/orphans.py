@@ -33,7 +33,7 @@ def orphaned_entries(folder: Path, old: Site, new: Site) -> tuple[str, ...]:
     """
     journal = read_journal(folder)
     status = default_status_date(new, journal)
-    before = {p.message for p in replay(old, journal.entries, status).problems}
+    before = {p.message for p in replay(old, journal, status).problems}
     return tuple(
-        p.message for p in replay(new, journal.entries, status).problems if p.message not in before
+        p.message for p in replay(new, journal, status).problems if p.message not in before
     )

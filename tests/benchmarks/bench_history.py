@@ -33,12 +33,14 @@ import random
 import sys
 import tempfile
 import time
+from collections.abc import Mapping
 from datetime import UTC, date, datetime, timedelta
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
 import tomli_w
+from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
@@ -54,6 +56,7 @@ from fieldlog.journal.chain import entry_hash  # noqa: E402
 from fieldlog.journal.entries import Entry  # noqa: E402
 from fieldlog.journal.names import file_name  # noqa: E402
 from fieldlog.journal.record import FILE_HEADER  # noqa: E402
+from fieldlog.journal.signing import sign  # noqa: E402
 from fieldlog.site.files import load_site  # noqa: E402
 from fieldlog.site.model import Site  # noqa: E402
 
@@ -66,7 +69,9 @@ PER_DAY = 40
 class Writer:
     """Day files in the journal's format, one hash chain per file, seq per device."""
 
-    def __init__(self, folder: Path) -> None:
+    def __init__(self, folder: Path, keys: Mapping[str, Ed25519PrivateKey] | None = None) -> None:
+        self.keys = keys or {}
+        """Device -> signing key; a device without one writes unsigned entries."""
         self.log = folder / "log"
         self.log.mkdir(parents=True, exist_ok=True)
         self.seq = dict.fromkeys(DEVICES, 0)
@@ -90,6 +95,8 @@ class Writer:
         )
         body = entry.stored()
         body["hash"] = entry_hash(body)
+        if device in self.keys:
+            body["sig"] = sign(self.keys[device], body["hash"])
         self.prev[name] = body["hash"]
         self.files.setdefault(name, []).append(b"[[entry]]\n" + tomli_w.dumps(body).encode())
         return entry.id
@@ -99,10 +106,17 @@ class Writer:
             (self.log / name).write_bytes(FILE_HEADER + b"\n" + b"\n".join(blocks))
 
 
-def generate(site: Site, folder: Path, working_days: int, seed: int = 11) -> int:
-    """A log that follows the schedule with random slips; returns the number of entries."""
+def generate(
+    site: Site,
+    folder: Path,
+    working_days: int,
+    seed: int = 11,
+    keys: Mapping[str, Ed25519PrivateKey] | None = None,
+) -> int:
+    """A log that follows the schedule with random slips (signed by ``keys`` per device);
+    returns the number of entries."""
     rng = random.Random(seed)
-    w = Writer(folder)
+    w = Writer(folder, keys)
     cal_name = site.calendar
     progress: dict[str, Progress] = {}
     lost: dict[str, set[date]] = {}

@@ -19,10 +19,10 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
-from fieldlog.journal.reader import EntryList, Journal  # noqa: E402
-from fieldlog.journal.record import _append  # noqa: E402
+from fieldlog.journal.reader import Journal  # noqa: E402
+from fieldlog.journal.record import _append, _Signer  # noqa: E402
 from fieldlog.sync import SyncOptions, sync_site  # noqa: E402
-from tests.helpers.sync_helpers import WRITTEN, make_site  # noqa: E402
+from tests.helpers.sync_helpers import WRITTEN, fixed_key, make_site  # noqa: E402
 
 DAYS_PER_DEVICE = 10
 
@@ -44,13 +44,14 @@ def build(site: Path, files: int, entries_per_file: int) -> int:
             so_far.append(
                 _append(
                     log,
-                    Journal(EntryList(so_far)),
+                    Journal(tuple(so_far)),
                     device,
                     "note",
                     day,
                     {"text": f"entry {k}: " + "x" * 120},
                     "Bench Foreman",
                     lambda: WRITTEN,
+                    _Signer(fixed_key(device), site, day),
                 )
             )
     return sum(p.stat().st_size for p in log.iterdir() if not p.name.startswith("."))

@@ -142,7 +142,7 @@ def _env() -> dict[str, str]:
 
 def summary(outcomes: Sequence[Outcome]) -> str:
     """One line per script: name, how it ended, wall seconds."""
-    width = max((len(o.name) for o in outcomes), default=4)
+    width = max([len("benchmark"), *(len(o.name) for o in outcomes)])
     rows = [f"{'benchmark':<{width}}  result      wall"]
     for o in outcomes:
         result = "timed out" if o.code is None else ("ok" if o.code == 0 else f"exit {o.code}")

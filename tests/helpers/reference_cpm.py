@@ -5,9 +5,10 @@ commit that added numpy). It is deliberately plain: one loop over the topologica
 activity at a time, so that the array engine can be checked against it field by field on
 random sites (tests/test_cpm_differential.py). It is used only by tests; do not "improve" it
 along with the engine, or the comparison stops meaning anything. Changes from the copy: it
-caches its network under its own key, and the small result helpers it relied on
-(critical_threshold, find_out_of_sequence, ScheduleResult.assemble, ActivityResult.from_fields)
-are copied below so that changes to fieldlog/engine/result.py cannot leak into it.
+builds its network on every call (it kept it on the site value), it hands the result the
+site's compiled form (a field results carry), and the small result helpers it relied on
+(critical_threshold, find_out_of_sequence and the result assembly) are copied below so that
+changes to fieldlog/engine/result.py cannot leak into it.
 
 Original docstring follows.
 
@@ -61,6 +62,7 @@ from datetime import date, timedelta
 from types import MappingProxyType
 
 from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
+from fieldlog.engine.compiled import compile_site
 from fieldlog.engine.progress import NO_PROGRESS, Progress, Status, remaining_at
 from fieldlog.engine.result import ActivityResult, OutOfSequence, ScheduleResult
 from fieldlog.engine.topology import topological_order
@@ -122,14 +124,7 @@ def _initial_range(
 
 
 def _network(site: Site) -> tuple[list[int], list[list[_Edge]], list[list[_Edge]], int]:
-    """Topological order, predecessor and successor lists, and the total work in days.
-
-    Cached on the site value (it never changes), so recomputing after a journal entry does not
-    sort the network again.
-    """
-    cached = site.__dict__.get("_reference_cpm_network")
-    if cached is not None:
-        return cached
+    """Topological order, predecessor and successor lists, and the total work in days."""
     ids = [a.id for a in site.activities]
     index = {aid: k for k, aid in enumerate(ids)}
     order_ids, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in site.links))
@@ -146,9 +141,7 @@ def _network(site: Site) -> tuple[list[int], list[list[_Edge]], list[list[_Edge]
         succs[i].append((j, t, lag, lk, same))
         if lag > 0:
             work += lag
-    cached = (order, preds, succs, work)
-    object.__setattr__(site, "_reference_cpm_network", cached)
-    return cached
+    return order, preds, succs, work
 
 
 def _run(
@@ -493,6 +486,7 @@ def _assemble(
         out_of_sequence=out_of_sequence,
         calendars=MappingProxyType(dict(calendars)),
         by_id=MappingProxyType({r.id: r for r in results}),
+        compiled=compile_site(site),
     )
 
 

@@ -59,7 +59,7 @@ class ForecastScreen(ViewScreen):
     @work(thread=True, exclusive=True, group="forecast")
     def _compute(self, snap: Snapshot, by: str, width: int) -> None:
         state = snap.state
-        history = build_history(state.site, state.journal.entries, last=state.as_of, by=by)
+        history = build_history(state.site, state.journal, last=state.as_of, by=by)
         text = render_text(history, width)
         self.app.call_from_thread(self._show, snap.version, by, history.total_movement, text)
 

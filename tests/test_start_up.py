@@ -1,0 +1,68 @@
+"""`fieldlog schedule` imports only what the command needs, so it starts fast.
+
+Each case runs the real command in a fresh interpreter and reads ``sys.modules`` afterwards:
+the only way to see what a command imported, directly or through another module. Textual is
+for the app, holidays for a calendar that asks for public holidays, cryptography's key and
+signature code for a log whose signatures are not yet checked (the journal's cache of
+checked files spares it afterwards), icalendar for ``--format ics``, dulwich for git sync.
+"""
+
+from __future__ import annotations
+
+import os
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+NEVER = ("textual", "holidays", "icalendar", "dulwich")
+SIGNATURES = "cryptography.hazmat"
+
+_PROBE = """\
+import sys
+from fieldlog.cli import main
+code = main(["schedule", sys.argv[1]])
+sys.stdout.flush()
+found = sorted({m for m in sys.modules for p in sys.argv[2:] if m == p or m.startswith(p + ".")})
+print("IMPORTED:" + ",".join(found), file=sys.stderr)
+sys.exit(code)
+"""
+
+
+def imported(folder: Path, home: Path, watch: tuple[str, ...]) -> set[str]:
+    """Top packages of ``watch`` that ``fieldlog schedule folder`` imported."""
+    done = subprocess.run(
+        [sys.executable, "-c", _PROBE, str(folder), *watch],
+        capture_output=True,
+        text=True,
+        env={**os.environ, "FIELDLOG_HOME": str(home)},
+        check=True,
+    )
+    line = done.stderr.strip().splitlines()[-1]
+    assert line.startswith("IMPORTED:"), done.stderr
+    names = set(filter(None, line.removeprefix("IMPORTED:").split(",")))
+    return {p for p in watch if any(n == p or n.startswith(p + ".") for n in names)}
+
+
+def test_schedule_of_the_sample_imports_no_app_holidays_ics_or_git(sample_site, tmp_path):
+    home = tmp_path / "home"
+    watch = (*NEVER, SIGNATURES)
+    first = imported(sample_site, home, watch)
+    assert not first & set(NEVER), first
+    # The second run finds the log's files checked already: no signature is verified again.
+    assert imported(sample_site, home, watch) == set()
+
+
+def test_an_unsigned_site_never_loads_the_signature_code(sample_site, tmp_path):
+    shutil.rmtree(sample_site / "log")
+    shutil.rmtree(sample_site / "devices", ignore_errors=True)
+    assert imported(sample_site, tmp_path / "home", (*NEVER, SIGNATURES)) == set()
+
+
+def test_public_holidays_load_the_holidays_package_only_when_asked(sample_site, tmp_path):
+    site = sample_site / "site.toml"
+    text = site.read_text(encoding="utf-8")
+    head = "[calendars.weekdays]\n"
+    assert head in text
+    site.write_text(text.replace(head, head + 'public_holidays = "GB-ENG"\n', 1), encoding="utf-8")
+    assert "holidays" in imported(sample_site, tmp_path / "home", ("holidays",))
