@@ -15,6 +15,7 @@ from datetime import date
 from fieldlog.lookahead.fewest_bounds import LowerBound
 from fieldlog.lookahead.fewest_people import CAUTION, CrewAnswer, FewestPeople, Raised
 from fieldlog.lookahead.reasons import date_text, working_days
+from fieldlog.reports.words import people
 
 
 def title(fewest: FewestPeople) -> str:
@@ -27,11 +28,11 @@ def title(fewest: FewestPeople) -> str:
 
 def crew_line(answer: CrewAnswer) -> str:
     """``groundworks: 8 people, optimal (has 10; 12 if all work starts early)``."""
-    people = _people(answer.peak)
+    headcount = people(answer.peak)
     proof = "optimal" if answer.optimal else f"no plan needs fewer than {answer.bound.people}"
     sep = ", " if answer.optimal else "; "
     return (
-        f"{answer.crew}: {people}{sep}{proof} (has {answer.available}; "
+        f"{answer.crew}: {headcount}{sep}{proof} (has {answer.available}; "
         f"{answer.early_peak} if all work starts early)"
     )
 
@@ -50,7 +51,7 @@ def raised_line(raised: Raised) -> str:
     never above its headcount of 4.``"""
     room = ", ".join(raised.room_for)
     return (
-        f"{raised.crew} rises to {_people(raised.peak)} ({raised.early_peak} if all work starts "
+        f"{raised.crew} rises to {people(raised.peak)} ({raised.early_peak} if all work starts "
         f"early) to make room for {room}; never above its headcount of {raised.available}."
     )
 
@@ -60,7 +61,7 @@ def bound_line(answer: CrewAnswer, days: tuple[date, ...]) -> str | None:
     b: LowerBound = answer.bound
     if b.reason == "must":
         return (
-            f"{answer.crew}: work that cannot move needs {_people(b.people)} on "
+            f"{answer.crew}: work that cannot move needs {people(b.people)} on "
             f"{date_text(days[b.first])}."
         )
     if b.reason == "energy":
@@ -68,17 +69,17 @@ def bound_line(answer: CrewAnswer, days: tuple[date, ...]) -> str | None:
             f"{answer.crew}: {b.person_days} person-days must fall between "
             f"{date_text(days[b.first])} and {date_text(days[b.last])}, on "
             f"{working_days(b.work_days)} the crew can work: at least "
-            f"{_people(b.people)} a day."
+            f"{people(b.people)} a day."
         )
     if b.reason == "days":
         chosen = ", ".join(date_text(days[d]) for d in b.days)
         return (
             f"{answer.crew}: {b.person_days} person-days must fall on these "
             f"{working_days(b.work_days)}, whatever starts the work takes ({chosen}): at least "
-            f"{_people(b.people)} a day."
+            f"{people(b.people)} a day."
         )
     if b.reason == "headcount":
-        return f"{answer.crew}: one activity alone needs {_people(b.people)}."
+        return f"{answer.crew}: one activity alone needs {people(b.people)}."
     return None
 
 
@@ -103,7 +104,3 @@ def lines(fewest: FewestPeople, days: tuple[date, ...]) -> list[str]:
     out.append(search_line(fewest))
     out.append(CAUTION)
     return out
-
-
-def _people(n: int) -> str:
-    return f"{n} {'person' if n == 1 else 'people'}"

@@ -23,6 +23,11 @@ def working_days(n: int) -> str:
     return count(n, "working day", "working days")
 
 
+def people(n: int) -> str:
+    """``1 person`` / ``8 people``: a crew's headcount."""
+    return count(n, "person", "people")
+
+
 def against_required(finish_float: int) -> str:
     """The forecast finish against the required finish: the one wording every report uses.
 

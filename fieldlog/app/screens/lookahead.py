@@ -76,8 +76,6 @@ def legend(marks: Mapping[Cell, str]) -> str:
     )
 
 
-LEGEND = legend(GLYPHS)
-
 CREW_PREFIX = "crew:"
 
 
