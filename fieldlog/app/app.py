@@ -178,29 +178,6 @@ class FieldlogApp(App[None]):
         """What the forms' day fields are read against: today, and the site's earliest day."""
         return DayContext(self.session.today, earliest_day(self.snapshot.site.start))
 
-    def ask(
-        self,
-        form: Form,
-        kind: str,
-        *,
-        fixed: Mapping[str, Any] | None = None,
-        day: date | None = None,
-        draft_key: str = "",
-    ) -> None:
-        """Open ``form``; when it reads, append an entry of ``kind`` with the ``fixed`` fields.
-
-        The form's "Day" field, when it has one, gives the entry's day. A form closed with Esc
-        keeps its typing as a draft under ``draft_key`` (default: the kind and the fixed
-        fields, so the same key on the same activity opens it again).
-        """
-
-        def submit(values: dict[str, Any]) -> str | None:
-            values = dict(values)
-            typed_day = values.pop(DAY_FIELD, None)
-            return self.write(kind, entry_fields(values, fixed), typed_day or day)
-
-        self.open_form(form, submit, draft_key or draft_name(kind, fixed))
-
     def open_form(self, form: Form, submit: Submit, draft_key: str) -> None:
         """Show ``form``, restoring its draft; Esc keeps what was typed under ``draft_key``."""
 
@@ -228,14 +205,21 @@ class FieldlogApp(App[None]):
         self.write(message.kind, message.fields, message.day, message.note)
 
     def on_ask_for_entry(self, message: AskForEntry) -> None:
-        """A record key with a form: open it; the App's submit writes the entry."""
-        self.ask(
-            message.form,
-            message.kind,
-            fixed=message.fixed,
-            day=message.day,
-            draft_key=message.draft_key,
-        )
+        """A record key with a form: open it; when it reads, append an entry of the message's
+        kind with its fixed fields (the submit callback is the App's).
+
+        The form's "Day" field, when it has one, gives the entry's day. A form closed with Esc
+        keeps its typing as a draft under the message's draft key (default: the kind and the
+        fixed fields, so the same key on the same activity opens it again).
+        """
+        kind, fixed, day = message.kind, message.fixed, message.day
+
+        def submit(values: dict[str, Any]) -> str | None:
+            values = dict(values)
+            typed_day = values.pop(DAY_FIELD, None)
+            return self.write(kind, entry_fields(values, fixed), typed_day or day)
+
+        self.open_form(message.form, submit, message.draft_key or draft_name(kind, fixed))
 
     def on_open_form(self, message: OpenForm) -> None:
         """A form whose values stand for entries the screen reads; written here, in order."""
