@@ -24,7 +24,7 @@ from functools import cached_property
 
 import numpy as np
 
-from fieldlog.engine.topology import topological_order
+from fieldlog.engine.topology import levels, topological_order
 from fieldlog.site.model import LinkType, Site
 
 _READS_START = frozenset({LinkType.SS, LinkType.SF})
@@ -144,28 +144,7 @@ def build_network(site: Site) -> NetworkArrays:
 
 
 def _levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray:
-    """Longest chain of links into each activity: Kahn's algorithm, one round per level.
-
-    Round ``r`` takes every activity whose predecessors were all taken in earlier rounds, so
-    its longest chain has ``r`` links. Each round is a few array operations.
-    """
-    level = np.zeros(n, dtype=np.int64)
-    waiting = np.bincount(succ, minlength=n)  # predecessors not yet taken, per link
-    by_pred = np.argsort(pred, kind="stable")
-    out = succ[by_pred]
-    first_out = np.searchsorted(pred[by_pred], np.arange(n + 1))
-    ready = np.flatnonzero(waiting == 0)
-    depth, taken = 0, 0
-    while ready.size:
-        level[ready] = depth
-        taken += ready.size
-        count = first_out[ready + 1] - first_out[ready]
-        # positions first_out[r] .. first_out[r + 1] - 1 of every ready activity r, flattened
-        offset = np.repeat(first_out[ready] - np.cumsum(count) + count, count)
-        reached = out[offset + np.arange(offset.size)]
-        np.subtract.at(waiting, reached, 1)
-        reached = np.unique(reached)
-        ready = reached[waiting[reached] == 0]
-        depth += 1
-    assert taken == n, "site_files refuses loops"
-    return level
+    """Longest chain of links into each activity (:func:`fieldlog.engine.topology.levels`)."""
+    level = levels(n, pred, succ)
+    assert level is not None, "site_files refuses loops"
+    return level.astype(np.int64)

@@ -7,6 +7,10 @@ schedule.toml that must be reported with every activity in the loop, in order).
 from __future__ import annotations
 
 from collections.abc import Iterable, Sequence
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # numpy is imported by the functions that need it (start-up, see below)
+    import numpy as np
 
 
 def topological_order(
@@ -44,6 +48,46 @@ def topological_order(
     remaining = {i for i, d in enumerate(indegree) if d > 0}
     cycle = _find_cycle(succs, remaining)
     return [nodes[i] for i in order], [nodes[i] for i in cycle]
+
+
+def levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
+    """Longest chain of links into each of ``n`` nodes, or None when the links form a loop.
+
+    Kahn's algorithm one round per level, each round a few array operations: round ``r``
+    takes every node whose predecessors were all taken in earlier rounds, so its longest chain
+    has ``r`` links. Nodes on or after a loop are never taken. This is the fast test the
+    loader runs on every schedule; only a schedule with a loop goes on to
+    :func:`topological_order`, which names the loop. numpy is imported here, not at module
+    level, so that commands which never build a network do not pay for it.
+    """
+    import numpy as np
+
+    level = np.zeros(n, dtype=np.int32)
+    if not len(succ):
+        return level
+    waiting = np.bincount(succ, minlength=n)  # predecessors not yet taken, per node
+    by_pred = np.argsort(pred, kind="stable")
+    out = succ[by_pred]
+    first_out = np.searchsorted(pred[by_pred], np.arange(n + 1))
+    ready = np.flatnonzero(waiting == 0)
+    depth, taken = 0, 0
+    while ready.size:
+        level[ready] = depth
+        taken += ready.size
+        count = first_out[ready + 1] - first_out[ready]
+        # positions first_out[r] .. first_out[r + 1] - 1 of every ready node r, flattened
+        offset = np.repeat(first_out[ready] - np.cumsum(count) + count, count)
+        reached = np.sort(out[offset + np.arange(offset.size)])
+        if not reached.size:
+            break
+        # each node reached once, with how many of its links were taken (a sort, no np.unique:
+        # that one imports numpy.ma, a tenth of numpy's start-up)
+        first = np.flatnonzero(np.concatenate(([True], reached[1:] != reached[:-1])))
+        reached = reached[first]
+        waiting[reached] -= np.diff(np.append(first, offset.size))
+        ready = reached[waiting[reached] == 0]
+        depth += 1
+    return level if taken == n else None
 
 
 def _find_cycle(succs: list[list[int]], candidates: set[int]) -> list[int]:

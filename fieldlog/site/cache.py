@@ -68,6 +68,7 @@ _SHAPING_MODULES = (
     "site/cache.py",
     "site/files.py",
     "site/schema.py",
+    "site/bulk.py",
     "site/toml_file.py",
     "site/model.py",
     "engine/compiled.py",

@@ -12,12 +12,21 @@ import re
 from collections.abc import Callable
 from datetime import date, datetime
 from functools import partial
+from operator import attrgetter
 from types import MappingProxyType
 from typing import Any, Literal, overload
 
 from fieldlog import bounds
-from fieldlog.engine.topology import topological_order
+from fieldlog.engine.topology import levels, topological_order
 from fieldlog.errors import DependencyLoopError, OutOfBounds
+from fieldlog.site.bulk import (
+    ACTIVITY_KEYS,
+    ID_PATTERN,
+    LINK_KEYS,
+    LINK_TYPES,
+    NO_CREW,
+    bulk_schedule,
+)
 from fieldlog.site.model import (
     WEEKDAY_NAMES,
     Activity,
@@ -25,7 +34,6 @@ from fieldlog.site.model import (
     Crew,
     LagCalendar,
     Link,
-    LinkType,
     Site,
 )
 from fieldlog.site.toml_file import SITE_FILE, Line, TomlFile
@@ -37,26 +45,15 @@ MAX_LAG = bounds.MAX_DAYS
 _SITE_KEYS = {"name", "start", "finish_by", "calendar", "progress_override", "lag_calendar"}
 _CALENDAR_KEYS = {"workdays", "holidays", "public_holidays"}
 _CREW_KEYS = {"available"}
-_ACTIVITY_KEYS = {
-    "id",
-    "name",
-    "duration",
-    "calendar",
-    "after",
-    "start_not_before",
-    "finish_not_after",
-    "crew",
-}
-_LINK_KEYS = {"from", "to", "type", "lag"}
-_ID_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,31}$")
-_LINK_TYPES = {t.value: t for t in LinkType}
+_ACTIVITY_KEYS = set(ACTIVITY_KEYS)
+_LINK_KEYS = set(LINK_KEYS)
+_ID_PATTERN = ID_PATTERN
+_LINK_TYPES = LINK_TYPES
 _DATE_KEYS = ("start_not_before", "finish_not_after")
-_NO_CREW: MappingProxyType[str, int] = MappingProxyType({})
-"""Shared by every activity without a crew (most of a big schedule): read-only and empty."""
+_NO_CREW = NO_CREW
 
-# The per-activity checks below run 200,000 times on a big schedule, so each bound is first
-# tested inline and the located check (_bounded, which words the error) runs only when the
-# value is outside it; line finders are built only for the keys present.
+# A valid schedule is built by fieldlog.site.bulk, a column at a time. The per-activity checks
+# below run only when it has a doubt, and word the first mistake in the file exactly.
 
 
 def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
@@ -106,9 +103,10 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
             line=site_file.line_of(r"^\s*finish_by\s*="),
             fix="correct one of the two dates",
         )
-    ids = [a.id for a in activities]
-    _, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in links))
-    if cycle:
+    if _has_loop(activities, links):
+        ids = [a.id for a in activities]
+        _, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in links))
+        assert cycle, "levels() and topological_order() disagree on a loop"
         raise DependencyLoopError(cycle, file=schedule_file.path)
     return Site(
         name=name,
@@ -123,6 +121,20 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
         progress_override=override,
         lag_calendar=lag_calendar,
     )
+
+
+def _has_loop(activities: list[Activity], links: list[Link]) -> bool:
+    """Whether ``links`` form a loop: the fast array test; the loop is named by the caller."""
+    import numpy as np
+
+    index = {a.id: k for k, a in enumerate(activities)}
+    count = len(links)
+    pred = np.fromiter(map(index.__getitem__, map(_PRED, links)), np.int32, count)
+    succ = np.fromiter(map(index.__getitem__, map(_SUCC, links)), np.int32, count)
+    return levels(len(activities), pred, succ) is None
+
+
+_PRED, _SUCC = attrgetter("pred"), attrgetter("succ")
 
 
 # --- pieces ----------------------------------------------------------------------------------
@@ -208,6 +220,9 @@ def _schedule(
     _bounded(
         f, bounds.check_counter, revision, "revision", line=partial(f.line_of, r"^\s*revision\s*=")
     )
+    built = bulk_schedule(f.data, calendars, crews, default_cal, start)
+    if built is not None:
+        return (revision, *built)
     rows = f.data.get("activity", [])
     if not isinstance(rows, list):
         raise f.error("activities must be [[activity]] tables")
