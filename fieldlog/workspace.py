@@ -14,7 +14,8 @@ from fieldlog.engine.compiled import CompiledSite, compile_site
 from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.readiness import holds
 from fieldlog.engine.result import ScheduleResult
-from fieldlog.journal import Journal, Replay, read_journal, replay
+from fieldlog.journal.reader import Journal, read_journal
+from fieldlog.journal.replay import Replay, replay
 from fieldlog.site.files import load_compiled
 from fieldlog.site.model import Site
 

@@ -60,21 +60,61 @@ Recording (:mod:`~fieldlog.journal.record`): how the app adds an entry
 
 from __future__ import annotations
 
+from importlib import import_module
+from typing import TYPE_CHECKING, Any
+
 from fieldlog.errors import EntryRefused, JournalError
-from fieldlog.journal.device import device_id
-from fieldlog.journal.entries import (
-    INSPECTION_RESULTS,
-    INSTRUCTION_FORMS,
-    KINDS,
-    LOST_TIME_CAUSES,
-    Entry,
-    FieldSpec,
-)
-from fieldlog.journal.filecheck import Finding, check_journal_bytes
-from fieldlog.journal.reader import Journal, read_journal
-from fieldlog.journal.record import record_entry
-from fieldlog.journal.replay import ActivityEntries, Problem, Replay, replay
-from fieldlog.journal.verify import verify
+
+if TYPE_CHECKING:
+    from fieldlog.journal.device import device_id
+    from fieldlog.journal.entries import (
+        INSPECTION_RESULTS,
+        INSTRUCTION_FORMS,
+        KINDS,
+        LOST_TIME_CAUSES,
+        Entry,
+        FieldSpec,
+    )
+    from fieldlog.journal.filecheck import Finding, check_journal_bytes
+    from fieldlog.journal.reader import Journal, read_journal
+    from fieldlog.journal.record import record_entry
+    from fieldlog.journal.replay import ActivityEntries, Problem, Replay, replay
+    from fieldlog.journal.verify import verify
+
+_HOMES = {
+    "device_id": "device",
+    **dict.fromkeys(
+        (
+            "INSPECTION_RESULTS",
+            "INSTRUCTION_FORMS",
+            "KINDS",
+            "LOST_TIME_CAUSES",
+            "Entry",
+            "FieldSpec",
+        ),
+        "entries",
+    ),
+    "Finding": "filecheck",
+    "check_journal_bytes": "filecheck",
+    "Journal": "reader",
+    "read_journal": "reader",
+    "record_entry": "record",
+    **dict.fromkeys(("ActivityEntries", "Problem", "Replay", "replay"), "replay"),
+    "verify": "verify",
+}
+"""Where each name above lives. They are imported on first use (PEP 562), so that reading a
+journal does not load the code that records entries, verifies a log or names this device:
+``fieldlog schedule`` starts faster (tests/test_start_up.py)."""
+
+
+def __getattr__(name: str) -> Any:
+    home = _HOMES.get(name)
+    if home is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(import_module(f"{__name__}.{home}"), name)
+    globals()[name] = value
+    return value
+
 
 __all__ = [
     "INSPECTION_RESULTS",
