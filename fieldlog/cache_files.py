@@ -11,6 +11,8 @@ left behind are removed after an hour.
 from __future__ import annotations
 
 import gc
+import hashlib
+import hmac
 import io
 import os
 import pickle
@@ -56,6 +58,28 @@ def unpickle(payload: bytes) -> object | None:
     finally:
         if was_enabled:
             gc.enable()
+
+
+def sealed(header: bytes, secret: bytes, payload: bytes) -> bytes:
+    """A sealed cache file: ``header``, an HMAC-SHA256 of header and payload under
+    ``secret``, the payload's sha256, the payload."""
+    mac = hmac.new(secret, header + payload, "sha256").digest()
+    return b"".join((header, mac, hashlib.sha256(payload).digest(), payload))
+
+
+def unseal(data: bytes, header: bytes, secret: bytes) -> bytes | None:
+    """The payload of a :func:`sealed` file, or None when it is cut short, damaged, has
+    another header, or was not sealed with ``secret`` (then it must never be unpickled)."""
+    start = len(header) + 64
+    if not data.startswith(header) or len(data) < start:
+        return None
+    mac, digest = data[len(header) : len(header) + 32], data[start - 32 : start]
+    payload = data[start:]
+    if hashlib.sha256(payload).digest() != digest:
+        return None  # truncated or damaged
+    if not hmac.compare_digest(mac, hmac.new(secret, header + payload, "sha256").digest()):
+        return None  # not written by this user's fieldlog
+    return payload
 
 
 def replace_file(path: Path, data: bytes, prefix: str) -> None:

@@ -31,7 +31,6 @@ from __future__ import annotations
 import copyreg
 import functools
 import hashlib
-import hmac
 import os
 import pickle
 import secrets
@@ -44,7 +43,7 @@ from types import MappingProxyType
 from typing import Any
 
 from fieldlog import __version__
-from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
+from fieldlog.cache_files import pickled, prune, remove, replace_file, sealed, unpickle, unseal
 from fieldlog.journal.filecheck import FileCheck
 from fieldlog.site.cache import cache_folder
 
@@ -182,16 +181,9 @@ def _read(path: Path, key: str, secret: bytes) -> Mapping[str, bytes]:
     except OSError as exc:
         _warn(f"cannot read the journal cache {path}: {exc.strerror}")
         return {}
-    header = _header(key)
-    start = len(header) + 64
-    if not data.startswith(header) or len(data) < start:
-        return {}
-    mac, digest = data[len(header) : len(header) + 32], data[start - 32 : start]
-    payload = data[start:]
-    if hashlib.sha256(payload).digest() != digest:
-        return {}  # truncated or damaged
-    if not hmac.compare_digest(mac, hmac.new(secret, header + payload, "sha256").digest()):
-        return {}  # not written by this user's fieldlog: never unpickled
+    payload = unseal(data, _header(key), secret)
+    if payload is None:
+        return {}  # truncated, damaged, or not this user's fieldlog's: never unpickled
     records = unpickle(payload)
     if not isinstance(records, dict):
         return {}
@@ -212,10 +204,7 @@ def _unpickle(blob: bytes) -> Cached | None:
 
 
 def _write(path: Path, key: str, secret: bytes, records: dict[str, bytes]) -> None:
-    header = _header(key)
-    payload = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
-    mac = hmac.new(secret, header + payload, "sha256").digest()
-    data = b"".join((header, mac, hashlib.sha256(payload).digest(), payload))
+    data = sealed(_header(key), secret, pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL))
     try:
         replace_file(path, data, _PREFIX)
     except OSError as exc:
@@ -263,6 +252,21 @@ def _fingerprint() -> str | None:
     except OSError:
         return None
     return h.hexdigest()
+
+
+def cache_secret() -> bytes | None:
+    """This user's journal-cache secret (made on first use); None when it cannot be kept."""
+    return _secret(cache_folder())
+
+
+def code_fingerprint() -> str | None:
+    """The fingerprint of the deciding code (None: caching is off)."""
+    return _fingerprint()
+
+
+def warn(message: str) -> None:
+    """Report a cache folder that cannot be used (a :class:`JournalCacheWarning`)."""
+    warnings.warn(message, JournalCacheWarning, stacklevel=2)
 
 
 def _warn(message: str) -> None:
