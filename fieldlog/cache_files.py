@@ -16,6 +16,7 @@ import hmac
 import io
 import os
 import pickle
+import secrets
 import tempfile
 import time
 from collections.abc import Callable
@@ -23,6 +24,8 @@ from pathlib import Path
 from typing import Any
 
 TEMP_SUFFIX = ".tmp"
+SECRET_NAME = "journal-cache.secret"
+"""The user's random secret that seals the journal's caches (in the cache folder)."""
 STALE_TEMP_SECONDS = 3600.0
 
 Warn = Callable[[str], None]
@@ -80,6 +83,28 @@ def unseal(data: bytes, header: bytes, secret: bytes) -> bytes | None:
     if not hmac.compare_digest(mac, hmac.new(secret, header + payload, "sha256").digest()):
         return None  # not written by this user's fieldlog
     return payload
+
+
+def user_secret(path: Path, warn: Warn) -> bytes | None:
+    """The random 32-byte secret at ``path``, made on first use, readable by the user alone;
+    None when it was cut short (removed: the next run makes a new one).
+
+    Raises:
+        OSError: the folder cannot be made or the secret cannot be written or read.
+    """
+    path.parent.mkdir(parents=True, exist_ok=True)
+    try:
+        fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
+    except FileExistsError:
+        pass
+    else:
+        with os.fdopen(fd, "wb") as out:
+            out.write(secrets.token_bytes(32))
+    found = path.read_bytes()
+    if len(found) != 32:
+        remove(path, warn)  # a crash while it was made
+        return None
+    return found
 
 
 def replace_file(path: Path, data: bytes, prefix: str) -> None:

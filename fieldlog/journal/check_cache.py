@@ -33,7 +33,6 @@ import functools
 import hashlib
 import os
 import pickle
-import secrets
 import sys
 import warnings
 from collections.abc import Mapping
@@ -43,7 +42,16 @@ from types import MappingProxyType
 from typing import Any
 
 from fieldlog import __version__
-from fieldlog.cache_files import pickled, prune, remove, replace_file, sealed, unpickle, unseal
+from fieldlog.cache_files import (
+    SECRET_NAME,
+    pickled,
+    prune,
+    replace_file,
+    sealed,
+    unpickle,
+    unseal,
+    user_secret,
+)
 from fieldlog.journal.filecheck import FileCheck
 from fieldlog.site.cache import cache_folder
 
@@ -53,7 +61,6 @@ KEEP = 16
 FORMAT = 1
 """Bump when the layout below changes."""
 
-SECRET_NAME = "journal-cache.secret"
 _MAGIC = b"fieldlog-journal-cache\n"
 _PREFIX, _SUFFIX = "journal-", ".pack"
 _AS_USUAL = "the log was checked from its files as usual"
@@ -218,24 +225,11 @@ def _write(path: Path, key: str, secret: bytes, records: dict[str, bytes]) -> No
 
 def _secret(folder: Path) -> bytes | None:
     """This user's random cache secret, made on first use; None when it cannot be kept."""
-    path = folder / SECRET_NAME
     try:
-        folder.mkdir(parents=True, exist_ok=True)
-        try:
-            fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
-        except FileExistsError:
-            pass
-        else:
-            with os.fdopen(fd, "wb") as out:
-                out.write(secrets.token_bytes(32))
-        found = path.read_bytes()
+        return user_secret(folder / SECRET_NAME, _warn)
     except OSError as exc:
         _warn(f"cannot keep the journal cache in {folder}: {exc.strerror}; {_AS_USUAL}")
         return None
-    if len(found) != 32:
-        remove(path, _warn)  # cut short (a crash while it was made): the next run makes a new one
-        return None
-    return found
 
 
 @functools.cache
