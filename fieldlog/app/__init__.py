@@ -17,7 +17,10 @@ Layout of the package (pure Python first, then the Textual side):
   from the journal's own field specs).
 * ``printing``: write the lookahead sheet to a file; print it when a printer is set up.
 * ``keymap``: every key as data with a stable id (bindings, help overlay, command palette).
-* ``app``: the App, the write-then-recompute loop and :func:`~fieldlog.app.app.make_app`.
+* ``host``: the read-only protocol screens read the app through; ``messages``: what they ask
+  the App to do (record, open a form, recompute, show a status line, help).
+* ``app``: the App, the write-then-recompute loop and :func:`~fieldlog.app.app.make_app`; it
+  imports the screens, never the reverse.
 * ``screens/``: one module per view (today, lookahead, float_list, history, sync, report) and per
   overlay (form, pick, help); ``widgets/``: the shared bars and the fast row list.
 * ``commands``: the command palette provider; ``app.tcss``: the styles.

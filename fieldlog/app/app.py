@@ -29,6 +29,15 @@ from textual.worker import get_current_worker
 from fieldlog.app.commands import FieldlogCommands
 from fieldlog.app.forms import DayContext, Form
 from fieldlog.app.history_rows import summarize
+from fieldlog.app.messages import (
+    AskForEntry,
+    OpenForm,
+    Recompute,
+    RecordEntry,
+    RunKey,
+    ShowHelp,
+    ShowStatus,
+)
 from fieldlog.app.plain import AsciiMarks
 from fieldlog.app.recording import DAY_FIELD, entry_fields, record
 from fieldlog.app.screens.author import author_screen
@@ -114,6 +123,11 @@ class FieldlogApp(App[None]):
         if needs_name:
             self.push_screen(author_screen())
 
+    @property
+    def site_folder(self) -> Path:
+        """The site folder open in the app (read by screens through the Host protocol)."""
+        return self.session.folder
+
     def get_line_filters(self) -> Sequence[LineFilter]:
         """Plain mode: ASCII marks, and black and white whatever the terminal claims."""
         filters = list(super().get_line_filters())
@@ -164,29 +178,6 @@ class FieldlogApp(App[None]):
         """What the forms' day fields are read against: today, and the site's earliest day."""
         return DayContext(self.session.today, earliest_day(self.snapshot.site.start))
 
-    def ask(
-        self,
-        form: Form,
-        kind: str,
-        *,
-        fixed: Mapping[str, Any] | None = None,
-        day: date | None = None,
-        draft_key: str = "",
-    ) -> None:
-        """Open ``form``; when it reads, append an entry of ``kind`` with the ``fixed`` fields.
-
-        The form's "Day" field, when it has one, gives the entry's day. A form closed with Esc
-        keeps its typing as a draft under ``draft_key`` (default: the kind and the fixed
-        fields, so the same key on the same activity opens it again).
-        """
-
-        def submit(values: dict[str, Any]) -> str | None:
-            values = dict(values)
-            typed_day = values.pop(DAY_FIELD, None)
-            return self.write(kind, entry_fields(values, fixed), typed_day or day)
-
-        self.open_form(form, submit, draft_key or draft_name(kind, fixed))
-
     def open_form(self, form: Form, submit: Submit, draft_key: str) -> None:
         """Show ``form``, restoring its draft; Esc keeps what was typed under ``draft_key``."""
 
@@ -206,6 +197,61 @@ class FieldlogApp(App[None]):
                 keep_draft=keep,
             )
         )
+
+    # -- what screens ask for (messages bubble up from a screen to the App) -------------------
+
+    def on_record_entry(self, message: RecordEntry) -> None:
+        """A record key with nothing to ask: write the entry now."""
+        self.write(message.kind, message.fields, message.day, message.note)
+
+    def on_ask_for_entry(self, message: AskForEntry) -> None:
+        """A record key with a form: open it; when it reads, append an entry of the message's
+        kind with its fixed fields (the submit callback is the App's).
+
+        The form's "Day" field, when it has one, gives the entry's day. A form closed with Esc
+        keeps its typing as a draft under the message's draft key (default: the kind and the
+        fixed fields, so the same key on the same activity opens it again).
+        """
+        kind, fixed, day = message.kind, message.fixed, message.day
+
+        def submit(values: dict[str, Any]) -> str | None:
+            values = dict(values)
+            typed_day = values.pop(DAY_FIELD, None)
+            return self.write(kind, entry_fields(values, fixed), typed_day or day)
+
+        self.open_form(message.form, submit, message.draft_key or draft_name(kind, fixed))
+
+    def on_open_form(self, message: OpenForm) -> None:
+        """A form whose values stand for entries the screen reads; written here, in order."""
+        read, partial = message.read, message.partial
+
+        def submit(values: dict[str, Any]) -> str | None:
+            pending = read(values)
+            if isinstance(pending, str):
+                return pending
+            for k, p in enumerate(pending):
+                refused = self.write(p.kind, p.fields, p.day)
+                if refused is not None:
+                    return refused + (f" ({partial.format(k=k)})" if k and partial else "")
+            return None
+
+        self.open_form(message.form, submit, message.draft_key)
+
+    def on_recompute(self, message: Recompute) -> None:
+        """Recompute (after a sync, or F5)."""
+        self.recompute(reload_site=message.reload_site, note=message.note)
+
+    def on_show_status(self, message: ShowStatus) -> None:
+        """A line for the status line (a print finished, a sync's progress)."""
+        self.set_status(message.text, problem=message.problem)
+
+    def on_show_help(self, message: ShowHelp) -> None:
+        """The help key or tab."""
+        self.action_help()
+
+    async def on_run_key(self, message: RunKey) -> None:
+        """A command palette entry."""
+        await self.run_key(message.key_id)
 
     # -- recompute ------------------------------------------------------------------------------
 

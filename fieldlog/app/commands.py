@@ -8,14 +8,11 @@ switches to its view first when needed, then runs the same action the key runs.
 from __future__ import annotations
 
 from functools import partial
-from typing import TYPE_CHECKING, cast
 
 from textual.command import DiscoveryHit, Hit, Hits, Provider
 
 from fieldlog.app.keymap import KEYS, VIEWS, Key
-
-if TYPE_CHECKING:
-    from fieldlog.app.app import FieldlogApp
+from fieldlog.app.messages import RunKey
 
 _AREA_WORD = {
     "views": "view",
@@ -47,8 +44,8 @@ class FieldlogCommands(Provider):
     """Palette entries for every key of :data:`fieldlog.app.keymap.KEYS`."""
 
     def _run(self, key_id: str) -> partial:
-        app = cast("FieldlogApp", self.app)
-        return partial(app.run_key, key_id)
+        """The entry's command: ask the App to run the key (it switches view first)."""
+        return partial(self.app.post_message, RunKey(key_id))
 
     async def discover(self) -> Hits:
         """Everything, before anything is typed."""

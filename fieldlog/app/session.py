@@ -99,10 +99,6 @@ class SiteSession:
         self._site = load_site(self.folder)
         return self.complete(self.recompute())
 
-    def refresh(self) -> Snapshot:
-        """Reread the log and compute everything (both steps at once)."""
-        return self.complete(self.recompute())
-
     def reread_site(self) -> None:
         """Read site.toml and schedule.toml again (a sync brought a new revision, F5).
 

@@ -9,7 +9,7 @@ entry costs one view's repaint, not seven.
 from __future__ import annotations
 
 from collections.abc import Iterable
-from typing import TYPE_CHECKING, ClassVar, cast
+from typing import ClassVar, cast
 
 from textual.app import ComposeResult
 from textual.binding import Binding, BindingType
@@ -17,12 +17,11 @@ from textual.screen import Screen
 from textual.widget import Widget
 from textual.widgets import Footer, Input
 
+from fieldlog.app.host import Host
 from fieldlog.app.keymap import keys_for
+from fieldlog.app.messages import Recompute, ShowHelp
 from fieldlog.app.session import Snapshot
 from fieldlog.app.widgets.bars import SiteBar, StatusLine, ViewStrip
-
-if TYPE_CHECKING:
-    from fieldlog.app.app import FieldlogApp
 
 
 def bindings(area: str) -> list[BindingType]:
@@ -56,9 +55,9 @@ class ViewScreen(Screen[None]):
         self.painted_version = 0
 
     @property
-    def fieldlog(self) -> FieldlogApp:
-        """The app, typed."""
-        return cast("FieldlogApp", self.app)
+    def host(self) -> Host:
+        """What this view may read from the app (it asks for the rest with messages)."""
+        return cast("Host", self.app)
 
     def compose(self) -> ComposeResult:
         """Site bar, view strip, the view's own body, status line, footer."""
@@ -92,12 +91,12 @@ class ViewScreen(Screen[None]):
 
     def repaint_if_stale(self) -> None:
         """Repaint from the app's snapshot when it is newer than what is on screen."""
-        snap = self.fieldlog.snapshot
+        snap = self.host.snapshot
         if self.is_stale(snap):
             self.query_one(SiteBar).show(snap.state.schedule, snap.today)
             self.paint(snap)
             self.painted_version = snap.version
-        text, problem = self.fieldlog.status
+        text, problem = self.host.status
         self.query_one(StatusLine).say(text, problem=problem)
 
     def paint(self, snap: Snapshot) -> None:
@@ -124,8 +123,8 @@ class ViewScreen(Screen[None]):
 
     def action_help(self) -> None:
         """Open the help overlay."""
-        self.fieldlog.action_help()
+        self.post_message(ShowHelp())
 
     def action_reload(self) -> None:
         """Read the site files and the log again."""
-        self.fieldlog.recompute(reload_site=True)
+        self.post_message(Recompute(reload_site=True))

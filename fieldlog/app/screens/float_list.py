@@ -158,7 +158,7 @@ class FloatScreen(RecordView):
 
     def show_driver(self) -> None:
         """The line naming what drives the selected activity."""
-        schedule = self.fieldlog.snapshot.state.schedule
+        schedule = self.host.snapshot.state.schedule
         aid = self.selected_id()
         line = self.query_one("#float-driver", Static)
         if aid is None:
@@ -175,7 +175,7 @@ class FloatScreen(RecordView):
     def action_filter(self, kind: str) -> None:
         """Show only the activities of filter ``kind``."""
         self.kind = kind
-        self.paint(self.fieldlog.snapshot)
+        self.paint(self.host.snapshot)
 
     def action_next_filter(self) -> None:
         """The next filter in :data:`FILTERS` order, back to all after the last."""
@@ -211,7 +211,7 @@ class FloatScreen(RecordView):
     def _typed(self, event: Input.Changed) -> None:
         event.stop()
         self.query_text = event.value.strip()
-        self.paint(self.fieldlog.snapshot)
+        self.paint(self.host.snapshot)
 
     @on(Input.Submitted, "#float-search")
     def _keep(self, event: Input.Submitted) -> None:
@@ -226,16 +226,16 @@ class FloatScreen(RecordView):
         search.display = False
         self.query_text = ""
         self.query_one("#float-table", RowList).focus()
-        self.paint(self.fieldlog.snapshot)
+        self.paint(self.host.snapshot)
 
     def action_goto_driver(self) -> None:
         """Move to the driving predecessor of the selected activity (showing all if needed)."""
         aid = self.selected_id()
         if aid is None:
             return
-        r = self.fieldlog.snapshot.state.schedule.by_id[aid]
+        r = self.host.snapshot.state.schedule.by_id[aid]
         if r.driving is None:
-            schedule = self.fieldlog.snapshot.state.schedule
+            schedule = self.host.snapshot.state.schedule
             self.say(f"{r.id} has no driving predecessor: {driver_text(schedule, r)}")
             return
         target = r.driving.pred
@@ -243,7 +243,7 @@ class FloatScreen(RecordView):
             self.kind, self.query_text = "all", ""
             with self.prevent(Input.Changed):
                 self.query_one("#float-search", Input).value = ""
-            self.paint(self.fieldlog.snapshot)
+            self.paint(self.host.snapshot)
         table = self.query_one("#float-table", RowList)
         table.move_to(target)
         table.focus()

@@ -64,7 +64,7 @@ class ForecastScreen(ViewScreen):
         self.app.call_from_thread(self._show, snap.version, by, history.total_movement, text)
 
     def _show(self, version: int, by: str, moved: int, text: str) -> None:
-        if version != self.fieldlog.snapshot.version or by != self.by:
+        if version != self.host.snapshot.version or by != self.by:
             return  # an older computation: a newer one is on its way
         self.shown_text = text
         moved_words = (
@@ -80,4 +80,4 @@ class ForecastScreen(ViewScreen):
     def action_group(self, by: str) -> None:
         """Show windows of a day, a week or a month."""
         self.by = by
-        self.paint(self.fieldlog.snapshot)
+        self.paint(self.host.snapshot)

@@ -20,6 +20,7 @@ from textual.widgets import Static
 
 from fieldlog.app.forms import YES_NO, Field, Form
 from fieldlog.app.history_rows import HistoryRow, history_rows
+from fieldlog.app.messages import OpenForm, Pending
 from fieldlog.app.recording import KIND_TITLES, entry_form
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
@@ -203,7 +204,7 @@ class JournalScreen(ViewScreen):
         row = self.selected()
         if row is None:
             return
-        replay = self.fieldlog.snapshot.state.replay
+        replay = self.host.snapshot.state.replay
         standing_id = replay.current.get(row.entry.id, row.entry.id)
         entry = next((e for e in replay.effective if e.id == standing_id), None)
         if entry is None:
@@ -218,10 +219,10 @@ class JournalScreen(ViewScreen):
             )
         form = correction_form(entry)
 
-        def submit(values: dict[str, Any]) -> str | None:
-            return self.fieldlog.write("correction", correction_fields(entry, values), None)
+        def read(values: dict[str, Any]) -> list[Pending]:
+            return [Pending("correction", correction_fields(entry, values))]
 
-        self.fieldlog.open_form(form, submit, f"correction {entry.id}")
+        self.post_message(OpenForm(form, read, f"correction {entry.id}"))
 
     def action_verify(self) -> None:
         """Check the log files again, now."""
@@ -230,12 +231,12 @@ class JournalScreen(ViewScreen):
 
     @work(thread=True, exclusive=True, group="verify")
     def _verify(self) -> None:
-        folder = self.fieldlog.session.folder
+        folder = self.host.site_folder
         try:
             findings = verify(folder)
         except FieldlogError as exc:
             self.app.call_from_thread(self.show_check, f"Log check failed: {exc.message}", True)
             return
-        journal = self.fieldlog.snapshot.state.journal
+        journal = self.host.snapshot.state.journal
         words, bad = check_words(findings, len(journal.entries), len(journal.files))
         self.app.call_from_thread(self.show_check, words, bad)

@@ -22,6 +22,7 @@ from textual.binding import BindingType
 from textual.widget import Widget
 from textual.widgets import DataTable, Static
 
+from fieldlog.app.messages import ShowStatus
 from fieldlog.app.printing import deliver_sheet
 from fieldlog.app.screens.base import bindings
 from fieldlog.app.screens.fewest import FewestScreen
@@ -125,7 +126,7 @@ class LookaheadScreen(RecordView):
     @property
     def marks(self) -> Mapping[Cell, str]:
         """The day-cell marks: the sheet's blocks, or its ASCII marks in plain mode."""
-        return PLAIN_GLYPHS if self.fieldlog.plain else GLYPHS
+        return PLAIN_GLYPHS if self.host.plain else GLYPHS
 
     def is_stale(self, snap: Snapshot) -> bool:
         """Stale only once the new snapshot's full lookahead is there (step 2)."""
@@ -249,12 +250,12 @@ class LookaheadScreen(RecordView):
     def action_shift_week(self, weeks: int) -> None:
         """Move the window by whole weeks (never more than two weeks back)."""
         self.week = max(-2, self.week + weeks)
-        self.paint(self.fieldlog.snapshot)
+        self.paint(self.host.snapshot)
 
     def action_toggle_all(self) -> None:
         """Show every unfinished activity, or only those with something to do."""
         self.show_all = not self.show_all
-        self.paint(self.fieldlog.snapshot)
+        self.paint(self.host.snapshot)
 
     def action_fewest(self) -> None:
         """Open the fewest-people plan of the window shown."""
@@ -271,11 +272,11 @@ class LookaheadScreen(RecordView):
     @work(thread=True, exclusive=True, group="print")
     def _deliver(self, look: Lookahead) -> None:
         try:
-            words = deliver_sheet(look, self.fieldlog.session.folder)
+            words = deliver_sheet(look, self.host.site_folder)
         except FieldlogError as exc:
-            self.app.call_from_thread(self.fieldlog.set_status, exc.message, problem=True)
+            self.post_message(ShowStatus(exc.message, problem=True))
             return
-        self.app.call_from_thread(self.fieldlog.set_status, words)
+        self.post_message(ShowStatus(words))
 
 
 def _cell(c: Cell, marks: Mapping[Cell, str]) -> Text:

@@ -12,20 +12,21 @@ the status line says which predecessors are still open, so nobody does it by acc
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any, ClassVar
+from collections.abc import Mapping
+from typing import Any, ClassVar
 
 from textual.binding import BindingType
 
 from fieldlog.app.crews import crew_entries, crew_form, last_crews
+from fieldlog.app.forms import Form
 from fieldlog.app.keymap import Key, keys_for
+from fieldlog.app.messages import AskForEntry, OpenForm, Pending, RecordEntry
 from fieldlog.app.recording import KIND_TITLES, PICK_INCIDENT, PICK_VISIT, entry_form
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.screens.pick import PickScreen
+from fieldlog.app.session import Snapshot
 from fieldlog.engine.progress import Status
 from fieldlog.engine.result import ActivityResult
-
-if TYPE_CHECKING:
-    from fieldlog.app.app import FieldlogApp
 
 ACTIVITY_ACTIONS = ("started", "finished", "remaining", "percent", "note", "readiness")
 """The record keys about one activity, offered as a menu for a picked or found activity."""
@@ -37,11 +38,11 @@ def activity_keys() -> list[Key]:
     return [by_action[a] for a in ACTIVITY_ACTIONS]
 
 
-def open_predecessors(app: FieldlogApp, aid: str) -> list[str]:
+def open_predecessors(snap: Snapshot, aid: str) -> list[str]:
     """Predecessors of ``aid`` not finished yet: starting it now is out of sequence."""
-    schedule = app.snapshot.state.schedule
+    schedule = snap.state.schedule
     out = []
-    for link in app.snapshot.site.links:
+    for link in snap.site.links:
         if link.succ == aid:
             pred = schedule.by_id.get(link.pred)
             if pred is not None and pred.status is not Status.FINISHED:
@@ -54,10 +55,9 @@ class RecordView(ViewScreen):
 
     BINDINGS: ClassVar[list[BindingType]] = bindings("record")
 
-    @property
-    def app_(self) -> FieldlogApp:
-        """The app, typed (short for :attr:`ViewScreen.fieldlog`)."""
-        return self.fieldlog
+    def ask(self, form: Form, kind: str, *, fixed: Mapping[str, Any] | None = None) -> None:
+        """Ask the App to open ``form`` and record what it reads as an entry of ``kind``."""
+        self.post_message(AskForEntry(form, kind, fixed=fixed))
 
     def selected_id(self) -> str | None:
         """The activity the keys record against (override); None when there is none."""
@@ -71,7 +71,7 @@ class RecordView(ViewScreen):
                 "No activity is selected: move to one, or / finds one by id or name", problem=True
             )
             return None
-        return self.app_.snapshot.state.schedule.by_id.get(aid)
+        return self.host.snapshot.state.schedule.by_id.get(aid)
 
     # -- one activity ---------------------------------------------------------------------------
 
@@ -80,26 +80,26 @@ class RecordView(ViewScreen):
         r = self._target(aid)
         if r is None:
             return
-        waiting = open_predecessors(self.app_, r.id)
+        waiting = open_predecessors(self.host.snapshot, r.id)
         note = (
             f"{r.id} started OUT OF SEQUENCE: {', '.join(waiting)} not finished (allowed)"
             if waiting
             else ""
         )
-        self.app_.write("started", {"activity": r.id}, note=note)
+        self.post_message(RecordEntry("started", {"activity": r.id}, note=note))
 
     def action_finished(self, aid: str = "") -> None:
         """The activity finished today (a milestone: reached today)."""
         r = self._target(aid)
         if r is not None:
-            self.app_.write("finished", {"activity": r.id})
+            self.post_message(RecordEntry("finished", {"activity": r.id}))
 
     def action_remaining(self, aid: str = "") -> None:
         """Ask for the working days the activity still needs after today."""
         r = self._target(aid)
         if r is not None:
             intro = f"{r.id} {r.name}: working days still needed after the day"
-            self.app_.ask(
+            self.ask(
                 entry_form(
                     "remaining",
                     intro=intro,
@@ -116,7 +116,7 @@ class RecordView(ViewScreen):
         r = self._target(aid)
         if r is not None:
             intro = f"{r.id} {r.name}: how much is built (does not change the days left)"
-            self.app_.ask(
+            self.ask(
                 entry_form(
                     "percent",
                     intro=intro,
@@ -131,7 +131,7 @@ class RecordView(ViewScreen):
     def action_note(self, aid: str = "") -> None:
         """A note, about the activity when one is selected (clear it for a note on the day)."""
         aid = aid or self.selected_id() or ""
-        self.app_.ask(
+        self.ask(
             entry_form(
                 "note",
                 defaults={"activity": aid or None},
@@ -145,7 +145,7 @@ class RecordView(ViewScreen):
     def action_readiness(self, aid: str = "") -> None:
         """List every open readiness item to clear one, or open a new one for the activity."""
         aid = aid or self.selected_id() or ""
-        items = [i for i in self.app_.snapshot.state.replay.readiness if i.entry_id]
+        items = [i for i in self.host.snapshot.state.replay.readiness if i.entry_id]
         options = []
         for i in items:
             when = f"expected {i.expected:%a %d %b}" if i.expected else "no date"
@@ -157,20 +157,20 @@ class RecordView(ViewScreen):
         if not options:
             self.say("No readiness items are open; select an activity to open one", problem=True)
             return
-        schedule = self.app_.snapshot.state.schedule
+        schedule = self.host.snapshot.state.schedule
 
         def picked(choice: str | None) -> None:
             if choice == "need":
                 r = schedule.by_id[aid]
                 intro = f"{r.id} {r.name}: what it needs, and when it is expected"
-                self.app_.ask(
+                self.ask(
                     entry_form("need", intro=intro, fixed={"activity": r.id}, dated=True),
                     "need",
                     fixed={"activity": r.id},
                 )
             elif choice is not None:
                 item = next(i for i in items if i.entry_id == choice.split(":", 1)[1])
-                self.app_.ask(
+                self.ask(
                     entry_form(
                         "cleared",
                         intro=f"{item.activity} had {item.what}: how it was cleared",
@@ -186,7 +186,7 @@ class RecordView(ViewScreen):
 
     def action_menu(self, aid: str) -> None:
         """The record keys for one activity as a menu (a tap, Enter, or a find)."""
-        r = self.app_.snapshot.state.schedule.by_id.get(aid)
+        r = self.host.snapshot.state.schedule.by_id.get(aid)
         if r is None:
             return
         keys = activity_keys()
@@ -217,39 +217,35 @@ class RecordView(ViewScreen):
             if aid is not None:
                 self.call_later(self.action_menu, aid)
 
-        self.app.push_screen(FindScreen(self.app_.snapshot.state.schedule.activities), found)
+        self.app.push_screen(FindScreen(self.host.snapshot.state.schedule.activities), found)
 
     # -- the day --------------------------------------------------------------------------------
 
     def action_weather(self) -> None:
         """The day's weather: stopped and hours lost are the first fields after conditions."""
-        self.app_.ask(entry_form("weather", defaults={"unit": "C"}, dated=True), "weather")
+        self.ask(entry_form("weather", defaults={"unit": "C"}, dated=True), "weather")
 
     def action_crews(self) -> None:
         """Every crew of the last day logged, ready to record again: Enter keeps them all."""
-        snap = self.app_.snapshot
+        snap = self.host.snapshot
         before = last_crews(snap.state.replay.effective, snap.today)
         form = crew_form(before, snap.site.crews, self.selected_id())
 
-        def submit(values: dict[str, Any]) -> str | None:
+        def read(values: dict[str, Any]) -> list[Pending] | str:
             try:
                 entries, day = crew_entries(values, before)
             except ValueError as exc:
                 return str(exc)
             if not entries:
                 return "no crew given: type a headcount, or Esc"
-            for k, fields in enumerate(entries):
-                refused = self.app_.write("crew", fields, day)
-                if refused is not None:
-                    done = f" ({k} crews recorded before it: see 4 Journal)" if k else ""
-                    return refused + done
-            return None
+            return [Pending("crew", fields, day) for fields in entries]
 
-        self.app_.open_form(form, submit, "crews")
+        partial = "{k} crews recorded before it: see 4 Journal"
+        self.post_message(OpenForm(form, read, "crews", partial))
 
     def action_lost(self) -> None:
         """Time lost and why; a whole lost day moves the forecast."""
-        self.app_.ask(
+        self.ask(
             entry_form(
                 "lost-time",
                 defaults={"cause": "weather"},
@@ -261,7 +257,7 @@ class RecordView(ViewScreen):
 
     def action_plant(self) -> None:
         """Plant or equipment on site, and any breakdown."""
-        self.app_.ask(
+        self.ask(
             entry_form(
                 "plant",
                 defaults={"activity": self.selected_id()},
@@ -286,7 +282,7 @@ class RecordView(ViewScreen):
         def picked(kind: str | None) -> None:
             if kind is not None:
                 defaults = {"activity": aid} if kind not in ("visitor",) else {}
-                self.app_.ask(entry_form(kind, defaults=defaults, dated=True), kind)
+                self.ask(entry_form(kind, defaults=defaults, dated=True), kind)
 
         options = [(k, KIND_TITLES[k]) for k in kinds]
         self.app.push_screen(PickScreen(title, options), picked)

@@ -20,6 +20,7 @@ from textual.containers import VerticalScroll
 from textual.widget import Widget
 from textual.widgets import Static
 
+from fieldlog.app.messages import ShowStatus
 from fieldlog.app.printing import deliver, report_path, write_print
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
@@ -65,11 +66,11 @@ class ReportScreen(ViewScreen):
 
     def action_shift_day(self, days: int) -> None:
         """Another day: never after the shift being recorded, never before the site start."""
-        self.show_day(self.shown_day(self.fieldlog.snapshot) + timedelta(days=days))
+        self.show_day(self.shown_day(self.host.snapshot) + timedelta(days=days))
 
     def show_day(self, day: date) -> None:
         """Show the report of ``day`` (from the Journal's ``d`` too), within the same bounds."""
-        snap = self.fieldlog.snapshot
+        snap = self.host.snapshot
         if day > snap.today:
             self.say(f"{snap.today:%a %d %b} is the shift being recorded: no later report")
             return
@@ -82,17 +83,17 @@ class ReportScreen(ViewScreen):
 
     def action_print_report(self) -> None:
         """Write the report shown to prints/, then print it if a printer is set up."""
-        day = self.shown_day(self.fieldlog.snapshot)
+        day = self.shown_day(self.host.snapshot)
         self.say("Writing the daily report")
         self._deliver(day, self.text)
 
     @work(thread=True, exclusive=True, group="print")
     def _deliver(self, day: date, text: str) -> None:
-        folder = self.fieldlog.session.folder
+        folder = self.host.site_folder
         try:
             path = write_print(report_path(folder, day), text, "daily report")
             words = deliver(path, folder, "report")
         except FieldlogError as exc:
-            self.app.call_from_thread(self.fieldlog.set_status, exc.message, problem=True)
+            self.post_message(ShowStatus(exc.message, problem=True))
             return
-        self.app.call_from_thread(self.fieldlog.set_status, words)
+        self.post_message(ShowStatus(words))

@@ -26,6 +26,7 @@ from textual.containers import Horizontal, VerticalScroll
 from textual.widget import Widget
 from textual.widgets import Input, Label, Static
 
+from fieldlog.app.messages import Recompute, ShowStatus
 from fieldlog.app.screens.base import ViewScreen, bindings
 from fieldlog.app.session import Snapshot
 from fieldlog.app.widgets.exact_input import ExactInput
@@ -98,7 +99,7 @@ class SyncScreen(ViewScreen):
 
     def paint(self, snap: Snapshot) -> None:
         """Last sync, and the conflicts waiting in the site folder."""
-        folder = self.fieldlog.session.folder
+        folder = self.host.site_folder
         try:
             record = last_sync(folder)
         except FieldlogError as exc:
@@ -134,26 +135,23 @@ class SyncScreen(ViewScreen):
             self.say("Type the office folder first, then press Enter", problem=True)
             self.query_one("#sync-target", Input).focus()
             return
-        self.fieldlog.set_status(f"Syncing with {raw}")
+        self.post_message(ShowStatus(f"Syncing with {raw}"))
         self._sync(Path(raw).expanduser())
 
     @work(thread=True, exclusive=True, group="sync")
     def _sync(self, target: Path) -> None:
-        folder = self.fieldlog.session.folder
+        folder = self.host.site_folder
         app = self.app
 
         def progress(done: int, total: int, copied: int) -> None:
-            app.call_from_thread(
-                self.fieldlog.set_status,
-                f"Syncing: {done} of {total} files ({copied / 1048576:.1f} MB)",
+            self.post_message(
+                ShowStatus(f"Syncing: {done} of {total} files ({copied / 1048576:.1f} MB)")
             )
 
         try:
             summary = sync_site(folder, target, SyncOptions(progress=progress, now=time.time()))
         except FieldlogError as exc:
-            app.call_from_thread(
-                self.fieldlog.set_status, f"Sync stopped: {exc.message}", problem=True
-            )
+            self.post_message(ShowStatus(f"Sync stopped: {exc.message}", problem=True))
             return
         problem = ""
         try:
@@ -172,6 +170,8 @@ class SyncScreen(ViewScreen):
         # switch views instead of typing into the folder, and s or Enter syncs again.
         self.query_one("#sync-panel").focus()
         words = "Sync done: look at the summary" if summary.has_problems else "Sync done"
-        self.fieldlog.set_status(words + problem, problem=summary.has_problems or bool(problem))
+        self.post_message(
+            ShowStatus(words + problem, problem=summary.has_problems or bool(problem))
+        )
         self.painted_version = 0  # last sync and conflicts changed: repaint on the next snapshot
-        self.fieldlog.recompute(reload_site=True, note=words + problem)
+        self.post_message(Recompute(reload_site=True, note=words + problem))

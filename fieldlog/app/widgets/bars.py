@@ -11,7 +11,6 @@
 from __future__ import annotations
 
 from datetime import date
-from typing import TYPE_CHECKING, cast
 
 from rich.text import Text
 from textual import events
@@ -20,11 +19,9 @@ from textual.containers import Horizontal
 from textual.widgets import Static
 
 from fieldlog.app.keymap import VIEWS
+from fieldlog.app.messages import ShowHelp
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.reports.words import days
-
-if TYPE_CHECKING:
-    from fieldlog.app.app import FieldlogApp
 
 
 def finish_words(schedule: ScheduleResult) -> str:
@@ -80,7 +77,7 @@ class HelpTab(Static):
     def on_click(self, event: events.Click) -> None:
         """Open the help overlay."""
         event.stop()
-        cast("FieldlogApp", self.app).action_help()  # Textual types ``app`` as the base App
+        self.post_message(ShowHelp())
 
 
 class ViewStrip(Horizontal):
