@@ -16,7 +16,6 @@ import hmac
 import io
 import os
 import pickle
-import secrets
 import tempfile
 import time
 from collections.abc import Callable
@@ -99,7 +98,7 @@ def user_secret(path: Path, warn: Warn) -> bytes | None:
         pass
     else:
         with os.fdopen(fd, "wb") as out:
-            out.write(secrets.token_bytes(32))
+            out.write(os.urandom(32))  # the OS's CSPRNG, as secrets uses
     found = path.read_bytes()
     if len(found) != 32:
         remove(path, warn)  # a crash while it was made
