@@ -8,6 +8,7 @@ their own references.
 
 from __future__ import annotations
 
+import os
 from datetime import date
 from pathlib import Path
 
@@ -202,3 +203,21 @@ def test_a_log_with_a_damaged_file_keeps_no_record(tmp_path):
     (site / "log" / f"2026-09-09_{OTHER}.toml").write_bytes(b"[[entry]\nseq = 9\n")
     rec_tail(site, "note", date(2026, 9, 10), text="recorded beside it")
     assert TailLink.open(site).kept is None
+
+
+@pytest.mark.parametrize("odd", ["link", "folder", "fifo"])
+def test_anything_but_a_plain_file_in_the_log_means_the_full_read(tmp_path, full_reads, odd):
+    site = make_site(tmp_path / "site")
+    rec(site, "note", date(2026, 9, 8), text="set-out checked")
+    rec_tail(site, "note", date(2026, 9, 8), text="kept from here")
+    stray = site / "log" / f"2026-09-09_{OTHER}.toml"
+    if odd == "link":
+        stray.symlink_to(site / "site.toml")
+    elif odd == "folder":
+        stray.mkdir()
+    else:
+        os.mkfifo(stray)  # never opened for reading: a read would hang
+    assert snapshot(site) is None
+    before = len(full_reads)
+    rec_tail(site, "note", date(2026, 9, 10), text="after the stray")
+    assert len(full_reads) == before + 1

@@ -72,10 +72,9 @@ class DeviceKey:
 
 
 def public_hex(key: Ed25519PublicKey) -> str:
-    """Raw public key bytes as 64 hex digits."""
-    from cryptography.hazmat.primitives import serialization
-
-    return key.public_bytes(serialization.Encoding.Raw, serialization.PublicFormat.Raw).hex()
+    """Raw public key bytes as 64 hex digits (``public_bytes_raw``: no serialization code
+    to import on every record)."""
+    return key.public_bytes_raw().hex()
 
 
 def check_author(name: object) -> str:

@@ -30,15 +30,16 @@ user's cache secret, checked before anything is unpickled), atomic writes, at mo
 from __future__ import annotations
 
 import hashlib
+import os
+import stat
 from collections.abc import Mapping
 from dataclasses import dataclass, replace
 from datetime import date
 from pathlib import Path
 
 from fieldlog import __version__
+from fieldlog.bounds import FILE_CAPS
 from fieldlog.cache_files import prune, replace_file, sealed, unpickle, unseal
-from fieldlog.errors import OutOfBounds
-from fieldlog.guarded_read import read_capped
 from fieldlog.journal import check_cache
 from fieldlog.journal.context import EntryContext, after_append
 from fieldlog.journal.entries import Entry
@@ -55,6 +56,14 @@ _PREFIX, _SUFFIX = "tail-", ".pack"
 _DEVICES_DIR = "devices"
 _MODULES = ("tail.py", "context.py", "rules.py", "replay.py", "corrections.py", "record.py")
 """Journal modules (besides the checked-file cache's) whose code decides what is kept."""
+
+_CAP = FILE_CAPS["journal"]
+_READ_FLAGS = (
+    os.O_RDONLY
+    | getattr(os, "O_BINARY", 0)
+    | getattr(os, "O_NONBLOCK", 0)
+    | getattr(os, "O_NOFOLLOW", 0)
+)
 
 Digests = Mapping[str, str]
 """File name -> sha256 (hex) of its bytes."""
@@ -144,7 +153,9 @@ def snapshot(folder: Path, sub: str = LOG_DIR) -> Digests | None:
     """The sha256 of every file in ``folder/sub`` (``log`` or ``devices``) by name.
 
     None when something there is not a plain file within the journal's size cap (a link, a
-    folder, a huge file): the full read then reports it.
+    folder, a huge file) or cannot be read: the full read then reports it. Plain ``os``
+    calls on names (a thousand files per command): no link is followed, nothing but a
+    regular file is opened for reading.
     """
     where = folder / sub
     if where.is_symlink():
@@ -152,18 +163,40 @@ def snapshot(folder: Path, sub: str = LOG_DIR) -> Digests | None:
     if not where.is_dir():
         return {} if not where.exists() else None
     out: dict[str, str] = {}
-    for path in sorted(where.iterdir()):
-        if (sub == LOG_DIR and is_working_file(path.name)) or (
-            sub == _DEVICES_DIR and path.name.startswith(".")
-        ):
-            continue
-        try:
-            out[path.name] = hashlib.sha256(
-                read_capped(path, "journal", follow_links=False)
-            ).hexdigest()
-        except (OutOfBounds, OSError):
-            return None
+    try:
+        with os.scandir(where) as it:
+            names = sorted(item.name for item in it)
+        for name in names:
+            if (sub == LOG_DIR and is_working_file(name)) or (
+                sub == _DEVICES_DIR and name.startswith(".")
+            ):
+                continue
+            data = _plain_file(os.path.join(where, name))
+            if data is None:
+                return None
+            out[name] = hashlib.sha256(data).hexdigest()
+    except OSError:
+        return None
     return out
+
+
+def _plain_file(path: str) -> bytes | None:
+    """The bytes of a regular file within the journal's cap; None for anything else.
+
+    Raises:
+        OSError: it cannot be opened or read (a link: O_NOFOLLOW refuses it).
+    """
+    fd = os.open(path, _READ_FLAGS)
+    try:
+        info = os.fstat(fd)
+        if not stat.S_ISREG(info.st_mode) or info.st_size > _CAP:
+            return None
+        data = os.read(fd, _CAP + 1)
+        while len(data) <= _CAP and (more := os.read(fd, _CAP + 1 - len(data))):
+            data += more
+        return data if len(data) <= _CAP else None
+    finally:
+        os.close(fd)
 
 
 @dataclass
