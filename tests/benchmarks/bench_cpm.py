@@ -16,11 +16,12 @@ For each size it prints (best of N rounds; each round runs the four measurements
 * ``networkx``: ``networkx.dag_longest_path_length`` alone on the same network (the graph is
   built outside the timing), and the ratios networkx / engine.
 
-Then, at 10k: the same site mid-job (40% finished, 10% in progress, a required finish), a deep
-network (a narrow band of activities, so about 1,000 levels: the array passes loop once per
-level, so depth is their weak spot), and two whole processes on the same site folder:
-``fieldlog schedule`` and a reference process that only parses the two TOML files with tomllib
-and asks networkx for the longest path (best of 3 each).
+Then, at 10k: the same site mid-job (40% finished, 10% in progress, a required finish); the
+printed text sheet, JSON and CSV of both (each from a fresh recompute, target JSON and CSV no
+slower than the text); a deep network (a narrow band of activities, so about 1,000 levels:
+the array passes loop once per level, so depth is their weak spot), and two whole processes
+on the same site folder: ``fieldlog schedule`` and a reference process that only parses the
+two TOML files with tomllib and asks networkx for the longest path (best of 3 each).
 
 Targets: 10k activities recompute under 50 ms, and at least 4x faster than the networkx call.
 Timings on a shared 2-core machine are noisy; the ratios, measured side by side, are what count.
@@ -47,6 +48,7 @@ from fieldlog.engine.compiled import CompiledSite, compile_site  # noqa: E402
 from fieldlog.engine.cpm import compute_schedule  # noqa: E402
 from fieldlog.engine.progress import Progress  # noqa: E402
 from fieldlog.engine.result import ScheduleResult  # noqa: E402
+from fieldlog.reports.schedule_sheet import render_schedule  # noqa: E402
 from fieldlog.site.model import Activity, Link, Site  # noqa: E402
 
 REFERENCE_PROCESS = """
@@ -168,6 +170,22 @@ def deep_site(n: int, width: int = 10, seed: int = 7) -> Site:
     return dataclasses.replace(base, activities=tuple(acts), links=tuple(links))
 
 
+def bench_sheets(site: Site, label: str, status: date, progress: dict[str, Progress]) -> None:
+    """Print the text sheet, JSON and CSV of a fresh recompute each (rows not built), best of
+    9 taken in turns; target JSON and CSV no slower than the text sheet."""
+    comp = compile_site(site)
+    fresh = [compute_schedule(comp, status, progress) for _ in range(27)]
+    times = best_interleaved(
+        9, *(lambda f=fmt: render_schedule(fresh.pop(), f) for fmt in ("text", "json", "csv"))
+    )
+    text, js, cs = times
+    met = "met" if max(js, cs) <= text else "MISSED"
+    print(
+        f"{label:<24} sheets | text {ms(text)}  json {ms(js)}  csv {ms(cs)} | json/text "
+        f"{js / text:4.2f}x, csv/text {cs / text:4.2f}x (target <= 1: {met})"
+    )
+
+
 def bench_process(n: int) -> None:
     with tempfile.TemporaryDirectory() as tmp:
         folder = write_site_folder(synthetic_site(n), Path(tmp) / "site")
@@ -191,6 +209,9 @@ def main(argv: list[str]) -> None:
     if 10_000 in results:
         site, status, progress = mid_job(synthetic_site(10_000))
         bench_engine(site, "layered, mid-job", status, progress)
+        plain = synthetic_site(10_000)
+        bench_sheets(plain, "layered", plain.start - timedelta(days=1), {})
+        bench_sheets(site, "layered, mid-job", status, progress)
         bench_engine(deep_site(10_000), "deep (~1,000 levels)")
         warm, rows, ref = results[10_000]
         print(
