@@ -65,6 +65,12 @@ from typing import TYPE_CHECKING, Any
 
 from fieldlog.errors import EntryRefused, JournalError
 
+# ``replay`` and ``verify`` are both a function and a submodule. Importing a submodule binds its
+# name on the package, which would hide a lazily looked-up function of the same name, so these
+# two are bound now, after their submodules.
+from fieldlog.journal.replay import replay
+from fieldlog.journal.verify import verify
+
 if TYPE_CHECKING:
     from fieldlog.journal.device import device_id
     from fieldlog.journal.entries import (
@@ -78,8 +84,7 @@ if TYPE_CHECKING:
     from fieldlog.journal.filecheck import Finding, check_journal_bytes
     from fieldlog.journal.reader import Journal, read_journal
     from fieldlog.journal.record import record_entry
-    from fieldlog.journal.replay import ActivityEntries, Problem, Replay, replay
-    from fieldlog.journal.verify import verify
+    from fieldlog.journal.replay import ActivityEntries, Problem, Replay
 
 _HOMES = {
     "device_id": "device",
@@ -99,8 +104,7 @@ _HOMES = {
     "Journal": "reader",
     "read_journal": "reader",
     "record_entry": "record",
-    **dict.fromkeys(("ActivityEntries", "Problem", "Replay", "replay"), "replay"),
-    "verify": "verify",
+    **dict.fromkeys(("ActivityEntries", "Problem", "Replay"), "replay"),
 }
 """Where each name above lives. They are imported on first use (PEP 562), so that reading a
 journal does not load the code that records entries, verifies a log or names this device:
