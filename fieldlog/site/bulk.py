@@ -22,7 +22,7 @@ from datetime import date
 from itertools import repeat
 from operator import eq
 from types import MappingProxyType
-from typing import Any
+from typing import Any, cast
 
 from fieldlog import bounds
 from fieldlog.errors import OutOfBounds
@@ -197,4 +197,4 @@ def _typed_links(rows: list[Any], known: set[str]) -> list[Link] | None:
         return None
     if not -bounds.MAX_DAYS <= min(lags) <= max(lags) <= bounds.MAX_DAYS:
         return None
-    return list(map(Link, preds, succs, types, lags))
+    return list(map(Link, preds, succs, cast(list[LinkType], types), lags))
