@@ -11,6 +11,8 @@ left behind are removed after an hour.
 from __future__ import annotations
 
 import gc
+import hashlib
+import hmac
 import io
 import os
 import pickle
@@ -21,6 +23,8 @@ from pathlib import Path
 from typing import Any
 
 TEMP_SUFFIX = ".tmp"
+SECRET_NAME = "journal-cache.secret"
+"""The user's random secret that seals the journal's caches (in the cache folder)."""
 STALE_TEMP_SECONDS = 3600.0
 
 Warn = Callable[[str], None]
@@ -56,6 +60,50 @@ def unpickle(payload: bytes) -> object | None:
     finally:
         if was_enabled:
             gc.enable()
+
+
+def sealed(header: bytes, secret: bytes, payload: bytes) -> bytes:
+    """A sealed cache file: ``header``, an HMAC-SHA256 of header and payload under
+    ``secret``, the payload's sha256, the payload."""
+    mac = hmac.new(secret, header + payload, "sha256").digest()
+    return b"".join((header, mac, hashlib.sha256(payload).digest(), payload))
+
+
+def unseal(data: bytes, header: bytes, secret: bytes) -> bytes | None:
+    """The payload of a :func:`sealed` file, or None when it is cut short, damaged, has
+    another header, or was not sealed with ``secret`` (then it must never be unpickled)."""
+    start = len(header) + 64
+    if not data.startswith(header) or len(data) < start:
+        return None
+    mac, digest = data[len(header) : len(header) + 32], data[start - 32 : start]
+    payload = data[start:]
+    if hashlib.sha256(payload).digest() != digest:
+        return None  # truncated or damaged
+    if not hmac.compare_digest(mac, hmac.new(secret, header + payload, "sha256").digest()):
+        return None  # not written by this user's fieldlog
+    return payload
+
+
+def user_secret(path: Path, warn: Warn) -> bytes | None:
+    """The random 32-byte secret at ``path``, made on first use, readable by the user alone;
+    None when it was cut short (removed: the next run makes a new one).
+
+    Raises:
+        OSError: the folder cannot be made or the secret cannot be written or read.
+    """
+    path.parent.mkdir(parents=True, exist_ok=True)
+    try:
+        fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
+    except FileExistsError:
+        pass
+    else:
+        with os.fdopen(fd, "wb") as out:
+            out.write(os.urandom(32))  # the OS's CSPRNG, as secrets uses
+    found = path.read_bytes()
+    if len(found) != 32:
+        remove(path, warn)  # a crash while it was made
+        return None
+    return found
 
 
 def replace_file(path: Path, data: bytes, prefix: str) -> None:

@@ -10,6 +10,7 @@ secret; HMAC-SHA256 (RFC 2104, Python's ``hmac``) is what stops them.
 from __future__ import annotations
 
 import hashlib
+import hmac
 import os
 import pickle
 import sys
@@ -104,7 +105,7 @@ def _poison(home: Path, site: Path, mac_secret: bytes | None) -> None:
     ]
     payload = pickle.dumps(records)
     if mac_secret is not None:
-        mac = check_cache.hmac.new(mac_secret, header + payload, "sha256").digest()
+        mac = hmac.new(mac_secret, header + payload, "sha256").digest()
     pack.write_bytes(header + mac + hashlib.sha256(payload).digest() + payload)
 
 

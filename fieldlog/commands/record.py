@@ -34,7 +34,7 @@ from fieldlog.journal import KINDS, record_entry
 from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import FieldSpec
 from fieldlog.journal.keys import MAX_AUTHOR, check_author, save_author, saved_author
-from fieldlog.site.files import load_site
+from fieldlog.journal.tail import TailLink
 
 VERBS = {
     "started": ("started", "an activity started (its actual start)"),
@@ -146,7 +146,8 @@ def run(args: argparse.Namespace) -> int:
                 raise EntryRefused(f"--set {change!r} is not FIELD=VALUE", fix="e.g. --set days=4")
             fields[key.strip().replace("-", "_")] = value
     device = device_id()  # first: a data folder that cannot be written is the one error shown
-    site = load_site(args.site)
+    tail = TailLink.open(args.site)  # the site, unpickled with the log's kept facts if unchanged
+    site = tail.site
     author = _author(args.author)
     day = None
     if args.on is not None:
@@ -164,6 +165,7 @@ def run(args: argparse.Namespace) -> int:
         author=author,
         device=device,
         site_name=args.site,
+        tail=tail,
     )
     print(entry.id)
     print(f"fieldlog: recorded {entry.kind} for {long_day(entry.day)}", file=sys.stderr)

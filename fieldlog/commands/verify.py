@@ -19,28 +19,10 @@ are unsigned ("unsigned, chain intact").
 from __future__ import annotations
 
 import argparse
-from dataclasses import replace
-from datetime import date
 from pathlib import Path
 
-from fieldlog.errors import SiteError
+from fieldlog.commands.verify_cache import ReportCache
 from fieldlog.home import fieldlog_home
-from fieldlog.journal import Journal, read_journal, replay
-from fieldlog.reports.words import count
-from fieldlog.site.files import load_site
-from fieldlog.sync.audit import (
-    Audit,
-    audit,
-    known_device,
-    known_devices,
-    office_receipts,
-    own_receipts,
-    unknown_devices,
-)
-from fieldlog.sync.conflicts import list_conflicts
-from fieldlog.sync.holdings import holdings_of
-from fieldlog.sync.receipt_files import read_folder
-from fieldlog.sync.receipts import RECEIPTS_DIR
 
 
 def add_parser(sub: argparse._SubParsersAction) -> None:
@@ -62,86 +44,20 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    """Print findings and contradictions on stdout; 1 when there are any."""
-    journal = read_journal(args.site)
-    findings = journal.findings
-    for f in findings:
-        print(f)
-    site = load_site(args.site)
-    rp = replay(site, journal, date.max)
-    contradictions = [p for p in rp.problems if not p.integrity]
-    if contradictions:
-        print("Contradictions in the log (record a correction to settle each):")
-        for p in contradictions:
-            print(f"  {p.message}")
-    conflicts = list_conflicts(args.site)
-    if conflicts:
-        print("Sync conflicts (two versions of one journal file are kept side by side):")
-        for c in conflicts:
-            print(f"  {c.describe()}")
-    receipt_lines = receipts_check(Path(args.site), journal, args.office).lines()
-    if receipt_lines:
-        print("Against the office receipts (what both sides held at a sync):")
-        for line in receipt_lines:
-            print(f"  {line}")
-    for record in journal.devices.values():
-        print(
-            f"device {record.device}: {record.author}, key registered {record.registered}, "
-            f"signs from entry {record.signed_from}"
-        )
-    n_entries = len(journal.entries)
-    if findings or contradictions or conflicts or receipt_lines:
-        forged = (
-            f", {count(journal.forged, 'forged entry', 'forged entries')} not used"
-            if journal.forged
-            else ""
-        )
-        print(
-            f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
-            f"{len(conflicts)} sync conflict(s), {len(receipt_lines)} receipt finding(s) in "
-            f"{len(journal.files)} file(s), {n_entries} entries used{forged}"
-        )
-        return 1
-    if journal.unsigned:
-        print(
-            f"{journal.unsigned} of {n_entries} entries are unsigned: written before this "
-            "site's devices signed their entries, so only the hash chain vouches for them"
-        )
-        print(
-            f"unsigned, chain intact: {len(journal.files)} file(s), {n_entries} entries, "
-            f"{journal.signed} signed, {journal.unsigned} unsigned, chains unbroken, "
-            "no contradictions"
-        )
-        return 0
-    print(
-        f"log intact: {len(journal.files)} file(s), {n_entries} entries, every one signed "
-        "by its device's registered key, chains unbroken, no contradictions"
-    )
-    return 0
+    """Print findings and contradictions on stdout; 1 when there are any.
 
-
-def receipts_check(site: Path, journal: Journal, office: str | None) -> Audit:
-    """The log against this device's receipts, and against the office's when asked.
-
-    Raises:
-        SiteError: ``office`` is not a folder.
+    An unchanged site gives the report kept from the last run (see
+    :mod:`fieldlog.commands.verify_cache`); anything else is checked the full way.
     """
-    home = fieldlog_home()
-    this = known_device(home)
-    mine = own_receipts(site, home)
-    groups = [mine]
-    known = known_devices(mine.of())
-    if office is not None:
-        folder = Path(office)
-        if not folder.is_dir():
-            raise SiteError(
-                "the office folder does not exist",
-                file=folder,
-                fix="give the folder 'fieldlog sync' writes to for this site",
-            )
-        devices = {d for d, _ in mine.files} | ({this} if this else set())
-        groups.append(office_receipts(folder, devices, mine))
-        there = read_folder(folder / RECEIPTS_DIR, RECEIPTS_DIR)
-        known = known_devices(f for d, f in there.files if f.label == f"{RECEIPTS_DIR}/{d}.toml")
-    result = audit(holdings_of(journal), groups)
-    return replace(result, unknown=tuple(unknown_devices(site, known, this)))
+    cache = ReportCache.open(Path(args.site), fieldlog_home()) if args.office is None else None
+    report = cache.found() if cache is not None else None
+    if report is not None:
+        for line in report.lines:
+            print(line)
+        return report.code
+    from fieldlog.commands.verify_report import make_report  # the log, sync and engine
+
+    report = make_report(args.site, args.office)
+    if cache is not None:
+        cache.keep(report)
+    return report.code

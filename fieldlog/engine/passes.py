@@ -5,9 +5,11 @@ applied to whole levels (see :mod:`fieldlog.engine.network_arrays`): for every l
 level the bound it puts on its successor is computed at once, then the bounds are reduced per
 successor (maximum going forward, minimum going back). A 10,000-activity job has tens to a few
 hundred levels, so the Python loop runs that many times instead of once per activity and per
-link. (A network that is one long chain has as many levels as activities: the loop then costs
-more than the plain one-at-a-time passes would; tests/benchmarks/bench_cpm.py measures a deep
-case.)
+link. A deep network has many thin levels, where the dozen numpy calls of a level cost more
+than its few links: runs of them go through :mod:`fieldlog.engine.thin_levels` instead (the
+same arithmetic, one link at a time), and :mod:`fieldlog.engine.reach` refuses a calendar range
+a long path provably runs past before the forward pass starts. tests/benchmarks/bench_cpm.py
+measures a deep case.
 
 Points of all activities live in stacked tables so that one fancy index reads every link's
 input: going forward ``points[0]`` is ES, ``points[1]`` EF, ``points[2]`` the actual start of
@@ -26,8 +28,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from fieldlog.engine import thin_levels
 from fieldlog.engine.calendar_tables import CalendarTables
 from fieldlog.engine.network_arrays import NetworkArrays
+from fieldlog.engine.reach import check_reach
+from fieldlog.engine.thin_levels import BackwardInputs, ForwardInputs, Links, Run
 
 _NOTHING = np.iinfo(np.int64).min
 """Packed value of an activity no link reached."""
@@ -79,6 +84,8 @@ class _Levels:
 
     targets: np.ndarray
     starts: np.ndarray
+    first: np.ndarray
+    """Each activity's first link (absolute, ``starts`` plus its level's first link)."""
     links: list[int]
     segs: list[int]
     cross: list[int]
@@ -99,12 +106,26 @@ class _Levels:
             )
         )
 
+    def runs(self) -> list[tuple[Run | None, range]]:
+        """The levels in order, as runs: a thin run (:mod:`fieldlog.engine.thin_levels`) with
+        its levels, or ``None`` with levels for the vectorised loop."""
+        out: list[tuple[Run | None, range]] = []
+        for g0, g1, thin in thin_levels.runs(
+            self.links, thin_levels.THIN_LINKS, thin_levels.MIN_LEVELS
+        ):
+            if thin:
+                lk, sg, cr = self.links, self.segs, self.cross
+                out.append((Run(lk[g0], lk[g1], sg[g0], sg[g1], cr[g0], cr[g1]), range(g0, g1)))
+            else:
+                out.append((None, range(g0, g1)))
+        return out
+
 
 def _levels(owner: np.ndarray, level: np.ndarray, cross: np.ndarray) -> _Levels:
     """Group links sorted by (level of ``owner``, ``owner``): ``owner`` is the activity each
     link updates (the successor going forward, the predecessor going back)."""
     if not owner.size:
-        return _Levels(owner, owner, [0], [0], [0], owner, owner)
+        return _Levels(owner, owner, owner, [0], [0], [0], owner, owner)
     first = _changes(owner)
     targets = owner[first]
     seg_bounds = np.append(_changes(level[targets]), targets.size)
@@ -115,12 +136,26 @@ def _levels(owner: np.ndarray, level: np.ndarray, cross: np.ndarray) -> _Levels:
     return _Levels(
         targets=targets,
         starts=first - np.repeat(level_first, np.diff(seg_bounds)),
+        first=first,
         links=link_bounds.tolist(),
         segs=seg_bounds.tolist(),
         cross=cross_bounds.tolist(),
         cross_at=cross_at,
         cross_in=cross_at - np.repeat(level_first, np.diff(cross_bounds)),
     )
+
+
+def _links(
+    lv: _Levels,
+    source: np.ndarray,
+    add: np.ndarray,
+    t_dur: np.ndarray,
+    x_from: np.ndarray,
+    x_to: np.ndarray,
+    x_add: np.ndarray,
+) -> Links:
+    """A pass's arrays for :mod:`fieldlog.engine.thin_levels`."""
+    return Links(source, add, lv.first, lv.targets, t_dur, lv.cross_at, x_from, x_to, x_add)
 
 
 def _changes(values: np.ndarray) -> np.ndarray:
@@ -160,6 +195,7 @@ def forward(
     """Early start and finish points, the driving link and the milestone reading flags."""
     n = net.size
     fin, run, dur, floor = start.finished, start.in_progress, start.duration, start.floor
+    check_reach(net, tables, dur, floor, ~(fin | run))
     pred, succ, lag = net.pred, net.succ, net.lag
     # Links that bind: none into finished work; into work in progress none from finished work
     # (history) and, with progress override, none at all.
@@ -193,30 +229,39 @@ def forward(
     flag_flat = flags.reshape(-1)
     best = np.full(n, _NOTHING, dtype=np.int64)
 
-    for (a, b, s0, s1, c0, c1), ms_here in zip(lv.bounds(), has_milestone, strict=True):
-        bound = flat[source[a:b]]
-        bound += add[a:b]
-        if c1 > c0:
-            x = lv.cross_in[c0:c1]
-            bound[x] = (
-                tables.move(bound[x], flag_flat[x_source[c0:c1]], x_from[c0:c1], x_to[c0:c1])
-                + x_add[c0:c1]
-            )
-        bound <<= shift
-        bound |= tie[a:b]
-        top = np.maximum.reduceat(bound, lv.starts[s0:s1])
-        who = lv.targets[s0:s1]
-        es = np.maximum(top >> shift, t_floor[s0:s1])
-        points[0, who] = es
-        es += t_dur[s0:s1]
-        points[1, who] = es
-        best[who] = top
-        if ms_here:  # the end of the work driving it, or the start of its day
-            ms = milestone[s0:s1]
-            t = top[ms]
-            after = flag_flat[source[_position(t, shift)]] & ((t >> shift) > t_floor[s0:s1][ms])
-            flags[0, who[ms]] = after
-            flags[1, who[ms]] = after
+    inputs = ForwardInputs(
+        _links(lv, source, add, t_dur, x_from, x_to, x_add), shift, t_floor, x_source
+    )
+    bounds = lv.bounds()
+    for thin, levels in lv.runs():
+        if thin is not None:
+            thin_levels.forward_run(inputs, thin, points, flags, best, tables)
+            continue
+        for g in levels:
+            a, b, s0, s1, c0, c1 = bounds[g]
+            bound = flat[source[a:b]]
+            bound += add[a:b]
+            if c1 > c0:
+                x = lv.cross_in[c0:c1]
+                bound[x] = (
+                    tables.move(bound[x], flag_flat[x_source[c0:c1]], x_from[c0:c1], x_to[c0:c1])
+                    + x_add[c0:c1]
+                )
+            bound <<= shift
+            bound |= tie[a:b]
+            top = np.maximum.reduceat(bound, lv.starts[s0:s1])
+            who = lv.targets[s0:s1]
+            es = np.maximum(top >> shift, t_floor[s0:s1])
+            points[0, who] = es
+            es += t_dur[s0:s1]
+            points[1, who] = es
+            best[who] = top
+            if has_milestone[g]:  # the end of the work driving it, or the start of its day
+                ms = milestone[s0:s1]
+                t = top[ms]
+                after = flag_flat[source[_position(t, shift)]] & ((t >> shift) > t_floor[s0:s1][ms])
+                flags[0, who[ms]] = after
+                flags[1, who[ms]] = after
 
     wins = np.flatnonzero((best != _NOTHING) & ((best >> shift) >= floor))
     driver = np.full(n, -1, dtype=np.int64)
@@ -284,18 +329,25 @@ def backward(
     t_latest, t_dur = latest[lv.targets], dur[lv.targets]
     late = np.stack([latest - dur, latest])
     flat = late.reshape(-1)
-    for a, b, s0, s1, c0, c1 in reversed(lv.bounds()):
-        bound = flat[source[a:b]]
-        bound += add[a:b]
-        if c1 > c0:
-            x = lv.cross_in[c0:c1]
-            bound[x] = (
-                tables.move_back(bound[x], x_after[c0:c1], x_from[c0:c1], x_to[c0:c1])
-                + x_add[c0:c1]
-            )
-        who = lv.targets[s0:s1]
-        lf = np.minimum(np.minimum.reduceat(bound, lv.starts[s0:s1]), t_latest[s0:s1])
-        late[1, who] = lf
-        lf -= t_dur[s0:s1]
-        late[0, who] = lf
+    inputs = BackwardInputs(_links(lv, source, add, t_dur, x_from, x_to, x_add), t_latest, x_after)
+    bounds = lv.bounds()
+    for thin, levels in reversed(lv.runs()):
+        if thin is not None:
+            thin_levels.backward_run(inputs, thin, late, tables)
+            continue
+        for g in reversed(levels):
+            a, b, s0, s1, c0, c1 = bounds[g]
+            bound = flat[source[a:b]]
+            bound += add[a:b]
+            if c1 > c0:
+                x = lv.cross_in[c0:c1]
+                bound[x] = (
+                    tables.move_back(bound[x], x_after[c0:c1], x_from[c0:c1], x_to[c0:c1])
+                    + x_add[c0:c1]
+                )
+            who = lv.targets[s0:s1]
+            lf = np.minimum(np.minimum.reduceat(bound, lv.starts[s0:s1]), t_latest[s0:s1])
+            late[1, who] = lf
+            lf -= t_dur[s0:s1]
+            late[0, who] = lf
     return late[1], slack

@@ -115,12 +115,16 @@ def finished_without_start(
     gap matters: the case is listed with the other out-of-sequence cases, never silently
     accepted. A milestone is only ever reached, so it has no start to miss. In file order.
     """
-    out = []
-    for a in site.activities:
-        p = progress.get(a.id)
-        if p is not None and p.actual_finish and not p.actual_start and not a.is_milestone:
-            out.append(OutOfSequence(None, NO_START_KIND, NO_START_TREATMENT, a.id))
-    return tuple(out)
+    # Looked up from the few reports with no start, not from every activity (a recompute of
+    # a large site would pay a dict lookup per activity for nothing).
+    missing = {aid for aid, p in progress.items() if p.actual_finish and not p.actual_start}
+    if not missing:
+        return ()
+    return tuple(
+        OutOfSequence(None, NO_START_KIND, NO_START_TREATMENT, a.id)
+        for a in site.activities
+        if a.id in missing and not a.is_milestone
+    )
 
 
 @dataclass(frozen=True)

@@ -31,10 +31,8 @@ from __future__ import annotations
 import copyreg
 import functools
 import hashlib
-import hmac
 import os
 import pickle
-import secrets
 import sys
 import warnings
 from collections.abc import Mapping
@@ -44,7 +42,16 @@ from types import MappingProxyType
 from typing import Any
 
 from fieldlog import __version__
-from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
+from fieldlog.cache_files import (
+    SECRET_NAME,
+    pickled,
+    prune,
+    replace_file,
+    sealed,
+    unpickle,
+    unseal,
+    user_secret,
+)
 from fieldlog.journal.filecheck import FileCheck
 from fieldlog.site.cache import cache_folder
 
@@ -54,7 +61,6 @@ KEEP = 16
 FORMAT = 1
 """Bump when the layout below changes."""
 
-SECRET_NAME = "journal-cache.secret"
 _MAGIC = b"fieldlog-journal-cache\n"
 _PREFIX, _SUFFIX = "journal-", ".pack"
 _AS_USUAL = "the log was checked from its files as usual"
@@ -182,16 +188,9 @@ def _read(path: Path, key: str, secret: bytes) -> Mapping[str, bytes]:
     except OSError as exc:
         _warn(f"cannot read the journal cache {path}: {exc.strerror}")
         return {}
-    header = _header(key)
-    start = len(header) + 64
-    if not data.startswith(header) or len(data) < start:
-        return {}
-    mac, digest = data[len(header) : len(header) + 32], data[start - 32 : start]
-    payload = data[start:]
-    if hashlib.sha256(payload).digest() != digest:
-        return {}  # truncated or damaged
-    if not hmac.compare_digest(mac, hmac.new(secret, header + payload, "sha256").digest()):
-        return {}  # not written by this user's fieldlog: never unpickled
+    payload = unseal(data, _header(key), secret)
+    if payload is None:
+        return {}  # truncated, damaged, or not this user's fieldlog's: never unpickled
     records = unpickle(payload)
     if not isinstance(records, dict):
         return {}
@@ -212,10 +211,7 @@ def _unpickle(blob: bytes) -> Cached | None:
 
 
 def _write(path: Path, key: str, secret: bytes, records: dict[str, bytes]) -> None:
-    header = _header(key)
-    payload = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
-    mac = hmac.new(secret, header + payload, "sha256").digest()
-    data = b"".join((header, mac, hashlib.sha256(payload).digest(), payload))
+    data = sealed(_header(key), secret, pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL))
     try:
         replace_file(path, data, _PREFIX)
     except OSError as exc:
@@ -229,24 +225,11 @@ def _write(path: Path, key: str, secret: bytes, records: dict[str, bytes]) -> No
 
 def _secret(folder: Path) -> bytes | None:
     """This user's random cache secret, made on first use; None when it cannot be kept."""
-    path = folder / SECRET_NAME
     try:
-        folder.mkdir(parents=True, exist_ok=True)
-        try:
-            fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
-        except FileExistsError:
-            pass
-        else:
-            with os.fdopen(fd, "wb") as out:
-                out.write(secrets.token_bytes(32))
-        found = path.read_bytes()
+        return user_secret(folder / SECRET_NAME, _warn)
     except OSError as exc:
         _warn(f"cannot keep the journal cache in {folder}: {exc.strerror}; {_AS_USUAL}")
         return None
-    if len(found) != 32:
-        remove(path, _warn)  # cut short (a crash while it was made): the next run makes a new one
-        return None
-    return found
 
 
 @functools.cache
@@ -263,6 +246,21 @@ def _fingerprint() -> str | None:
     except OSError:
         return None
     return h.hexdigest()
+
+
+def cache_secret() -> bytes | None:
+    """This user's journal-cache secret (made on first use); None when it cannot be kept."""
+    return _secret(cache_folder())
+
+
+def code_fingerprint() -> str | None:
+    """The fingerprint of the deciding code (None: caching is off)."""
+    return _fingerprint()
+
+
+def warn(message: str) -> None:
+    """Report a cache folder that cannot be used (a :class:`JournalCacheWarning`)."""
+    warnings.warn(message, JournalCacheWarning, stacklevel=2)
 
 
 def _warn(message: str) -> None:

@@ -14,9 +14,8 @@ random hex digits so that two laptops both called "site-office" still differ. It
 
 from __future__ import annotations
 
+import os
 import re
-import secrets
-import socket
 from pathlib import Path
 
 import tomli_w
@@ -68,6 +67,8 @@ def device_id(home: Path | None = None) -> str:
         with device_lock(home, "device-settings"):
             settings = read_settings(home)  # another process may have made it meanwhile
             if "device" not in settings:
+                import socket  # only to name a new device
+
                 settings["device"] = new_device_id(socket.gethostname())
                 atomic_write(home / DEVICE_FILE, tomli_w.dumps(settings).encode("utf-8"))
     except JournalError as exc:
@@ -95,4 +96,4 @@ def _checked(device: object, home: Path) -> str:
 def new_device_id(hostname: str) -> str:
     """A fresh id from a host name: ``"Site Office #2"`` -> ``"site-office-2-3fa9c1"``."""
     slug = re.sub(r"[^a-z0-9]+", "-", hostname.lower()).strip("-")[:17].strip("-")
-    return f"{slug or 'device'}-{secrets.token_hex(3)}"
+    return f"{slug or 'device'}-{os.urandom(3).hex()}"

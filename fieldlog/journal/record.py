@@ -13,6 +13,7 @@ import tomllib
 from collections.abc import Callable, Mapping
 from dataclasses import replace
 from datetime import UTC, date, datetime
+from functools import partial
 from pathlib import Path
 from types import MappingProxyType
 from typing import TYPE_CHECKING, Any
@@ -23,6 +24,7 @@ from fieldlog.bounds import MAX_COUNTER
 from fieldlog.durable import make_folder
 from fieldlog.errors import EntryRefused, JournalError
 from fieldlog.journal.chain import entry_hash
+from fieldlog.journal.context import EntryContext
 from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
 from fieldlog.journal.filecheck import FileCheck
@@ -43,6 +45,7 @@ from fieldlog.journal.store import (
     remove_stale_temps,
     write_error,
 )
+from fieldlog.journal.tail import TailLink, built
 from fieldlog.site.model import Site
 
 Clock = Callable[[], datetime]
@@ -74,6 +77,7 @@ def record_entry(
     home: Path | None = None,
     site_name: str | None = None,
     key: Ed25519PrivateKey | None = None,
+    tail: TailLink | None = None,
 ) -> Entry:
     """Check an entry against the schedule and the log, then append it to the journal.
 
@@ -95,6 +99,9 @@ def record_entry(
         site_name: how the user named the site folder, for the fixes in error messages.
         key: the device's signing key (default: this machine's, made on first use; the
             sample generator passes keys derived from a fixed seed).
+        tail: the log folder's kept record (:mod:`fieldlog.journal.tail`) when ``site`` came
+            from :meth:`TailLink.open`: if the log's files are exactly those it was built
+            from, the log is not read again; either way it is brought up to date.
 
     Returns:
         The entry as written, with its id.
@@ -127,16 +134,29 @@ def record_entry(
     except OSError as exc:
         raise write_error(log, exc, "create the log folder") from exc
     with device_lock(log, device):
-        journal = read_journal(folder)
-        if kind == "correction":
-            day, clean = _correction(site, journal, day, fields, today, site_name)
-        else:
+        use = tail if tail is not None and tail.site is site and kind != "correction" else None
+        kept, files = use.current() if use is not None else (None, None)
+        base = kept
+        if kept is not None:  # the log is byte for byte what the kept record was built from
             assert day is not None  # set to ``day or today`` above for every other kind
-            view = replay(site, journal, _FAR_FUTURE)
-            check_entry(site, view, kind, day, clean, site_name)
-        return _append(
-            log, journal, device, kind, day, clean, author, clock, _Signer(key, folder, today)
+            check_entry(site, kept.context, kind, day, clean, site_name)
+            next_seq = partial(_checked_seq, log, device, kept.highest.get(device, 0))
+        else:
+            journal = read_journal(folder)
+            if kind == "correction":
+                day, clean = _correction(site, journal, day, fields, today, site_name)
+            else:
+                assert day is not None  # set to ``day or today`` above for every other kind
+                context = EntryContext.of(replay(site, journal, _FAR_FUTURE))
+                check_entry(site, context, kind, day, clean, site_name)
+                base = built(use, files, journal, context) if use is not None else None
+            next_seq = partial(_next_seq, log, journal, device)
+        entry, data = _append(
+            log, next_seq, device, kind, day, clean, author, clock, _Signer(key, folder, today)
         )
+        if use is not None and base is not None:
+            use.store(base.after(entry, entry.file, data, folder))
+        return entry
 
 
 def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
@@ -236,6 +256,11 @@ def _next_seq(log: Path, journal: Journal, device: str) -> int:
                 # never converted: Python refuses to convert 5,000-digit text anyway).
                 seq = int(m[1]) if len(m[1]) <= 10 else MAX_COUNTER + 1
                 highest = max(highest, seq)
+    return _checked_seq(log, device, highest)
+
+
+def _checked_seq(log: Path, device: str, highest: int) -> int:
+    """``highest + 1``, refused past the bound of entry numbers."""
     if highest >= MAX_COUNTER:
         raise JournalError(
             f"device {device} has used every entry number up to {highest:,}",
@@ -247,7 +272,7 @@ def _next_seq(log: Path, journal: Journal, device: str) -> int:
 
 def _append(
     log: Path,
-    journal: Journal,
+    next_seq: Callable[[], int],
     device: str,
     kind: str,
     day: date,
@@ -255,7 +280,8 @@ def _append(
     author: str,
     clock: Clock,
     signer: _Signer,
-) -> Entry:
+) -> tuple[Entry, bytes]:
+    """Append the entry to its day file; returns it as written, and the file's new bytes."""
     name = file_name(day, device)
     path = log / name
     remove_stale_temps(log, name)
@@ -275,7 +301,7 @@ def _append(
         count = len(check.entries)
         if check.entries:
             prev = max(check.entries, key=lambda e: e.seq).hash
-    seq = _next_seq(log, journal, device)
+    seq = next_seq()
     signer.register(device, author, seq)  # before the device's first signed entry lands
     written = clock().astimezone(UTC).replace(microsecond=0)
     entry = Entry(
@@ -309,4 +335,4 @@ def _append(
     atomic_write(path, new)
     written_entry = replace(entry, hash=body["hash"], sig=body["sig"], file=name, position=count)
     remember(name, new, FileCheck(name, (*check.entries, written_entry), check.findings))
-    return written_entry
+    return written_entry, new

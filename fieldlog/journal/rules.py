@@ -17,7 +17,7 @@ from typing import Any
 from fieldlog.bounds import check_date
 from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import EntryRefused, OutOfBounds
-from fieldlog.journal.entries import Entry
+from fieldlog.journal.context import EntryContext
 from fieldlog.journal.replay import ActivityEntries, Replay
 from fieldlog.site.model import Site
 
@@ -49,14 +49,19 @@ def check_day(day: date, today: date, site_start: date | None = None) -> None:
 
 
 def check_entry(
-    site: Site, view: Replay, kind: str, day: date, fields: Mapping[str, Any], site_name: str
+    site: Site,
+    view: Replay | EntryContext,
+    kind: str,
+    day: date,
+    fields: Mapping[str, Any],
+    site_name: str,
 ) -> None:
     """Refuse an entry of ``kind`` for ``day`` that contradicts the schedule or the log.
 
     Args:
         site: the site as loaded now (its current schedule revision).
         view: the log replayed over every day (without the entry being corrected, when the
-            new entry is a correction's replacement).
+            new entry is a correction's replacement), or its :class:`EntryContext`.
         kind, day, fields: the new entry (fields already shape-checked).
         site_name: how the site folder was named on the command line, for the fixes.
 
@@ -81,7 +86,8 @@ def check_entry(
             raise refuse(
                 f"unknown calendar '{name}'", fix=f"use one of: {', '.join(site.calendars)}"
             )
-    ev = view.evidence.get(fields.get("activity", ""), ActivityEntries())
+    ctx = view if isinstance(view, EntryContext) else EntryContext.of(view)
+    ev = ctx.evidence.get(fields.get("activity", ""), ActivityEntries())
     correct = f"fieldlog record {site_name} correct ENTRY-ID --reason '...'"
     if kind == "started":
         if site.activity(fields["activity"]).is_milestone:
@@ -106,7 +112,7 @@ def check_entry(
                 fix="give the date it is now expected, or leave it out",
             )
     elif kind == "cleared":
-        _cleared(fields["item"], day, view)
+        _cleared(fields["item"], day, ctx)
 
 
 def _activities(fields: Mapping[str, Any]) -> list[str]:
@@ -177,27 +183,20 @@ def _measure(kind: str, fields: Mapping[str, Any], day: date, ev: ActivityEntrie
         )
 
 
-def _cleared(item: str, day: date, view: Replay) -> None:
-    need = _find(view.effective, view.current.get(item, item))
-    if need is None or need.kind != "need":
-        open_ids = ", ".join(i.entry_id for i in view.readiness) or "none"
+def _cleared(item: str, day: date, ctx: EntryContext) -> None:
+    need = ctx.needs.get(ctx.current.get(item, item))
+    if need is None:
+        open_ids = ", ".join(ctx.open_items) or "none"
         raise refuse(
             f"{item} is not a readiness item in the log",
             fix=f"give the id of a 'need' entry (open now: {open_ids})",
         )
-    if need.id in view.cleared:
+    if need.id in ctx.cleared:
         raise refuse(
-            f"readiness item {need.id} was already cleared (entry {view.cleared[need.id].id})"
+            f"readiness item {need.id} was already cleared (entry {ctx.cleared[need.id].id})"
         )
     if day < need.day:
         raise refuse(
             f"readiness item {need.id} was opened on {need.day}, after {day}",
             fix="give the day it was really cleared",
         )
-
-
-def _find(entries: tuple[Entry, ...], entry_id: str) -> Entry | None:
-    for e in entries:
-        if e.id == entry_id:
-            return e
-    return None

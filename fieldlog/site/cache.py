@@ -225,6 +225,11 @@ def _pickle(site: Site | CompiledSite) -> bytes:
     return pickled(site, _DISPATCH)
 
 
+def pickled_with_sites(value: object) -> bytes:
+    """``value`` pickled by the rules above (for another cache holding a Site)."""
+    return pickled(value, _DISPATCH)
+
+
 # --- the code's fingerprint ---------------------------------------------------------------
 
 

@@ -36,6 +36,8 @@ __all__ = [
     "build_site",
     "load_compiled",
     "load_site",
+    "load_site_bytes",
+    "read_site_bytes",
     "parse_toml",
     "read_toml",
 ]
@@ -54,15 +56,28 @@ def load_compiled(folder: Path | str) -> CompiledSite:
         DependencyLoopError: the links form a loop (every activity of it named, in order).
     """
     folder = Path(folder)
+    return _load_bytes(folder, *read_site_bytes(folder))
+
+
+def read_site_bytes(folder: Path | str) -> tuple[bytes, bytes]:
+    """The bytes of ``site.toml`` and ``schedule.toml``, each within its size cap.
+
+    Raises:
+        SiteError: not a folder, or a file missing, unreadable or too big.
+    """
+    folder = Path(folder)
     if not folder.is_dir():
         raise SiteError(
             "not a site folder",
             file=folder,
             fix=f"give the folder that holds {SITE_FILE} and {SCHEDULE_FILE}",
         )
-    site_raw = read_file_bytes(folder / SITE_FILE)
-    schedule_raw = read_file_bytes(folder / SCHEDULE_FILE)
-    return _load_bytes(folder, site_raw, schedule_raw)
+    return read_file_bytes(folder / SITE_FILE), read_file_bytes(folder / SCHEDULE_FILE)
+
+
+def load_site_bytes(folder: Path | str, site_raw: bytes, schedule_raw: bytes) -> Site:
+    """The Site these bytes (read by :func:`read_site_bytes` from ``folder``) describe."""
+    return _load_bytes(Path(folder), site_raw, schedule_raw).site
 
 
 @lru_cache(maxsize=4)

@@ -1,0 +1,193 @@
+"""Deep networks: the thin-level runs and the early horizon check against the reference.
+
+A deep network (long bands of work, each step waiting on one or two of the step before) is
+scheduled by :mod:`fieldlog.engine.thin_levels` one link at a time instead of one numpy call
+per level, and :mod:`fieldlog.engine.reach` may stop a forward pass before it starts when a
+long path provably runs past the calendars. Both must give exactly the frozen reference
+engine's results (tests/helpers/reference_cpm.py, itself checked against networkx, numpy
+busday functions and textbook examples): every field, the finish, paths, out-of-sequence
+cases and the calendar range the engine settles on (an early stop that was wrong would widen
+the range further than the reference does). The random sites of
+tests/test_cpm_differential.py run again with every level thin and with none, so both ways of
+doing a level are compared on every shape. The longest path is also checked against
+networkx on a plain chain. All data is invented.
+"""
+
+from __future__ import annotations
+
+import random
+from dataclasses import replace
+from datetime import date, timedelta
+from types import MappingProxyType
+
+import networkx as nx
+import numpy as np
+import pytest
+
+from fieldlog.engine import reach, thin_levels
+from fieldlog.engine.calendar_tables import calendar_tables
+from fieldlog.engine.calendars import HorizonExceeded, build_calendars
+from fieldlog.engine.compiled import compile_site
+from fieldlog.engine.cpm import _initial_range, compute_schedule, schedule_on_calendars
+from fieldlog.engine.progress import Progress
+from fieldlog.site.model import Activity, CalendarSpec, Link, LinkType, Site
+from tests.test_cpm_differential import assert_same, both, random_case
+
+_TYPES = (LinkType.FS,) * 6 + (LinkType.SS, LinkType.FF, LinkType.SF)
+
+
+def deep_case(seed: int) -> tuple[Site, date, dict, dict, dict]:
+    """A band network ``width`` wide and 40 to 400 levels deep, on the calendars, settings and
+    status of :func:`random_case`; some cases run years past the first calendar range."""
+    site, status, _, lost, _ = random_case(seed)
+    rng = random.Random(seed + 10_007)
+    width = rng.choice((1, 1, 2, 3, 5, 8))
+    n = width * rng.randint(40, 400 // width + 40)
+    plain = rng.random() < 0.3  # finish-to-start, no leads, no milestones: years of work
+    longest = 30 if plain else rng.choice((3, 8, 30))
+    types = (LinkType.FS,) if plain else _TYPES
+    cals = list(site.calendars)
+    ids = [f"D{k:04d}" for k in range(n)]
+    acts = [
+        Activity(
+            aid,
+            f"Step {k}",
+            0 if rng.random() < 0.1 and not plain else rng.randint(1, longest),
+            rng.choice(cals),
+            start_not_before=site.start + timedelta(days=rng.randint(0, 400))
+            if rng.random() < 0.02
+            else None,
+        )
+        for k, aid in enumerate(ids)
+    ]
+    links = []
+    for k in range(width, n):
+        band = k // width
+        first = (band - 1) * width
+        for p in rng.sample(range(first, first + width), k=min(width, rng.randint(1, 2))):
+            lag = 0 if rng.random() < 0.7 else rng.randint(0 if plain else -2, 4)
+            links.append(Link(ids[p], ids[k], rng.choice(types), lag))
+        if k >= 3 * width and rng.random() < 0.05:  # now and then a link over several levels
+            links.append(Link(ids[rng.randrange(0, first)], ids[k], LinkType.FS, 0))
+    site = replace(site, activities=tuple(acts), links=tuple(links))
+    progress: dict[str, Progress] = {}
+    if status >= site.start:
+        for aid in ids[: rng.randint(0, min(n, 2 * width + 3))]:
+            begun = site.start + timedelta(days=rng.randint(0, max(0, (status - site.start).days)))
+            if rng.random() < 0.6:
+                progress[aid] = Progress(actual_start=begun, actual_finish=min(status, begun))
+            else:
+                progress[aid] = Progress(actual_start=begun)
+    holds = {a.id: site.start + timedelta(days=rng.randint(0, 60)) for a in acts[:: max(1, n // 3)]}
+    return site, status, progress, lost, holds
+
+
+@pytest.fixture(params=["default", "all thin", "none thin"])
+def level_mode(request: pytest.FixtureRequest, monkeypatch: pytest.MonkeyPatch) -> str:
+    """Every level thin (one link at a time), none, or the engine's own choice."""
+    if request.param == "all thin":
+        monkeypatch.setattr(thin_levels, "THIN_LINKS", 10**9)
+        monkeypatch.setattr(thin_levels, "MIN_LEVELS", 1)
+    elif request.param == "none thin":
+        monkeypatch.setattr(thin_levels, "THIN_LINKS", -1)
+    return request.param
+
+
+@pytest.mark.parametrize("seed", range(60))
+def test_deep_networks_match_the_reference(seed: int, level_mode: str) -> None:
+    assert_same(*both(*deep_case(seed)))
+
+
+@pytest.mark.parametrize("seed", range(0, 700, 5))
+def test_random_sites_match_the_reference_either_way(seed: int, level_mode: str) -> None:
+    assert_same(*both(*random_case(seed)))
+
+
+def test_the_deep_cases_cover_what_they_are_for() -> None:
+    """Some cases have thin runs under the engine's own choice, some run past the first
+    calendar range and are stopped early, and every link type occurs."""
+    runs = stopped = 0
+    types = set()
+    for seed in range(60):
+        site, status, progress, lost, holds = deep_case(seed)
+        types |= {lk.type for lk in site.links}
+        net = compile_site(site).net
+        per_level = np.bincount(net.level[net.succ], minlength=int(net.level.max()) + 1)
+        bounds = [0, *np.cumsum(per_level).tolist()]
+        lv = thin_levels.runs(bounds, thin_levels.THIN_LINKS, thin_levels.MIN_LEVELS)
+        runs += any(thin for *_, thin in lv)
+        if _stopped_early(site, status, progress, lost, holds):
+            stopped += 1
+    assert runs >= 30 and stopped >= 3 and types == set(LinkType)
+
+
+def _stopped_early(site: Site, status: date, progress: dict, lost: dict, holds: dict) -> bool:
+    """The first calendar range is refused by the early check (the pass would fail there:
+    :func:`test_an_early_stop_is_always_a_pass_that_fails` proves it)."""
+    comp = compile_site(site)
+    lo, hi = _initial_range(comp, status, progress, holds)
+    calendars = build_calendars(site.calendars, lo, hi, lost)
+    try:
+        schedule_on_calendars(comp, status, progress, holds, calendars)
+    except HorizonExceeded as exc:
+        return "long path" in str(exc)
+    return False
+
+
+@pytest.mark.parametrize("seed", range(60))
+def test_an_early_stop_is_always_a_pass_that_fails(seed: int, monkeypatch) -> None:
+    """Where the early check refuses a range, the passes themselves fail on it too."""
+    site, status, progress, lost, holds = deep_case(seed)
+    if not _stopped_early(site, status, progress, lost, holds):
+        return
+    comp = compile_site(site)
+    lo, hi = _initial_range(comp, status, progress, holds)
+    calendars = build_calendars(site.calendars, lo, hi, lost)
+    monkeypatch.setattr("fieldlog.engine.passes.check_reach", lambda *a: None)
+    with pytest.raises(HorizonExceeded) as exc:
+        schedule_on_calendars(comp, status, progress, holds, calendars)
+    assert "long path" not in str(exc.value)
+
+
+def test_a_long_chain_against_networkx() -> None:
+    """One chain of 3,000 FS links on a seven-day calendar (every day works), 20 years of
+    work: the finish is the longest path networkx finds, and the first range is stopped
+    early."""
+    site, *_ = random_case(1)
+    rng = random.Random(4)
+    ids = [f"C{k:04d}" for k in range(3000)]
+    allweek = CalendarSpec("every day", frozenset(range(7)), frozenset())
+    acts = tuple(Activity(aid, aid, rng.randint(1, 5), allweek.name) for aid in ids)
+    links = tuple(Link(a, b, LinkType.FS, 0) for a, b in zip(ids, ids[1:], strict=False))
+    site = replace(
+        site,
+        calendars=MappingProxyType({allweek.name: allweek}),
+        calendar=allweek.name,
+        activities=acts,
+        links=links,
+        finish_by=None,
+    )
+    status = site.start - timedelta(days=1)
+    result = compute_schedule(site, status)
+    g = nx.DiGraph()
+    for a, b in zip(acts, acts[1:], strict=False):
+        g.add_edge(a.id, b.id, weight=a.duration)
+    g.add_edge(acts[-1].id, "END", weight=acts[-1].duration)
+    days = nx.dag_longest_path_length(g)
+    assert result.finish == site.start + timedelta(days=days - 1)
+    assert _stopped_early(site, status, {}, {}, {})
+    assert_same(result, both(site, status, {}, {}, {})[1])
+
+
+def test_the_long_path_is_found_once_and_follows_links() -> None:
+    site, *_ = deep_case(3)
+    net = compile_site(site).net
+    path = reach.long_path(net)
+    assert reach.long_path(net) is path
+    assert (net.pred[path.links] == path.acts[:-1]).all()
+    assert (net.succ[path.links] == path.acts[1:]).all()
+    tables = calendar_tables(
+        build_calendars(site.calendars, site.start, site.start + timedelta(days=10)),
+        net.calendar_names,
+    )
+    assert tables.origin == site.start.toordinal()
