@@ -52,6 +52,7 @@ from fieldlog.engine.calendars import HorizonExceeded
 from fieldlog.errors import FieldlogError
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.keys import saved_author, take_warnings
+from fieldlog.reports.words import count, working_days
 
 
 def lazy_screen(module: str, name: str) -> Callable[[], Screen]:
@@ -376,12 +377,12 @@ def opening_words(snap: Snapshot) -> str:
     journal = snap.state.journal
     n = len(journal.entries)
     last = journal.last_day
-    text = f"{n} log entr{'y' if n == 1 else 'ies'}"
+    text = count(n, "log entry", "log entries")
     if last is not None:
         text += f", last day logged {last:%a %d %b %Y}"
     problems = len(snap.state.replay.problems)
     if problems:
-        text += f" · {problems} log problem{'s' if problems != 1 else ''}: see 4 Journal"
+        text += f" · {count(problems, 'log problem', 'log problems')}: see 4 Journal"
     return text + " · ? lists every key"
 
 
@@ -399,12 +400,11 @@ def finish_change(old: Snapshot, new: Snapshot) -> str:
     try:
         n = cal.count(min(a, b) + timedelta(days=1), max(a, b) + timedelta(days=1))
     except HorizonExceeded:  # the old finish lies outside the new calendar's range
-        n = abs((b - a).days)
-        unit = "calendar day"
+        moved = count(abs((b - a).days), "calendar day", "calendar days")
     else:
-        unit = "working day"
+        moved = working_days(n)
     way = "later" if b > a else "earlier"
-    return f"Finish {n} {unit}{'s' if n != 1 else ''} {way}, {b:%a %d %b} (was {a:%a %d %b})"
+    return f"Finish {moved} {way}, {b:%a %d %b} (was {a:%a %d %b})"
 
 
 def make_app(

@@ -28,6 +28,7 @@ from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
 from fieldlog.errors import FieldlogError
 from fieldlog.journal import Finding, verify
 from fieldlog.journal.entries import Entry
+from fieldlog.reports.words import count
 
 COLUMNS = (
     Column("day", "Day", 9),
@@ -43,8 +44,8 @@ def check_words(findings: Iterable[Finding], n_entries: int, n_files: int) -> tu
     findings = list(findings)
     if not findings:
         return (
-            f"Log check: OK, {n_entries} entries in {n_files} file"
-            f"{'s' if n_files != 1 else ''}, none altered"
+            f"Log check: OK, {count(n_entries, 'entry', 'entries')} in "
+            f"{count(n_files, 'file', 'files')}, none altered"
         ), False
     first = findings[0]
     more = f" (and {len(findings) - 1} more)" if len(findings) > 1 else ""

@@ -31,6 +31,7 @@ from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
 from fieldlog.engine.result import ActivityResult
 from fieldlog.journal.entries import PROGRESS_KINDS
 from fieldlog.lookahead import Cell
+from fieldlog.reports.words import count
 
 COLUMNS = (
     Column("flag", "", 2),
@@ -131,7 +132,7 @@ class TodayScreen(RecordView):
         table.set_rows(columns, lines, keep=table.current)
         n = len(self.rows)
         head = (
-            f"{snap.today:%a %d %b %Y}: {n} activit{'y' if n == 1 else 'ies'} running or "
+            f"{snap.today:%a %d %b %Y}: {count(n, 'activity', 'activities')} running or "
             f"ready · {must} MUST run tomorrow"
         )
         if not self.rows:
@@ -169,7 +170,7 @@ def day_text(snap: Snapshot) -> Text:
         # Progress shows in the list above, but "nothing yet" under it would read as if the
         # day's record were empty: say how much of it is there.
         text.append(
-            f"  {progress} progress entr{'y' if progress == 1 else 'ies'} "
+            f"  {count(progress, 'progress entry', 'progress entries')} "
             "(started, finished, days left, percent): see the list above\n"
         )
     if not recorded:
