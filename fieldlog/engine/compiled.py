@@ -18,6 +18,8 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass
+from itertools import groupby
+from operator import attrgetter
 
 import numpy as np
 
@@ -51,28 +53,36 @@ class CompiledSite:
 
 
 def compile_site(site: Site) -> CompiledSite:
-    """Everything the engine and the lookahead derive from ``site``, built once."""
-    acts = site.activities
-    links = np.empty(len(site.links), dtype=object)
-    links[:] = site.links
-    preds = [lk.pred for lk in site.links]
-    out: dict[str, list[Link]] = {}
-    into: dict[str, list[Link]] = {}
-    for link in site.links:
-        out.setdefault(link.pred, []).append(link)
-        into.setdefault(link.succ, []).append(link)
+    """Everything the engine and the lookahead derive from ``site``, built once.
+
+    Built with C-level loops (``map``, ``zip``, a stable sort and ``groupby``) rather than a
+    Python loop per link: on a 200,000-activity site there are 400,000 links.
+    """
+    acts, site_links = site.activities, site.links
+    links = np.empty(len(site_links), dtype=object)
+    links[:] = site_links
+    ids = list(map(_ID, acts))
     return CompiledSite(
         site=site,
         net=build_network(site),
-        by_id={a.id: a for a in acts},
-        names=[a.name for a in acts],
-        calendars=[a.calendar for a in acts],
-        durations=[a.duration for a in acts],
+        by_id=dict(zip(ids, acts, strict=True)),
+        names=list(map(_NAME, acts)),
+        calendars=list(map(_CALENDAR, acts)),
+        durations=list(map(_DURATION, acts)),
         links=links,
-        link_preds=np.array(preds, dtype=object),
-        links_out={k: tuple(v) for k, v in out.items()},
-        links_in={k: tuple(v) for k, v in into.items()},
+        link_preds=np.array(list(map(_PRED, site_links)), dtype=object),
+        links_out=_grouped(site_links, _PRED),
+        links_in=_grouped(site_links, _SUCC),
     )
+
+
+_ID, _NAME, _CALENDAR, _DURATION = (attrgetter(a) for a in ("id", "name", "calendar", "duration"))
+_PRED, _SUCC = attrgetter("pred"), attrgetter("succ")
+
+
+def _grouped(links: tuple[Link, ...], end: attrgetter[str]) -> dict[str, tuple[Link, ...]]:
+    """``links`` by the activity at ``end``, each group in file order (the sort is stable)."""
+    return {aid: tuple(group) for aid, group in groupby(sorted(links, key=end), end)}
 
 
 def compiled(site: Site | CompiledSite) -> CompiledSite:
