@@ -25,6 +25,7 @@ from fieldlog.site import cache as site_cache
 from fieldlog.site import files as site_files
 from fieldlog.site.cache import KEEP, SiteCacheWarning, cache_folder, cache_key
 from fieldlog.site.files import load_site
+from fieldlog.site.model import Link, LinkType
 from tests.helpers.site_builder import Act, Lnk, schedule_toml, site_toml
 
 SITE = site_toml(
@@ -308,6 +309,24 @@ def test_derived_lookups_on_the_site_are_not_stored(tmp_path):
     back = site_cache.read_entry(path, key)
     assert back == site
     assert set(back.__dict__) == {f.name for f in dataclasses.fields(site)}
+
+
+def test_a_cached_site_shares_each_id_between_its_activity_and_links(tmp_path, parses):
+    folder = write(tmp_path / "site")
+    load_fresh(folder)
+    cached = load_fresh(folder)
+    assert len(parses) == 2  # the second load read no TOML
+    assert cached == uncached(folder)
+    by_id = {a.id: a.id for a in cached.activities}
+    assert all(lk.pred is by_id[lk.pred] and lk.succ is by_id[lk.succ] for lk in cached.links)
+
+
+def test_a_site_whose_links_name_unknown_ids_still_round_trips(tmp_path):
+    # Another cache may pickle a Site built by hand, never validated: its links are kept as
+    # written (the oracle is the value itself).
+    site = uncached(write(tmp_path / "site"))
+    odd = dataclasses.replace(site, links=(Link("PAD", "NOWHERE", LinkType.FF, -2),))
+    assert pickle.loads(site_cache.pickled_with_sites(odd)) == odd
 
 
 def test_an_unusable_cache_folder_warns_and_still_loads(tmp_path, monkeypatch, parses):
