@@ -35,7 +35,6 @@ if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys ar
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
 from fieldlog.journal.registry import DeviceRecord, register
-from fieldlog.journal.replay import correction_base, replay
 from fieldlog.journal.rules import check_day, check_entry, refuse
 from fieldlog.journal.signing import sign
 from fieldlog.journal.store import (
@@ -142,6 +141,8 @@ def record_entry(
             check_entry(site, kept.context, kind, day, clean, site_name)
             next_seq = partial(_checked_seq, log, device, kept.highest.get(device, 0))
         else:
+            from fieldlog.journal.replay import replay  # the full way only: 30 ms of imports
+
             journal = read_journal(folder)
             if kind == "correction":
                 day, clean = _correction(site, journal, day, fields, today, site_name)
@@ -204,6 +205,8 @@ def _correction(
     site_name: str,
 ) -> tuple[date, dict[str, Any]]:
     """Check a correction and the entry it would leave; returns its day and fields."""
+    from fieldlog.journal.replay import correction_base, replay  # see record_entry
+
     target_id = str(fields.get("supersedes", ""))
     target = journal.by_id(target_id)
     if target is None:
