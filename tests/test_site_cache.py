@@ -352,3 +352,21 @@ def test_a_cached_run_of_the_command_prints_the_same(sample_site, capsys, parses
     warm = capsys.readouterr()
     assert (warm.out, warm.err) == (cold.out, cold.err)
     assert parses.count(schedule_text) == 1  # the second command used the cache
+
+
+def test_only_a_one_shot_command_freezes_what_a_load_makes(sample_site, capsys):
+    # gc.freeze keeps every object alive at that moment out of the cycle collector: right
+    # for a command that loads once and exits, wrong for the app (cycles made garbage later
+    # would never be collected). The oracle is the interpreter's own count (gc module docs).
+    import gc
+
+    from fieldlog.cli import LONG_RUNNING, main
+
+    gc.unfreeze()
+    load_fresh(sample_site)
+    assert gc.get_freeze_count() == 0  # a library or app load freezes nothing
+    assert {"open", "demo"} <= LONG_RUNNING
+    site_files._load_bytes.cache_clear()
+    assert main(["schedule", str(sample_site)]) == 0
+    assert gc.get_freeze_count() > 0
+    capsys.readouterr()
