@@ -18,12 +18,14 @@ import os
 import shutil
 import tomllib
 from collections.abc import Callable
+from dataclasses import replace
 from datetime import date
 from pathlib import Path
 
 import pytest
 
 from fieldlog.cli import main
+from fieldlog.journal.key_seal import seal
 from fieldlog.journal.keys import public_hex
 from fieldlog.journal.registry import DeviceRecord, key_file_bytes
 from fieldlog.sync.audit import known_device
@@ -33,11 +35,11 @@ from tests.helpers.sync_helpers import append_entry, fixed_key, sync
 
 def key_file(device: str) -> bytes:
     """A device key file as fieldlog writes it, for the key ``append_entry`` signs with."""
-    return key_file_bytes(
-        DeviceRecord(
-            device, public_hex(fixed_key(device).public_key()), "Test Foreman", date(2026, 9, 28), 1
-        )
+    key = fixed_key(device)
+    record = DeviceRecord(
+        device, public_hex(key.public_key()), "Test Foreman", date(2026, 9, 28), 1
     )
+    return key_file_bytes(replace(record, seal=seal(key, record)))
 
 
 def last_entries(site: Path) -> dict[str, tuple[int, str]]:

@@ -60,6 +60,18 @@ def test_a_file_that_is_not_a_key_file_is_refused_and_left(tmp_path):
     assert not key_file(office).exists() and summary.exit_code == 1
 
 
+def test_a_key_file_edited_after_it_was_sealed_does_not_travel(tmp_path):
+    site, office = make_site(tmp_path / "site"), tmp_path / "office"
+    office.mkdir()
+    append_entry(site, MON, "tab-north", "A10 started")
+    key_file(site).write_text(key_file(site).read_text().replace("Test Foreman", "Someone Else"))
+    summary = sync(site, office)
+    (refusal,) = summary.devices.refused
+    assert refusal.path == "devices/tab-north.toml"
+    assert "its seal does not match" in refusal.reason
+    assert not key_file(office).exists() and summary.exit_code == 1
+
+
 def summary_text(summary) -> str:
     from fieldlog.sync.summary import render_text
 

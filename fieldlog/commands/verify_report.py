@@ -14,6 +14,7 @@ from fieldlog.commands.verify_cache import Report
 from fieldlog.errors import SiteError
 from fieldlog.home import fieldlog_home
 from fieldlog.journal import Journal, read_journal, replay
+from fieldlog.journal.verify import integrity_findings
 from fieldlog.reports.words import count
 from fieldlog.site.files import load_site
 from fieldlog.sync.audit import (
@@ -46,7 +47,7 @@ def make_report(site_arg: str, office: str | None) -> Report:
         print(out[-1])
 
     journal = read_journal(site_arg)
-    findings = journal.findings
+    findings = integrity_findings(journal)
     for f in findings:
         say(f)
     site = load_site(site_arg)

@@ -28,6 +28,7 @@ from fieldlog.journal.context import EntryContext
 from fieldlog.journal.device import device_id
 from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
 from fieldlog.journal.filecheck import FileCheck
+from fieldlog.journal.key_seal import seal as seal_key_file
 from fieldlog.journal.keys import check_author, device_key, public_hex, saved_author
 
 if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys are used
@@ -185,10 +186,8 @@ class _Signer:
 
     def register(self, device: str, author: str, seq: int) -> None:
         """Write ``devices/<device>.toml`` unless it is there with this key already."""
-        register(
-            self.folder,
-            DeviceRecord(device, public_hex(self.key.public_key()), author, self.today, seq),
-        )
+        record = DeviceRecord(device, public_hex(self.key.public_key()), author, self.today, seq)
+        register(self.folder, replace(record, seal=seal_key_file(self.key, record)))
 
     def sign(self, entry_hash: str) -> str:
         """The signature of an entry whose hash is ``entry_hash``."""

@@ -12,6 +12,10 @@ fieldlog that did not sign yet, and are accepted as "unsigned" but said to be so
     author = "R. Okafor"
     registered = 2026-09-07
     signed_from = 1
+    seal = "9a1c...07"                           # the device key's signature of the above
+
+``seal`` is the device's own signature of the five values above (:mod:`fieldlog.journal.key_seal`),
+so an edited author, registration day or first signed entry is found by ``verify``.
 
 A key file is never replaced: a second, different key for the same device is refused when
 recording, and a conflict when syncing. What a key file cannot prove on its own is that the
@@ -41,8 +45,10 @@ from fieldlog.journal.store import atomic_write, read_bytes
 DEVICES_DIR = "devices"
 MAX_KEY_FILE_BYTES = 4096
 _HEX32 = re.compile(r"^[0-9a-f]{64}$")
+_HEX64 = re.compile(r"^[0-9a-f]{128}$")
 _FILE_RE = re.compile(r"^([a-z0-9][a-z0-9-]{4,22}[a-z0-9])\.toml$")
 _KEYS = ("device", "public_key", "author", "registered", "signed_from")
+_SEALED_KEYS = (*_KEYS, "seal")
 HEADER = (
     b"# fieldlog device key: the public half of the key that signs this device's journal\n"
     b"# entries. Written once by fieldlog; never edit or replace it.\n"
@@ -60,6 +66,8 @@ class DeviceRecord:
     registered: date
     signed_from: int
     """The device's first signed entry number; lower numbers may be unsigned (older fieldlog)."""
+    seal: str = ""
+    """The device key's signature of the values above, 128 hex digits (``""``: none)."""
 
 
 @dataclass(frozen=True)
@@ -94,6 +102,8 @@ def key_file_bytes(record: DeviceRecord) -> bytes:
         "registered": record.registered,
         "signed_from": record.signed_from,
     }
+    if record.seal:
+        body["seal"] = record.seal
     return HEADER + tomli_w.dumps(body).encode("utf-8")
 
 
@@ -139,12 +149,13 @@ def parse_key_file(name: str, data: bytes) -> DeviceRecord:
         check_author(doc["author"]),
         doc["registered"],
         doc["signed_from"],
+        doc.get("seal", ""),
     )
 
 
 def _problem(doc: dict, device: str) -> str | None:
-    if set(doc) != set(_KEYS):
-        return f"a key file holds exactly {', '.join(_KEYS)}"
+    if set(doc) not in (set(_KEYS), set(_SEALED_KEYS)):
+        return f"a key file holds exactly {', '.join(_SEALED_KEYS)}"
     if doc["device"] != device or not DEVICE_RE.match(str(doc["device"])):
         return f"device {doc['device']!r} is not the file's ({device})"
     if not isinstance(doc["public_key"], str) or not _HEX32.match(doc["public_key"]):
@@ -163,6 +174,8 @@ def _problem(doc: dict, device: str) -> str | None:
     seq = doc["signed_from"]
     if not isinstance(seq, int) or isinstance(seq, bool) or not 1 <= seq <= 999_999_999:
         return "signed_from is not an entry number"
+    if "seal" in doc and (not isinstance(doc["seal"], str) or not _HEX64.match(doc["seal"])):
+        return "seal is not 128 hex digits"
     return None
 
 

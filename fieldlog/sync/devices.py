@@ -4,7 +4,8 @@ A device's key file is what lets the office check that device's signatures, so i
 with the log. The rules are stricter than for journal files, because a key file never grows:
 
 * a key file only one side has is copied to the other (after checking it is a key file
-  fieldlog would write);
+  fieldlog would write, sealed by its own key: an edited author, registration day or first
+  signed entry does not travel);
 * the same file on both sides is fine;
 * two different files for one device are a **conflict**: reported, both left exactly as they
   are. One of them is not that device's real key, and only a person can say which (the
@@ -19,6 +20,7 @@ from functools import partial
 from pathlib import Path
 
 from fieldlog.errors import JournalError
+from fieldlog.journal.key_seal import BAD_SEAL, NO_SEAL, seal_ok
 from fieldlog.journal.registry import DEVICES_DIR, MAX_KEY_FILE_BYTES, parse_key_file
 from fieldlog.sync.names import is_ignored, portable_name_problem
 from fieldlog.sync.scan import Refusal
@@ -128,4 +130,6 @@ def sync_devices(site_folder: Path, target: Path) -> DeviceSync:
 
 
 def _check(name: str, data: bytes) -> None:
-    parse_key_file(name, data)
+    record = parse_key_file(name, data)
+    if not seal_ok(record):
+        raise JournalError(BAD_SEAL if record.seal else NO_SEAL, file=f"{DEVICES_DIR}/{name}")

@@ -28,6 +28,7 @@ from fieldlog.app.widgets.row_list import Column, RowList, fit_columns
 from fieldlog.errors import FieldlogError
 from fieldlog.journal import Finding, verify
 from fieldlog.journal.entries import Entry
+from fieldlog.journal.verify import integrity_findings
 from fieldlog.reports.words import count
 
 COLUMNS = (
@@ -113,7 +114,8 @@ class JournalScreen(ViewScreen):
     def paint(self, snap: Snapshot) -> None:
         """Fill the list and the check line from the snapshot's journal."""
         journal = snap.state.journal
-        words, bad = check_words(journal.findings, len(journal.entries), len(journal.files))
+        findings = integrity_findings(journal)
+        words, bad = check_words(findings, len(journal.entries), len(journal.files))
         self.show_check(words, bad)
         table = self.query_one("#journal-table", RowList)
         self.rows = history_rows(journal.entries, snap.state.replay.superseded)
