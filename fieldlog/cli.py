@@ -41,8 +41,12 @@ class _Parser(argparse.ArgumentParser):
         self.exit(EXIT_BAD_INPUT, f"fieldlog: {message} (see '{self.prog} --help')\n")
 
 
-def build_parser(only: str | None = None) -> argparse.ArgumentParser:
-    """The parser with every subcommand registered, or just ``only`` (faster start)."""
+def build_parser(only: str | None = None, words: Sequence[str] = ()) -> argparse.ArgumentParser:
+    """The parser with every subcommand registered, or just ``only`` (faster start).
+
+    ``words``: the command line to be parsed, for ``record``, which then builds only the
+    entry forms it names (see :func:`fieldlog.commands.record.add_parser`).
+    """
     parser = _Parser(
         prog="fieldlog",
         description="End-of-shift site log, live critical-path float and a two-week lookahead "
@@ -53,7 +57,10 @@ def build_parser(only: str | None = None) -> argparse.ArgumentParser:
     sub.required = True
     for name in COMMANDS if only is None else (only,):
         module = importlib.import_module(f"fieldlog.commands.{name}")
-        module.add_parser(sub)
+        if name == "record":
+            module.add_parser(sub, words)
+        else:
+            module.add_parser(sub)
     return parser
 
 
@@ -73,7 +80,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     argv = sys.argv[1:] if argv is None else list(argv)
     first = argv[0] if argv else None
     # Importing only the chosen command's module keeps `fieldlog schedule` quick to start.
-    parser = build_parser(first if first in COMMANDS else None)
+    parser = build_parser(first if first in COMMANDS else None, argv)
     args = parser.parse_args(argv)
     warnings.formatwarning = _one_line_warning
     try:

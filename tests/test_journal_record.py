@@ -436,6 +436,32 @@ def test_cli_record_forms(folder, capsys):
     assert _main(capsys, "verify", s)[0] == 0
 
 
+@pytest.mark.parametrize(
+    "words",
+    [
+        ["record", "site", "note", "quiet day", "--on", "yesterday"],
+        ["record", "note", "started", "EXC-010"],  # a site folder named like a form
+        ["record", "started", "note", "a note on a site named 'started'"],
+        ["record", "site", "lost-time", "--cause", "materials", "--hours", "2"],
+        ["record", "site", "lost-day", "--cause", "weather", "--activities", "EXC-010"],
+        ["record", "site", "correct", "dev-1.4", "--reason", "x", "--set", "days=4"],
+        ["record", "site", "weather", "--conditions", "rain", "--stopped", "--high", "12"],
+    ],
+)
+def test_record_builds_only_the_named_forms_and_parses_the_same(words):
+    """The reference is the parser with every entry form built (brute force: all of them)."""
+    from fieldlog.cli import build_parser
+
+    every = build_parser("record")
+    named = build_parser("record", words)
+    assert vars(named.parse_args(words)) == vars(every.parse_args(words))
+
+    def record_help(parser):
+        return parser._subparsers._group_actions[0].choices["record"].format_help()
+
+    assert record_help(named) == record_help(every)
+
+
 def test_cli_in_a_real_process(folder, tmp_path):
     home = tmp_path / "home"
     args = (

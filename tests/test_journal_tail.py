@@ -221,3 +221,50 @@ def test_anything_but_a_plain_file_in_the_log_means_the_full_read(tmp_path, full
     before = len(full_reads)
     rec_tail(site, "note", date(2026, 9, 10), text="after the stray")
     assert len(full_reads) == before + 1
+
+
+def test_a_day_file_the_record_vouches_for_is_appended_to_unparsed(
+    tmp_path, full_reads, monkeypatch
+):
+    """The kept tip (count and last hash of the file just appended to) gives the next
+    entry's position and ``prev``; the oracle is the full read, whose chain check
+    (fieldlog/journal/filecheck.py) refuses any wrong ``prev`` or order."""
+    site = make_site(tmp_path / "site")
+    rec(site, "note", date(2026, 9, 8), text="set-out checked")
+    rec_tail(site, "note", date(2026, 9, 9), text="first of the day")  # full way, parsed
+    parsed: list[str] = []
+    real = record.checked
+
+    def spy(name, data):
+        parsed.append(name)
+        return real(name, data)
+
+    monkeypatch.setattr(record, "checked", spy)
+    written = [rec_tail(site, "note", date(2026, 9, 9), text=f"note {n}") for n in range(4)]
+    assert parsed == [] and len(full_reads) == 2
+    journal = read_journal(site)
+    assert journal.findings == ()
+    day = [e for e in journal.entries if e.file == written[0].file]
+    assert [e.id for e in day][-4:] == [e.id for e in written]
+    assert [e.position for e in day] == list(range(len(day)))
+    assert [e.prev for e in day[1:]] == [e.hash for e in day[:-1]]
+    assert kept_matches_full_read(site)
+
+
+def test_an_edit_keeping_size_and_mtime_is_caught_before_the_next_append(tmp_path, full_reads):
+    site = make_site(tmp_path / "site")
+    rec(site, "note", date(2026, 9, 8), text="set-out checked")
+    rec_tail(site, "note", date(2026, 9, 9), text="levels taken")
+    last = rec_tail(site, "note", date(2026, 9, 9), text="kerbs set")  # the kept tip
+    path = site / "log" / last.file
+    info = path.stat()
+    data = path.read_bytes()
+    path.write_bytes(data.replace(b"kerbs set", b"kerbs cut"))  # same size
+    os.utime(path, ns=(info.st_atime_ns, info.st_mtime_ns))  # same mtime
+    assert path.stat().st_size == info.st_size
+    assert path.stat().st_mtime_ns == info.st_mtime_ns
+    before = len(full_reads)
+    rec_tail(site, "note", date(2026, 9, 9), text="after the edit")
+    assert len(full_reads) == before + 1
+    problems = {f.problem for f in read_journal(site).findings}
+    assert problems & {"edited", "forged"}, problems

@@ -66,3 +66,52 @@ def test_public_holidays_load_the_holidays_package_only_when_asked(sample_site, 
     assert head in text
     site.write_text(text.replace(head, head + 'public_holidays = "GB-ENG"\n', 1), encoding="utf-8")
     assert "holidays" in imported(sample_site, tmp_path / "home", ("holidays",))
+
+
+_RECORD_PROBE = _PROBE.replace('main(["schedule", sys.argv[1]])', "main(sys.argv[3:])").replace(
+    "for p in sys.argv[2:]", "for p in sys.argv[2].split(',')"
+)
+
+LATER = ("numpy", "fieldlog.journal.replay", "fieldlog.site.schema", "fieldlog.engine.calendars")
+"""Replay, the schedule checks and the engine: what a kept log record (the tail) spares."""
+
+
+def test_record_with_the_log_unchanged_loads_no_replay_schema_or_numpy(sample_site, tmp_path):
+    home = tmp_path / "home"
+    args = ["record", str(sample_site), "note", "set-out checked", "--author", "Test Foreman"]
+
+    def run() -> set[str]:
+        done = subprocess.run(
+            [sys.executable, "-c", _RECORD_PROBE, str(sample_site), ",".join(LATER), *args],
+            capture_output=True,
+            text=True,
+            env={**os.environ, "FIELDLOG_HOME": str(home)},
+            check=True,
+        )
+        line = done.stderr.strip().splitlines()[-1]
+        assert line.startswith("IMPORTED:"), done.stderr
+        return set(filter(None, line.removeprefix("IMPORTED:").split(",")))
+
+    # The first note registers this device's key in devices/, a change the kept record is
+    # not carried over (fieldlog/journal/tail.py), so the first two take the full way.
+    assert "fieldlog.journal.replay" in run()
+    assert "fieldlog.journal.replay" in run()
+    assert run() == set()  # notes on an unchanged log: none of them
+    assert run() == set()
+
+
+def test_replay_and_verify_stay_functions_whichever_is_imported_first() -> None:
+    # Both names are a function of fieldlog.journal and a submodule of it; the package is
+    # imported lazily, so a fresh interpreter is the only place to see the order matter.
+    probe = (
+        "import types, fieldlog.journal.replay, fieldlog.journal.verify\n"
+        "import fieldlog.journal as j\n"
+        "from fieldlog.journal import replay, verify\n"
+        "from fieldlog.journal.replay import replay as r\n"
+        "assert replay is r is j.replay and not isinstance(replay, types.ModuleType)\n"
+        "assert verify is j.verify and verify.__module__ == 'fieldlog.journal.verify'\n"
+        "assert isinstance(j.record_entry, types.FunctionType)\n"
+    )
+    subprocess.run([sys.executable, "-c", probe], check=True)
+    lazy = "import fieldlog.journal as j, types\nassert j.replay.__name__ == 'replay'\n"
+    subprocess.run([sys.executable, "-c", lazy], check=True)

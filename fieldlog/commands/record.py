@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+from collections.abc import Sequence
 from datetime import date
 
 from fieldlog.commands.arguments import iso_date, shift_day
@@ -61,8 +62,15 @@ VERBS = {
 _HIDDEN = {("lost-time", "whole_day"), ("correction", "corrects"), ("correction", "supersedes")}
 
 
-def add_parser(sub: argparse._SubParsersAction) -> None:
-    """Register ``fieldlog record`` and one sub-form per entry kind."""
+def add_parser(sub: argparse._SubParsersAction, words: Sequence[str] = ()) -> None:
+    """Register ``fieldlog record`` and one sub-form per entry kind.
+
+    ``words`` (the command line, when known): only the forms it names get their fields
+    (every form when it names none). argparse builds a form in about half a millisecond, and
+    ``fieldlog record`` takes one; a form it could select is always one the words name, and
+    the list of forms in ``--help`` is the same either way.
+    """
+    named = {w for w in words if w in VERBS or w == "lost-time"}
     p = sub.add_parser(
         "record",
         help="add an entry to the field log (what the app does)",
@@ -74,6 +82,8 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
     for verb, (kind, help_) in VERBS.items():
         aliases = ["lost-time"] if verb == "lost-day" else []
         f = forms.add_parser(verb, aliases=aliases, help=help_, description=help_)
+        if named and verb not in named and not named & set(aliases):
+            continue
         if kind == "correction":
             f.add_argument("f_supersedes", metavar="ENTRY-ID", help="the entry to supersede")
         for spec in KINDS[kind]:

@@ -60,18 +60,15 @@ Recording (:mod:`~fieldlog.journal.record`): how the app adds an entry
 
 from __future__ import annotations
 
+import sys
 from importlib import import_module
+from types import ModuleType
 from typing import TYPE_CHECKING, Any
 
 from fieldlog.errors import EntryRefused, JournalError
 
-# ``replay`` and ``verify`` are both a function and a submodule. Importing a submodule binds its
-# name on the package, which would hide a lazily looked-up function of the same name, so these
-# two are bound now, after their submodules.
-from fieldlog.journal.replay import replay
-from fieldlog.journal.verify import verify
-
 if TYPE_CHECKING:
+    from fieldlog.journal.context import ActivityEntries
     from fieldlog.journal.device import device_id
     from fieldlog.journal.entries import (
         INSPECTION_RESULTS,
@@ -84,7 +81,8 @@ if TYPE_CHECKING:
     from fieldlog.journal.filecheck import Finding, check_journal_bytes
     from fieldlog.journal.reader import Journal, read_journal
     from fieldlog.journal.record import record_entry
-    from fieldlog.journal.replay import ActivityEntries, Problem, Replay
+    from fieldlog.journal.replay import Problem, Replay, replay
+    from fieldlog.journal.verify import verify
 
 _HOMES = {
     "device_id": "device",
@@ -104,7 +102,9 @@ _HOMES = {
     "Journal": "reader",
     "read_journal": "reader",
     "record_entry": "record",
-    **dict.fromkeys(("ActivityEntries", "Problem", "Replay"), "replay"),
+    **dict.fromkeys(("Problem", "Replay", "replay"), "replay"),
+    "ActivityEntries": "context",
+    "verify": "verify",
 }
 """Where each name above lives. They are imported on first use (PEP 562), so that reading a
 journal does not load the code that records entries, verifies a log or names this device:
@@ -118,6 +118,30 @@ def __getattr__(name: str) -> Any:
     value = getattr(import_module(f"{__name__}.{home}"), name)
     globals()[name] = value
     return value
+
+
+_FUNCTIONS = frozenset({"replay", "verify"})
+"""Names that are both a function (the package's) and a submodule (where it lives)."""
+
+
+class _Package(ModuleType):
+    """The package, keeping its functions ``replay`` and ``verify`` bound over the submodules.
+
+    Importing a submodule binds its name on the package (``setattr(package, "replay",
+    module)``), which would hide the lazily found function of the same name. That one binding
+    is not made: ``fieldlog.journal.replay`` stays the function, as when it was imported
+    eagerly, and the submodule is still in ``sys.modules`` for ``from fieldlog.journal.replay
+    import ...``. Both are imported only when first used, so ``fieldlog record`` never loads
+    replay (tests/test_start_up.py).
+    """
+
+    def __setattr__(self, name: str, value: Any) -> None:
+        if name in _FUNCTIONS and isinstance(value, ModuleType):
+            return
+        super().__setattr__(name, value)
+
+
+sys.modules[__name__].__class__ = _Package
 
 
 __all__ = [

@@ -16,9 +16,12 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass, field, replace
+from typing import TYPE_CHECKING
 
 from fieldlog.journal.entries import Entry
-from fieldlog.journal.replay import ActivityEntries, Replay
+
+if TYPE_CHECKING:  # replay is not imported when the context was kept (fieldlog record)
+    from fieldlog.journal.replay import Replay
 
 PROGRESS_SLOTS = {"started": "start", "finished": "finish", "remaining": "remaining"}
 PROGRESS_SLOTS["percent"] = "percent"
@@ -40,6 +43,20 @@ INERT = frozenset(
     }
 )
 """Kinds that no check of a later entry reads: appending one leaves the context as it was."""
+
+
+@dataclass(frozen=True)
+class ActivityEntries:
+    """The entries that set an activity's actual start, finish, remaining days and percent.
+
+    Defined here, with the context that keeps them, so that a kept context is read back
+    without importing replay (which builds them, and names them too).
+    """
+
+    start: Entry | None = None
+    finish: Entry | None = None
+    remaining: Entry | None = None
+    percent: Entry | None = None
 
 
 @dataclass(frozen=True)

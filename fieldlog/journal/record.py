@@ -36,7 +36,6 @@ if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys ar
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
 from fieldlog.journal.registry import DeviceRecord, register
-from fieldlog.journal.replay import correction_base, replay
 from fieldlog.journal.rules import check_day, check_entry, refuse
 from fieldlog.journal.signing import sign
 from fieldlog.journal.store import (
@@ -143,6 +142,8 @@ def record_entry(
             check_entry(site, kept.context, kind, day, clean, site_name)
             next_seq = partial(_checked_seq, log, device, kept.highest.get(device, 0))
         else:
+            from fieldlog.journal.replay import replay  # the full way only: 30 ms of imports
+
             journal = read_journal(folder)
             if kind == "correction":
                 day, clean = _correction(site, journal, day, fields, today, site_name)
@@ -153,7 +154,16 @@ def record_entry(
                 base = built(use, files, journal, context) if use is not None else None
             next_seq = partial(_next_seq, log, journal, device)
         entry, data = _append(
-            log, next_seq, device, kind, day, clean, author, clock, _Signer(key, folder, today)
+            log,
+            next_seq,
+            device,
+            kind,
+            day,
+            clean,
+            author,
+            clock,
+            _Signer(key, folder, today),
+            kept.known if kept is not None else None,
         )
         if use is not None and base is not None:
             use.store(base.after(entry, entry.file, data, folder))
@@ -203,6 +213,8 @@ def _correction(
     site_name: str,
 ) -> tuple[date, dict[str, Any]]:
     """Check a correction and the entry it would leave; returns its day and fields."""
+    from fieldlog.journal.replay import correction_base, replay  # see record_entry
+
     target_id = str(fields.get("supersedes", ""))
     target = journal.by_id(target_id)
     if target is None:
@@ -279,15 +291,24 @@ def _append(
     author: str,
     clock: Clock,
     signer: _Signer,
+    known: Callable[[str, bytes], tuple[int, str] | None] | None = None,
 ) -> tuple[Entry, bytes]:
-    """Append the entry to its day file; returns it as written, and the file's new bytes."""
+    """Append the entry to its day file; returns it as written, and the file's new bytes.
+
+    ``known`` gives, from the kept record of the log, a file's entry count and last hash
+    when its bytes are exactly those the record vouches for: the file is not parsed again.
+    """
     name = file_name(day, device)
     path = log / name
     remove_stale_temps(log, name)
     old = read_bytes(path)
     prev, count = "", 0
-    check = FileCheck(name)
-    if old:
+    check: FileCheck | None = FileCheck(name)
+    tip = known(name, old) if known is not None and old else None
+    if tip is not None:
+        count, prev = tip
+        check = None  # sound and unchanged since the last entry went in; not parsed here
+    elif old:
         check = checked(name, old)  # already parsed by read_journal: a cache hit
         broken = [f for f in check.findings if f.problem in ("not TOML", "bad name", "bad entry")]
         if broken:
@@ -333,5 +354,6 @@ def _append(
     new = old + sep + block
     atomic_write(path, new)
     written_entry = replace(entry, hash=body["hash"], sig=body["sig"], file=name, position=count)
-    remember(name, new, FileCheck(name, (*check.entries, written_entry), check.findings))
+    if check is not None:
+        remember(name, new, FileCheck(name, (*check.entries, written_entry), check.findings))
     return written_entry, new

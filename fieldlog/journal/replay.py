@@ -25,6 +25,7 @@ from datetime import date
 
 from fieldlog.engine.progress import Progress
 from fieldlog.engine.readiness import OpenItem
+from fieldlog.journal.context import ActivityEntries
 from fieldlog.journal.corrections import correction_base, resolve_corrections
 from fieldlog.journal.entries import Entry
 from fieldlog.journal.filecheck import Finding
@@ -62,16 +63,6 @@ class Replay:
     """Per activity, the entries its progress comes from."""
     current: Mapping[str, str] = field(default_factory=dict)
     """A corrected entry's id -> the id of the entry that now stands for it."""
-
-
-@dataclass(frozen=True)
-class ActivityEntries:
-    """The entries that set an activity's actual start, finish, remaining days and percent."""
-
-    start: Entry | None = None
-    finish: Entry | None = None
-    remaining: Entry | None = None
-    percent: Entry | None = None
 
 
 @dataclass

@@ -9,17 +9,18 @@ to record, because the log is never edited.
 
 from __future__ import annotations
 
-import difflib
 from collections.abc import Mapping
 from datetime import date
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from fieldlog.bounds import check_date
 from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import EntryRefused, OutOfBounds
-from fieldlog.journal.context import EntryContext
-from fieldlog.journal.replay import ActivityEntries, Replay
+from fieldlog.journal.context import ActivityEntries, EntryContext
 from fieldlog.site.model import Site
+
+if TYPE_CHECKING:  # a kept context is checked without importing replay (fieldlog record)
+    from fieldlog.journal.replay import Replay
 
 
 def refuse(problem: str, *, activity: str | None = None, fix: str | None = None) -> EntryRefused:
@@ -70,6 +71,8 @@ def check_entry(
     """
     for aid in _activities(fields):
         if not site.has_activity(aid):
+            import difflib  # only to name close ids in a refusal
+
             close = difflib.get_close_matches(aid, [a.id for a in site.activities], n=3)
             hint = (
                 f"did you mean {', '.join(close)}?"

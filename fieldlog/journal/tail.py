@@ -89,6 +89,19 @@ class Tail:
     unsigned: int
     """Usable entries without a signature (a new signed entry for a day before
     :attr:`signing_from` could make some of them forged)."""
+    tip: tuple[str, int, str] | None = None
+    """The file the last entry was appended to: its name, how many entries it holds and the
+    hash of its highest-numbered one (the next entry's ``prev``). It was sound: it was
+    checked before that entry was appended, and the entry read back as written."""
+
+    def known(self, name: str, data: bytes) -> tuple[int, str] | None:
+        """How many entries ``name`` holds and its last hash, when :attr:`tip` is that file
+        and ``data`` are exactly its bytes then (so it need not be parsed again)."""
+        if self.tip is None or self.tip[0] != name or name not in self.files:
+            return None
+        if hashlib.sha256(data).hexdigest() != self.files[name]:
+            return None
+        return self.tip[1], self.tip[2]
 
     def after(self, new: Entry, name: str, data: bytes, folder: Path) -> Tail | None:
         """This record once ``new`` was appended to ``name``, now holding ``data``.
@@ -111,6 +124,7 @@ class Tail:
             highest={**self.highest, new.device: new.seq},
             context=context,
             referenced=self.referenced | named,
+            tip=(name, new.position + 1, new.hash),
         )
 
 
@@ -191,7 +205,9 @@ def _plain_file(path: str) -> bytes | None:
         info = os.fstat(fd)
         if not stat.S_ISREG(info.st_mode) or info.st_size > _CAP:
             return None
-        data = os.read(fd, _CAP + 1)
+        # Asked for its size and one byte more (not the cap: a buffer of the cap per file
+        # would be allocated a thousand times); read on until the end, wherever that is.
+        data = os.read(fd, info.st_size + 1)
         while len(data) <= _CAP and (more := os.read(fd, _CAP + 1 - len(data))):
             data += more
         return data if len(data) <= _CAP else None

@@ -13,12 +13,11 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 from functools import lru_cache, partial
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from fieldlog.errors import SiteError
 from fieldlog.site.cache import cached_site
 from fieldlog.site.model import Site
-from fieldlog.site.schema import MAX_LAG, build_site
 from fieldlog.site.toml_file import (
     SCHEDULE_FILE,
     SITE_FILE,
@@ -30,6 +29,18 @@ from fieldlog.site.toml_file import (
 
 if TYPE_CHECKING:  # the engine (numpy) is imported only when a site is compiled or unpickled
     from fieldlog.engine.compiled import CompiledSite
+    from fieldlog.site.schema import MAX_LAG, build_site
+
+
+def __getattr__(name: str) -> Any:
+    """``build_site`` and ``MAX_LAG``, imported on first use (PEP 562): a site found in the
+    cache is never validated again, so ``fieldlog record`` does not load the schema checks."""
+    if name in ("build_site", "MAX_LAG"):
+        from fieldlog.site import schema
+
+        return getattr(schema, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 __all__ = [
     "MAX_LAG",
@@ -128,6 +139,8 @@ def _compile(folder: Path, site_raw: bytes, schedule_raw: bytes) -> CompiledSite
 
 
 def _parse_and_build(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
+    from fieldlog.site.schema import build_site
+
     return build_site(
         parse_toml(folder / SITE_FILE, site_raw), parse_toml(folder / SCHEDULE_FILE, schedule_raw)
     )
