@@ -92,6 +92,14 @@ def check_date(value: date, what: str, site_start: date | None = None) -> date:
     return value
 
 
+def site_window(site_start: date) -> tuple[date, date]:
+    """The first and last day fieldlog handles for a site that starts on ``site_start``."""
+    return (
+        max(EARLIEST_DATE, _years_from(site_start, -SITE_SPAN_YEARS)),
+        min(LATEST_DATE, _years_from(site_start, SITE_SPAN_YEARS)),
+    )
+
+
 def _years_from(day: date, years: int) -> date:
     """``day`` moved by whole years (29 February becomes 28 February), kept in range."""
     year = min(max(day.year + years, date.min.year), date.max.year)

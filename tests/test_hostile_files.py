@@ -235,6 +235,26 @@ def test_duration_of_a_billion_days(tmp_path):
     _schedule_refused(tmp_path, site, "EXC-010", "line 6", "Fix:")
 
 
+@pytest.mark.parametrize("command", ["schedule", "lookahead", "history"])
+def test_a_few_kilobytes_of_chained_maximum_durations(tmp_path, command):
+    """300 activities of 3,650 working days in one chain: each value is within its bound, the
+    path is about 4,000 years. Once the calendars doubled past the year 9999 and crashed; now
+    it is one line naming schedule.toml and the fix (the engine stops at the site's window:
+    50 years either side of the start)."""
+    site = make_site(tmp_path / "site")
+    acts = [
+        f'[[activity]]\nid = "A{k:03d}"\nname = "Step {k}"\nduration = 3650\n'
+        + (f'after = ["A{k - 1:03d}"]\n' if k else "")
+        for k in range(300)
+    ]
+    (site / "schedule.toml").write_text("revision = 1\n\n" + "\n".join(acts), encoding="utf-8")
+    assert (site / "schedule.toml").stat().st_size < 32_000
+    done = run_hostile(tmp_path, command, str(site))
+    assert done.returncode == 2
+    assert "schedule.toml: the work runs outside" in done.stderr
+    assert "more than 50 years from the site start" in done.stderr and "Fix:" in done.stderr
+
+
 def record_note(
     tmp_path: Path, site: Path, home: Path | None = None
 ) -> subprocess.CompletedProcess:

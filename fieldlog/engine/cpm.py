@@ -69,6 +69,7 @@ import numpy as np
 from fieldlog.engine.calendar_tables import CalendarTables, calendar_tables
 from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
 from fieldlog.engine.compiled import CompiledSite, compiled
+from fieldlog.engine.horizon import widened
 from fieldlog.engine.network_arrays import NetworkArrays
 from fieldlog.engine.passes import Early, Start, backward, forward
 from fieldlog.engine.progress import Progress, remaining_at
@@ -125,8 +126,7 @@ def compute_schedule(
         try:
             return _run(comp, status_date, progress, holds, calendars)
         except HorizonExceeded:
-            span = (hi - lo).days
-            lo, hi = lo - timedelta(days=span), hi + timedelta(days=span)
+            lo, hi = widened(comp.site.start, lo, hi)
 
 
 def _initial_range(

@@ -20,6 +20,7 @@ from typing import TypeVar
 from fieldlog.engine.calendars import HorizonExceeded, WorkCalendar, build_calendars
 from fieldlog.engine.compiled import compile_site
 from fieldlog.engine.cpm import forecast_finish_on_calendars, schedule_on_calendars
+from fieldlog.engine.horizon import widened
 from fieldlog.engine.progress import Progress
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.site.model import Site
@@ -94,6 +95,5 @@ class DayScheduler:
                 self._widen()
 
     def _widen(self) -> None:
-        span = self._hi - self._lo
-        self._lo, self._hi = self._lo - span, self._hi + span
+        self._lo, self._hi = widened(self.site.start, self._lo, self._hi)
         self._sets.clear()
