@@ -108,3 +108,18 @@ async def test_log_check_names_an_altered_entry(tmp_path: Path):
         await settle(app, pilot)
         text = screen_text(app)
         assert "!! Log check: " in text and "PROBLEM" in text and "tab-test01.2" in text
+
+
+async def test_log_check_names_a_key_file_edited_after_it_was_sealed(tmp_path: Path):
+    folder, _ = site_with_a_wrong_entry(tmp_path)
+    (key_file,) = (folder / "devices").glob("*.toml")
+    text = key_file.read_text(encoding="utf-8")
+    assert "seal = " in text
+    author = next(line for line in text.splitlines() if line.startswith("author = "))
+    key_file.write_text(text.replace(author, 'author = "Someone Else"'), encoding="utf-8")
+    app = make_app(folder, TUE)
+    async with app.run_test(size=(160, 30)) as pilot:
+        await pilot.press("4")
+        await settle(app, pilot)
+        shown = screen_text(app)
+        assert "!! Log check: 1 PROBLEM: devices/" in shown and "bad key file" in shown

@@ -6,6 +6,7 @@ import argparse
 import sys
 
 from fieldlog.commands.arguments import EXIT_BAD_INPUT, iso_date
+from fieldlog.commands.log_warnings import warn_log_problems
 from fieldlog.history import GROUPINGS, build_history
 from fieldlog.journal import read_journal
 from fieldlog.reports.history import FORMATS, render_history
@@ -69,6 +70,5 @@ def run(args: argparse.Namespace) -> int:
     journal = read_journal(args.site)
     history = build_history(site, journal, first=args.first, last=args.last, by=args.by)
     sys.stdout.write(render_history(history, args.format, args.width))
-    for problem in history.problems:
-        print(f"fieldlog: log: {problem}", file=sys.stderr)
+    warn_log_problems(map(str, history.problems), args.site)
     return 0

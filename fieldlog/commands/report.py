@@ -10,6 +10,7 @@ import argparse
 import sys
 
 from fieldlog.commands.arguments import iso_date
+from fieldlog.commands.log_warnings import warn_log_problems
 from fieldlog.reports.daily_report import render_daily_report
 from fieldlog.workspace import load_state
 
@@ -36,6 +37,5 @@ def run(args: argparse.Namespace) -> int:
     """Print the report on stdout; log problems are repeated on stderr."""
     state = load_state(args.site, args.day)
     sys.stdout.write(render_daily_report(state, args.day))
-    for problem in state.replay.problems:
-        print(f"fieldlog: log: {problem.message}", file=sys.stderr)
+    warn_log_problems((p.message for p in state.replay.problems), args.site)
     return 0

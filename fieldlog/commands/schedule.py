@@ -6,6 +6,7 @@ import argparse
 import sys
 
 from fieldlog.commands.arguments import iso_date
+from fieldlog.commands.log_warnings import warn_log_problems
 from fieldlog.reports.schedule_sheet import FORMATS, render_schedule
 from fieldlog.workspace import load_state
 
@@ -35,6 +36,5 @@ def run(args: argparse.Namespace) -> int:
     sys.stdout.write(render_schedule(state.schedule, args.format))
     for oos in state.schedule.out_of_sequence:
         print(f"fieldlog: out of sequence: {oos.describe()}", file=sys.stderr)
-    for problem in state.replay.problems:
-        print(f"fieldlog: log: {problem.message}", file=sys.stderr)
+    warn_log_problems((p.message for p in state.replay.problems), args.site)
     return 0
