@@ -50,7 +50,7 @@ def check_words(findings: Iterable[Finding], n_entries: int, n_files: int) -> tu
         ), False
     first = findings[0]
     more = f" (and {len(findings) - 1} more)" if len(findings) > 1 else ""
-    problems = f"{len(findings)} PROBLEM{'S' if len(findings) > 1 else ''}"
+    problems = count(len(findings), "problem", "problems").upper()
     return f"Log check: {problems}: {first}{more}", True
 
 
