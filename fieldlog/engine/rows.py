@@ -109,7 +109,7 @@ class Columns:
             if p.actual_finish is not None:
                 early_start[k] = p.actual_start or p.actual_finish
                 early_finish[k] = actual_finish[k] = p.actual_finish
-        with _collector_paused():
+        with collector_paused():
             return tuple(
                 map(
                     ActivityResult._make,
@@ -142,7 +142,7 @@ class Columns:
 
 
 @contextmanager
-def _collector_paused() -> Iterator[None]:
+def collector_paused() -> Iterator[None]:
     """Pause Python's cyclic garbage collector while the rows are allocated.
 
     A collection starts every few hundred allocations, and some of them walk every object of
@@ -229,6 +229,14 @@ class RowsById(Mapping[str, ActivityResult]):
 
     def __getitem__(self, activity_id: str) -> ActivityResult:
         return self._rows.rows()[self._index[activity_id]]
+
+    def get(  # type: ignore[override]
+        self, activity_id: str, default: ActivityResult | None = None
+    ) -> ActivityResult | None:
+        """The row of ``activity_id``, or ``default``: one dict lookup (the lookahead asks
+        once per open activity, and the generic ``Mapping.get`` costs several calls)."""
+        k = self._index.get(activity_id)
+        return default if k is None else self._rows.rows()[k]
 
     def __contains__(self, activity_id: object) -> bool:
         return activity_id in self._index

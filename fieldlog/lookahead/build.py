@@ -25,6 +25,7 @@ from typing import NamedTuple
 from fieldlog.engine.progress import Status
 from fieldlog.engine.readiness import OpenItem
 from fieldlog.engine.result import ScheduleResult
+from fieldlog.engine.rows import collector_paused
 from fieldlog.lookahead.classify import Cell, PatternCache, Why, Window
 from fieldlog.lookahead.crew_load import CrewLoad, CrewWork, crew_loads
 from fieldlog.lookahead.fewest_people import FewestPeople, fewest_people
@@ -151,12 +152,52 @@ def build_lookahead(
     cache = PatternCache(window, working)
     writer = ReasonWriter(result, readiness)
     site = result.site
-    first_o = window.first
     last_day = window_days[-1]
-    text = writer.text
-    crews = {a.id: a.crew for a in site.activities}
-    has_items = writer.has_items
 
+    with collector_paused():  # rows and their reasons hold no cycles (see the engine's rows)
+        rows, work, finished = _rows(result, cache, writer, first, last_day)
+    rows.sort(key=attrgetter("early_start", "total_float", "id"))
+    finished.sort(key=lambda f: (f.actual_finish, f.id))
+    loads = crew_loads(work, site.crews, days)
+
+    levelling = None
+    over = [load.crew for load in loads if load.over_early]
+    if suggest_levelling and over:
+        levelling = level(
+            result, window_days, over, {load.crew: load.early for load in loads}, rows
+        )
+        loads = tuple(_with_levelled(load, levelling.window_load) for load in loads)
+    fewest = None
+    if suggest_fewest:
+        fewest = fewest_people(
+            result, window_days, {load.crew: max(load.early, default=0) for load in loads}, rows
+        )
+    return Lookahead(
+        site=site.name,
+        revision=site.revision,
+        as_of=result.as_of,
+        data_date=result.data_date,
+        days=window_days,
+        finish=result.finish,
+        finish_by=site.finish_by,
+        finish_float=result.finish_float,
+        rows=tuple(rows),
+        finished=tuple(finished),
+        crews=loads,
+        levelling=levelling,
+        fewest=fewest,
+    )
+
+
+def _rows(
+    result: ScheduleResult, cache: PatternCache, writer: ReasonWriter, first: date, last_day: date
+) -> tuple[list[ActivityRow], list[CrewWork], list[FinishedRow]]:
+    """The row of every open activity (in result order), the crew work of the active ones,
+    and the activities finished on or after ``first``."""
+    text = writer.text
+    crews = {a.id: a.crew for a in result.site.activities}
+    has_items = writer.has_items
+    first_o = first.toordinal()
     rows: list[ActivityRow] = []
     work: list[CrewWork] = []
     finished: list[FinishedRow] = []
@@ -216,37 +257,7 @@ def build_lookahead(
                     r.early_finish.toordinal() - first_o,
                 )
             )
-    rows.sort(key=attrgetter("early_start", "total_float", "id"))
-    finished.sort(key=lambda f: (f.actual_finish, f.id))
-    loads = crew_loads(work, site.crews, days)
-
-    levelling = None
-    over = [load.crew for load in loads if load.over_early]
-    if suggest_levelling and over:
-        levelling = level(
-            result, window_days, over, {load.crew: load.early for load in loads}, rows
-        )
-        loads = tuple(_with_levelled(load, levelling.window_load) for load in loads)
-    fewest = None
-    if suggest_fewest:
-        fewest = fewest_people(
-            result, window_days, {load.crew: max(load.early, default=0) for load in loads}, rows
-        )
-    return Lookahead(
-        site=site.name,
-        revision=site.revision,
-        as_of=result.as_of,
-        data_date=result.data_date,
-        days=window_days,
-        finish=result.finish,
-        finish_by=site.finish_by,
-        finish_float=result.finish_float,
-        rows=tuple(rows),
-        finished=tuple(finished),
-        crews=loads,
-        levelling=levelling,
-        fewest=fewest,
-    )
+    return rows, work, finished
 
 
 def _with_levelled(load: CrewLoad, window_load: Mapping[str, tuple[int, ...]]) -> CrewLoad:

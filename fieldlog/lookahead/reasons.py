@@ -9,7 +9,7 @@ there is to play with, or the late finish not to run past.
 from __future__ import annotations
 
 from collections import defaultdict
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from datetime import date
 
 from fieldlog.engine.progress import Status
@@ -62,13 +62,6 @@ class ReasonWriter:
         for item in readiness:
             self._items[item.activity].append(item)
         self._past = f"already past: the status date is the end of {date_text(result.as_of)}"
-        self._by_kind = {
-            Why.PAST: lambda r: self._past,
-            Why.WAITING: self._waiting,
-            Why.FLOAT: self._float,
-            Why.AFTER_LATE_FINISH: self._after_late_finish,
-            Why.LATE: self._late,
-        }
 
     @property
     def has_items(self) -> frozenset[str]:
@@ -77,8 +70,8 @@ class ReasonWriter:
 
     def text(self, r: ActivityResult, why: Why) -> str:
         """The sentence for one reason kind of activity ``r`` (empty for :data:`Why.NONE`)."""
-        say = self._by_kind.get(why)
-        return say(r) if say is not None else ""
+        say = _BY_KIND.get(why)
+        return say(self, r) if say is not None else ""
 
     def readiness(self, r: ActivityResult) -> tuple[tuple[str, ...], tuple[str, ...]]:
         """Notes on the activity's open readiness items, and the ones flagged as not ready.
@@ -123,6 +116,9 @@ class ReasonWriter:
             return f"the site starts {date_text(self._site.start)}; {earliest}"
         return earliest
 
+    def _past_text(self, r: ActivityResult) -> str:
+        return self._past
+
     def _after_late_finish(self, r: ActivityResult) -> str:
         assert r.late_finish is not None  # open work, which always has late dates
         return f"done by then: to be finished by its late finish {date_text(r.late_finish)}"
@@ -155,3 +151,16 @@ class ReasonWriter:
                 f"{date_text(r.late_finish)}"
             )
         return f"{text}: start by {date_text(r.late_start)}, finish by {date_text(r.late_finish)}"
+
+
+_BY_KIND: dict[Why, Callable[[ReasonWriter, ActivityResult], str]] = {
+    Why.PAST: ReasonWriter._past_text,
+    Why.WAITING: ReasonWriter._waiting,
+    Why.FLOAT: ReasonWriter._float,
+    Why.AFTER_LATE_FINISH: ReasonWriter._after_late_finish,
+    Why.LATE: ReasonWriter._late,
+}
+"""The sentence writer of each reason kind. Plain functions at module level, not bound
+methods kept on the writer: a writer holding its own bound methods is a reference cycle,
+which kept the whole schedule (every row of a 10,000-activity site) alive until the garbage
+collector's next full pass, or the end of the process."""
