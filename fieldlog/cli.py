@@ -33,6 +33,9 @@ COMMANDS = (
 )
 """Subcommands, each a module ``fieldlog.commands.<name>`` with ``add_parser`` and ``run``."""
 
+LONG_RUNNING = frozenset({"open", "demo"})
+"""Subcommands that run the app (many loads in one process); the others load once and exit."""
+
 
 class _Parser(argparse.ArgumentParser):
     """argparse that exits 2 with one line (its default, kept explicit for the contract)."""
@@ -83,6 +86,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     parser = build_parser(first if first in COMMANDS else None, argv)
     args = parser.parse_args(argv)
     warnings.formatwarning = _one_line_warning
+    if args.command not in LONG_RUNNING:
+        from fieldlog.site.files import freeze_after_loads
+
+        freeze_after_loads()  # one load, one answer, exit: nothing to collect afterwards
     try:
         return int(args.run(args))
     except FieldlogError as exc:

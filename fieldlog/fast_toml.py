@@ -24,6 +24,12 @@ from typing import Any
 FAST_MIN_CHARS = 64 * 1024
 """Texts shorter than this go to tomllib: rtoml's import costs more than it saves on them."""
 
+PIECE_CHARS = 1 << 20
+"""A large text is read by rtoml in pieces of about this many characters (:func:`_in_pieces`)."""
+_CUT_KEYS = ("activity", "link")
+_CUTS = tuple(f"\n[[{key}]]\n" for key in _CUT_KEYS)
+"""Header lines a text may be cut before: the arrays of tables a schedule is made of."""
+
 _TIME_WITHOUT_SECONDS = re.compile(r"(?<![\d:+-])\d\d:\d\d(?!:)")
 """``07:32`` not followed by ``:SS`` and not an offset such as ``-07:00`` (strings and
 comments already blanked)."""
@@ -67,12 +73,62 @@ def fast_loads(text: str, code: str) -> dict[str, Any] | None:
     if parser is None or newer_than_toml_1_0(text, code):
         return None
     try:
-        data: dict[str, Any] = parser.loads(text)
+        data = _in_pieces(parser, text, code)
     except ValueError:  # rtoml's TomlParsingError; tomllib re-reads and names the line
         return None
     if _OFFSET.search(code):
         _standard_offsets(data)
     return data
+
+
+def _in_pieces(parser: ModuleType, text: str, code: str) -> dict[str, Any]:
+    """rtoml's reading of ``text``, a large one read piece by piece.
+
+    rtoml first builds its own tree of the whole document, then the Python values: on a
+    30 MB schedule that took 5.6 s and 1 GB, read in pieces of about :data:`PIECE_CHARS`
+    1.0 s and 390 MB (tests/benchmarks/bench_process.py --200k). A piece ends just before
+    an ``[[activity]]`` or ``[[link]]`` header line; the pieces' values are joined as
+    TOML joins the tables of one file: the arrays of those two names are extended, in file
+    order, and any other top-level key must come from one piece only.
+
+    The whole text is read at once instead when joining could differ from reading it
+    whole: a header line inside a multi-line string (counted in ``code``, where strings and
+    comments are blanked), the first piece already naming ``activity`` or ``link``, a later
+    piece giving one of them as a table (``[activity.crew]`` right after a ``[[link]]``
+    belongs to an earlier piece's activity) or repeating another key (a table defined twice
+    or extended in two pieces). Whatever rtoml refuses goes to tomllib, as before.
+    """
+    if len(text) <= PIECE_CHARS or any(text.count(h) != code.count(h) for h in _CUTS):
+        return dict(parser.loads(text))
+    pieces = iter(_pieces(text))
+    data: dict[str, Any] = parser.loads(next(pieces))
+    if any(key in data for key in _CUT_KEYS):
+        return dict(parser.loads(text))
+    for piece in pieces:
+        for key, value in parser.loads(piece).items():
+            if key in _CUT_KEYS and isinstance(value, list):
+                joined = data.setdefault(key, [])
+                if not isinstance(joined, list):
+                    return dict(parser.loads(text))
+                joined.extend(value)
+            elif key in data:
+                return dict(parser.loads(text))
+            else:
+                data[key] = value
+    return data
+
+
+def _pieces(text: str) -> list[str]:
+    """``text`` cut before its first ``[[activity]]`` or ``[[link]]`` header line (the first
+    piece holds the top-level keys only), then into pieces of at least :data:`PIECE_CHARS`,
+    each starting with such a header line."""
+    pieces, start, end, least = [], 0, len(text), 0
+    while start < end:
+        found = [at for at in (text.find(h, start + least) for h in _CUTS) if at >= 0]
+        cut = min(found) + 1 if found else end  # just after the newline before the header
+        pieces.append(text[start:cut])
+        start, least = cut, PIECE_CHARS
+    return pieces
 
 
 def newer_than_toml_1_0(text: str, code: str) -> bool:

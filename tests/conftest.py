@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import gc
 import os
 import shutil
 from pathlib import Path
@@ -31,6 +32,17 @@ def _isolated_home(tmp_path_factory: pytest.TempPathFactory, monkeypatch: pytest
     # NO_COLOR changes Textual's rendering and breaks snapshots (libraries.md 1.2).
     monkeypatch.delenv("NO_COLOR", raising=False)
     return home
+
+
+@pytest.fixture(autouse=True)
+def _loads_not_frozen(monkeypatch: pytest.MonkeyPatch):
+    """A command run in-process (cli.main) asks site loads to freeze what they make, as a
+    one-shot process may; this long test process must not keep that (see site/files.py)."""
+    from fieldlog.site import files
+
+    monkeypatch.setattr(files, "_freeze", [False])
+    yield
+    gc.unfreeze()
 
 
 @pytest.fixture

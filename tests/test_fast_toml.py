@@ -236,3 +236,57 @@ def test_damaged_files_are_refused_as_tomllib_refuses_them(doc: dict, data: st.D
         cut = data.draw(st.integers(0, 2))
         text = text[:at] + piece + text[at + cut :]
     agree(text)
+
+
+# --- a large text read in pieces (fast_toml._in_pieces) -------------------------------------
+# The reference is still tomllib reading the whole text at once: joining the pieces' values
+# must give exactly its values, and a text it refuses must stay refused with its message.
+
+
+def _big_schedule() -> str:
+    from tests.helpers.site_builder import Act, Lnk, schedule_toml
+
+    acts = [
+        Act(f"P{k:03d}", f"Panel {k} #{k % 3}", k % 7, after=(f"P{k - 1:03d}",) if k else ())
+        for k in range(60)
+    ]
+    links = [Lnk(f"P{k:03d}", f"P{k + 2:03d}", "SS", lag=1) for k in range(0, 58, 5)]
+    return schedule_toml(3, acts, links)
+
+
+@pytest.fixture
+def small_pieces(monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setattr(fast_toml, "PIECE_CHARS", 150)
+
+
+def test_a_schedule_read_in_pieces_equals_one_read_whole(small_pieces):
+    text = _big_schedule()
+    assert len(fast_toml._pieces(text)) > 10
+    assert "".join(fast_toml._pieces(text)) == text
+    got = fast(text)
+    assert got is not None and same(got, tomllib.loads(text))
+
+
+def _with_activities(head: str, tail: str = "") -> str:
+    body = "".join(f'\n[[activity]]\nid = "A{k}"\nduration = {k}\n' for k in range(30))
+    links = "".join(f'\n[[link]]\npred = "A{k}"\nsucc = "A{k + 1}"\n' for k in range(30))
+    return head + body + links + tail
+
+
+# Texts whose pieces each read alone but whose joining could differ from the whole text
+# (the TOML 1.0.0 specification, toml.io: a table is defined once, an array of tables is
+# extended by its headers only, a sub-table belongs to the last table of its array).
+ACROSS_PIECES = [
+    _with_activities("[settings]\nx = 1\n", "\n[settings]\ny = 2\n"),  # defined twice
+    _with_activities("[settings]\nx = 1\n", "\n[settings.more]\ny = 2\n"),  # valid
+    _with_activities("", "\n[activity.crew]\nsteel = 2\n"),  # the last activity's: valid
+    _with_activities("activity = [{id = 'Z'}]\n"),  # a static array extended: refused
+    _with_activities("[activity]\nid = 'Z'\n"),  # a table made an array: refused
+    _with_activities('note = """\n[[activity]]\nid = "fake"\n"""\n'),  # a header in a string
+    _with_activities("", '\n[[link]]\npred = "A1"\npred = "A2"\n'),  # a key twice: refused
+]
+
+
+@pytest.mark.parametrize("text", ACROSS_PIECES)
+def test_joining_pieces_reads_what_tomllib_reads(small_pieces, text: str):
+    agree(text)

@@ -25,6 +25,7 @@ from fieldlog.site import cache as site_cache
 from fieldlog.site import files as site_files
 from fieldlog.site.cache import KEEP, SiteCacheWarning, cache_folder, cache_key
 from fieldlog.site.files import load_site
+from fieldlog.site.model import Link, LinkType
 from tests.helpers.site_builder import Act, Lnk, schedule_toml, site_toml
 
 SITE = site_toml(
@@ -310,6 +311,24 @@ def test_derived_lookups_on_the_site_are_not_stored(tmp_path):
     assert set(back.__dict__) == {f.name for f in dataclasses.fields(site)}
 
 
+def test_a_cached_site_shares_each_id_between_its_activity_and_links(tmp_path, parses):
+    folder = write(tmp_path / "site")
+    load_fresh(folder)
+    cached = load_fresh(folder)
+    assert len(parses) == 2  # the second load read no TOML
+    assert cached == uncached(folder)
+    by_id = {a.id: a.id for a in cached.activities}
+    assert all(lk.pred is by_id[lk.pred] and lk.succ is by_id[lk.succ] for lk in cached.links)
+
+
+def test_a_site_whose_links_name_unknown_ids_still_round_trips(tmp_path):
+    # Another cache may pickle a Site built by hand, never validated: its links are kept as
+    # written (the oracle is the value itself).
+    site = uncached(write(tmp_path / "site"))
+    odd = dataclasses.replace(site, links=(Link("PAD", "NOWHERE", LinkType.FF, -2),))
+    assert pickle.loads(site_cache.pickled_with_sites(odd)) == odd
+
+
 def test_an_unusable_cache_folder_warns_and_still_loads(tmp_path, monkeypatch, parses):
     blocker = tmp_path / "not-a-folder"
     blocker.write_text("a file where the cache folder should be", encoding="utf-8")
@@ -333,3 +352,21 @@ def test_a_cached_run_of_the_command_prints_the_same(sample_site, capsys, parses
     warm = capsys.readouterr()
     assert (warm.out, warm.err) == (cold.out, cold.err)
     assert parses.count(schedule_text) == 1  # the second command used the cache
+
+
+def test_only_a_one_shot_command_freezes_what_a_load_makes(sample_site, capsys):
+    # gc.freeze keeps every object alive at that moment out of the cycle collector: right
+    # for a command that loads once and exits, wrong for the app (cycles made garbage later
+    # would never be collected). The oracle is the interpreter's own count (gc module docs).
+    import gc
+
+    from fieldlog.cli import LONG_RUNNING, main
+
+    gc.unfreeze()
+    load_fresh(sample_site)
+    assert gc.get_freeze_count() == 0  # a library or app load freezes nothing
+    assert {"open", "demo"} <= LONG_RUNNING
+    site_files._load_bytes.cache_clear()
+    assert main(["schedule", str(sample_site)]) == 0
+    assert gc.get_freeze_count() > 0
+    capsys.readouterr()

@@ -20,7 +20,9 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass
+from datetime import date
 from functools import cached_property
+from operator import attrgetter
 
 import numpy as np
 
@@ -31,6 +33,19 @@ _READS_START = frozenset({LinkType.SS, LinkType.SF})
 """Link types that read the predecessor's start (the others read its finish)."""
 _BOUNDS_FINISH = frozenset({LinkType.FF, LinkType.SF})
 """Link types that bound the successor's finish (the others bound its start)."""
+
+_TYPE_CODE = {t: k for k, t in enumerate(LinkType)}
+"""A small number per link type, so the two flags above are one array lookup per network."""
+_READS_START_BY_CODE = np.array([t in _READS_START for t in LinkType], dtype=bool)
+_BOUNDS_FINISH_BY_CODE = np.array([t in _BOUNDS_FINISH for t in LinkType], dtype=bool)
+_ID, _CALENDAR, _DURATION = (attrgetter(a) for a in ("id", "calendar", "duration"))
+_SNB, _FNA = attrgetter("start_not_before"), attrgetter("finish_not_after")
+_PRED, _SUCC, _LAG, _TYPE = (attrgetter(a) for a in ("pred", "succ", "lag", "type"))
+
+
+def _ordinal(day: date | None) -> int:
+    """A date's ordinal, 0 for none (no real date has ordinal 0)."""
+    return day.toordinal() if day else 0
 
 
 @dataclass(frozen=True, eq=False)
@@ -98,29 +113,26 @@ class NetworkArrays:
 def build_network(site: Site) -> NetworkArrays:
     """The arrays of ``site`` (see module docstring)."""
     acts, links = site.activities, site.links
-    ids = tuple(a.id for a in acts)
+    ids = tuple(map(_ID, acts))
     index = {aid: k for k, aid in enumerate(ids)}
     n = len(ids)
     calendar_names = tuple(site.calendars)
     number = {name: k for k, name in enumerate(calendar_names)}
-    calendar = np.array([number[a.calendar] for a in acts], dtype=np.int64)
-    duration = np.array([a.duration for a in acts], dtype=np.int64)
-    snb = np.array(
-        [a.start_not_before.toordinal() if a.start_not_before else 0 for a in acts], dtype=np.int64
-    )
-    fna = np.array(
-        [a.finish_not_after.toordinal() if a.finish_not_after else 0 for a in acts], dtype=np.int64
-    )
+    calendar = np.fromiter(map(number.__getitem__, map(_CALENDAR, acts)), np.int64, n)
+    duration = np.fromiter(map(_DURATION, acts), np.int64, n)
+    snb = np.fromiter(map(_ordinal, map(_SNB, acts)), np.int64, n)
+    fna = np.fromiter(map(_ordinal, map(_FNA, acts)), np.int64, n)
 
-    pred = np.array([index[lk.pred] for lk in links], dtype=np.int64)
-    succ = np.array([index[lk.succ] for lk in links], dtype=np.int64)
-    lag = np.array([lk.lag for lk in links], dtype=np.int64)
+    m = len(links)
+    pred = np.fromiter(map(index.__getitem__, map(_PRED, links)), np.int64, m)
+    succ = np.fromiter(map(index.__getitem__, map(_SUCC, links)), np.int64, m)
+    lag = np.fromiter(map(_LAG, links), np.int64, m)
+    code = np.fromiter(map(_TYPE_CODE.__getitem__, map(_TYPE, links)), np.int8, m)
     level = _levels(n, pred, succ)
 
-    file_order = np.arange(len(links))
+    file_order = np.arange(m)
     fwd = np.lexsort((file_order, succ, level[succ]))  # the last key sorts first
-    pred, succ, lag = pred[fwd], succ[fwd], lag[fwd]
-    types = [links[k].type for k in fwd.tolist()]
+    pred, succ, lag, code = pred[fwd], succ[fwd], lag[fwd], code[fwd]
     return NetworkArrays(
         size=n,
         ids=ids,
@@ -135,8 +147,8 @@ def build_network(site: Site) -> NetworkArrays:
         link=fwd,
         pred=pred,
         succ=succ,
-        reads_start=np.array([t in _READS_START for t in types], dtype=bool),
-        bounds_finish=np.array([t in _BOUNDS_FINISH for t in types], dtype=bool),
+        reads_start=_READS_START_BY_CODE[code],
+        bounds_finish=_BOUNDS_FINISH_BY_CODE[code],
         lag=lag,
         cross=calendar[pred] != calendar[succ],
         by_pred=np.lexsort((pred, level[pred])),
