@@ -268,3 +268,26 @@ def test_an_edit_keeping_size_and_mtime_is_caught_before_the_next_append(tmp_pat
     assert len(full_reads) == before + 1
     problems = {f.problem for f in read_journal(site).findings}
     assert problems & {"edited", "forged"}, problems
+
+
+@pytest.mark.parametrize("relative", [True, False])
+def test_the_digests_are_those_of_each_file_read_whole(tmp_path, monkeypatch, relative):
+    """Opened relative to the folder (POSIX) or by path (elsewhere), the digests are those
+    of hashlib's sha256 over each file's bytes as pathlib reads them (the reference)."""
+    import hashlib
+
+    from fieldlog.journal import tail
+
+    monkeypatch.setattr(tail, "_AT", relative and tail._AT)
+    site = make_site(tmp_path / "site")
+    rec(site, "note", date(2026, 9, 8), text="set-out checked")
+    rec(site, "note", date(2026, 9, 9), text="levels taken")
+    (site / "log" / "empty.toml").write_bytes(b"")
+    expected = {
+        p.name: hashlib.sha256(p.read_bytes()).hexdigest()
+        for p in (site / "log").iterdir()
+        if not p.name.startswith(".")
+    }
+    assert snapshot(site) == expected
+    (site / "log" / "linked.toml").symlink_to(site / "site.toml")
+    assert snapshot(site) is None

@@ -65,6 +65,10 @@ _READ_FLAGS = (
     | getattr(os, "O_NOFOLLOW", 0)
 )
 
+_DIR_FLAGS = os.O_RDONLY | getattr(os, "O_DIRECTORY", 0) | getattr(os, "O_NOFOLLOW", 0)
+_AT = os.open in os.supports_dir_fd and os.scandir in os.supports_fd
+"""Files opened relative to their open folder (POSIX); elsewhere by path."""
+
 Digests = Mapping[str, str]
 """File name -> sha256 (hex) of its bytes."""
 
@@ -169,46 +173,65 @@ def snapshot(folder: Path, sub: str = LOG_DIR) -> Digests | None:
     None when something there is not a plain file within the journal's size cap (a link, a
     folder, a huge file) or cannot be read: the full read then reports it. Plain ``os``
     calls on names (a thousand files per command): no link is followed, nothing but a
-    regular file is opened for reading.
+    regular file is opened for reading. Where the system allows it, the folder is opened
+    once (not through a link) and each file is opened relative to it, so no path is joined
+    or looked up again per file.
     """
     where = folder / sub
     if where.is_symlink():
         return None
     if not where.is_dir():
         return {} if not where.exists() else None
-    out: dict[str, str] = {}
     try:
-        with os.scandir(where) as it:
-            names = sorted(item.name for item in it)
-        for name in names:
-            if (sub == LOG_DIR and is_working_file(name)) or (
-                sub == _DEVICES_DIR and name.startswith(".")
-            ):
-                continue
-            data = _plain_file(os.path.join(where, name))
-            if data is None:
-                return None
-            out[name] = hashlib.sha256(data).hexdigest()
+        at = os.open(where, _DIR_FLAGS) if _AT else None
+        try:
+            return _digests(where, sub, at)
+        finally:
+            if at is not None:
+                os.close(at)
     except OSError:
         return None
+
+
+def _digests(where: Path, sub: str, at: int | None) -> Digests | None:
+    """:func:`snapshot` of the open folder ``at`` (None: by path, ``where``)."""
+    with os.scandir(where if at is None else at) as it:
+        names = sorted(item.name for item in it)
+    out: dict[str, str] = {}
+    for name in names:
+        if (sub == LOG_DIR and is_working_file(name)) or (
+            sub == _DEVICES_DIR and name.startswith(".")
+        ):
+            continue
+        data = _plain_file(name, at) if at is not None else _plain_file(str(where / name))
+        if data is None:
+            return None
+        out[name] = hashlib.sha256(data).hexdigest()
     return out
 
 
-def _plain_file(path: str) -> bytes | None:
+def _plain_file(path: str, at: int | None = None) -> bytes | None:
     """The bytes of a regular file within the journal's cap; None for anything else.
+
+    ``at``: the open folder ``path`` is relative to (None: ``path`` is a full path).
 
     Raises:
         OSError: it cannot be opened or read (a link: O_NOFOLLOW refuses it).
     """
-    fd = os.open(path, _READ_FLAGS)
+    fd = os.open(path, _READ_FLAGS, dir_fd=at)
     try:
         info = os.fstat(fd)
         if not stat.S_ISREG(info.st_mode) or info.st_size > _CAP:
             return None
-        # Asked for its size and one byte more (not the cap: a buffer of the cap per file
-        # would be allocated a thousand times); read on until the end, wherever that is.
-        data = os.read(fd, info.st_size + 1)
-        while len(data) <= _CAP and (more := os.read(fd, _CAP + 1 - len(data))):
+        # One read of its size and a byte more (not a buffer of the cap a thousand times):
+        # all of it when the file is as fstat said; otherwise (it grew, it shrank, a short
+        # read) read on to its end, wherever that is, or past the cap.
+        size = info.st_size
+        data = os.read(fd, size + 1)
+        while len(data) != size and len(data) <= _CAP:
+            more = os.read(fd, _CAP + 1 - len(data))
+            if not more:
+                break
             data += more
         return data if len(data) <= _CAP else None
     finally:

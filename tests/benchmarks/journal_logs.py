@@ -10,6 +10,7 @@ own chain and signing functions (building it through ``record_entry`` would take
 from __future__ import annotations
 
 import sys
+from dataclasses import replace
 from pathlib import Path
 
 from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
@@ -19,6 +20,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
 import bench_history  # noqa: E402
 
+from fieldlog.journal.key_seal import seal  # noqa: E402
 from fieldlog.journal.keys import public_hex  # noqa: E402
 from fieldlog.journal.registry import DeviceRecord, register  # noqa: E402
 from fieldlog.site.files import load_site  # noqa: E402
@@ -37,11 +39,9 @@ def signed_log(folder: Path, working_days: int) -> int:
             text = text.replace(year, back)  # six years back: same weekdays, log ends in 2022
         (folder / part).write_text(text, encoding="utf-8")
     site = load_site(folder)
-    for d in DEVICES:
-        register(
-            folder,
-            DeviceRecord(d, public_hex(KEYS[d].public_key()), "Bench Foreman", site.start, 1),
-        )
+    for d in DEVICES:  # sealed as fieldlog seals every key file it writes
+        record = DeviceRecord(d, public_hex(KEYS[d].public_key()), "Bench Foreman", site.start, 1)
+        register(folder, replace(record, seal=seal(KEYS[d], record)))
     return bench_history.generate(site, folder, working_days, keys=KEYS)
 
 
