@@ -23,6 +23,7 @@ import statistics
 import sys
 import tempfile
 import time
+from dataclasses import replace
 from datetime import UTC, date, datetime, timedelta
 from pathlib import Path
 
@@ -35,6 +36,7 @@ from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey 
 
 from fieldlog.journal import read_journal, record_entry, verify  # noqa: E402
 from fieldlog.journal.chain import entry_hash  # noqa: E402
+from fieldlog.journal.key_seal import seal  # noqa: E402
 from fieldlog.journal.keys import public_hex, save_author  # noqa: E402
 from fieldlog.journal.reader import forget_checks  # noqa: E402
 from fieldlog.journal.registry import DeviceRecord, register  # noqa: E402
@@ -101,13 +103,11 @@ def build_log(folder: Path, days: int, per_day: int, signed: bool) -> int:
     log = folder / "log"
     log.mkdir()
     if signed:
-        for d in DEVICES:
-            register(
-                folder,
-                DeviceRecord(
-                    d, public_hex(keys[d].public_key()), "B. Enchmark", date(2026, 3, 2), 1
-                ),
+        for d in DEVICES:  # sealed, as fieldlog seals every key file it writes
+            record = DeviceRecord(
+                d, public_hex(keys[d].public_key()), "B. Enchmark", date(2026, 3, 2), 1
             )
+            register(folder, replace(record, seal=seal(keys[d], record)))
     seq = dict.fromkeys(DEVICES, 0)
     day, n = date(2026, 3, 2), 0
     for _ in range(days):
