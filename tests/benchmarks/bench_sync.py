@@ -19,7 +19,6 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
-from fieldlog.journal.reader import Journal  # noqa: E402
 from fieldlog.journal.record import _append, _Signer  # noqa: E402
 from fieldlog.sync import SyncOptions, sync_site  # noqa: E402
 from tests.helpers.sync_helpers import WRITTEN, fixed_key, make_site  # noqa: E402
@@ -35,24 +34,22 @@ def build(site: Path, files: int, entries_per_file: int) -> int:
     for a foreman and far too slow to build 12,000 entries here).
     """
     log = site / "log"
-    written: dict[str, list] = {}  # the device's entries so far: its next number follows them
+    written: dict[str, int] = {}  # the device's entries so far: its next number follows them
     for n in range(files):
         device = f"dev-{n // DAYS_PER_DEVICE:04d}"
         day = date(2026, 3, 2) + timedelta(days=n % DAYS_PER_DEVICE)
         for k in range(entries_per_file):
-            so_far = written.setdefault(device, [])
-            so_far.append(
-                _append(
-                    log,
-                    Journal(tuple(so_far)),
-                    device,
-                    "note",
-                    day,
-                    {"text": f"entry {k}: " + "x" * 120},
-                    "Bench Foreman",
-                    lambda: WRITTEN,
-                    _Signer(fixed_key(device), site, day),
-                )
+            written[device] = written.get(device, 0) + 1
+            _append(
+                log,
+                lambda seq=written[device]: seq,
+                device,
+                "note",
+                day,
+                {"text": f"entry {k}: " + "x" * 120},
+                "Bench Foreman",
+                lambda: WRITTEN,
+                _Signer(fixed_key(device), site, day),
             )
     return sum(p.stat().st_size for p in log.iterdir() if not p.name.startswith("."))
 
