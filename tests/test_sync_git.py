@@ -137,6 +137,34 @@ def test_the_retry_count_is_bounded(
     assert (a / "log" / journal_name(DAY, "tab-a3")).is_file()  # nothing lost on the site
 
 
+def test_a_fetch_that_meets_a_push_half_written_reads_again(
+    tmp_path: Path, remote: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """Two syncs to one local repository at once: the fetching side can find the branch
+    naming an object the pushing side has not finished writing (dulwich: KeyError). That is
+    the race of a moved branch, so the sync fetches again instead of failing."""
+    from dulwich.client import LocalGitClient
+
+    monkeypatch.setattr("fieldlog.sync.git_transport.RETRY_PAUSE_S", 0.0)
+    a = device(tmp_path, "tab-a5")
+    run_sync(a, remote)
+    append_entry(a, DAY, "tab-a5", "second note")
+    real = LocalGitClient.fetch
+    calls: list[int] = []
+
+    def half_written(self: LocalGitClient, *args: object, **kw: object) -> object:
+        calls.append(1)
+        if len(calls) == 1:
+            raise KeyError(b"3f" * 20)
+        return real(self, *args, **kw)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(LocalGitClient, "fetch", half_written)
+    result = run_sync(a, remote)
+    assert result.attempts == 2 and result.pushed
+    assert "second note" in git(remote, "show", f"{BRANCH}:log/{journal_name(DAY, 'tab-a5')}")
+    git(remote, "fsck", "--strict")
+
+
 def _cli_sync(site: Path, repo: Path, home: Path) -> subprocess.Popen[str]:
     env = dict(os.environ, FIELDLOG_HOME=str(home))
     return subprocess.Popen(

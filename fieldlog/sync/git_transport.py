@@ -119,7 +119,11 @@ def sync_git(
         scratch = Path(tempfile.mkdtemp(prefix="sync-", dir=scratch_root))
         try:
             repo = repo_mod.Repo.init_bare(str(_mkdir(scratch / "repo.git")))
-            head = _fetch(client, path, repo, branch, remote)
+            try:
+                head = _fetch(client, path, repo, branch, remote)
+            except _Moved:
+                time.sleep(RETRY_PAUSE_S * attempt)  # caught mid-push: read it again
+                continue
             files = _mkdir(scratch / "files")
             base_tree = repo[head].tree if head else None
             refused = write_tree(repo, base_tree, files) if base_tree else []
@@ -209,6 +213,11 @@ def _fetch(client: Any, path: str, repo: Any, branch: bytes, remote: GitRemote) 
 
     try:
         result = client.fetch(path, repo, determine_wants=wants)
+    except KeyError as exc:
+        # An object the branch names is not readable yet: another device is pushing to the
+        # same repository this moment (seen with two syncs to one local repository at once).
+        # Fetch again, like a branch that moved under a push.
+        raise _Moved from exc
     except Exception as exc:  # dulwich raises many kinds; each becomes one SyncError line
         raise SyncError(
             f"cannot fetch from {remote.shown}: {_why(exc)}",
