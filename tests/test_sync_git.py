@@ -165,6 +165,42 @@ def test_a_fetch_that_meets_a_push_half_written_reads_again(
     git(remote, "fsck", "--strict")
 
 
+def test_a_branch_moved_while_fetching_is_fetched_again(
+    tmp_path: Path, remote: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """The fetch asks for the branch's commit; before it ends, another device pushes and the
+    fetch reports the new commit, which it never brought over. The sync must not look that
+    commit up (it once failed there with KeyError): it goes on from the commit it fetched, its
+    push finds the branch moved, and it starts again."""
+    from dulwich.client import LocalGitClient
+
+    monkeypatch.setattr("fieldlog.sync.git_transport.RETRY_PAUSE_S", 0.0)
+    a, b = device(tmp_path, "tab-a6"), device(tmp_path, "tab-b6")
+    home_a, home_b = tmp_path / "home-a", tmp_path / "home-b"
+    run_sync(a, remote, home_a)
+    append_entry(a, DAY, "tab-a6", "second note from a")
+    real = LocalGitClient.fetch
+    calls: list[int] = []
+
+    def b_pushes_during_the_fetch(self: LocalGitClient, *args: object, **kw: object) -> object:
+        result = real(self, *args, **kw)  # type: ignore[arg-type]
+        calls.append(1)
+        if len(calls) == 1:
+            assert run_sync(b, remote, home_b).pushed
+            moved = git(remote, "rev-parse", BRANCH).encode()
+            result.refs[branch_for("Test yard (invented)")] = moved  # type: ignore[attr-defined]
+        return result
+
+    monkeypatch.setattr(LocalGitClient, "fetch", b_pushes_during_the_fetch)
+    result = run_sync(a, remote, home_a)
+    assert result.attempts == 2 and result.pushed
+    assert {f"log/{journal_name(DAY, d)}" for d in ("tab-a6", "tab-b6")} <= branch_files(remote)
+    assert "second note from a" in git(
+        remote, "show", f"{BRANCH}:log/{journal_name(DAY, 'tab-a6')}"
+    )
+    git(remote, "fsck", "--strict")
+
+
 def _cli_sync(site: Path, repo: Path, home: Path) -> subprocess.Popen[str]:
     env = dict(os.environ, FIELDLOG_HOME=str(home))
     return subprocess.Popen(

@@ -207,24 +207,33 @@ def _kept(
 
 def _fetch(client: Any, path: str, repo: Any, branch: bytes, remote: GitRemote) -> bytes | None:
     """Fetch the site's branch; its commit id, or None when the branch does not exist yet."""
+    seen: list[bytes] = []
 
     def wants(refs: dict[bytes, bytes], depth: int | None = None) -> list[bytes]:
-        return [refs[branch]] if branch in refs else []
+        if branch not in refs:
+            return []
+        seen.append(bytes(refs[branch]))
+        return [refs[branch]]
 
     try:
-        result = client.fetch(path, repo, determine_wants=wants)
+        client.fetch(path, repo, determine_wants=wants)
     except KeyError as exc:
-        # An object the branch names is not readable yet: another device is pushing to the
-        # same repository this moment (seen with two syncs to one local repository at once).
-        # Fetch again, like a branch that moved under a push.
+        # An object the branch names is not readable: another device is pushing to the same
+        # repository this moment. Fetch again, like a branch that moved under a push.
         raise _Moved from exc
     except Exception as exc:  # dulwich raises many kinds; each becomes one SyncError line
         raise SyncError(
             f"cannot fetch from {remote.shown}: {_why(exc)}",
             fix="check the address, the network and that the repository exists (git init --bare)",
         ) from exc
-    head = result.refs.get(branch)
-    return bytes(head) if head else None
+    # The commit asked for, not the branch as the fetch reports it at its end: another device
+    # pushing meanwhile can have moved the branch to a commit this fetch never brought over
+    # (seen with two syncs to one repository at once: "KeyError" from the new commit). The
+    # push then finds the branch moved and the sync starts again.
+    head = seen[-1] if seen else None
+    if head is not None and head not in repo:
+        raise _Moved
+    return head
 
 
 def _commit(
