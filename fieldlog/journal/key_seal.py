@@ -94,16 +94,17 @@ def seal_ok(record: DeviceRecord) -> bool:
     return True
 
 
+def seal_problem(record: DeviceRecord) -> str | None:
+    """What is wrong with ``record``'s seal (none, or not matching), or None when it holds."""
+    if seal_ok(record):
+        return None
+    return BAD_SEAL if record.seal else NO_SEAL
+
+
 def seal_findings(records: Iterable[DeviceRecord]) -> list[Finding]:
     """A finding for every key file without a seal or whose seal does not match its values."""
     return [
-        Finding(
-            key_file_name(record.device),
-            "",
-            "bad key file",
-            BAD_SEAL if record.seal else NO_SEAL,
-            folder=DEVICES_DIR,
-        )
+        Finding(key_file_name(record.device), "", "bad key file", problem, folder=DEVICES_DIR)
         for record in records
-        if not seal_ok(record)
+        if (problem := seal_problem(record)) is not None
     ]

@@ -20,7 +20,7 @@ from functools import partial
 from pathlib import Path
 
 from fieldlog.errors import JournalError
-from fieldlog.journal.key_seal import BAD_SEAL, NO_SEAL, seal_ok
+from fieldlog.journal.key_seal import seal_problem
 from fieldlog.journal.registry import DEVICES_DIR, MAX_KEY_FILE_BYTES, parse_key_file
 from fieldlog.sync.names import is_ignored, portable_name_problem
 from fieldlog.sync.scan import Refusal
@@ -130,6 +130,6 @@ def sync_devices(site_folder: Path, target: Path) -> DeviceSync:
 
 
 def _check(name: str, data: bytes) -> None:
-    record = parse_key_file(name, data)
-    if not seal_ok(record):
-        raise JournalError(BAD_SEAL if record.seal else NO_SEAL, file=f"{DEVICES_DIR}/{name}")
+    problem = seal_problem(parse_key_file(name, data))
+    if problem is not None:
+        raise JournalError(problem, file=f"{DEVICES_DIR}/{name}")
