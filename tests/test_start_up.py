@@ -29,10 +29,10 @@ sys.exit(code)
 """
 
 
-def imported(folder: Path, home: Path, watch: tuple[str, ...]) -> set[str]:
-    """Top packages of ``watch`` that ``fieldlog schedule folder`` imported."""
+def probe_imports(probe_and_args: list[str], home: Path) -> set[str]:
+    """The module names a probe (``python -c PROBE ARGS``) reports on its last stderr line."""
     done = subprocess.run(
-        [sys.executable, "-c", _PROBE, str(folder), *watch],
+        [sys.executable, "-c", *probe_and_args],
         capture_output=True,
         text=True,
         env={**os.environ, "FIELDLOG_HOME": str(home)},
@@ -40,7 +40,12 @@ def imported(folder: Path, home: Path, watch: tuple[str, ...]) -> set[str]:
     )
     line = done.stderr.strip().splitlines()[-1]
     assert line.startswith("IMPORTED:"), done.stderr
-    names = set(filter(None, line.removeprefix("IMPORTED:").split(",")))
+    return set(filter(None, line.removeprefix("IMPORTED:").split(",")))
+
+
+def imported(folder: Path, home: Path, watch: tuple[str, ...]) -> set[str]:
+    """Top packages of ``watch`` that ``fieldlog schedule folder`` imported."""
+    names = probe_imports([_PROBE, str(folder), *watch], home)
     return {p for p in watch if any(n == p or n.startswith(p + ".") for n in names)}
 
 
@@ -81,16 +86,7 @@ def test_record_with_the_log_unchanged_loads_no_replay_schema_or_numpy(sample_si
     args = ["record", str(sample_site), "note", "set-out checked", "--author", "Test Foreman"]
 
     def run() -> set[str]:
-        done = subprocess.run(
-            [sys.executable, "-c", _RECORD_PROBE, str(sample_site), ",".join(LATER), *args],
-            capture_output=True,
-            text=True,
-            env={**os.environ, "FIELDLOG_HOME": str(home)},
-            check=True,
-        )
-        line = done.stderr.strip().splitlines()[-1]
-        assert line.startswith("IMPORTED:"), done.stderr
-        return set(filter(None, line.removeprefix("IMPORTED:").split(",")))
+        return probe_imports([_RECORD_PROBE, str(sample_site), ",".join(LATER), *args], home)
 
     # The first note registers this device's key in devices/, a change the kept record is
     # not carried over (fieldlog/journal/tail.py), so the first two take the full way.
