@@ -70,5 +70,4 @@ def run(args: argparse.Namespace) -> int:
     journal = read_journal(args.site)
     history = build_history(site, journal, first=args.first, last=args.last, by=args.by)
     sys.stdout.write(render_history(history, args.format, args.width))
-    warn_log_problems(map(str, history.problems), args.site)
-    return 0
+    return warn_log_problems(map(str, history.problems), args.site)
