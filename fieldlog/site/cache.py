@@ -42,9 +42,7 @@ import os
 import sys
 import warnings
 from array import array
-from collections import deque
-from collections.abc import Callable, Iterable, Mapping
-from itertools import repeat
+from collections.abc import Callable
 from operator import attrgetter
 from pathlib import Path
 from types import MappingProxyType
@@ -53,7 +51,7 @@ from typing import TYPE_CHECKING, Any
 from fieldlog import __version__
 from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
 from fieldlog.home import HOME_ENV, fieldlog_home
-from fieldlog.site.model import Activity, Link, LinkType, Site
+from fieldlog.site.model import Activity, Link, LinkType, Site, from_columns
 
 if TYPE_CHECKING:  # the engine (and numpy) is imported only when an entry is read or built
     from fieldlog.engine.compiled import CompiledSite
@@ -288,23 +286,9 @@ def site_from_columns(
     }
     return Site(
         **plain,
-        activities=_objects(Activity, len(ids), columns),
-        links=_objects(Link, len(lags), link_values),
+        activities=from_columns(Activity, len(ids), columns),
+        links=from_columns(Link, len(lags), link_values),
     )
-
-
-def _objects(cls: type, count: int, columns: Mapping[str, Iterable[Any]]) -> tuple[Any, ...]:
-    """``count`` instances of the frozen, slotted dataclass ``cls``, each field from its column.
-
-    The same as calling ``cls(...)`` per row, without a Python-level ``__init__`` per object:
-    the objects are made empty and each slot is filled by its descriptor, all in C loops
-    (``__init__`` of a frozen dataclass costs about a microsecond per object). Every field is
-    set: a column missing for a field is a KeyError, never a half-built object.
-    """
-    objects: tuple[Any, ...] = tuple(map(object.__new__, repeat(cls, count)))
-    for f in dataclasses.fields(cls):
-        deque(map(getattr(cls, f.name).__set__, objects, columns[f.name]), maxlen=0)
-    return objects
 
 
 _ACTIVITY_FIELDS = tuple(f.name for f in dataclasses.fields(Activity))
