@@ -235,5 +235,5 @@ def _typed_links(rows: list[Any], canon: dict[str, str]) -> list[Link] | None:
         return None
     if not -bounds.MAX_DAYS <= min(lags) <= max(lags) <= bounds.MAX_DAYS:
         return None
-    columns = {"pred": preds, "succ": succs, "type": types, "lag": lags}
+    columns: dict[str, list[Any]] = {"pred": preds, "succ": succs, "type": types, "lag": lags}
     return list(from_columns(Link, len(rows), columns))

@@ -301,7 +301,7 @@ _DISPATCH[Site] = _reduce_site
 
 
 def _pickle(site: Site | CompiledSite) -> bytes:
-    if type(site) is Site:
+    if isinstance(site, Site):
         return pickled(site, _DISPATCH)
     compiled_site, ends = site.site, _network_positions(site)
 
