@@ -24,9 +24,7 @@ def test_a_site_that_never_synced_is_intact_but_not_yet_vouched_for(sample_site,
     assert lines[-1].startswith(NOTE) and "'fieldlog sync'" in lines[-1]
 
 
-def test_before_a_sync_a_deleted_newest_day_file_cannot_be_seen_and_it_says_so(
-    sample_site, capsys
-):
+def test_before_a_sync_a_deleted_newest_day_file_cannot_be_seen_and_it_says_so(sample_site, capsys):
     (sample_site / "log" / NEWEST).unlink()
     assert main(["verify", str(sample_site)]) == 0  # the known limit, now stated
     assert capsys.readouterr().out.splitlines()[-1].startswith(NOTE)
