@@ -37,3 +37,33 @@ async def test_a_celsius_reading_of_80_is_refused_in_the_form_and_nothing_is_wri
         assert not isinstance(app.screen, FormScreen)
     (w,) = entries_of(folder, "weather")
     assert (w.fields["high"], w.fields["unit"]) == (80, "F")
+
+
+async def test_a_comma_decimal_a_negative_and_a_double_enter_record_once_as_shown(tmp_path):
+    """A tired foreman types "2,5", then "-1", then 3 and presses Enter twice: the first two
+    are refused under the field, and exactly one entry of 3 days is written."""
+    folder = started_site(tmp_path)
+    app = make_app(folder, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("r")
+        days = app.screen.query_one("#field-days", Input)
+        for typed, says in (("2,5", "'2,5' is not a whole number"), ("-1", "below 1")):
+            days.value = typed
+            await pilot.press("enter")
+            assert isinstance(app.screen, FormScreen) and days.value == typed
+            assert says in screen_text(app)
+        days.value = "3"
+        await pilot.press("enter", "enter")
+        await settle(app, pilot)
+    assert [e.fields["days"] for e in entries_of(folder, "remaining")] == [3]
+
+
+async def test_the_same_start_twice_is_refused_and_written_once(tmp_path):
+    folder = started_site(tmp_path)  # EXC-010 started on Monday
+    before = log_bytes(folder)
+    app = make_app(folder, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("s")
+        await settle(app, pilot)
+        assert "already started" in screen_text(app)
+    assert log_bytes(folder) == before
