@@ -13,7 +13,7 @@ import os
 import sys
 import warnings
 from collections.abc import Sequence
-from typing import NoReturn
+from typing import Any, NoReturn
 
 from fieldlog import __version__
 from fieldlog.commands.arguments import EXIT_BAD_INPUT, EXIT_OK
@@ -39,8 +39,43 @@ LONG_RUNNING = frozenset({"open", "demo"})
 """Subcommands that run the app (many loads in one process); the others load once and exit."""
 
 
+def _columns() -> int:
+    """``shutil.get_terminal_size().columns`` (``COLUMNS``, else the terminal on stdout, else
+    80), without importing shutil: argparse imports it for every parser and argument it
+    builds, and with it ``bz2``, ``lzma`` and ``zlib``, which no command needs."""
+    try:
+        columns = int(os.environ["COLUMNS"])
+    except (KeyError, ValueError):
+        columns = 0
+    if columns > 0:
+        return columns
+    try:
+        size = os.get_terminal_size(sys.__stdout__.fileno())  # type: ignore[union-attr]
+    except (AttributeError, ValueError, OSError):
+        return 80
+    return size.columns or 80
+
+
+class _Formatter(argparse.HelpFormatter):
+    """argparse's help layout, told the width it would find (see :func:`_columns`)."""
+
+    def __init__(
+        self,
+        prog: str,
+        indent_increment: int = 2,
+        max_help_position: int = 24,
+        width: int | None = None,
+    ) -> None:
+        width = _columns() - 2 if width is None else width  # argparse's own "- 2"
+        super().__init__(prog, indent_increment, max_help_position, width)
+
+
 class _Parser(argparse.ArgumentParser):
     """argparse that exits 2 with one line (its default, kept explicit for the contract)."""
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        kwargs.setdefault("formatter_class", _Formatter)
+        super().__init__(*args, **kwargs)
 
     def error(self, message: str) -> None:  # type: ignore[override]
         self.exit(EXIT_BAD_INPUT, f"fieldlog: {message} (see '{self.prog} --help')\n")
