@@ -12,11 +12,12 @@ from pathlib import Path
 
 from fieldlog.engine.compiled import CompiledSite, compile_site
 from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.horizon import ScheduleTooLong
 from fieldlog.engine.readiness import holds
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.journal.reader import Journal, read_journal
 from fieldlog.journal.replay import Replay, replay
-from fieldlog.site.files import load_compiled
+from fieldlog.site.files import SCHEDULE_FILE, load_compiled
 from fieldlog.site.model import Site
 
 
@@ -76,7 +77,10 @@ def state_for(
     site = comp.site
     status = as_of or default_status_date(site, journal)
     rp = replay(site, journal, status)
-    result = compute_schedule(
-        comp, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
-    )
+    try:
+        result = compute_schedule(
+            comp, status, rp.progress, lost_days=rp.lost_days, holds=holds(rp.readiness, status)
+        )
+    except ScheduleTooLong as exc:
+        raise exc.naming(folder / SCHEDULE_FILE) from exc
     return SiteState(folder=folder, site=site, journal=journal, replay=rp, schedule=result)

@@ -6,6 +6,7 @@ long activities on a Monday-to-Friday calendar; hypothesis checks the widening r
 
 from __future__ import annotations
 
+import json
 from datetime import date, timedelta
 
 import numpy as np
@@ -14,9 +15,11 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from fieldlog.bounds import LATEST_DATE, site_window
+from fieldlog.cli import main
 from fieldlog.engine.cpm import compute_schedule
 from fieldlog.engine.horizon import ScheduleTooLong, widened
 from tests.helpers.engine_helpers import WEEKDAYS, before_start, make_site
+from tests.helpers.site_builder import chain, schedule_toml, site_toml, write_site
 
 
 def test_a_forty_year_chain_still_computes_like_numpy_busday_offset():
@@ -65,3 +68,32 @@ def test_widening_never_narrows_stays_in_the_window_and_ends(start, a, width):
         assert new_lo >= min(lo, floor) and new_hi <= max(hi, ceiling)
         lo, hi = new_lo, new_hi
     raise AssertionError("widening did not end")
+
+
+def _too_long_site(folder):
+    """Twenty activities of 3,650 working days in a chain: about 280 years of work."""
+    return write_site(
+        folder,
+        site_toml("Long chain yard (invented)", date(2026, 3, 2)),
+        schedule_toml(1, chain([f"A{k}" for k in range(20)], duration=3650)),
+    )
+
+
+@pytest.mark.parametrize(
+    "words",
+    [["schedule"], ["lookahead"], ["report", "--day", "2026-03-02"], ["history"], ["check"]],
+)
+def test_every_command_names_the_schedule_as_the_user_finds_it(tmp_path, capsys, words):
+    """Found: the error named a bare "schedule.toml", not which site's."""
+    folder = _too_long_site(tmp_path / "yards" / "long-chain")
+    assert main([words[0], str(folder), *words[1:]]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1, err
+    assert err[0].startswith(f"fieldlog: {folder / 'schedule.toml'}: the work runs outside"), err
+
+
+def test_sites_names_the_site_folder_too(tmp_path, capsys):
+    folder = _too_long_site(tmp_path / "office" / "long-chain")
+    assert main(["sites", str(folder.parent), "--format", "json"]) == 1
+    (row,) = json.loads(capsys.readouterr().out)
+    assert row["error"].startswith(f"{folder / 'schedule.toml'}: the work runs outside")

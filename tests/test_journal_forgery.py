@@ -209,7 +209,7 @@ def test_forged_entries_never_reach_the_schedule_or_the_report(
     ):
         assert main([args[0], str(clean), *args[1:]]) == 0
         expected, _ = capsys.readouterr()
-        assert main([args[0], str(sample_site), *args[1:]]) == 0
+        assert main([args[0], str(sample_site), *args[1:]]) == 1  # the data, and exit 1
         got, err = capsys.readouterr()
         assert FORGED_TEXT not in got
         if args[0] == "report":  # the report names the problem instead
@@ -314,7 +314,8 @@ def test_two_forgeries_through_a_real_process(sample_site):
 
 def test_json_schedule_still_reads_with_a_forged_log(capsys, sample_site):
     a_file_from_an_invented_device(sample_site)
-    assert main(["schedule", str(sample_site), "--format", "json"]) == 0
+    # It still reads; a forged log is a problem found: exit 1.
+    assert main(["schedule", str(sample_site), "--format", "json"]) == 1
     out, err = capsys.readouterr()
     json.loads(out)
     assert "ghost-phone-7.1" in err and "forged" in err

@@ -15,6 +15,7 @@ from datetime import date, timedelta
 from pathlib import Path
 
 from fieldlog.engine.cpm import compute_schedule
+from fieldlog.engine.horizon import ScheduleTooLong
 from fieldlog.site.files import SITE_FILE, build_site, read_toml
 from fieldlog.site.model import Site
 from fieldlog.sync.revision import HISTORY_DIR
@@ -73,7 +74,10 @@ def load_baseline(folder: Path, site: Site) -> Baseline:
         )
     planned = build_site(read_toml(folder / SITE_FILE), read_toml(kept))
     source = f"{HISTORY_DIR}/{kept.name} (revision {planned.revision}, earliest kept)"
-    return planned_baseline(planned, source)
+    try:
+        return planned_baseline(planned, source)
+    except ScheduleTooLong as exc:
+        raise exc.naming(kept) from exc
 
 
 def planned_baseline(site: Site, source: str) -> Baseline:

@@ -4,13 +4,15 @@ from __future__ import annotations
 
 import argparse
 import sys
+from pathlib import Path
 
 from fieldlog.commands.arguments import EXIT_BAD_INPUT, iso_date
 from fieldlog.commands.log_warnings import warn_log_problems
+from fieldlog.engine.horizon import ScheduleTooLong
 from fieldlog.history import GROUPINGS, build_history
 from fieldlog.journal import read_journal
 from fieldlog.reports.history import FORMATS, render_history
-from fieldlog.site.files import load_site
+from fieldlog.site.files import SCHEDULE_FILE, load_site
 
 MIN_WIDTH, MAX_WIDTH = 60, 400
 
@@ -68,7 +70,9 @@ def run(args: argparse.Namespace) -> int:
         return EXIT_BAD_INPUT
     site = load_site(args.site)
     journal = read_journal(args.site)
-    history = build_history(site, journal, first=args.first, last=args.last, by=args.by)
+    try:
+        history = build_history(site, journal, first=args.first, last=args.last, by=args.by)
+    except ScheduleTooLong as exc:
+        raise exc.naming(Path(args.site) / SCHEDULE_FILE) from exc
     sys.stdout.write(render_history(history, args.format, args.width))
-    warn_log_problems(map(str, history.problems), args.site)
-    return 0
+    return warn_log_problems(map(str, history.problems), args.site)

@@ -11,7 +11,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from fieldlog.commands.arguments import EXIT_BAD_INPUT, EXIT_OK, iso_date
+from fieldlog.commands.arguments import EXIT_BAD_INPUT, iso_date
 from fieldlog.commands.log_warnings import warn_log_problems
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead.build import LOOKAHEAD_DAYS, Lookahead, build_lookahead
@@ -110,8 +110,7 @@ def run(args: argparse.Namespace) -> int:
     la = build_lookahead(state.schedule, state.replay.readiness, args.start, args.days)
     if args.per_crew:
         _write_crew_files(args.out, crew_calendars(la))
-        _report(la, state, args.site)
-        return EXIT_OK
+        return _report(la, state, args.site)
     if args.format == "ics":
         data = render_ics(la, args.crew)
     elif args.format == "json":
@@ -127,18 +126,18 @@ def run(args: argparse.Namespace) -> int:
         sys.stdout.flush()
         sys.stdout.buffer.write(data)
         sys.stdout.buffer.flush()
-    _report(la, state, args.site)
-    return EXIT_OK
+    return _report(la, state, args.site)
 
 
-def _report(la: Lookahead, state: SiteState, site: str) -> None:
-    """Readiness items to chase, out-of-sequence work and log problems, on stderr."""
+def _report(la: Lookahead, state: SiteState, site: str) -> int:
+    """Readiness items to chase, out-of-sequence work and log problems, on stderr; the exit
+    code (1 when the log has problems)."""
     for row in la.rows:
         for flag in row.not_ready:
             print(f"fieldlog: not ready: {row.id} {flag}", file=sys.stderr)
     for oos in state.schedule.out_of_sequence:
         print(f"fieldlog: out of sequence: {oos.describe()}", file=sys.stderr)
-    warn_log_problems((p.message for p in state.replay.problems), site)
+    return warn_log_problems((p.message for p in state.replay.problems), site)
 
 
 def _write_crew_files(folder: Path, files: dict[str, bytes]) -> None:

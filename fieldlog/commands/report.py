@@ -37,5 +37,4 @@ def run(args: argparse.Namespace) -> int:
     """Print the report on stdout; log problems are repeated on stderr."""
     state = load_state(args.site, args.day)
     sys.stdout.write(render_daily_report(state, args.day))
-    warn_log_problems((p.message for p in state.replay.problems), args.site)
-    return 0
+    return warn_log_problems((p.message for p in state.replay.problems), args.site)

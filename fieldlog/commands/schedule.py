@@ -36,5 +36,4 @@ def run(args: argparse.Namespace) -> int:
     sys.stdout.write(render_schedule(state.schedule, args.format))
     for oos in state.schedule.out_of_sequence:
         print(f"fieldlog: out of sequence: {oos.describe()}", file=sys.stderr)
-    warn_log_problems((p.message for p in state.replay.problems), args.site)
-    return 0
+    return warn_log_problems((p.message for p in state.replay.problems), args.site)

@@ -1,8 +1,9 @@
 """``fieldlog sites FOLDER``: the office roll-up of every site folder under FOLDER.
 
 One line per site: revision, last logged day, forecast finish, float against the required
-finish, open conflicts. A site that does not load is listed with its error. Exit 0 when every
-site loads without open conflicts, 1 otherwise (a late job is not a problem), 2 for bad input.
+finish, open conflicts. A site that does not load is listed with its error; one whose log has
+problems says how many after its line. Exit 0 when every site loads without open conflicts or
+log problems, 1 otherwise (a late job is not a problem), 2 for bad input.
 """
 
 from __future__ import annotations
@@ -13,6 +14,7 @@ import sys
 from pathlib import Path
 
 from fieldlog.errors import SyncError
+from fieldlog.reports.words import count
 from fieldlog.sync.rollup import SiteRow, rollup
 
 _HEADER = ("site", "rev", "last log", "forecast finish", "finish by", "float", "conflicts")
@@ -74,12 +76,20 @@ def render_text(rows: tuple[SiteRow, ...]) -> str:
     out = [line(_HEADER)]
     for r, c in zip(rows, cells, strict=True):
         if r.error is None:
-            out.append(line(c))
+            out.append(line(c) + _log_note(r))
         else:
             head = "  ".join((c[0].ljust(widths[0]), c[1].rjust(widths[1])))
             extra = f" ({r.conflicts} conflicts)" if r.conflicts else ""
             out.append(f"{head}  ERROR{extra}: {r.error}")
     return "\n".join(out) + "\n"
+
+
+def _log_note(r: SiteRow) -> str:
+    """After a site's line: how many problems its log has, and the command that lists them."""
+    if not r.log_problems:
+        return ""
+    many = count(r.log_problems, "problem", "problems")
+    return f"  LOG: {many} ('fieldlog verify' on the site lists them)"
 
 
 def render_json(rows: tuple[SiteRow, ...]) -> str:
@@ -98,6 +108,7 @@ def render_json(rows: tuple[SiteRow, ...]) -> str:
             "float": r.finish_float,
             "conflicts": r.conflicts,
             "error": r.error,
+            "log_problems": r.log_problems,
         }
         for r in rows
     ]

@@ -13,13 +13,22 @@ line (exit 2) rather than a traceback or a very long wait.
 from __future__ import annotations
 
 from datetime import date
+from pathlib import Path
 
 from fieldlog.bounds import SITE_SPAN_YEARS, site_window
 from fieldlog.errors import SiteError
 
 
 class ScheduleTooLong(SiteError):
-    """The network's work runs outside the dates fieldlog schedules for this site."""
+    """The network's work runs outside the dates fieldlog schedules for this site.
+
+    The engine knows no folders, so it names a bare ``schedule.toml``; the caller that read
+    the file names it as the user finds it with :meth:`naming` (the site folder + the file).
+    """
+
+    def naming(self, path: Path | str) -> ScheduleTooLong:
+        """The same error naming ``path`` (e.g. ``sites/yard/schedule.toml``) as its file."""
+        return ScheduleTooLong(self.problem, file=Path(path), fix=self.fix)
 
 
 def widened(site_start: date, lo: date, hi: date) -> tuple[date, date]:

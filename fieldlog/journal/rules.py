@@ -116,6 +116,34 @@ def check_entry(
             )
     elif kind == "cleared":
         _cleared(fields["item"], day, ctx)
+    elif kind == "weather":
+        _plausible_temperatures(fields)
+
+
+PLAUSIBLE_AIR: Mapping[str, tuple[float, float]] = {"C": (-60.0, 60.0), "F": (-76.0, 140.0)}
+"""Air temperatures a new weather entry may give, per unit (the same range in both units).
+
+From memory: the highest air temperature on record is about 56.7 C (134 F); outdoor site
+work stops long before -60 C (common practice), though a few inhabited places have read
+below it. A site reading outside -60..60 C is a typo or the other unit. Checked when an entry
+is recorded only: the reader keeps accepting the wider stored range (-80..140 in either unit,
+:data:`fieldlog.journal.entries.KINDS`), so an entry an older fieldlog wrote stays readable.
+"""
+
+
+def _plausible_temperatures(fields: Mapping[str, Any]) -> None:
+    unit = fields.get("unit", "C")
+    low, high = PLAUSIBLE_AIR.get(unit, PLAUSIBLE_AIR["C"])
+    for name in ("high", "low"):
+        value = fields.get(name)
+        if value is not None and not low <= value <= high:
+            other = "F" if unit == "C" else "C"
+            raise refuse(
+                f"weather {name} {value:g} {unit} is not a plausible air temperature "
+                f"(in {unit}: {low:g} to {high:g})",
+                fix=f"check the {name} temperature; if it is in {other}, give the unit "
+                f"{other} (--unit {other})",
+            )
 
 
 def _activities(fields: Mapping[str, Any]) -> list[str]:

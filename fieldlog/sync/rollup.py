@@ -1,8 +1,10 @@
 """The office roll-up: every site folder under one folder, one line each.
 
 For each site: schedule revision, last day anyone logged, forecast finish, float against the
-required finish, and open conflict copies. A site that does not load is listed with its error
-instead of stopping the list: the office wants to see every job, broken ones most of all.
+required finish, open conflict copies, and how many problems its log has (damaged, forged or
+contradicting entries: the office must see a log that is not intact). A site that does not
+load is listed with its error instead of stopping the list: the office wants to see every job,
+broken ones most of all.
 """
 
 from __future__ import annotations
@@ -39,11 +41,14 @@ class SiteRow:
     required finish."""
     conflicts: int = 0
     error: str | None = None
+    log_problems: int = 0
+    """Problems the site's log has (``fieldlog verify SITE`` lists them)."""
 
     @property
     def has_problem(self) -> bool:
-        """True for a site that does not load or has open conflicts (a late job is not one)."""
-        return self.error is not None or self.conflicts > 0
+        """True for a site that does not load, has open conflicts or a log with problems (a
+        late job is not one)."""
+        return self.error is not None or self.conflicts > 0 or self.log_problems > 0
 
 
 def find_sites(folder: Path, max_depth: int = MAX_DEPTH) -> Iterator[Path]:
@@ -81,6 +86,7 @@ def site_row(folder: Path, base: Path) -> SiteRow:
         finish_by=state.site.finish_by,
         finish_float=state.schedule.finish_float,
         conflicts=conflicts,
+        log_problems=len(state.replay.problems),
     )
 
 
