@@ -144,11 +144,18 @@ def test_an_error_that_escapes_is_still_a_traceback_and_exit_1(sample_site, tmp_
 
 
 def test_pending_atexit_callbacks_and_threads_get_the_normal_exit(sample_site, tmp_path):
+    # The thread starts as the command's work ends, so it is surely still running then.
     pending = (
         "import atexit, threading, time\n"
+        "import fieldlog.commands.schedule as s\n"
         "atexit.register(lambda: print('atexit ran', flush=True))\n"
-        "threading.Thread(target=lambda: (time.sleep(0.5), print('thread done', flush=True)))"
-        ".start()\n"
+        "work = s.run\n"
+        "def run(args):\n"
+        "    code = work(args)\n"
+        "    later = lambda: (time.sleep(0.3), print('thread done', flush=True))\n"
+        "    threading.Thread(target=later).start()\n"
+        "    return code\n"
+        "s.run = run\n"
     )
     done = _probe(tmp_path, pending, ["schedule", str(sample_site)])
     assert done.returncode == 0, done.stderr
