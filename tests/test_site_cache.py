@@ -19,13 +19,17 @@ from pathlib import Path
 from types import MappingProxyType
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
+from fieldlog.engine.compiled import compile_site
 from fieldlog.errors import DependencyLoopError, SiteError
 from fieldlog.site import cache as site_cache
 from fieldlog.site import files as site_files
 from fieldlog.site.cache import KEEP, SiteCacheWarning, cache_folder, cache_key
 from fieldlog.site.files import load_site
 from fieldlog.site.model import Link, LinkType
+from tests.helpers.engine_helpers import make_site
 from tests.helpers.site_builder import Act, Lnk, schedule_toml, site_toml
 
 SITE = site_toml(
@@ -82,9 +86,10 @@ def load_fresh(folder: Path) -> object:
 
 def uncached(folder: Path) -> object:
     """The oracle: parse and validate, no cache involved."""
-    return site_files._parse_and_build(
+    site, _ends = site_files._parse_and_build(
         folder, (folder / "site.toml").read_bytes(), (folder / "schedule.toml").read_bytes()
     )
+    return site
 
 
 def test_cache_lives_in_fieldlog_home(_isolated_home):
@@ -370,3 +375,32 @@ def test_only_a_one_shot_command_freezes_what_a_load_makes(sample_site, capsys):
     assert main(["schedule", str(sample_site)]) == 0
     assert gc.get_freeze_count() > 0
     capsys.readouterr()
+
+
+@st.composite
+def _shuffled_networks(draw):
+    """Links in any file order (not level order), of every type, activities in any order."""
+    n = draw(st.integers(1, 9))
+    ids = draw(st.permutations([f"N{k}" for k in range(n)]))
+    acts = [(a, draw(st.integers(0, 4)), "weekdays") for a in ids]
+    pairs = [(ids[i], ids[j]) for j in range(n) for i in range(j) if draw(st.booleans())]
+    order = draw(st.permutations(range(len(pairs))))
+    kinds = ["FS", "SS", "FF", "SF"]
+    links = [(*pairs[k], draw(st.sampled_from(kinds)), draw(st.integers(-2, 2))) for k in order]
+    return acts, links
+
+
+@settings(max_examples=80, deadline=None)
+@given(_shuffled_networks())
+def test_link_ends_from_the_network_equal_a_fresh_lookup(network):
+    """The cache stores each link's ends as positions taken from the compiled network (which
+    holds its links in level order); a lookup of every id in the activity list is the
+    reference, and the entry must read back to the very same Site."""
+    acts, links = network
+    site = make_site(acts, links, calendar="weekdays")
+    comp = compile_site(site)
+    ids = [a.id for a in site.activities]
+    assert site_cache._network_positions(comp) == site_cache._link_positions(ids, site.links)
+    back = pickle.loads(site_cache._pickle(comp))
+    assert back.site == site
+    assert [lk.pred for lk in back.site.links] == [lk.pred for lk in site.links]

@@ -13,7 +13,12 @@ import os
 import shutil
 import subprocess
 import sys
+from datetime import date
 from pathlib import Path
+
+import pytest
+
+from tests.helpers.site_builder import Act, chain, schedule_toml, site_toml, write_site
 
 NEVER = ("textual", "holidays", "icalendar", "dulwich")
 SIGNATURES = "cryptography.hazmat"
@@ -159,3 +164,25 @@ def _with(parser, formatter_class):
     other = copy.copy(parser)
     other.formatter_class = formatter_class
     return other
+
+
+_LOOKAHEAD_PROBE = _PROBE.replace(
+    'main(["schedule", sys.argv[1]])', 'main(["lookahead", sys.argv[1]])'
+)
+SUGGESTIONS = ("fieldlog.lookahead.fewest_people", "fieldlog.lookahead.levelling")
+"""The fewest-people search and the levelling: only for a crew over or near its headcount."""
+
+
+@pytest.mark.parametrize("needed, asked", [(2, False), (4, True)])
+def test_lookahead_loads_the_crew_suggestions_only_for_a_crew_near_its_headcount(
+    tmp_path, needed, asked
+):
+    # Four people on hand: two needed is far under (no question to answer), four is at it.
+    acts = [*chain(["A", "B"]), Act("C", "Work C", 3, crew={"fixers": needed})]
+    folder = write_site(
+        tmp_path / "site",
+        site_toml("Probe works", date(2026, 3, 2), crews={"fixers": 4}),
+        schedule_toml(1, acts),
+    )
+    names = probe_imports([_LOOKAHEAD_PROBE, str(folder), *SUGGESTIONS], tmp_path / "home")
+    assert bool(names) is asked, names

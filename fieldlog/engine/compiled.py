@@ -30,6 +30,7 @@ from typing import Any
 import numpy as np
 
 from fieldlog.engine.network_arrays import NetworkArrays, build_network
+from fieldlog.engine.topology import LinkEnds
 from fieldlog.site.model import Activity, Link, Site
 
 
@@ -88,9 +89,13 @@ class CompiledSite:
         return _grouped(self.site.links, _SUCC)
 
 
-def compile_site(site: Site) -> CompiledSite:
-    """The compiled form of ``site``: its network now, the other shapes on first use."""
-    return CompiledSite(site=site, net=build_network(site))
+def compile_site(site: Site, ends: LinkEnds | None = None) -> CompiledSite:
+    """The compiled form of ``site``: its network now, the other shapes on first use.
+
+    ``ends``: the site's link ends as the loader found them (see
+    :class:`~fieldlog.engine.topology.LinkEnds`), so they are not worked out twice.
+    """
+    return CompiledSite(site=site, net=build_network(site, ends))
 
 
 _NAME, _CALENDAR, _DURATION = (attrgetter(a) for a in ("name", "calendar", "duration"))

@@ -26,7 +26,7 @@ from operator import attrgetter
 
 import numpy as np
 
-from fieldlog.engine.topology import levels, topological_order
+from fieldlog.engine.topology import LinkEnds, link_ends, topological_order
 from fieldlog.site.model import LinkType, Site
 
 _READS_START = frozenset({LinkType.SS, LinkType.SF})
@@ -110,8 +110,10 @@ class NetworkArrays:
         return rank
 
 
-def build_network(site: Site) -> NetworkArrays:
-    """The arrays of ``site`` (see module docstring)."""
+def build_network(site: Site, ends: LinkEnds | None = None) -> NetworkArrays:
+    """The arrays of ``site`` (see module docstring); ``ends``: its links' ends as the
+    loader's loop test found them (:func:`fieldlog.site.schema.build_site_and_ends`), else
+    worked out here."""
     acts, links = site.activities, site.links
     ids = tuple(map(_ID, acts))
     index = {aid: k for k, aid in enumerate(ids)}
@@ -124,11 +126,12 @@ def build_network(site: Site) -> NetworkArrays:
     fna = np.fromiter(map(_ordinal, map(_FNA, acts)), np.int64, n)
 
     m = len(links)
-    pred = np.fromiter(map(index.__getitem__, map(_PRED, links)), np.int64, m)
-    succ = np.fromiter(map(index.__getitem__, map(_SUCC, links)), np.int64, m)
+    ends = ends or link_ends(index, links)
+    assert len(ends.pred) == m, "the link ends belong to another site"
+    assert ends.level is not None, "site_files refuses loops"
+    pred, succ, level = ends.pred, ends.succ, ends.level
     lag = np.fromiter(map(_LAG, links), np.int64, m)
     code = np.fromiter(map(_TYPE_CODE.__getitem__, map(_TYPE, links)), np.int8, m)
-    level = _levels(n, pred, succ)
 
     file_order = np.arange(m)
     fwd = np.lexsort((file_order, succ, level[succ]))  # the last key sorts first
@@ -153,10 +156,3 @@ def build_network(site: Site) -> NetworkArrays:
         cross=calendar[pred] != calendar[succ],
         by_pred=np.lexsort((pred, level[pred])),
     )
-
-
-def _levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray:
-    """Longest chain of links into each activity (:func:`fieldlog.engine.topology.levels`)."""
-    level = levels(n, pred, succ)
-    assert level is not None, "site_files refuses loops"
-    return level.astype(np.int64)

@@ -6,11 +6,50 @@ schedule.toml that must be reported with every activity in the loop, in order).
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass
+from operator import attrgetter
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:  # numpy is imported by the functions that need it (start-up, see below)
     import numpy as np
+
+    from fieldlog.site.model import Link
+
+
+@dataclass(frozen=True, eq=False)
+class LinkEnds:
+    """Each link's two ends as positions in the activity list, in file order, and the level
+    of each activity (:func:`levels`), or None when the links form a loop.
+
+    The loader's loop test works these out for every schedule it reads, and the engine's
+    network needs exactly the same arrays: :func:`link_ends` makes them once, the network is
+    built from them (:func:`fieldlog.engine.network_arrays.build_network`), and the site
+    cache stores the link ends from the network instead of looking 800,000 ids up again on
+    a 200,000-activity schedule.
+    """
+
+    pred: np.ndarray
+    succ: np.ndarray
+    level: np.ndarray | None
+
+
+def link_ends(index: Mapping[str, int], links: Sequence[Link]) -> LinkEnds:
+    """The :class:`LinkEnds` of ``links`` among the activities at ``index`` (id -> position).
+
+    Raises:
+        KeyError: a link names an id that ``index`` does not have.
+    """
+    import numpy as np
+
+    count = len(links)
+    pred = np.fromiter(map(index.__getitem__, map(_PRED, links)), np.int64, count)
+    succ = np.fromiter(map(index.__getitem__, map(_SUCC, links)), np.int64, count)
+    level = levels(len(index), pred, succ)
+    return LinkEnds(pred, succ, None if level is None else level.astype(np.int64))
+
+
+_PRED, _SUCC = attrgetter("pred"), attrgetter("succ")
 
 
 def topological_order(

@@ -20,17 +20,19 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
 from datetime import date, timedelta
 from operator import attrgetter
-from typing import NamedTuple
+from typing import TYPE_CHECKING, NamedTuple
 
 from fieldlog.engine.progress import Status
 from fieldlog.engine.readiness import OpenItem
 from fieldlog.engine.result import ScheduleResult
 from fieldlog.engine.rows import collector_paused
 from fieldlog.lookahead.classify import Cell, PatternCache, Why, Window
-from fieldlog.lookahead.crew_load import CrewLoad, CrewWork, crew_loads
-from fieldlog.lookahead.fewest_people import FewestPeople, fewest_people
-from fieldlog.lookahead.levelling import Levelling, level
+from fieldlog.lookahead.crew_load import CrewLoad, CrewWork, crew_loads, near_headcount
 from fieldlog.lookahead.reasons import ReasonWriter
+
+if TYPE_CHECKING:  # imported when some crew is over or near its headcount (start-up)
+    from fieldlog.lookahead.fewest_people import FewestPeople
+    from fieldlog.lookahead.levelling import Levelling
 
 LOOKAHEAD_DAYS = 14
 """Calendar days in the lookahead window: two weeks (common practice), the one definition."""
@@ -163,15 +165,20 @@ def build_lookahead(
     levelling = None
     over = [load.crew for load in loads if load.over_early]
     if suggest_levelling and over:
+        from fieldlog.lookahead.levelling import level
+
         levelling = level(
             result, window_days, over, {load.crew: load.early for load in loads}, rows
         )
         loads = tuple(_with_levelled(load, levelling.window_load) for load in loads)
     fewest = None
-    if suggest_fewest:
-        fewest = fewest_people(
-            result, window_days, {load.crew: max(load.early, default=0) for load in loads}, rows
-        )
+    peaks = {load.crew: max(load.early, default=0) for load in loads}
+    if suggest_fewest and any(
+        near_headcount(crew.available, peaks.get(name, 0)) for name, crew in site.crews.items()
+    ):
+        from fieldlog.lookahead.fewest_people import fewest_people
+
+        fewest = fewest_people(result, window_days, peaks, rows)
     return Lookahead(
         site=site.name,
         revision=site.revision,

@@ -88,3 +88,8 @@ def crew_loads(
         CrewLoad(c, crews[c].available, tuple(must[c]), tuple(most[c]), tuple(early[c]))
         for c in crews
     )
+
+
+def near_headcount(available: int, early_peak: int) -> bool:
+    """Over its headcount, or within a tenth of it (at least one person): worth asking."""
+    return early_peak > 0 and early_peak >= available - max(1, -(-available // 10))

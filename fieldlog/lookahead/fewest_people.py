@@ -38,6 +38,7 @@ from dataclasses import dataclass
 from datetime import date
 
 from fieldlog.engine.result import ScheduleResult
+from fieldlog.lookahead.crew_load import near_headcount
 from fieldlog.lookahead.fewest_bounds import LowerBound, lower_bound
 from fieldlog.lookahead.fewest_problem import Problem, build_problem
 from fieldlog.lookahead.fewest_repair import repair
@@ -115,11 +116,6 @@ class FewestPeople:
     """Forecast finish, which the plan keeps."""
     raised: tuple[Raised, ...] = ()
     """Crews the plan puts above their early-start peak, in settling order, then by name."""
-
-
-def near_headcount(available: int, early_peak: int) -> bool:
-    """Over its headcount, or within a tenth of it (at least one person): worth asking."""
-    return early_peak > 0 and early_peak >= available - max(1, -(-available // 10))
 
 
 def fewest_people(

@@ -11,11 +11,14 @@ rests on, then the caution that a smaller crew is a suggestion and not a safe st
 from __future__ import annotations
 
 from datetime import date
+from typing import TYPE_CHECKING
 
-from fieldlog.lookahead.fewest_bounds import LowerBound
-from fieldlog.lookahead.fewest_people import CAUTION, CrewAnswer, FewestPeople, Raised
 from fieldlog.lookahead.reasons import date_text, working_days
 from fieldlog.reports.words import people
+
+if TYPE_CHECKING:  # the search itself loads only when a lookahead has an answer to word
+    from fieldlog.lookahead.fewest_bounds import LowerBound
+    from fieldlog.lookahead.fewest_people import CrewAnswer, FewestPeople, Raised
 
 
 def title(fewest: FewestPeople) -> str:
@@ -97,6 +100,8 @@ def search_line(fewest: FewestPeople) -> str:
 
 def lines(fewest: FewestPeople, days: tuple[date, ...]) -> list[str]:
     """Every sentence of the section after the title, in print order."""
+    from fieldlog.lookahead.fewest_people import CAUTION
+
     out = [crew_line(a) for a in fewest.crews]
     out.append(moves_line(fewest))
     out += [raised_line(r) for r in fewest.raised]

@@ -23,12 +23,15 @@ import io
 import json
 from datetime import date
 from json.encoder import encode_basestring
+from typing import TYPE_CHECKING
 
 from fieldlog.engine.rows import collector_paused
 from fieldlog.lookahead.build import ActivityRow, Lookahead
 from fieldlog.lookahead.crew_load import CrewLoad
-from fieldlog.lookahead.fewest_people import CAUTION, FewestPeople
-from fieldlog.lookahead.levelling import Levelling
+
+if TYPE_CHECKING:  # the suggestions' modules load only when a lookahead has one
+    from fieldlog.lookahead.fewest_people import FewestPeople
+    from fieldlog.lookahead.levelling import Levelling
 
 CSV_COLUMNS = (
     "day",
@@ -196,6 +199,8 @@ def fewest_json(fewest: FewestPeople | None, days: tuple[date, ...]) -> dict | N
     """The fewest-people plan as JSON (None when no crew is over or near its headcount)."""
     if fewest is None:
         return None
+    from fieldlog.lookahead.fewest_people import CAUTION
+
     return {
         "method": fewest.method,
         "finish": _iso(fewest.finish),

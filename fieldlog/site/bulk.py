@@ -22,11 +22,11 @@ from datetime import date
 from itertools import repeat
 from operator import eq
 from types import MappingProxyType
-from typing import Any, cast
+from typing import Any
 
 from fieldlog import bounds
 from fieldlog.errors import OutOfBounds
-from fieldlog.site.model import Activity, CalendarSpec, Crew, Link, LinkType
+from fieldlog.site.model import Activity, CalendarSpec, Crew, Link, LinkType, from_columns
 
 ACTIVITY_KEYS = frozenset(
     {
@@ -125,7 +125,16 @@ def _activities(
     links = _after_links(rows, ids, canon) if "after" in used_keys else []
     if links is None:
         return None
-    activities = list(map(Activity, ids, names, durations, cals, snbs, fnas, crew_maps))
+    columns = {
+        "id": ids,
+        "name": names,
+        "duration": durations,
+        "calendar": cals,
+        "start_not_before": snbs,
+        "finish_not_after": fnas,
+        "crew": crew_maps,
+    }
+    activities = list(from_columns(Activity, len(ids), columns))
     return activities, links, canon
 
 
@@ -176,7 +185,14 @@ def _after_links(
         return None
     if any(map(eq, preds, succs)):
         return None  # an activity after itself
-    return list(map(Link, preds, succs))
+    count = len(preds)
+    plain = {
+        "pred": preds,
+        "succ": succs,
+        "type": repeat(LinkType.FS, count),
+        "lag": repeat(0, count),
+    }
+    return list(from_columns(Link, count, plain))
 
 
 def _canonical(ends: list[str], canon: dict[str, str]) -> list[str] | None:
@@ -219,4 +235,5 @@ def _typed_links(rows: list[Any], canon: dict[str, str]) -> list[Link] | None:
         return None
     if not -bounds.MAX_DAYS <= min(lags) <= max(lags) <= bounds.MAX_DAYS:
         return None
-    return list(map(Link, preds, succs, cast(list[LinkType], types), lags))
+    columns: dict[str, list[Any]] = {"pred": preds, "succ": succs, "type": types, "lag": lags}
+    return list(from_columns(Link, len(rows), columns))

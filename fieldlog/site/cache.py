@@ -42,9 +42,7 @@ import os
 import sys
 import warnings
 from array import array
-from collections import deque
-from collections.abc import Callable, Iterable, Mapping
-from itertools import repeat
+from collections.abc import Callable
 from operator import attrgetter
 from pathlib import Path
 from types import MappingProxyType
@@ -53,7 +51,7 @@ from typing import TYPE_CHECKING, Any
 from fieldlog import __version__
 from fieldlog.cache_files import pickled, prune, remove, replace_file, unpickle
 from fieldlog.home import HOME_ENV, fieldlog_home
-from fieldlog.site.model import Activity, Link, LinkType, Site
+from fieldlog.site.model import Activity, Link, LinkType, Site, from_columns
 
 if TYPE_CHECKING:  # the engine (and numpy) is imported only when an entry is read or built
     from fieldlog.engine.compiled import CompiledSite
@@ -216,7 +214,7 @@ def _reduce_mapping(m: MappingProxyType[Any, Any]) -> tuple[Any, ...]:
     return (frozen_mapping, (dict(m),)) if m else (frozen_mapping, ())
 
 
-def _reduce_site(site: Site) -> tuple[Any, ...]:
+def _reduce_site(site: Site, ends: tuple[array, array] | None = None) -> tuple[Any, ...]:
     """A Site as its plain fields plus its activities and links as columns.
 
     Only the declared fields: lookups derived on the value (``_by_id``) are rebuilt on demand
@@ -224,7 +222,8 @@ def _reduce_site(site: Site) -> tuple[Any, ...]:
     200,000-activity site) took seconds to read back and most of a process's memory; as
     columns they are a few lists, and :func:`site_from_columns` rebuilds the objects in C
     loops. A link's ends are stored as positions in the activity list, so on reading each id
-    string exists once, shared by its activity and all its links.
+    string exists once, shared by its activity and all its links. ``ends``: those positions
+    already known (from the compiled network, :func:`_pickle`).
     """
     plain = {
         f.name: getattr(site, f.name)
@@ -232,23 +231,43 @@ def _reduce_site(site: Site) -> tuple[Any, ...]:
         if f.name not in ("activities", "links")
     }
     acts, links = site.activities, site.links
-    ids = [a.id for a in acts]
-    position = {aid: k for k, aid in enumerate(ids)}
     columns = {name: list(map(attrgetter(name), acts)) for name in _ACTIVITY_FIELDS}
-    ends: tuple[Any, Any]
-    try:
-        ends = (
-            array("q", map(position.__getitem__, map(_PRED, links))),
-            array("q", map(position.__getitem__, map(_SUCC, links))),
-        )
-    except KeyError:  # a Site built by hand for another cache need not have been validated
-        ends = (list(map(_PRED, links)), list(map(_SUCC, links)))
+    if ends is None:
+        ends = _link_positions(columns["id"], links)
     link_columns = (
         *ends,
         bytes(map(_LINK_TYPES.index, map(_TYPE, links))),
         array("q", map(_LAG, links)),
     )
     return (site_from_columns, (plain, columns, link_columns))
+
+
+def _link_positions(ids: list[str], links: tuple[Link, ...]) -> tuple[Any, Any]:
+    """Each link's two ends as positions in ``ids`` (as ids when one is not there)."""
+    position = {aid: k for k, aid in enumerate(ids)}
+    try:
+        return (
+            array("q", map(position.__getitem__, map(_PRED, links))),
+            array("q", map(position.__getitem__, map(_SUCC, links))),
+        )
+    except KeyError:  # a Site built by hand for another cache need not have been validated
+        return (list(map(_PRED, links)), list(map(_SUCC, links)))
+
+
+def _network_positions(comp: CompiledSite) -> tuple[array, array]:
+    """The positions :func:`_link_positions` would find, from the compiled network: it holds
+    them already, in its own link order (``net.link`` is each one's place in the file)."""
+    import numpy as np
+
+    net = comp.net
+    ends = []
+    for sorted_ends in (net.pred, net.succ):
+        in_file_order = np.empty(len(net.link), dtype=np.int64)
+        in_file_order[net.link] = sorted_ends
+        positions = array("q")
+        positions.frombytes(in_file_order.astype("=i8", copy=False).tobytes())
+        ends.append(positions)
+    return ends[0], ends[1]
 
 
 def site_from_columns(
@@ -267,23 +286,9 @@ def site_from_columns(
     }
     return Site(
         **plain,
-        activities=_objects(Activity, len(ids), columns),
-        links=_objects(Link, len(lags), link_values),
+        activities=from_columns(Activity, len(ids), columns),
+        links=from_columns(Link, len(lags), link_values),
     )
-
-
-def _objects(cls: type, count: int, columns: Mapping[str, Iterable[Any]]) -> tuple[Any, ...]:
-    """``count`` instances of the frozen, slotted dataclass ``cls``, each field from its column.
-
-    The same as calling ``cls(...)`` per row, without a Python-level ``__init__`` per object:
-    the objects are made empty and each slot is filled by its descriptor, all in C loops
-    (``__init__`` of a frozen dataclass costs about a microsecond per object). Every field is
-    set: a column missing for a field is a KeyError, never a half-built object.
-    """
-    objects: tuple[Any, ...] = tuple(map(object.__new__, repeat(cls, count)))
-    for f in dataclasses.fields(cls):
-        deque(map(getattr(cls, f.name).__set__, objects, columns[f.name]), maxlen=0)
-    return objects
 
 
 _ACTIVITY_FIELDS = tuple(f.name for f in dataclasses.fields(Activity))
@@ -296,7 +301,14 @@ _DISPATCH[Site] = _reduce_site
 
 
 def _pickle(site: Site | CompiledSite) -> bytes:
-    return pickled(site, _DISPATCH)
+    if isinstance(site, Site):
+        return pickled(site, _DISPATCH)
+    compiled_site, ends = site.site, _network_positions(site)
+
+    def reduce_site(value: Site) -> tuple[Any, ...]:
+        return _reduce_site(value, ends if value is compiled_site else None)
+
+    return pickled(site, {**_DISPATCH, Site: reduce_site})
 
 
 def pickled_with_sites(value: object) -> bytes:

@@ -29,6 +29,7 @@ from fieldlog.site.toml_file import (
 
 if TYPE_CHECKING:  # the engine (numpy) is imported only when a site is compiled or unpickled
     from fieldlog.engine.compiled import CompiledSite
+    from fieldlog.engine.topology import LinkEnds
     from fieldlog.site.schema import MAX_LAG, build_site
 
 
@@ -155,12 +156,15 @@ def freeze_after_loads() -> None:
 def _compile(folder: Path, site_raw: bytes, schedule_raw: bytes) -> CompiledSite:
     from fieldlog.engine.compiled import compile_site
 
-    return compile_site(_parse_and_build(folder, site_raw, schedule_raw))
+    # The network is compiled from the link ends the loop test found (no second lookup).
+    return compile_site(*_parse_and_build(folder, site_raw, schedule_raw))
 
 
-def _parse_and_build(folder: Path, site_raw: bytes, schedule_raw: bytes) -> Site:
-    from fieldlog.site.schema import build_site
+def _parse_and_build(folder: Path, site_raw: bytes, schedule_raw: bytes) -> tuple[Site, LinkEnds]:
+    """The Site the two files' bytes describe, parsed and validated (no cache), and its
+    links' ends."""
+    from fieldlog.site.schema import build_site_and_ends
 
-    return build_site(
+    return build_site_and_ends(
         parse_toml(folder / SITE_FILE, site_raw), parse_toml(folder / SCHEDULE_FILE, schedule_raw)
     )

@@ -12,12 +12,11 @@ import re
 from collections.abc import Callable
 from datetime import date, datetime
 from functools import partial
-from operator import attrgetter
 from types import MappingProxyType
 from typing import Any, Literal, overload
 
 from fieldlog import bounds
-from fieldlog.engine.topology import levels, topological_order
+from fieldlog.engine.topology import LinkEnds, link_ends, topological_order
 from fieldlog.errors import DependencyLoopError, OutOfBounds
 from fieldlog.site.bulk import (
     ACTIVITY_KEYS,
@@ -58,6 +57,12 @@ _NO_CREW = NO_CREW
 
 def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
     """Validate two parsed files and build the :class:`Site`."""
+    return build_site_and_ends(site_file, schedule_file)[0]
+
+
+def build_site_and_ends(site_file: TomlFile, schedule_file: TomlFile) -> tuple[Site, LinkEnds]:
+    """Validate two parsed files and build the :class:`Site`, with its links' ends as the
+    loop test found them (the loader compiles the site's network from them)."""
     head = _table(site_file, site_file.data, "site", required=True)
     _no_unknown(site_file, site_file.data, {"site", "calendars", "crews"}, "top level")
     _no_unknown(site_file, head, _SITE_KEYS, "[site]")
@@ -103,12 +108,13 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
             line=site_file.line_of(r"^\s*finish_by\s*="),
             fix="correct one of the two dates",
         )
-    if _has_loop(activities, links):
+    ends = link_ends({a.id: k for k, a in enumerate(activities)}, links)
+    if ends.level is None:
         ids = [a.id for a in activities]
         _, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in links))
         assert cycle, "levels() and topological_order() disagree on a loop"
         raise DependencyLoopError(cycle, file=schedule_file.path)
-    return Site(
+    site = Site(
         name=name,
         start=start,
         calendar=default_cal,
@@ -121,20 +127,7 @@ def build_site(site_file: TomlFile, schedule_file: TomlFile) -> Site:
         progress_override=override,
         lag_calendar=lag_calendar,
     )
-
-
-def _has_loop(activities: list[Activity], links: list[Link]) -> bool:
-    """Whether ``links`` form a loop: the fast array test; the loop is named by the caller."""
-    import numpy as np
-
-    index = {a.id: k for k, a in enumerate(activities)}
-    count = len(links)
-    pred = np.fromiter(map(index.__getitem__, map(_PRED, links)), np.int32, count)
-    succ = np.fromiter(map(index.__getitem__, map(_SUCC, links)), np.int32, count)
-    return levels(len(activities), pred, succ) is None
-
-
-_PRED, _SUCC = attrgetter("pred"), attrgetter("succ")
+    return site, ends
 
 
 # --- pieces ----------------------------------------------------------------------------------
