@@ -32,6 +32,7 @@ adds where (file, line, activity, entry) and turns it into its own error or find
 
 from __future__ import annotations
 
+import re
 from datetime import date, datetime
 
 from fieldlog.errors import OutOfBounds
@@ -157,6 +158,38 @@ def check_text(value: str, what: str) -> str:
         raise OutOfBounds(
             f"{what} is {len(value):,} characters, more than {MAX_TEXT:,}", fix="shorten it"
         )
+    return value
+
+
+HIDDEN_CHARS = re.compile("[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
+"""Characters a reader never sees as themselves: control characters (C0, DEL, C1; an escape
+sequence in a name clears or retitles the terminal the schedule is printed on, a tab or a
+line break breaks its columns) and the bidirectional overrides and isolates (U+202A-U+202E,
+U+2066-U+2069), which show text in another order than it is stored (common practice in
+source and text review: the "Trojan Source" characters)."""
+
+RECORD_HIDDEN = re.compile("[\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
+"""What a new journal entry's text may not hold beyond what the reader refuses (C0 controls
+other than a line break and a tab): DEL, C1 controls, bidirectional overrides. Checked when
+an entry is recorded only, so an entry an older fieldlog wrote stays readable."""
+
+
+def check_line(value: str, what: str, hidden: re.Pattern[str] = HIDDEN_CHARS) -> str:
+    """One line of text a person reads (a name): :func:`check_text`'s length and none of
+    ``hidden`` (default :data:`HIDDEN_CHARS`).
+
+    Raises:
+        OutOfBounds: too long, or it holds a hidden character (named by its code point).
+    """
+    check_text(value, what)
+    if not value.isprintable():  # nearly every name is: one C-level scan, no regex
+        found = hidden.search(value)
+        if found is not None:
+            raise OutOfBounds(
+                f"{what} holds the hidden character U+{ord(found[0]):04X} at position "
+                f"{found.start() + 1}",
+                fix="retype the text without control characters or direction overrides",
+            )
     return value
 
 

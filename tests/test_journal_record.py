@@ -14,6 +14,7 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from fieldlog.bounds import RECORD_HIDDEN
 from fieldlog.cli import main
 from fieldlog.errors import EntryRefused
 from fieldlog.journal import KINDS, device_id, read_journal, record_entry, verify
@@ -507,8 +508,10 @@ def test_cli_in_a_real_process(folder, tmp_path):
 )
 def test_any_note_text_reads_back_exactly(folder, text):
     """Whatever a foreman types (quotes, backslashes, accents, emoji) survives the TOML
-    round trip and keeps the chain intact."""
-    if any(ord(c) < 32 and c not in "\n\t" for c in text.strip()):
+    round trip and keeps the chain intact; control characters and direction overrides are
+    refused (tests/test_hidden_characters.py)."""
+    clean = text.strip()
+    if any(ord(c) < 32 and c not in "\n\t" for c in clean) or RECORD_HIDDEN.search(clean):
         with pytest.raises(EntryRefused):
             rec(folder, "note", d(8), text=text)
         return

@@ -404,3 +404,26 @@ def test_link_ends_from_the_network_equal_a_fresh_lookup(network):
     back = pickle.loads(site_cache._pickle(comp))
     assert back.site == site
     assert [lk.pred for lk in back.site.links] == [lk.pred for lk in site.links]
+
+
+def test_every_module_that_decides_what_a_site_holds_is_in_the_cache_key():
+    """Found: bounds.py was not in the key, so a limit tightened later (a name holding a
+    terminal escape) would still be served from a site cached before. Every fieldlog module
+    the site readers import is in the key, except those that only word errors or handle the
+    cache files themselves (checked by reading the imports with ast, a reference parser)."""
+    import ast
+
+    root = Path(site_cache.__file__).resolve().parents[1]
+    readers = ["site/schema.py", "site/bulk.py", "site/files.py", "site/toml_file.py"]
+    wording_or_files = {"errors.py", "cache_files.py", "home.py", "__init__.py"}
+    needed = set()
+    for name in readers:
+        for node in ast.walk(ast.parse((root / name).read_text(encoding="utf-8"))):
+            if isinstance(node, ast.ImportFrom) and (node.module or "").startswith("fieldlog"):
+                parts = node.module.split(".")[1:]
+                if not parts:  # from fieldlog import bounds
+                    parts = [node.names[0].name]
+                path = "/".join(parts) + ".py"
+                if (root / path).is_file() and path not in wording_or_files:
+                    needed.add(path)
+    assert needed <= set(site_cache._SHAPING_MODULES), needed - set(site_cache._SHAPING_MODULES)

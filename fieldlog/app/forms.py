@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 from datetime import date
 from typing import Any
 
-from fieldlog.bounds import check_date, check_text
+from fieldlog.bounds import RECORD_HIDDEN, check_date, check_line
 from fieldlog.day_words import DayProblem, parse_day
 from fieldlog.errors import OutOfBounds
 from fieldlog.journal.fields import FieldProblem, FieldSpec, coerce
@@ -127,7 +127,7 @@ def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
             raise ValueError(f"{f.label} is needed")
         return None
     if f.kind in (TEXT, LINES):
-        return _bounded(check_text, text, f.label)
+        return _bounded(_recordable_text, text, f.label)
     if f.kind == CHOICE:
         if text not in f.choices:
             raise ValueError(f"choose one of: {', '.join(f.choices)}")
@@ -146,6 +146,12 @@ def read_field(f: Field, raw: Any, days: DayContext | None = None) -> Any:
         return coerce(f.journal_spec(), text)
     except FieldProblem as exc:
         raise ValueError(f"{f.label}: {_after_name(f, str(exc))}") from None
+
+
+def _recordable_text(text: str, label: str) -> str:
+    """What the journal takes as new text: its length, and no DEL, C1 control or direction
+    override (pasted text can hold them), said under the field rather than after Record."""
+    return check_line(text, label, RECORD_HIDDEN)
 
 
 def _after_name(f: Field, message: str) -> str:

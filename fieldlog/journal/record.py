@@ -36,7 +36,7 @@ if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys ar
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
 from fieldlog.journal.registry import DeviceRecord, register
-from fieldlog.journal.rules import check_day, check_entry, refuse
+from fieldlog.journal.rules import check_day, check_entry, check_hidden, refuse
 from fieldlog.journal.signing import sign
 from fieldlog.journal.store import (
     atomic_write,
@@ -245,6 +245,7 @@ def _correction(
             "--withdraw if the entry was recorded in error",
         )
     clean = _shape("correction", {**fields, "corrects": base.kind})
+    check_hidden("correction", clean)
     if not withdraw:
         merged = {**base.fields, **{k: v for k, v in clean.items() if k not in CORRECTION_OWN}}
         rest = [e for e in journal.entries if e.id not in chain]

@@ -13,7 +13,7 @@ from collections.abc import Mapping
 from datetime import date
 from typing import TYPE_CHECKING, Any
 
-from fieldlog.bounds import check_date
+from fieldlog.bounds import RECORD_HIDDEN, check_date, check_line
 from fieldlog.day_words import earliest_day, long_day
 from fieldlog.errors import EntryRefused, OutOfBounds
 from fieldlog.journal.context import ActivityEntries, EntryContext
@@ -69,6 +69,7 @@ def check_entry(
     Raises:
         EntryRefused: with the fix.
     """
+    check_hidden(kind, fields)
     for aid in _activities(fields):
         if not site.has_activity(aid):
             import difflib  # only to name close ids in a refusal
@@ -144,6 +145,20 @@ def _plausible_temperatures(fields: Mapping[str, Any]) -> None:
                 fix=f"check the {name} temperature; if it is in {other}, give the unit "
                 f"{other} (--unit {other})",
             )
+
+
+def check_hidden(kind: str, fields: Mapping[str, Any]) -> None:
+    """Refuse text holding DEL, a C1 control or a direction override (the reader refuses the
+    other control characters already): it would show on a screen or a printed report as
+    something else than what is stored. Checked when an entry is recorded only."""
+    for name, value in fields.items():
+        texts = value if isinstance(value, list | tuple) else (value,)
+        for text in texts:
+            if isinstance(text, str):
+                try:
+                    check_line(text, name, RECORD_HIDDEN)
+                except OutOfBounds as exc:
+                    raise refuse(f"{kind}: {exc.problem}", fix=exc.fix) from None
 
 
 def _activities(fields: Mapping[str, Any]) -> list[str]:

@@ -83,6 +83,16 @@ def bulk_schedule(
     return activities, links
 
 
+def _case_twins(ids: list[str]) -> bool:
+    """True when two of the (distinct) ids differ only in case. Ids with no lower-case letter
+    at all (or no upper-case one) cannot: one joined string shows it in a few milliseconds
+    on 200,000 ids, where a set of lowered ids takes ten times as long."""
+    joined = "\n".join(ids)
+    if joined.upper() == joined or joined.lower() == joined:
+        return False
+    return len(set(joined.lower().split("\n"))) != len(ids)
+
+
 def _activities(
     rows: list[Any],
     calendars: Mapping[str, CalendarSpec],
@@ -99,14 +109,14 @@ def _activities(
     if set(map(type, ids)) - {str} or not all(map(ID_PATTERN.match, ids)):
         return None
     canon = dict(zip(ids, ids, strict=True))
-    if len(canon) != len(ids):
-        return None  # a duplicate id
+    if len(canon) != len(ids) or _case_twins(ids):
+        return None  # a duplicate id, or two that differ only in case
     names = [row.get("name") for row in rows]
     if set(map(type, names)) - {str} or max(map(len, names), default=0) > bounds.MAX_TEXT:
         return None
     names = [name.strip() for name in names]
-    if not all(names):
-        return None  # a blank name
+    if not all(names) or not all(map(str.isprintable, names)):
+        return None  # a blank name, or one with a character to look at closely
     durations = [row.get("duration") for row in rows]
     if set(map(type, durations)) - {int}:  # bool is not int here: type(True) is bool
         return None

@@ -77,8 +77,13 @@ _SHAPING_MODULES = (
     "engine/compiled.py",
     "engine/network_arrays.py",
     "engine/topology.py",
+    "bounds.py",
+    "guarded_read.py",
+    "fast_toml.py",
 )
-"""Source files (under fieldlog/) whose code decides what a cached entry holds."""
+"""Source files (under fieldlog/) whose code decides what a cached entry holds. The limits
+(``bounds.py``) and the readers decide what a site may hold at all: a site cached before a
+limit was tightened must not be served after (a name with a terminal escape once was)."""
 
 
 class SiteCacheWarning(UserWarning):

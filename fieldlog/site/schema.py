@@ -139,7 +139,7 @@ def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
         raise f.error("no calendars defined", fix="add [calendars.weekdays] with workdays = [...]")
     out: dict[str, CalendarSpec] = {}
     for cname, body in tables.items():
-        _bounded(f, bounds.check_text, cname, "a calendar name", line=None)
+        _bounded(f, bounds.check_line, cname, "a calendar name", line=None)
         where = f"[calendars.{cname}]"
         if not isinstance(body, dict):
             raise f.error(f"{where} must be a table", line=f.line_of(rf"\b{re.escape(cname)}\b"))
@@ -179,7 +179,7 @@ def _calendars(f: TomlFile, start: date) -> dict[str, CalendarSpec]:
 def _crews(f: TomlFile) -> dict[str, Crew]:
     out: dict[str, Crew] = {}
     for cname, body in _table(f, f.data, "crews").items():
-        _bounded(f, bounds.check_text, cname, "a crew name", line=None)
+        _bounded(f, bounds.check_line, cname, "a crew name", line=None)
         where = f"[crews.{cname}]"
         if not isinstance(body, dict):
             raise f.error(f"{where} must be a table")
@@ -222,6 +222,7 @@ def _schedule(
     activities: list[Activity] = []
     links: list[Link] = []
     seen: dict[str, int] = {}
+    folded: dict[str, str] = {}  # by lower case: ids differing only in case are one to a person
     for row in rows:
         if not isinstance(row, dict):
             raise f.error("activities must be [[activity]] tables")
@@ -242,6 +243,16 @@ def _schedule(
                 activity=aid,
                 fix="give every activity its own id",
             )
+        first = folded.setdefault(aid.lower(), aid)
+        if first != aid:
+            raise f.error(
+                f"activity id '{aid}' differs only in case from '{first}' "
+                f"(line {f.line_of_id(first, 0)})",
+                line=line,
+                activity=aid,
+                fix="give every activity an id of its own: a foreman typing 'record started "
+                f"{aid.lower()}' must not have to guess which one is meant",
+            )
         if not row.keys() <= _ACTIVITY_KEYS:
             _no_unknown(f, row, _ACTIVITY_KEYS, f"activity '{aid}'", line=line, activity=aid)
         name = row.get("name")
@@ -252,8 +263,9 @@ def _schedule(
                 activity=aid,
                 fix='add name = "what the crew does"',
             )
-        if len(name) > bounds.MAX_TEXT:
-            _bounded(f, bounds.check_text, name, f"activity '{aid}' name", line=line, activity=aid)
+        if len(name) > bounds.MAX_TEXT or not name.isprintable():
+            what = f"activity '{aid}' name"
+            _bounded(f, bounds.check_line, name.strip(), what, line=line, activity=aid)
         duration = row.get("duration")
         if not isinstance(duration, int) or isinstance(duration, bool):
             raise f.error(
@@ -460,7 +472,7 @@ def _string(f: TomlFile, table: dict[str, Any], key: str, where: str) -> str:
     line = partial(f.line_of, rf"^\s*{key}\s*=")
     if not isinstance(value, str) or not value.strip():
         raise f.error(f"{where} needs {key} (text)", line=line)
-    return _bounded(f, bounds.check_text, value.strip(), f"{where} {key}", line=line)
+    return _bounded(f, bounds.check_line, value.strip(), f"{where} {key}", line=line)
 
 
 def _bounded(
