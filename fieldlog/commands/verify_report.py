@@ -6,6 +6,7 @@ line by line too, so that :mod:`fieldlog.commands.verify_cache` can keep it.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import replace
 from datetime import date
 from pathlib import Path
@@ -62,7 +63,8 @@ def make_report(site_arg: str, office: str | None) -> Report:
         say("Sync conflicts (two versions of one journal file are kept side by side):")
         for c in conflicts:
             say(f"  {c.describe()}")
-    receipt_lines = receipts_check(Path(site_arg), journal, office).lines()
+    receipts = receipts_check(Path(site_arg), journal, office)
+    receipt_lines = receipts.lines()
     if receipt_lines:
         say("Against the office receipts (what both sides held at a sync):")
         for line in receipt_lines:
@@ -95,12 +97,26 @@ def make_report(site_arg: str, office: str | None) -> Report:
             f"{journal.signed} signed, {journal.unsigned} unsigned, chains unbroken, "
             "no contradictions"
         )
+        _unvouched(receipts, n_entries, say)
         return Report(tuple(out), 0)
     say(
         f"log intact: {len(journal.files)} file(s), {n_entries} entries, every one signed "
         "by its device's registered key, chains unbroken, no contradictions"
     )
+    _unvouched(receipts, n_entries, say)
     return Report(tuple(out), 0)
+
+
+def _unvouched(receipts: Audit, n_entries: int, say: Callable[[str], None]) -> None:
+    """Say so when no receipt vouches for the log's end. Found: a deleted newest day file
+    (or entries cut from the end of one) left a log that read "intact" with no word more; a
+    hash chain cannot show it, only a receipt of what the office held can."""
+    if receipts.receipts == 0 and n_entries:
+        say(
+            "not yet vouched for: this site has no office receipt, so entries removed from "
+            "the end of a device's log (a deleted newest day file) cannot be seen until "
+            "the first 'fieldlog sync'"
+        )
 
 
 def receipts_check(site: Path, journal: Journal, office: str | None) -> Audit:

@@ -52,6 +52,9 @@ class Audit:
     problems: tuple[str, ...]
     unknown: tuple[str, ...] = ()
     """Key files of devices the office does not know."""
+    receipts: int = 0
+    """How many receipts the log was checked against (0: the site never synced, so nothing
+    vouches for entries that could have been removed from the end of a device's log)."""
 
     def lines(self) -> list[str]:
         """Every finding as one line, receipts problems first."""
@@ -99,7 +102,8 @@ def audit(held: Held, receipts: Iterable[Receipts]) -> Audit:
     """Check what a log holds against every receipt in ``receipts``."""
     groups = list(receipts)
     files = [f for g in groups for f in g.of()]
-    return Audit(shortfalls(held, files), tuple(p for g in groups for p in g.problems))
+    problems = tuple(p for g in groups for p in g.problems)
+    return Audit(shortfalls(held, files), problems, receipts=sum(len(f.receipts) for f in files))
 
 
 def known_devices(files: Iterable[ReceiptsFile]) -> set[str] | None:
