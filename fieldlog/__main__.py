@@ -1,7 +1,5 @@
 """``python -m fieldlog``: the same as the ``fieldlog`` command."""
 
-import sys
+from fieldlog.cli import entry
 
-from fieldlog.cli import main
-
-sys.exit(main())
+entry()

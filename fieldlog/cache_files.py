@@ -16,11 +16,12 @@ import hmac
 import io
 import os
 import pickle
-import tempfile
 import time
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any
+
+from fieldlog.durable import make_temp
 
 TEMP_SUFFIX = ".tmp"
 SECRET_NAME = "journal-cache.secret"
@@ -114,7 +115,7 @@ def replace_file(path: Path, data: bytes, prefix: str) -> None:
     """
     folder = path.parent
     folder.mkdir(parents=True, exist_ok=True)
-    fd, name = tempfile.mkstemp(prefix=f".{prefix}", suffix=TEMP_SUFFIX, dir=folder)
+    fd, name = make_temp(folder, f".{prefix}", TEMP_SUFFIX)
     temp: Path | None = Path(name)
     try:
         with os.fdopen(fd, "wb") as out:

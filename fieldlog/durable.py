@@ -106,6 +106,37 @@ def make_folder(folder: Path) -> None:
     fsync_folder(folder.parent)
 
 
+_TEMP_FLAGS = os.O_RDWR | os.O_CREAT | os.O_EXCL | NOFOLLOW | getattr(os, "O_BINARY", 0)
+_TEMP_TRIES = 100
+
+
+def make_temp(folder: Path, prefix: str, suffix: str) -> tuple[int, str]:
+    """A new, empty file in ``folder`` named ``prefix`` + 12 random hex digits + ``suffix``,
+    open for writing and readable by the user only; its descriptor and path.
+
+    What ``tempfile.mkstemp`` does (created with ``O_EXCL``, never through a link, another
+    name tried when one is taken), without importing ``tempfile``: that module brings
+    ``random``, ``shutil``, ``bz2`` and ``lzma`` with it, about 3 ms of every command's start.
+    The name comes from the OS's random source, as ``secrets`` uses.
+
+    Raises:
+        OSError: the folder cannot be written (or every name tried was taken).
+    """
+    for _ in range(_TEMP_TRIES):
+        path = os.path.join(folder, f"{prefix}{os.urandom(6).hex()}{suffix}")
+        try:
+            return os.open(path, _TEMP_FLAGS, 0o600), path
+        except FileExistsError:
+            continue
+        except PermissionError:
+            # Windows says "access denied" for a name a folder or a file being deleted has
+            # (tempfile tries the next name then too); anywhere else it is the real answer.
+            if sys.platform == "win32" and os.path.isdir(folder) and os.access(folder, os.W_OK):
+                continue
+            raise
+    raise FileExistsError(errno.EEXIST, "no free temporary file name", str(folder))
+
+
 def share_like_new_file(fd: int) -> None:
     """Give a temp file the permissions a newly created file gets (mkstemp makes it private),
     so a log on a shared folder stays readable by the office; file systems without Unix

@@ -54,3 +54,34 @@ def test_a_rename_held_open_for_good_gives_up(tmp_path, monkeypatch):
     with pytest.raises(PermissionError):
         durable.replace_with_retry(tmp_path / "a", tmp_path / "b")
     assert len(calls) == durable.REPLACE_TRIES
+
+
+def test_make_temp_makes_a_new_private_file_as_mkstemp_does(tmp_path: Path):
+    fd, path = durable.make_temp(tmp_path, ".~day.toml", ".tmp")
+    try:
+        os.write(fd, b"entry")
+    finally:
+        os.close(fd)
+    name = Path(path).name
+    assert Path(path).parent == tmp_path
+    assert name.startswith(".~day.toml") and name.endswith(".tmp") and len(name) == 26
+    assert Path(path).read_bytes() == b"entry"
+    if os.name == "posix":
+        assert os.stat(path).st_mode & 0o777 == 0o600  # as tempfile.mkstemp (its docs)
+
+
+def test_make_temp_takes_another_name_when_one_is_taken_even_by_a_link(tmp_path, monkeypatch):
+    draws = iter([b"\x00" * 6, b"\x00" * 6, b"\x01" * 6])
+    monkeypatch.setattr(os, "urandom", lambda n: next(draws))
+    taken = tmp_path / ".x000000000000.tmp"
+    target = tmp_path / "elsewhere"
+    taken.symlink_to(target)  # a planted link (dangling): never opened, never followed
+    fd, path = durable.make_temp(tmp_path, ".x", ".tmp")
+    os.close(fd)
+    assert Path(path).name == ".x010101010101.tmp"
+    assert not target.exists() and taken.is_symlink()
+
+
+def test_make_temp_in_a_missing_folder_raises(tmp_path):
+    with pytest.raises(FileNotFoundError):
+        durable.make_temp(tmp_path / "gone", ".x", ".tmp")

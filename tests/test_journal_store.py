@@ -3,7 +3,8 @@ locked file is retried, and two fieldlog processes writing at once both land.
 
 We run as root in CI, where chmod cannot make a folder read-only, so the failures are made by
 monkeypatching the system calls the writer uses (``os.write``, ``os.fsync``, ``os.replace``,
-``tempfile.mkstemp``); a real read-only folder is tried too when not running as root.
+the temp file's creation ``store.make_temp``); a real read-only folder is tried too when not
+running as root.
 """
 
 from __future__ import annotations
@@ -12,7 +13,6 @@ import errno
 import os
 import subprocess
 import sys
-import tempfile
 import time
 from datetime import date
 
@@ -65,7 +65,7 @@ def test_failed_write_leaves_the_log_as_it_was(site, monkeypatch, call, code, wo
 
 def test_read_only_folder_by_refused_temp_file(site, monkeypatch):
     before = log_bytes(site)
-    monkeypatch.setattr(tempfile, "mkstemp", _fail(errno.EROFS))
+    monkeypatch.setattr(store, "make_temp", _fail(errno.EROFS))
     with pytest.raises(JournalError, match="read-only disk"):
         rec(site, "note", date(2026, 9, 9), text="after")
     monkeypatch.undo()

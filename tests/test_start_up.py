@@ -118,6 +118,54 @@ def test_replay_and_verify_stay_functions_whichever_is_imported_first() -> None:
     subprocess.run([sys.executable, "-c", lazy], check=True)
 
 
+STDLIB_NOT_NEEDED = ("tempfile", "shutil", "random", "bz2", "lzma")
+"""Brought by ``tempfile`` (and by argparse's help width): no one-shot command needs them."""
+
+
+def test_schedule_and_record_import_no_tempfile_or_shutil(sample_site, tmp_path):
+    home = tmp_path / "home"
+    assert imported(sample_site, home, STDLIB_NOT_NEEDED) == set()
+    args = ["record", str(sample_site), "note", "set-out checked", "--author", "Test Foreman"]
+
+    def run() -> set[str]:
+        watch = ",".join(STDLIB_NOT_NEEDED)
+        return probe_imports([_RECORD_PROBE, str(sample_site), watch, *args], home)
+
+    run()  # the device's first entry makes its key (cryptography's key export imports random)
+    assert run() == set()  # the full way (the key file registered meanwhile)
+    assert run() == set()  # with the kept record
+
+
+def test_help_is_laid_out_as_argparse_would_at_any_width(monkeypatch):
+    # The parser finds the width itself (cli._columns), not through shutil; the layout must
+    # be argparse's own: compared with argparse.HelpFormatter, which asks shutil.
+    import argparse
+
+    from fieldlog import cli
+
+    for columns in ("", "40", "100", "junk", "-3"):
+        if columns:
+            monkeypatch.setenv("COLUMNS", columns)
+        else:
+            monkeypatch.delenv("COLUMNS", raising=False)
+        for words in ([], ["record"], ["schedule"]):
+            ours = cli.build_parser(words[0] if words else None, words)
+            sub = ours._subparsers._group_actions[0].choices if words else {}  # type: ignore[union-attr]
+            for parser in (ours, *sub.values()):
+                plain = argparse.HelpFormatter(prog=parser.prog)
+                assert parser._get_formatter()._width == plain._width, (columns, parser.prog)
+                assert parser.format_help() == _with(parser, argparse.HelpFormatter).format_help()
+
+
+def _with(parser, formatter_class):
+    """``parser`` laid out by another formatter class (same actions, same text)."""
+    import copy
+
+    other = copy.copy(parser)
+    other.formatter_class = formatter_class
+    return other
+
+
 _LOOKAHEAD_PROBE = _PROBE.replace(
     'main(["schedule", sys.argv[1]])', 'main(["lookahead", sys.argv[1]])'
 )

@@ -22,7 +22,6 @@ import contextlib
 import errno
 import os
 import sys
-import tempfile
 import time
 from collections.abc import Iterator
 from pathlib import Path
@@ -31,6 +30,7 @@ from fieldlog.durable import (
     NOFOLLOW,
     flush_to_disk,
     fsync_folder,
+    make_temp,
     refuse_links,
     replace_with_retry,
     share_like_new_file,
@@ -155,7 +155,7 @@ def atomic_write(path: Path, data: bytes) -> None:
     folder = path.parent
     try:
         refuse_links(folder, path)
-        fd, tmp = tempfile.mkstemp(prefix=temp_prefix(path.name), suffix=TEMP_SUFFIX, dir=folder)
+        fd, tmp = make_temp(folder, temp_prefix(path.name), TEMP_SUFFIX)
     except OSError as exc:
         raise write_error(path, exc) from exc
     try:
