@@ -23,12 +23,15 @@ from types import MappingProxyType
 import networkx as nx
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from fieldlog.engine import reach, thin_levels
 from fieldlog.engine.calendar_tables import calendar_tables
 from fieldlog.engine.calendars import HorizonExceeded, build_calendars
 from fieldlog.engine.compiled import compile_site
 from fieldlog.engine.cpm import _initial_range, compute_schedule, schedule_on_calendars
+from fieldlog.engine.horizon import widened
 from fieldlog.engine.progress import Progress
 from fieldlog.site.model import Activity, CalendarSpec, Link, LinkType, Site
 from tests.test_cpm_differential import assert_same, both, random_case
@@ -191,3 +194,129 @@ def test_the_long_path_is_found_once_and_follows_links() -> None:
         net.calendar_names,
     )
     assert tables.origin == site.start.toordinal()
+
+
+def _runs_one_level_at_a_time(
+    link_bounds: list[int], thin: int, min_levels: int
+) -> list[tuple[int, int, bool]]:
+    """The grouping of :func:`thin_levels.runs` written out level by level (the reference)."""
+    out: list[tuple[int, int, bool]] = []
+    for g in range(len(link_bounds) - 1):
+        is_thin = link_bounds[g + 1] - link_bounds[g] <= thin
+        if out and out[-1][2] == is_thin:
+            out[-1] = (out[-1][0], g + 1, is_thin)
+        else:
+            out.append((g, g + 1, is_thin))
+    merged: list[tuple[int, int, bool]] = []
+    for g0, g1, is_thin in out:
+        is_thin = is_thin and g1 - g0 >= min_levels
+        if merged and merged[-1][2] == is_thin:
+            merged[-1] = (merged[-1][0], g1, is_thin)
+        else:
+            merged.append((g0, g1, is_thin))
+    return merged
+
+
+@settings(max_examples=300, deadline=None)
+@given(
+    sizes=st.lists(st.integers(0, 40), max_size=200),
+    thin=st.integers(-1, 40),
+    min_levels=st.integers(1, 20),
+)
+def test_the_runs_group_levels_as_one_at_a_time(sizes: list[int], thin: int, min_levels: int):
+    bounds = [0, *np.cumsum(sizes, dtype=np.int64).tolist()]
+    assert thin_levels.runs(bounds, thin, min_levels) == _runs_one_level_at_a_time(
+        bounds, thin, min_levels
+    )
+
+
+def _unchecked_pass_fails(
+    site: Site,
+    status: date,
+    progress: dict,
+    lost: dict,
+    holds: dict,
+    lo: date,
+    hi: date,
+    monkeypatch: pytest.MonkeyPatch,
+) -> bool:
+    calendars = build_calendars(site.calendars, lo, hi, lost)
+    with monkeypatch.context() as m:
+        m.setattr("fieldlog.engine.passes.check_reach", lambda *a: None)
+        try:
+            schedule_on_calendars(compile_site(site), status, progress, holds, calendars)
+        except HorizonExceeded:
+            return True
+    return False
+
+
+@pytest.mark.parametrize("seed", range(0, 60, 3))
+def test_an_early_stop_at_every_widening_is_a_pass_that_fails(seed: int, monkeypatch) -> None:
+    """Each range the engine tries on its way out (the first, then each widening): where the
+    early check refuses it, the passes without the check fail on it too."""
+    site, status, progress, lost, holds = deep_case(seed)
+    comp = compile_site(site)
+    lo, hi = _initial_range(comp, status, progress, holds)
+    for _ in range(8):
+        calendars = build_calendars(site.calendars, lo, hi, lost)
+        try:
+            schedule_on_calendars(comp, status, progress, holds, calendars)
+            return
+        except HorizonExceeded as exc:
+            if "long path" in str(exc):
+                assert _unchecked_pass_fails(
+                    site, status, progress, lost, holds, lo, hi, monkeypatch
+                )
+        lo, hi = widened(site.start, lo, hi)
+
+
+def _chain_of_one_day_steps(n: int, calendars: tuple[str, ...]) -> Site:
+    """``n`` one-day activities in one FS chain, taking the calendars in turn."""
+    site, *_ = random_case(1)
+    week = CalendarSpec("weekdays", frozenset(range(5)), frozenset())
+    allweek = CalendarSpec("every day", frozenset(range(7)), frozenset())
+    specs = {c.name: c for c in (week, allweek) if c.name in calendars}
+    ids = [f"C{k:05d}" for k in range(n)]
+    acts = tuple(Activity(aid, aid, 1, calendars[k % len(calendars)]) for k, aid in enumerate(ids))
+    links = tuple(Link(a, b, LinkType.FS, 0) for a, b in zip(ids, ids[1:], strict=False))
+    return replace(
+        site,
+        start=date(2027, 3, 1),  # a Monday
+        calendars=MappingProxyType(specs),
+        calendar=calendars[0],
+        activities=acts,
+        links=links,
+        finish_by=None,
+    )
+
+
+@pytest.mark.parametrize("calendars", [("weekdays",), ("weekdays", "every day")])
+def test_a_long_chain_of_one_day_steps_runs_one_forward_pass(calendars, monkeypatch) -> None:
+    """A chain of 4,000 one-day steps (about 15 years of weekdays) runs past the first
+    calendar ranges; each too-short range is refused before a pass runs (on one calendar
+    the working days add up exactly, across calendars each step is at least a day), so the
+    passes run once. The finish is the 4,000th weekday from the start, as numpy's busday
+    functions count it (all steps on weekdays), or at most that (every other step may run on
+    a weekend day)."""
+    from fieldlog.engine import passes
+
+    site = _chain_of_one_day_steps(4000, calendars)
+    failed: list[str] = []
+    forward = passes.forward
+
+    def counting(*args, **kwargs):
+        try:
+            return forward(*args, **kwargs)
+        except HorizonExceeded as exc:
+            failed.append(str(exc))
+            raise
+
+    monkeypatch.setattr(passes, "forward", counting)
+    monkeypatch.setattr("fieldlog.engine.cpm.forward", counting)
+    result = compute_schedule(site, site.start - timedelta(days=1))
+    assert failed and all("long path" in why for why in failed)
+    last_weekday = np.busday_offset(np.datetime64(site.start), 3999, roll="forward")
+    if calendars == ("weekdays",):
+        assert np.datetime64(result.finish) == last_weekday
+    else:
+        assert np.datetime64(result.finish) <= last_weekday

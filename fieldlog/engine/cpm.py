@@ -233,7 +233,7 @@ def _run(
     total_float = late_finish - early.finish
     threshold = critical_threshold(total_float[is_open].tolist())
     critical = is_open & (total_float <= threshold)
-    path = _driving_path(site, net, fin, last, finish_ord, total_float, early.driver)
+    path = _driving_path(net, fin, last, finish_ord, total_float, early.driver)
     if is_open.any() and late_start[is_open].min() < 1:
         raise HorizonExceeded("late dates")  # negative float reaching before the range
 
@@ -423,7 +423,6 @@ def _out_of_sequence(
 
 
 def _driving_path(
-    site: Site,
     net: NetworkArrays,
     finished: np.ndarray,
     last: np.ndarray,
@@ -443,14 +442,19 @@ def _driving_path(
         return []
     least = ends[total_float[ends] == total_float[ends].min()]
     k = int(least[np.argmax(net.rank[least])] if least.size > 1 else least[0])
-    path, seen = [net.ids[k]], {k}
-    while driver[k] >= 0:
-        k = net.index[site.links[driver[k]].pred]
+    # Plain lists for the walk (a long chain is walked link by link): the predecessor of each
+    # link in site.links order, the driving link and the finished flag of each activity.
+    pred_of = np.empty_like(net.pred)
+    pred_of[net.link] = net.pred
+    preds, drivers, done = pred_of.tolist(), driver.tolist(), finished.tolist()
+    walk, seen = [k], {k}
+    while drivers[k] >= 0:
+        k = preds[drivers[k]]
         if k in seen:
             break
-        path.append(net.ids[k])
+        walk.append(k)
         seen.add(k)
-        if finished[k]:
+        if done[k]:
             break
-    path.reverse()
-    return path
+    ids = net.ids
+    return [ids[k] for k in reversed(walk)]

@@ -232,8 +232,9 @@ def forward(
     inputs = ForwardInputs(
         _links(lv, source, add, t_dur, x_from, x_to, x_add), shift, t_floor, x_source
     )
-    bounds = lv.bounds()
-    for thin, levels in lv.runs():
+    runs = lv.runs()
+    bounds = lv.bounds() if any(thin is None for thin, _ in runs) else []
+    for thin, levels in runs:
         if thin is not None:
             thin_levels.forward_run(inputs, thin, points, flags, best, tables)
             continue
@@ -330,8 +331,9 @@ def backward(
     late = np.stack([latest - dur, latest])
     flat = late.reshape(-1)
     inputs = BackwardInputs(_links(lv, source, add, t_dur, x_from, x_to, x_add), t_latest, x_after)
-    bounds = lv.bounds()
-    for thin, levels in reversed(lv.runs()):
+    runs = lv.runs()
+    bounds = lv.bounds() if any(thin is None for thin, _ in runs) else []
+    for thin, levels in reversed(runs):
         if thin is not None:
             thin_levels.backward_run(inputs, thin, late, tables)
             continue

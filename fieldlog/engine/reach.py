@@ -7,12 +7,17 @@ module finds, once per network, one long path of links whose bound is easy to bo
 below: finish-to-start and start-to-start links with no lead, from work that takes time.
 Along such a link the successor's start date is at least the predecessor's start date plus
 the predecessor's duration (FS) and the lag, in calendar days, because ``k`` working days of
-any calendar span at least ``k`` calendar days. If that sum, counted from the path's first
-start, lands after the calendars' last day, the last activity's dates are outside them and the
-forward pass would raise :class:`~fieldlog.engine.calendars.HorizonExceeded`; it is raised at
-once instead. A day per link is taken off the sum as a margin. Only the part of the path after
-its last started or finished activity counts (links between waiting work always bind); when
-nothing is proved the pass runs and decides.
+any calendar span at least ``k`` calendar days (an FS successor starts on or after the day
+after the predecessor's last working day, which is at least ``duration - 1`` days after its
+first). When the whole path is on one calendar the sum is exact in that calendar's working
+days (a link's bound is its source point plus the lag), which proves much more: a chain of
+one-day activities on a five-day week needs 7/5 of its length in calendar days. If the sum,
+counted from the path's first start, lands after the calendars' last day, the last
+activity's dates are outside them and the forward pass would raise
+:class:`~fieldlog.engine.calendars.HorizonExceeded`; it is raised at once instead. Only the
+part of the path after its last started or finished activity counts (links between waiting
+work always bind); when nothing is proved the pass runs and decides.
+tests/test_cpm_deep.py checks that a proof never fires where the pass would have fitted.
 """
 
 from __future__ import annotations
@@ -92,14 +97,20 @@ def check_reach(
         acts, links = acts[moved[-1] + 1 :], links[moved[-1] + 1 :]
     if links.size < 2:
         return
-    pred = acts[:-1]
-    gain = net.lag[links] + np.where(net.reads_start[links], 0, duration[pred]) - 1
-    if duration[acts[-1]] <= 0:
+    pred, last = acts[:-1], int(acts[-1])
+    step = net.lag[links] + np.where(net.reads_start[links], 0, duration[pred])
+    if duration[last] <= 0:
         return
     first = int(acts[0])
     cal, at = int(net.calendar[first]), int(floor[first])
     if not 0 <= at < int(tables.length[cal]):
         return  # the pass itself decides
+    if (net.calendar[acts] == cal).all():
+        # One calendar: a link's bound is its source point plus the lag, exactly (passes),
+        # so the last activity's last working day is at least this point of the calendar.
+        if at + int(step.sum()) + int(duration[last]) - 1 >= int(tables.length[cal]):
+            raise HorizonExceeded("calendar tables (a long path runs past them)")
+        return
     start = int(tables.work[cal, at])
-    if start + int(gain.sum()) >= tables.origin + tables.before.shape[1]:
+    if start + int(step.sum()) >= tables.origin + tables.before.shape[1]:
         raise HorizonExceeded("calendar tables (a long path runs past them)")

@@ -41,13 +41,12 @@ into lists, which costs about as much as a dozen levels in numpy."""
 def runs(link_bounds: list[int], thin: int, min_levels: int) -> list[tuple[int, int, bool]]:
     """Consecutive levels grouped as ``(first level, end level, thin)``; a thin group has at
     least ``min_levels`` levels (shorter ones join the vectorised groups around them)."""
-    out: list[tuple[int, int, bool]] = []
-    for g in range(len(link_bounds) - 1):
-        is_thin = link_bounds[g + 1] - link_bounds[g] <= thin
-        if out and out[-1][2] == is_thin:
-            out[-1] = (out[-1][0], g + 1, is_thin)
-        else:
-            out.append((g, g + 1, is_thin))
+    if len(link_bounds) < 2:
+        return []
+    thin_level = np.diff(link_bounds) <= thin
+    first = np.flatnonzero(np.r_[True, thin_level[1:] != thin_level[:-1]])  # of each group
+    ends = [*first[1:].tolist(), thin_level.size]
+    out = list(zip(first.tolist(), ends, thin_level[first].tolist(), strict=True))
     merged: list[tuple[int, int, bool]] = []
     for g0, g1, is_thin in out:
         is_thin = is_thin and g1 - g0 >= min_levels
