@@ -26,7 +26,7 @@ from fieldlog.errors import EntryRefused, JournalError
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.context import EntryContext
 from fieldlog.journal.device import device_id
-from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
+from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem
 from fieldlog.journal.filecheck import FileCheck
 from fieldlog.journal.key_seal import seal as seal_key_file
 from fieldlog.journal.keys import check_author, device_key, public_hex, saved_author
@@ -35,6 +35,7 @@ if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys ar
     from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
+from fieldlog.journal.record_rules import recordable
 from fieldlog.journal.registry import DeviceRecord, register
 from fieldlog.journal.rules import check_day, check_entry, check_hidden, refuse
 from fieldlog.journal.signing import sign
@@ -171,8 +172,9 @@ def record_entry(
 
 
 def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
+    """The fields by the reader's rules and the record-time ones (:mod:`.record_rules`)."""
     try:
-        return check_fields(kind, fields)
+        return recordable(kind, fields)
     except FieldProblem as exc:
         raise refuse(f"{kind}: {exc}") from None
 
