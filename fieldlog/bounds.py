@@ -52,6 +52,14 @@ MAX_NESTING = 32
 """Deepest nesting of arrays, inline tables and dotted keys accepted in a TOML file."""
 
 KIB, MIB = 1024, 1024 * 1024
+MAX_TABLE_KEYS = 64
+"""Keys a table of site.toml or schedule.toml may hold on average (an activity has about ten;
+inline tables' keys count too), checked before parsing with :data:`KEY_SLACK` more allowed."""
+KEY_SLACK = 10_000
+"""Keys allowed beyond :data:`MAX_TABLE_KEYS` per table: a small file is never refused."""
+KEY_COUNTED = frozenset({"site.toml", "schedule.toml"})
+"""The kinds whose keys are counted before parsing (a receipt's holdings list is one table of
+many inline tables; journal day files are capped at a few MB)."""
 FILE_CAPS = {
     "site.toml": 1 * MIB,
     "schedule.toml": 64 * MIB,

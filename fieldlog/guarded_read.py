@@ -33,7 +33,14 @@ from itertools import accumulate
 from pathlib import Path
 from typing import Any
 
-from fieldlog.bounds import FILE_CAPS, MAX_NESTING, check_size
+from fieldlog.bounds import (
+    FILE_CAPS,
+    KEY_COUNTED,
+    KEY_SLACK,
+    MAX_NESTING,
+    MAX_TABLE_KEYS,
+    check_size,
+)
 from fieldlog.errors import OutOfBounds, UnreadableToml
 from fieldlog.fast_toml import fast_loads
 
@@ -48,6 +55,8 @@ starts with a literal dot, so the regex engine skips ahead to the dots."""
 _BRACKETS = b"[]{}"
 _NOT_BRACKETS = bytes(b for b in range(256) if b not in _BRACKETS)
 _STEP = {ord("["): 1, ord("{"): 1, ord("]"): -1, ord("}"): -1}
+_HEADER = re.compile(r"^[ \t]*+\[", re.MULTILINE)
+"""A table header's first bracket (``[name]`` or ``[[name]]``), strings and comments blanked."""
 _AT_LINE = re.compile(r"\(at line (\d+), column (\d+)\)")
 
 
@@ -112,6 +121,8 @@ def loads(raw: bytes | str, kind: str, what: str, *, bom: bool = False) -> dict[
         check_size(len(raw), kind, what)
         text = raw
     code = check_nesting(text)
+    if kind in KEY_COUNTED:
+        check_key_count(code, what)
     fast = fast_loads(text, code)
     if fast is not None:
         return fast
@@ -167,6 +178,31 @@ def check_nesting(text: str) -> str:
             fix="this is not a file fieldlog wrote or expects",
         )
     return code
+
+
+def check_key_count(code: str, what: str) -> None:
+    """Refuse a site file with far more keys than its tables can hold, before parsing.
+
+    Found by attack: a schedule.toml of a million top-level keys took 6 s and over 500 MB to
+    be refused as "unknown key" after the full parse. Every ``=`` of ``code`` (strings and
+    comments blanked) is a key; more than :data:`~fieldlog.bounds.MAX_TABLE_KEYS` a table
+    on average, past :data:`~fieldlog.bounds.KEY_SLACK`, is no file fieldlog reads. Two
+    C-level counts on the usual layout (headers at the start of a line); indented headers
+    are counted by a regex only before a file is refused.
+
+    Raises:
+        OutOfBounds: too many keys for the number of tables.
+    """
+    keys = code.count("=")
+    if keys <= KEY_SLACK or keys <= (code.count("\n[") + 2) * MAX_TABLE_KEYS + KEY_SLACK:
+        return  # a header at the start of a line: the usual layout, counted in C
+    tables = len(_HEADER.findall(code)) + 1  # indented headers too, before refusing
+    if keys > tables * MAX_TABLE_KEYS + KEY_SLACK:
+        raise OutOfBounds(
+            f"{what} has {keys:,} keys in {tables:,} table(s), more than "
+            f"{MAX_TABLE_KEYS} a table on average",
+            fix="this is not a file fieldlog wrote or expects; check where it came from",
+        )
 
 
 def _first_words(exc: BaseException) -> str:

@@ -7,6 +7,7 @@ place (tests and a portable install on a stick use it).
 
 from __future__ import annotations
 
+import hashlib
 import os
 import sys
 from pathlib import Path
@@ -26,3 +27,15 @@ def fieldlog_home() -> Path:
     else:
         base = Path(os.environ.get("XDG_DATA_HOME") or Path.home() / ".local" / "share")
     return base / "fieldlog"
+
+
+LAST_ENTRY_DIR = "last-entry"
+"""This device's memory of its last entry in each site's log, one file per site (see
+:mod:`fieldlog.journal.own_memory`)."""
+
+
+def last_entry_part(site: Path) -> str:
+    """The memory file of ``site`` relative to fieldlog's data folder (kept here, with no
+    import beyond hashlib, so verify's kept-report check can name it cheaply)."""
+    key = hashlib.sha256(str(site.resolve()).encode("utf-8")).hexdigest()[:16]
+    return f"{LAST_ENTRY_DIR}/{key}.toml"

@@ -12,8 +12,8 @@ from textual.widgets import Input
 from fieldlog.app.app import make_app
 from fieldlog.app.screens.form import FormScreen
 from tests.helpers.journal_helpers import log_bytes
-from tests.test_app_site import screen_text, settle
-from tests.test_app_today import TUE, entries_of, started_site
+from tests.test_app_site import log, screen_text, settle
+from tests.test_app_today import MON, TUE, entries_of, started_site
 
 
 async def test_a_celsius_reading_of_80_is_refused_in_the_form_and_nothing_is_written(tmp_path):
@@ -67,3 +67,49 @@ async def test_the_same_start_twice_is_refused_and_written_once(tmp_path):
         await settle(app, pilot)
         assert "already started" in screen_text(app)
     assert log_bytes(folder) == before
+
+
+async def test_lost_time_of_0_hours_is_refused_and_minus_0_rain_is_written_as_0(tmp_path):
+    """Found by an adversarial pass: the lost-time form took 0 hours, and the weather form
+    wrote "-0" mm of rain as -0.0 (TOML keeps the sign of a zero, TOML 1.0 spec "Float")."""
+    folder = started_site(tmp_path)
+    before = log_bytes(folder)
+    app = make_app(folder, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("l")
+        app.screen.query_one("#field-hours", Input).value = "0"
+        await pilot.press("ctrl+s")
+        await settle(app, pilot)
+        refused = " ".join(screen_text(app).split()), log_bytes(folder) == before
+        await pilot.press("escape")  # give up on it: the form said no
+        await settle(app, pilot)
+        assert "hours 0 is no time lost" in refused[0] and refused[1]
+        await settle(app, pilot)
+        await pilot.press("w", *"dry")
+        app.screen.query_one("#field-precip_mm", Input).value = "-0"
+        await pilot.press("ctrl+s")
+        await settle(app, pilot)
+        assert not isinstance(app.screen, FormScreen)
+    text = b"".join(log_bytes(folder).values())
+    assert b"\nprecip_mm = 0.0\n" in text and b"= -0" not in text
+
+
+async def test_the_crews_form_on_a_double_enter_records_each_crew_once(tmp_path):
+    """As for the other forms: Enter twice on the crews form writes one set of crews."""
+    folder = started_site(tmp_path)
+    for trade, n in (("groundworks", 4), ("concrete", 3)):
+        log(folder, "crew", MON, {"trade": trade, "headcount": n}, today=MON)
+    before = log_bytes(folder)
+    app = make_app(folder, TUE)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("c", "enter", "enter")  # the crews of Monday, as they were
+        await settle(app, pilot)
+    today = [e for e in entries_of(folder, "crew") if e.day == TUE]
+    assert [(e.fields["trade"], e.fields["headcount"]) for e in today] == [
+        ("groundworks", 4),
+        ("concrete", 3),
+    ]
+    after = log_bytes(folder)
+    new = [k for k in after if after[k] != before.get(k)]
+    assert len(new) == 1 and new[0].startswith("2026-03-03")
+    assert after[new[0]].count(b"[[entry]]") == 2 and after[new[0]].count(b'kind = "crew"') == 2

@@ -11,6 +11,9 @@ Then the log is checked against the office receipts that vouch for it (this devi
 with ``--office FOLDER`` the office's own chain): an entry removed from the end of the log
 after a sync, which the hash chain alone cannot show, is named with its device, entry and file,
 and a device key in ``devices/`` of a device the office never heard from itself is named too.
+On the device that wrote them, its own memory of its last entry here (in its data folder, see
+:mod:`fieldlog.journal.own_memory`) names that entry when the log no longer holds it, even
+before the first sync.
 Then the registered devices with their authors. Exit code 1 when anything is found, 0 when
 the log is clean; a log written before its devices signed is clean but says how many entries
 are unsigned ("unsigned, chain intact").

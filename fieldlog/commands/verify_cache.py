@@ -43,6 +43,7 @@ from fieldlog.cache_files import (
     unseal,
     user_secret,
 )
+from fieldlog.home import last_entry_part
 from fieldlog.site.cache import cache_folder
 
 KEEP = 16
@@ -52,7 +53,8 @@ _PREFIX, _SUFFIX = "verify-", ".pack"
 SITE_PARTS = ("site.toml", "schedule.toml", "log", "devices", "conflicts", "receipts")
 """What verify reads in a site folder."""
 HOME_PARTS = ("device.toml", "receipts")
-"""What verify reads in fieldlog's data folder."""
+"""What verify reads in fieldlog's data folder, with the site's own-memory file
+(:func:`fieldlog.home.last_entry_part`)."""
 _BIGGEST = max(FILE_CAPS.values())
 """A file larger than any fieldlog reads is not hashed: nothing is kept for that site."""
 
@@ -127,7 +129,8 @@ class ReportCache:
 def _inputs(site: Path, home: Path) -> str | None:
     """The sha256 over every input of verify (see the module docstring); None: too big."""
     h = hashlib.sha256()
-    for base, parts in ((site, SITE_PARTS), (home, HOME_PARTS)):
+    home_parts = (*HOME_PARTS, last_entry_part(site))
+    for base, parts in ((site, SITE_PARTS), (home, home_parts)):
         h.update(b"\0base\0" + os.fsencode(base.resolve()))
         for part in parts:
             if not _walk(base / part, part, h):

@@ -15,6 +15,7 @@ from fieldlog.commands.verify_cache import Report
 from fieldlog.errors import SiteError
 from fieldlog.home import fieldlog_home
 from fieldlog.journal import Journal, read_journal, replay
+from fieldlog.journal.own_memory import missing_or_changed, recall
 from fieldlog.journal.verify import integrity_findings
 from fieldlog.reports.words import count
 from fieldlog.site.files import load_site
@@ -69,20 +70,21 @@ def make_report(site_arg: str, office: str | None) -> Report:
         say("Against the office receipts (what both sides held at a sync):")
         for line in receipt_lines:
             say(f"  {line}")
+    own = own_memory_check(Path(site_arg), journal, say)
     for record in journal.devices.values():
         say(
             f"device {record.device}: {record.author}, key registered {record.registered}, "
             f"signs from entry {record.signed_from}"
         )
     n_entries = len(journal.entries)
-    if findings or contradictions or conflicts or receipt_lines:
+    if findings or own or contradictions or conflicts or receipt_lines:
         forged = (
             f", {count(journal.forged, 'forged entry', 'forged entries')} not used"
             if journal.forged
             else ""
         )
         say(
-            f"{len(findings)} integrity finding(s), {len(contradictions)} contradiction(s), "
+            f"{len(findings) + own} integrity finding(s), {len(contradictions)} contradiction(s), "
             f"{len(conflicts)} sync conflict(s), {len(receipt_lines)} receipt finding(s) in "
             f"{len(journal.files)} file(s), {n_entries} entries used{forged}"
         )
@@ -117,6 +119,18 @@ def _unvouched(receipts: Audit, n_entries: int, say: Callable[[str], None]) -> N
             "the end of a device's log (a deleted newest day file) cannot be seen until "
             "the first 'fieldlog sync'"
         )
+
+
+def own_memory_check(site: Path, journal: Journal, say: Callable[[str], None]) -> int:
+    """The log against this device's memory of its last entry here (:mod:`fieldlog.journal.
+    own_memory`): says the finding, or why the memory is set aside; 1 for a finding."""
+    memory, aside = recall(fieldlog_home(), site)
+    if aside is not None:
+        say(aside)
+    found = missing_or_changed(memory, {e.id: e for e in journal.entries}) if memory else None
+    if found is not None:
+        say(found)
+    return int(found is not None)
 
 
 def receipts_check(site: Path, journal: Journal, office: str | None) -> Audit:

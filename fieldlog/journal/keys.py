@@ -49,6 +49,11 @@ MAX_AUTHOR = 80
 _WARNINGS: list[str] = []
 
 
+def add_warning(message: str) -> None:
+    """A warning for :func:`take_warnings` (something kept beside an entry that could not be)."""
+    _WARNINGS.append(message)
+
+
 def take_warnings() -> list[str]:
     """Warnings about the key files made in this process, each given once (the command line
     prints them on stderr; the app shows them in its status line)."""

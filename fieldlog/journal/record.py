@@ -23,18 +23,21 @@ import tomli_w
 from fieldlog.bounds import MAX_COUNTER
 from fieldlog.durable import make_folder
 from fieldlog.errors import EntryRefused, JournalError
+from fieldlog.home import fieldlog_home
 from fieldlog.journal.chain import entry_hash
 from fieldlog.journal.context import EntryContext
 from fieldlog.journal.device import device_id
-from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem, check_fields
+from fieldlog.journal.entries import CORRECTION_OWN, KINDS, Entry, FieldProblem
 from fieldlog.journal.filecheck import FileCheck
 from fieldlog.journal.key_seal import seal as seal_key_file
-from fieldlog.journal.keys import check_author, device_key, public_hex, saved_author
+from fieldlog.journal.keys import add_warning, check_author, device_key, public_hex, saved_author
+from fieldlog.journal.own_memory import remember_entry
 
 if TYPE_CHECKING:  # the key's type only; cryptography is imported where keys are used
     from cryptography.hazmat.primitives.asymmetric.ed25519 import Ed25519PrivateKey
 from fieldlog.journal.names import SUFFIX, file_name
 from fieldlog.journal.reader import Journal, checked, log_folder, read_journal, remember
+from fieldlog.journal.record_rules import recordable
 from fieldlog.journal.registry import DeviceRecord, register
 from fieldlog.journal.rules import check_day, check_entry, check_hidden, refuse
 from fieldlog.journal.signing import sign
@@ -167,12 +170,23 @@ def record_entry(
         )
         if use is not None and base is not None:
             use.store(base.after(entry, entry.file, data, folder))
+        _remember(home, folder, entry)
         return entry
 
 
-def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
+def _remember(home: Path | None, folder: Path, entry: Entry) -> None:
+    """This device's memory of its last entry (:mod:`.own_memory`); the entry is already in
+    the log, so a memory that cannot be written is a warning, never a refusal."""
     try:
-        return check_fields(kind, fields)
+        remember_entry(home or fieldlog_home(), folder, entry)
+    except JournalError as exc:
+        add_warning(f"recorded, but this device could not keep its memory of it: {exc}")
+
+
+def _shape(kind: str, fields: Mapping[str, Any]) -> dict[str, Any]:
+    """The fields by the reader's rules and the record-time ones (:mod:`.record_rules`)."""
+    try:
+        return recordable(kind, fields)
     except FieldProblem as exc:
         raise refuse(f"{kind}: {exc}") from None
 
