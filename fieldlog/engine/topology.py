@@ -98,6 +98,10 @@ def levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
     loader runs on every schedule; only a schedule with a loop goes on to
     :func:`topological_order`, which names the loop. numpy is imported here, not at module
     level, so that commands which never build a network do not pay for it.
+
+    A round of few nodes (a long chain of work: one node a round, ten thousand rounds) is
+    done one node at a time (:func:`_thin_rounds`): the array operations of a round cost tens
+    of microseconds whatever its size.
     """
     import numpy as np
 
@@ -110,7 +114,14 @@ def levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
     first_out = np.searchsorted(pred[by_pred], np.arange(n + 1))
     ready = np.flatnonzero(waiting == 0)
     depth, taken = 0, 0
+    lists: tuple[list[int], list[int]] | None = None
     while ready.size:
+        if ready.size <= _THIN_ROUND:
+            lists = lists or (out.tolist(), first_out.tolist())
+            after, depth, count = _thin_rounds(ready.tolist(), depth, level, waiting, *lists)
+            taken += count
+            ready = np.array(after, dtype=np.int64)
+            continue
         level[ready] = depth
         taken += ready.size
         count = first_out[ready + 1] - first_out[ready]
@@ -127,6 +138,36 @@ def levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
         ready = reached[waiting[reached] == 0]
         depth += 1
     return level if taken == n else None
+
+
+_THIN_ROUND = 16
+"""Rounds of at most this many ready nodes go one node at a time (measured on a chain)."""
+
+
+def _thin_rounds(
+    ready: list[int],
+    depth: int,
+    level: np.ndarray,
+    waiting: np.ndarray,
+    out: list[int],
+    first_out: list[int],
+) -> tuple[list[int], int, int]:
+    """Kahn's rounds one node at a time while few nodes are ready: the same rounds as the
+    array way (``level`` and ``waiting`` updated in place). Returns the next round's ready
+    nodes, its depth and how many nodes were taken."""
+    taken = 0
+    while ready and len(ready) <= _THIN_ROUND:
+        after = []
+        for r in ready:
+            level[r] = depth
+            for j in out[first_out[r] : first_out[r + 1]]:
+                waiting[j] -= 1
+                if waiting[j] == 0:
+                    after.append(j)
+        taken += len(ready)
+        ready = after
+        depth += 1
+    return ready, depth, taken
 
 
 def _find_cycle(succs: list[list[int]], candidates: set[int]) -> list[int]:
