@@ -118,8 +118,8 @@ def levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
     while ready.size:
         if ready.size <= _THIN_ROUND:
             lists = lists or (out.tolist(), first_out.tolist())
-            after, depth, count = _thin_rounds(ready.tolist(), depth, level, waiting, *lists)
-            taken += count
+            after, depth, thin_taken = _thin_rounds(ready.tolist(), depth, level, waiting, *lists)
+            taken += thin_taken
             ready = np.array(after, dtype=np.int64)
             continue
         level[ready] = depth
