@@ -101,6 +101,8 @@ def test_on_another_machine_there_is_no_memory_and_verify_is_as_before(
         (b"\xff\xfe\x00", "is damaged"),
         (b'site = "x"\n', "is damaged"),
         (b"", "is damaged"),
+        # nested deeper than Python's recursion limit: refused by the pre-scan, not a traceback
+        pytest.param(b"a = " + b"[" * 20000 + b"]" * 20000, "is damaged", id="nested"),
         (None, "cannot be read"),  # a folder where the file should be
         (b"x" * (1 << 20), "cannot be read"),  # past the size any small file may have
     ],

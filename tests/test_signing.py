@@ -158,6 +158,13 @@ def test_a_key_file_reads_back_and_is_never_replaced(tmp_path):
     [
         ("Bad Name.toml", "", "not a device key file name"),
         ("site-laptop-9.toml", "device = [", "not TOML"),
+        # nested deeper than Python's recursion limit (a RecursionError traceback before)
+        pytest.param(
+            "site-laptop-9.toml",
+            "a = " + "[" * 2000 + "]" * 2000,
+            "not TOML: .*nested",
+            id="nested",
+        ),
         ("site-laptop-9.toml", 'device = "site-laptop-9"\n', "holds exactly"),
         (
             "site-laptop-9.toml",

@@ -16,7 +16,6 @@ behind the log (a crash in between leaves the memory of the entry before), never
 
 from __future__ import annotations
 
-import tomllib
 from dataclasses import dataclass
 from datetime import datetime
 from pathlib import Path
@@ -25,8 +24,8 @@ from typing import TYPE_CHECKING, Any
 import tomli_w
 
 from fieldlog.durable import make_folder
-from fieldlog.errors import JournalError, OutOfBounds
-from fieldlog.guarded_read import read_capped
+from fieldlog.errors import JournalError, OutOfBounds, UnreadableToml
+from fieldlog.guarded_read import loads, read_capped
 from fieldlog.home import LAST_ENTRY_DIR, last_entry_part
 from fieldlog.journal.store import atomic_write
 
@@ -86,9 +85,9 @@ def recall(home: Path, site: Path) -> tuple[Memory | None, str | None]:
     except (OSError, OutOfBounds) as exc:  # a link, a folder, too big, unreadable
         return None, _aside(path, f"cannot be read ({_why(exc)})")
     try:
-        data = tomllib.loads(raw.decode("utf-8"))
+        data = loads(raw, "settings", str(path))  # nesting checked: a hostile file
         memory = _memory(data)
-    except (UnicodeDecodeError, tomllib.TOMLDecodeError, TypeError, KeyError) as exc:
+    except (UnreadableToml, TypeError, KeyError) as exc:
         return None, _aside(path, f"is damaged ({_why(exc)})")
     if memory.site != str(site.resolve()):
         return None, _aside(path, f"is of another site folder ({memory.site})")

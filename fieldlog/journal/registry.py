@@ -26,7 +26,6 @@ against the office's receipts (see DEVELOPERS.md, "Signed entries").
 from __future__ import annotations
 
 import re
-import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from datetime import date, datetime
@@ -36,7 +35,8 @@ from types import MappingProxyType
 import tomli_w
 
 from fieldlog.durable import make_folder
-from fieldlog.errors import JournalError
+from fieldlog.errors import JournalError, UnreadableToml
+from fieldlog.guarded_read import loads
 from fieldlog.journal.filecheck import Finding
 from fieldlog.journal.keys import check_author
 from fieldlog.journal.names import DEVICE_RE
@@ -129,10 +129,11 @@ def parse_key_file(name: str, data: bytes) -> DeviceRecord:
             fix="move it out of devices/",
         )
     try:
-        doc = tomllib.loads(data.decode("utf-8"))
-    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
+        doc = loads(data, "settings", where)  # nesting checked: a hostile file
+    except UnreadableToml as exc:
+        at = f" (line {exc.line})" if exc.line else ""
         raise JournalError(
-            f"not TOML: {exc}",
+            f"not TOML: {exc.problem}{at}",
             file=where,
             fix="restore fieldlog's copy (the office has one after a sync)",
         ) from exc
