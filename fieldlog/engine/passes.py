@@ -71,6 +71,11 @@ class Early:
     """The same for the finish point (True for work, see :mod:`fieldlog.engine.cpm`)."""
 
 
+Bounds = tuple[int, int, int, int, int, int]
+"""One level's slices: (first link, end link, first target, end target, first cross, end
+cross)."""
+
+
 @dataclass(frozen=True, eq=False)
 class _Levels:
     """Links (already filtered and ordered) cut into levels and, inside a level, per activity.
@@ -92,8 +97,15 @@ class _Levels:
     cross_at: np.ndarray
     cross_in: np.ndarray
 
-    def bounds(self) -> list[tuple[int, int, int, int, int, int]]:
-        """``(first link, end link, first target, end target, first cross, end cross)``."""
+    def plan(self) -> tuple[list[tuple[Run | None, range]], list[Bounds]]:
+        """The runs (:meth:`runs`) and, only when some run is vectorised, every level's
+        :meth:`bounds` (a deep chain is all thin runs and never reads them; they are one
+        tuple per level, 10,000 for a 10,000-step chain)."""
+        runs = self.runs()
+        return runs, self.bounds() if any(thin is None for thin, _ in runs) else []
+
+    def bounds(self) -> list[Bounds]:
+        """Every level's :data:`Bounds`, in level order."""
         return list(
             zip(
                 self.links[:-1],
@@ -232,8 +244,7 @@ def forward(
     inputs = ForwardInputs(
         _links(lv, source, add, t_dur, x_from, x_to, x_add), shift, t_floor, x_source
     )
-    runs = lv.runs()
-    bounds = lv.bounds() if any(thin is None for thin, _ in runs) else []
+    runs, bounds = lv.plan()
     for thin, levels in runs:
         if thin is not None:
             thin_levels.forward_run(inputs, thin, points, flags, best, tables)
@@ -331,8 +342,7 @@ def backward(
     late = np.stack([latest - dur, latest])
     flat = late.reshape(-1)
     inputs = BackwardInputs(_links(lv, source, add, t_dur, x_from, x_to, x_add), t_latest, x_after)
-    runs = lv.runs()
-    bounds = lv.bounds() if any(thin is None for thin, _ in runs) else []
+    runs, bounds = lv.plan()
     for thin, levels in reversed(runs):
         if thin is not None:
             thin_levels.backward_run(inputs, thin, late, tables)

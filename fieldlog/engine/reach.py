@@ -108,9 +108,8 @@ def check_reach(
     if (net.calendar[acts] == cal).all():
         # One calendar: a link's bound is its source point plus the lag, exactly (passes),
         # so the last activity's last working day is at least this point of the calendar.
-        if at + int(step.sum()) + int(duration[last]) - 1 >= int(tables.length[cal]):
-            raise HorizonExceeded("calendar tables (a long path runs past them)")
-        return
-    start = int(tables.work[cal, at])
-    if start + int(step.sum()) >= tables.origin + tables.before.shape[1]:
+        past = at + int(step.sum()) + int(duration[last]) - 1 >= int(tables.length[cal])
+    else:  # several calendars: each step spans at least its length in calendar days
+        past = int(tables.work[cal, at]) + int(step.sum()) >= tables.origin + tables.before.shape[1]
+    if past:
         raise HorizonExceeded("calendar tables (a long path runs past them)")
