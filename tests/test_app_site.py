@@ -141,6 +141,18 @@ async def settle(app: Any, pilot: Any) -> None:
     await pilot.pause()
 
 
+async def save_form(app: Any, pilot: Any, **fields: str) -> None:
+    """Type ``fields`` (by field name) into the open form, save it with ctrl+s and settle.
+
+    A text area takes ``text``, the other inputs ``value``: set directly, as a paste would.
+    """
+    for name, value in fields.items():
+        widget = app.screen.query_one(f"#field-{name}")
+        setattr(widget, "text" if hasattr(widget, "document") else "value", value)
+    await pilot.press("ctrl+s")
+    await settle(app, pilot)
+
+
 def row_texts(table: Any, key: str) -> list[str]:
     """The plain text of one list row (a RowList or a DataTable), by row key."""
     if hasattr(table, "cells"):

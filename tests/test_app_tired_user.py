@@ -12,7 +12,7 @@ from textual.widgets import Input
 from fieldlog.app.app import make_app
 from fieldlog.app.screens.form import FormScreen
 from tests.helpers.journal_helpers import log_bytes
-from tests.test_app_site import log, screen_text, settle
+from tests.test_app_site import log, save_form, screen_text, settle
 from tests.test_app_today import MON, TUE, entries_of, started_site
 
 
@@ -24,16 +24,12 @@ async def test_a_celsius_reading_of_80_is_refused_in_the_form_and_nothing_is_wri
     app = make_app(folder, TUE)
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("w", *"dry")
-        app.screen.query_one("#field-high", Input).value = "80"
-        await pilot.press("ctrl+s")
-        await settle(app, pilot)
+        await save_form(app, pilot, high="80")
         assert isinstance(app.screen, FormScreen)
         text = screen_text(app)
         assert "Not recorded" in text and "high 80 C is not a plausible" in text
         assert log_bytes(folder) == before
-        app.screen.query_one("#field-unit").value = "F"
-        await pilot.press("ctrl+s")
-        await settle(app, pilot)
+        await save_form(app, pilot, unit="F")
         assert not isinstance(app.screen, FormScreen)
     (w,) = entries_of(folder, "weather")
     assert (w.fields["high"], w.fields["unit"]) == (80, "F")
@@ -77,18 +73,14 @@ async def test_lost_time_of_0_hours_is_refused_and_minus_0_rain_is_written_as_0(
     app = make_app(folder, TUE)
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("l")
-        app.screen.query_one("#field-hours", Input).value = "0"
-        await pilot.press("ctrl+s")
-        await settle(app, pilot)
+        await save_form(app, pilot, hours="0")
         refused = " ".join(screen_text(app).split()), log_bytes(folder) == before
         await pilot.press("escape")  # give up on it: the form said no
         await settle(app, pilot)
         assert "hours 0 is no time lost" in refused[0] and refused[1]
         await settle(app, pilot)
         await pilot.press("w", *"dry")
-        app.screen.query_one("#field-precip_mm", Input).value = "-0"
-        await pilot.press("ctrl+s")
-        await settle(app, pilot)
+        await save_form(app, pilot, precip_mm="-0")
         assert not isinstance(app.screen, FormScreen)
     text = b"".join(log_bytes(folder).values())
     assert b"\nprecip_mm = 0.0\n" in text and b"= -0" not in text

@@ -17,7 +17,6 @@ import unicodedata
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
-from textual.widgets import TextArea
 
 from fieldlog.app.app import make_app
 from fieldlog.app.screens.form import FormScreen
@@ -28,7 +27,7 @@ from fieldlog.journal import read_journal, verify
 from fieldlog.journal import rules as journal_rules
 from fieldlog.site import bulk
 from tests.helpers.journal_helpers import TODAY, log_bytes, make_site, rec
-from tests.test_app_site import screen_text, settle
+from tests.test_app_site import save_form, screen_text
 from tests.test_app_today import TUE, entries_of, started_site
 from tests.test_hostile_files import run_hostile
 
@@ -157,15 +156,11 @@ async def test_the_app_says_so_under_the_note_and_writes_nothing(tmp_path):
     app = make_app(folder, TUE)
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("n")
-        app.screen.query_one("#field-text", TextArea).text = "crane \u202ebooked"
-        await pilot.press("ctrl+s")
-        await settle(app, pilot)
+        await save_form(app, pilot, text="crane \u202ebooked")
         assert isinstance(app.screen, FormScreen)
         assert "hidden character U+202E" in screen_text(app)
         assert log_bytes(folder) == before
-        app.screen.query_one("#field-text", TextArea).text = "crane booked"
-        await pilot.press("ctrl+s")
-        await settle(app, pilot)
+        await save_form(app, pilot, text="crane booked")
     assert [e.fields["text"] for e in entries_of(folder, "note")] == ["crane booked"]
 
 
