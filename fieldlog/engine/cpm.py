@@ -60,9 +60,9 @@ random sites.
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass
 from datetime import date, timedelta
 from types import MappingProxyType
+from typing import NamedTuple
 
 import numpy as np
 
@@ -276,8 +276,7 @@ def _run(
     )
 
 
-@dataclass(frozen=True, eq=False)
-class _Fixed:
+class _Fixed(NamedTuple):
     """What dates and progress fix before the passes (arrays by activity position)."""
 
     start: Start

@@ -24,7 +24,7 @@ reduction, each bound is packed with its position into one integer (:func:`_tie_
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -38,8 +38,7 @@ _NOTHING = np.iinfo(np.int64).min
 """Packed value of an activity no link reached."""
 
 
-@dataclass(frozen=True, eq=False)
-class Start:
+class Start(NamedTuple):
     """What dates and field progress fix before the passes, per activity."""
 
     duration: np.ndarray
@@ -56,8 +55,7 @@ class Start:
     """Date ordinal of the last day of finished work."""
 
 
-@dataclass(frozen=True, eq=False)
-class Early:
+class Early(NamedTuple):
     """Result of the forward pass."""
 
     start: np.ndarray
@@ -76,8 +74,7 @@ Bounds = tuple[int, int, int, int, int, int]
 cross)."""
 
 
-@dataclass(frozen=True, eq=False)
-class _Levels:
+class _Levels(NamedTuple):
     """Links (already filtered and ordered) cut into levels and, inside a level, per activity.
 
     Level ``g`` holds links ``links[g]:links[g + 1]``, whose activities are

@@ -23,7 +23,7 @@ tests/test_cpm_deep.py checks that a proof never fires where the pass would have
 from __future__ import annotations
 
 import weakref
-from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -32,8 +32,7 @@ from fieldlog.engine.calendars import HorizonExceeded
 from fieldlog.engine.network_arrays import NetworkArrays
 
 
-@dataclass(frozen=True, eq=False)
-class Path:
+class Path(NamedTuple):
     """Activities ``acts`` (first to last) joined by the links ``links`` (positions in the
     network's link arrays); ``acts[k]`` is the predecessor of ``links[k]``."""
 

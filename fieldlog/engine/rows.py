@@ -17,9 +17,8 @@ import gc
 import threading
 from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
-from dataclasses import dataclass
 from datetime import date
-from typing import overload
+from typing import NamedTuple, overload
 
 import numpy as np
 
@@ -33,8 +32,7 @@ REASONS = ("site start", "data date", "start not before", "readiness", "actual d
 SITE_START, DATA_DATE, START_NOT_BEFORE, READINESS, ACTUAL_DATES = range(len(REASONS))
 
 
-@dataclass(frozen=True, eq=False)
-class Columns:
+class Columns(NamedTuple):
     """Everything a row needs, one array (or list) per column, positions as ``site.activities``.
 
     Points are on each activity's own calendar; values of finished work other than its

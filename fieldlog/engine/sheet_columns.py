@@ -17,8 +17,8 @@ them.
 from __future__ import annotations
 
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass
 from datetime import date
+from typing import NamedTuple
 
 import numpy as np
 
@@ -30,8 +30,7 @@ NO_DAY = 0
 """The ordinal standing for "no date" (no real date has ordinal 0)."""
 
 
-@dataclass(frozen=True, eq=False)
-class SheetColumns:
+class SheetColumns(NamedTuple):
     """What the printed sheets show, by activity position (``site.activities`` order).
 
     Values are those of the matching :class:`~fieldlog.engine.result.ActivityResult` fields;

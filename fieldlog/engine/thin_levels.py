@@ -20,7 +20,7 @@ tests/test_cpm_differential.py runs the random sites with every level thin and w
 from __future__ import annotations
 
 import weakref
-from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -57,8 +57,7 @@ def runs(link_bounds: list[int], thin: int, min_levels: int) -> list[tuple[int, 
     return merged
 
 
-@dataclass(frozen=True)
-class _Lists:
+class _Lists(NamedTuple):
     """A site's calendar tables as Python lists, for moves one point at a time."""
 
     work: list[list[int]]
@@ -86,8 +85,7 @@ def _lists(tables: CalendarTables) -> _Lists:
     return got
 
 
-@dataclass(frozen=True, eq=False)
-class Run:
+class Run(NamedTuple):
     """One run of thin levels: its links ``a:b``, activities ``s0:s1`` and cross-calendar
     links ``c0:c1`` (positions in the pass's arrays, see ``passes._Levels``)."""
 
@@ -119,8 +117,7 @@ def _link_lists(lk: Links, run: Run, tables: CalendarTables) -> tuple:
     return src, adds, run.cross_at(lk.cross_at), cal
 
 
-@dataclass(frozen=True, eq=False)
-class Links:
+class Links(NamedTuple):
     """What both passes give a run: per link (in the pass's order) its source in the stacked
     points and what is added to it; per activity of the levels its first link, position and
     duration; the cross-calendar links' positions, calendars and what is added after a move."""
@@ -136,8 +133,7 @@ class Links:
     x_add: np.ndarray
 
 
-@dataclass(frozen=True, eq=False)
-class ForwardInputs:
+class ForwardInputs(NamedTuple):
     """The forward pass's arrays (see ``passes.forward``)."""
 
     links: Links
@@ -206,8 +202,7 @@ def forward_run(
         flags[1, ms_who] = after_arr
 
 
-@dataclass(frozen=True, eq=False)
-class BackwardInputs:
+class BackwardInputs(NamedTuple):
     """The backward pass's arrays (see ``passes.backward``)."""
 
     links: Links

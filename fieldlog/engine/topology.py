@@ -7,9 +7,8 @@ schedule.toml that must be reported with every activity in the loop, in order).
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
-from dataclasses import dataclass
 from operator import attrgetter
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, NamedTuple
 
 if TYPE_CHECKING:  # numpy is imported by the functions that need it (start-up, see below)
     import numpy as np
@@ -17,8 +16,7 @@ if TYPE_CHECKING:  # numpy is imported by the functions that need it (start-up, 
     from fieldlog.site.model import Link
 
 
-@dataclass(frozen=True, eq=False)
-class LinkEnds:
+class LinkEnds(NamedTuple):
     """Each link's two ends as positions in the activity list, in file order, and the level
     of each activity (:func:`levels`), or None when the links form a loop.
 
