@@ -186,3 +186,23 @@ def test_lookahead_loads_the_crew_suggestions_only_for_a_crew_near_its_headcount
     )
     names = probe_imports([_LOOKAHEAD_PROBE, str(folder), *SUGGESTIONS], tmp_path / "home")
     assert bool(names) is asked, names
+
+
+_BLAS_PROBE = """\
+import os
+import fieldlog.cli as cli
+cli.main = lambda: print(os.environ.get("OPENBLAS_NUM_THREADS")) or 0
+cli.entry()
+"""
+
+
+@pytest.mark.parametrize(("given", "seen"), [(None, "1"), ("4", "4")])
+def test_the_command_asks_numpy_for_one_blas_thread_unless_the_user_set_it(given, seen):
+    """fieldlog does no linear algebra; OpenBLAS's threads only spin at import."""
+    env = {k: v for k, v in os.environ.items() if k != "OPENBLAS_NUM_THREADS"}
+    if given is not None:
+        env["OPENBLAS_NUM_THREADS"] = given
+    done = subprocess.run(
+        [sys.executable, "-c", _BLAS_PROBE], capture_output=True, text=True, env=env, check=True
+    )
+    assert done.stdout.strip() == seen
