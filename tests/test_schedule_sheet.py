@@ -143,6 +143,32 @@ def test_columns_print_the_bytes_of_the_per_row_sheet(seed: int) -> None:
         assert render_schedule(narrowed, fmt) == want[fmt], (seed, fmt)
 
 
+_PLAIN = ("Pour", "slab", "%s", "%d", "grid A-C", " ", "x" * 9)
+"""Printable ASCII only: the sheet pads such columns in its row template, not cell by cell."""
+
+
+def _plain_case(seed: int, longest: int) -> ScheduleResult:
+    """A random site whose names are plain ASCII, the first ``longest`` characters long."""
+    result = _case(seed)
+    rng = random.Random(seed * 104729)
+    acts = [
+        dataclasses.replace(a, name="".join(rng.choice(_PLAIN) for _ in range(4)).strip() or "T")
+        for a in result.site.activities
+    ]
+    if acts:
+        acts[0] = dataclasses.replace(acts[0], name="n" * longest)
+    site = dataclasses.replace(result.site, activities=tuple(acts))
+    return compute_schedule(site, result.as_of)
+
+
+@pytest.mark.parametrize("longest", [30, 31])
+@pytest.mark.parametrize("seed", range(10))
+def test_plain_names_padded_by_the_template_print_the_per_row_sheet(seed, longest) -> None:
+    """Names of 30 characters fit the column; one of 31 makes the sheet fit each cell."""
+    result = _plain_case(seed, longest)
+    assert render_schedule(result, "text") == reference_text(result), (seed, longest)
+
+
 def test_the_cases_cover_what_the_columns_treat_apart() -> None:
     """The random sites include every status, finished work without a start, negative float,
     names CSV must quote and an empty site."""

@@ -21,13 +21,14 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from datetime import date
 from json.encoder import encode_basestring_ascii
+from operator import itemgetter
 
 import numpy as np
 
 from fieldlog.engine.progress import Status
 from fieldlog.engine.result import ActivityResult, ScheduleResult
 from fieldlog.engine.sheet_columns import NO_DAY, SheetColumns, day_texts, sheet_columns
-from fieldlog.reports.text_fit import fit, width
+from fieldlog.reports.text_fit import fit, plain, width
 from fieldlog.reports.words import against_required
 
 FORMATS = ("text", "json", "csv")
@@ -187,7 +188,8 @@ _MARK = {Status.FINISHED: "done", Status.IN_PROGRESS: "on", Status.NOT_STARTED: 
 
 
 def _text(result: ScheduleResult, cols: SheetColumns) -> str:
-    idw = max([10, *map(width, cols.ids)])
+    ids = cols.ids
+    idw = max(10, max(map(len, ids), default=0)) if plain(ids) else max([10, *map(width, ids)])
     return float_list(result, idw, _text_rows(cols, idw))
 
 
@@ -232,9 +234,8 @@ def _text_rows(cols: SheetColumns, idw: int) -> list[str]:
             )
         ).__getitem__,
     )
-    mark = np.where(tf < 0, "!", np.where(cols.critical, "*", " ")).astype(object)
-    mark = mark + np.where(cols.on_driving_path, ">", " ").astype(object)
-
+    pick = _picker(order)
+    flag = np.where(tf < 0, 4, np.where(cols.critical, 2, 0)) + cols.on_driving_path
     starts, finishes, late_finishes = day_texts(
         (
             np.where(started, cols.actual_start, cols.early_start)[order],
@@ -244,38 +245,58 @@ def _text_rows(cols: SheetColumns, idw: int) -> list[str]:
         lambda d: d.strftime("%d %b %y"),
         "",
     )
-
-    def sorted_(values: Sequence) -> list:
-        return [values[k] for k in order]
-
-    def number(values: Sequence[int | None]) -> list[str]:
-        return ["" if values[k] is None else str(values[k]) for k in order]
-
-    row = "%s%s %s %-5s %-9s %-9s %-9s %4s %3s %3s"
+    id_cell, ids = _cell(pick(cols.ids), idw)
+    name_cell, names = _cell(pick(cols.names), 30)
+    row = f"%s{id_cell} {name_cell} %-5s %-9s %-9s %-9s %4s %3s %3s"
     return list(
         map(
             row.__mod__,
             zip(
-                mark[order].tolist(),
-                _fitted(sorted_(cols.ids), idw),
-                _fitted(sorted_(cols.names), 30),
-                [_MARK[s] for s in sorted_(cols.status)],
+                map(_FLAG_CELLS.__getitem__, flag[order].tolist()),
+                ids,
+                names,
+                map(_MARK.__getitem__, pick(cols.status)),
                 starts,
                 finishes,
                 late_finishes,
-                number(cols.total_float),
-                number(cols.free_float),
-                sorted_(cols.remaining),
+                _numbers(pick(cols.total_float)),
+                _numbers(pick(cols.free_float)),
+                pick(cols.remaining),
                 strict=True,
             ),
         )
     )
 
 
-def _fitted(values: list[str], columns: int) -> list[str]:
-    """Each value as :func:`~fieldlog.reports.text_fit.fit` gives it; plain ASCII that fits
-    (nearly every id and name) is only padded, without measuring it cell by cell."""
-    return [
+_FLAG_CELLS = ("  ", " >", "* ", "*>", "! ", "!>")
+"""The two flag cells by code: 4 late, 2 critical (late wins), + 1 on the driving path."""
+
+
+def _picker(order: list[int]) -> Callable[[Sequence], Sequence]:
+    """A function giving a column's values in ``order`` (``itemgetter`` of two or more
+    positions does it in C and returns a tuple)."""
+    if len(order) >= 2:
+        return itemgetter(*order)
+    return lambda values: [values[k] for k in order]
+
+
+def _numbers(values: Sequence[int | None]) -> Sequence[int | str]:
+    """The numbers for ``%s`` cells, None (no float for finished work) as an empty cell."""
+    if None not in values:
+        return values
+    return ["" if v is None else v for v in values]
+
+
+def _cell(values: Sequence[str], columns: int) -> tuple[str, Sequence[str]]:
+    """The row template's cell for a text column ``columns`` wide, and the values for it.
+
+    Plain ASCII that fits (nearly every id and name) is padded by the template itself
+    (``%-30s``); otherwise each value is fitted by :func:`~fieldlog.reports.text_fit.fit`
+    to exactly ``columns`` cells (wide characters, cut names) and the cell is ``%s``.
+    """
+    if plain(values) and max(map(len, values), default=0) <= columns:
+        return f"%-{columns}s", values
+    return "%s", [
         v.ljust(columns)
         if len(v) <= columns and v.isascii() and v.isprintable()
         else fit(v, columns)

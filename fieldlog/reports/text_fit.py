@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
-from collections.abc import Iterator
+from collections.abc import Iterator, Sequence
 
 ZWJ = "\u200d"
 VS16 = "\ufe0f"
@@ -105,6 +105,13 @@ def graphemes(text: str) -> Iterator[tuple[str, int]]:
             end += 2 if text[end] == ZWJ and end + 1 < n else 1  # a joiner takes the next one
         yield text[k:end], _cells(text[k:end])
         k = end
+
+
+def plain(texts: Sequence[str]) -> bool:
+    """Every text is printable ASCII: one cell per character (checked in C over all of them
+    at once: a character that is not shows in the joined text)."""
+    joined = "".join(texts)
+    return joined.isascii() and joined.isprintable()
 
 
 def width(text: str) -> int:
