@@ -13,6 +13,7 @@ from pathlib import Path
 
 import pytest
 
+from fieldlog.engine.topology import link_ends
 from fieldlog.errors import FieldlogError
 from fieldlog.site import bulk, schema
 from fieldlog.site.toml_file import SCHEDULE_FILE, SITE_FILE, parse_toml
@@ -205,3 +206,22 @@ def test_a_loop_is_named_the_same_both_ways(tmp_path, monkeypatch):
     outcome = _outcome(files, monkeypatch, use_bulk=True)
     assert outcome == _outcome(files, monkeypatch, use_bulk=False)
     assert outcome[0] == "DependencyLoopError"
+
+
+def test_the_ends_found_in_bulk_are_the_links_own_and_share_the_id_strings(tmp_path):
+    """The bulk checks give each link's ends as positions (the loop test and the engine's
+    network use them); they must be the positions a lookup of every end finds, and the
+    links must hold the activities' very id strings."""
+    files = _files(tmp_path, SITE, SCHEDULE)
+    built = _bulk_answer(files)
+    assert built is not None
+    ids = [a.id for a in built.activities]
+    assert built.pred == [ids.index(lk.pred) for lk in built.links]
+    assert built.succ == [ids.index(lk.succ) for lk in built.links]
+    assert all(lk.pred is ids[k] for lk, k in zip(built.links, built.pred, strict=True))
+    assert all(lk.succ is ids[k] for lk, k in zip(built.links, built.succ, strict=True))
+    site, ends = schema.build_site_and_ends(*files)
+    slow = link_ends({a.id: k for k, a in enumerate(site.activities)}, site.links)
+    assert ends.pred.tolist() == slow.pred.tolist() == built.pred
+    assert ends.succ.tolist() == slow.succ.tolist() == built.succ
+    assert ends.level is not None and ends.level.tolist() == slow.level.tolist()

@@ -43,7 +43,18 @@ def link_ends(index: Mapping[str, int], links: Sequence[Link]) -> LinkEnds:
     count = len(links)
     pred = np.fromiter(map(index.__getitem__, map(_PRED, links)), np.int64, count)
     succ = np.fromiter(map(index.__getitem__, map(_SUCC, links)), np.int64, count)
-    level = levels(len(index), pred, succ)
+    return ends_at(len(index), pred, succ)
+
+
+def ends_at(
+    count: int, pred: Sequence[int] | np.ndarray, succ: Sequence[int] | np.ndarray
+) -> LinkEnds:
+    """The :class:`LinkEnds` of links whose ends are already known as positions among
+    ``count`` activities (the schedule's bulk checks find them while they check the ids)."""
+    import numpy as np
+
+    pred, succ = np.asarray(pred, dtype=np.int64), np.asarray(succ, dtype=np.int64)
+    level = levels(count, pred, succ)
     return LinkEnds(pred, succ, None if level is None else level.astype(np.int64))
 
 

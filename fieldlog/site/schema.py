@@ -16,7 +16,7 @@ from types import MappingProxyType
 from typing import Any, Literal, overload
 
 from fieldlog import bounds
-from fieldlog.engine.topology import LinkEnds, link_ends, topological_order
+from fieldlog.engine.topology import LinkEnds, ends_at, link_ends, topological_order
 from fieldlog.errors import DependencyLoopError, OutOfBounds
 from fieldlog.site.bulk import (
     ACTIVITY_KEYS,
@@ -101,14 +101,17 @@ def build_site_and_ends(site_file: TomlFile, schedule_file: TomlFile) -> tuple[S
             fix='use "successor" or "predecessor"',
         ) from None
     crews = _crews(site_file)
-    revision, activities, links = _schedule(schedule_file, calendars, crews, default_cal, start)
+    revision, activities, links, at = _schedule(schedule_file, calendars, crews, default_cal, start)
     if finish_by is not None and finish_by < start:
         raise site_file.error(
             f"finish_by {finish_by} is before the site start {start}",
             line=site_file.line_of(r"^\s*finish_by\s*="),
             fix="correct one of the two dates",
         )
-    ends = link_ends({a.id: k for k, a in enumerate(activities)}, links)
+    if at is not None:
+        ends = ends_at(len(activities), *at)
+    else:
+        ends = link_ends({a.id: k for k, a in enumerate(activities)}, links)
     if ends.level is None:
         ids = [a.id for a in activities]
         _, cycle = topological_order(ids, ((lk.pred, lk.succ) for lk in links))
@@ -201,7 +204,9 @@ def _schedule(
     crews: dict[str, Crew],
     default_cal: str,
     start: date,
-) -> tuple[int, list[Activity], list[Link]]:
+) -> tuple[int, list[Activity], list[Link], tuple[list[int], list[int]] | None]:
+    """The revision, activities and links of schedule.toml, and the links' ends as positions
+    when the bulk checks found them (None from the precise checks)."""
     _no_unknown(f, f.data, {"revision", "activity", "link"}, "top level")
     revision = f.data.get("revision")
     if not isinstance(revision, int) or isinstance(revision, bool) or revision < 0:
@@ -215,7 +220,7 @@ def _schedule(
     )
     built = bulk_schedule(f.data, calendars, crews, default_cal, start)
     if built is not None:
-        return (revision, *built)
+        return revision, built.activities, built.links, (built.pred, built.succ)
     rows = f.data.get("activity", [])
     if not isinstance(rows, list):
         raise f.error("activities must be [[activity]] tables")
@@ -372,7 +377,7 @@ def _schedule(
                 activity=link.succ,
             )
     links.extend(_typed_links(f, known))
-    return revision, activities, links
+    return revision, activities, links, None
 
 
 def _typed_links(f: TomlFile, known: set[str]) -> list[Link]:
