@@ -1,4 +1,4 @@
-"""The lookahead JSON writes its activity lines itself: they must be the stdlib encoder's bytes.
+"""The lookahead JSON and CSV write their lines themselves: they must be the stdlib's bytes.
 
 ``render_json`` builds each activity's line from its parts (much faster than a dict through
 ``json.dumps``). The outside reference here is Python's own ``json`` module: every line must
@@ -6,11 +6,15 @@ equal ``json.dumps(activity_json(row), ensure_ascii=False, separators=(", ", ": 
 whole document must parse (``json.loads``) to exactly :func:`lookahead_json`. The random
 sites carry names and crews full of what an escaper can get wrong: quotes, backslashes,
 control characters, non-ASCII letters, characters outside the Basic Multilingual Plane.
-All sites are invented.
+The CSV's reference is Python's ``csv.writer`` over one row per activity and day (the way
+the file was written before); the same sites must give exactly its bytes. All sites are
+invented.
 """
 
 from __future__ import annotations
 
+import csv
+import io
 import json
 from datetime import date, timedelta
 
@@ -24,9 +28,12 @@ from fieldlog.engine.progress import Progress
 from fieldlog.engine.readiness import OpenItem
 from fieldlog.lookahead import build_lookahead
 from fieldlog.reports.lookahead_data import (
+    CSV_COLUMNS,
     ActivityLines,
     activity_json,
+    csv_field,
     lookahead_json,
+    render_csv,
     render_json,
 )
 from fieldlog.site.model import Link, LinkType
@@ -39,11 +46,48 @@ def _reference_line(row) -> str:
     return json.dumps(activity_json(row), ensure_ascii=False, separators=(", ", ": "))
 
 
+def reference_csv(la) -> str:
+    """The lookahead CSV through ``csv.writer``, one row per activity and day."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(CSV_COLUMNS)
+    days = [d.isoformat() for d in la.days]
+    moved = {m.activity: m.start.isoformat() for m in la.fewest.moves} if la.fewest else {}
+    for row in la.rows:
+        for day, cell, k in zip(days, row.cells, row.why, strict=True):
+            w.writerow(
+                (
+                    day,
+                    row.id,
+                    row.name,
+                    cell.value,
+                    row.reasons[k] if k is not None else "",
+                    row.total_float,
+                    "true" if row.late else "false",
+                    "; ".join(row.not_ready),
+                    row.early_start.isoformat(),
+                    row.late_finish.isoformat(),
+                    moved.get(row.id, ""),
+                )
+            )
+    return buf.getvalue()
+
+
 def _check(la) -> None:
     line = ActivityLines()
     for row in la.rows:
         assert line(row) == _reference_line(row), row.id
     assert json.loads(render_json(la)) == lookahead_json(la)
+    assert render_csv(la) == reference_csv(la)
+
+
+@given(st.text(alphabet=st.characters(codec="utf-8", exclude_categories=("Cs",)), max_size=8))
+def test_a_csv_field_is_the_writers_own(text: str) -> None:
+    """Any text (commas, quotes, line breaks, controls, none of them) as ``csv.writer``
+    writes it among other fields."""
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="\n").writerow(("a", text, "b"))
+    assert f"a,{csv_field(text)},b\n" == buf.getvalue()
 
 
 names = st.text(

@@ -321,32 +321,45 @@ def _compact(value: object) -> str:
 
 
 def render_csv(la: Lookahead) -> str:
-    """CSV text: a header, then one row per activity and day."""
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(CSV_COLUMNS)
-    days = [d.isoformat() for d in la.days]
+    """CSV text: a header, then one row per activity and day.
+
+    Byte for byte what ``csv.writer`` (``lineterminator="\\n"``) writes of those rows (a test
+    holds the two equal), made a line at a time from the activity's fields encoded once:
+    140,000 rows of a 10,000-activity fortnight took 0.3 s through the writer.
+    """
+    days = [d.isoformat() for d in la.days]  # ISO dates are never quoted
     moved = {m.activity: m.start.isoformat() for m in la.fewest.moves} if la.fewest else {}
-    for row in la.rows:
-        late = "true" if row.late else "false"  # as in the schedule CSV
-        not_ready = "; ".join(row.not_ready)
-        es, lf = row.early_start.isoformat(), row.late_finish.isoformat()
-        reasons = row.reasons
-        start = moved.get(row.id, "")
-        w.writerows(
-            (
-                day,
-                row.id,
-                row.name,
-                cell.value,
-                reasons[k] if k is not None else "",
-                row.total_float,
-                late,
-                not_ready,
-                es,
-                lf,
-                start,
+    lines = [",".join(map(csv_field, CSV_COLUMNS)) + "\n"]
+    with collector_paused():  # strings only
+        for row in la.rows:
+            head = f"{csv_field(row.id)},{csv_field(row.name)}"
+            tail = ",".join(
+                (
+                    str(row.total_float),
+                    "true" if row.late else "false",  # as in the schedule CSV
+                    csv_field("; ".join(row.not_ready)),
+                    row.early_start.isoformat(),
+                    row.late_finish.isoformat(),
+                    moved.get(row.id, ""),
+                )
             )
-            for day, cell, k in zip(days, row.cells, row.why, strict=True)
-        )
-    return buf.getvalue()
+            reasons = [csv_field(r) for r in row.reasons]
+            lines.extend(
+                f"{day},{head},{cell.value},{reasons[k] if k is not None else ''},{tail}\n"
+                for day, cell, k in zip(days, row.cells, row.why, strict=True)
+            )
+    return "".join(lines)
+
+
+def csv_field(text: str) -> str:
+    """``text`` as one field of a ``csv.writer`` row (the excel dialect, quoting minimal).
+
+    Printable text without a comma or a quote is written as it is (the writer quotes only a
+    field holding the delimiter, the quote character or a line break); anything else goes
+    through the writer itself, so its quoting is always the writer's.
+    """
+    if text.isprintable() and "," not in text and '"' not in text:
+        return text
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="\n").writerow((text, ""))
+    return buf.getvalue()[:-2]  # less the empty second field's comma and the line end
