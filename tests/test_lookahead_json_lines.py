@@ -29,8 +29,8 @@ from fieldlog.engine.readiness import OpenItem
 from fieldlog.lookahead import build_lookahead
 from fieldlog.reports.lookahead_data import (
     CSV_COLUMNS,
-    ActivityLines,
     activity_json,
+    activity_lines,
     csv_field,
     lookahead_json,
     render_csv,
@@ -74,9 +74,10 @@ def reference_csv(la) -> str:
 
 
 def _check(la) -> None:
-    line = ActivityLines()
-    for row in la.rows:
-        assert line(row) == _reference_line(row), row.id
+    lines = activity_lines(la.rows)
+    assert len(lines) == len(la.rows)
+    for line, row in zip(lines, la.rows, strict=True):
+        assert line == _reference_line(row), row.id
     assert json.loads(render_json(la)) == lookahead_json(la)
     assert render_csv(la) == reference_csv(la)
 

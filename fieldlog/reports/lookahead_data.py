@@ -21,9 +21,11 @@ from __future__ import annotations
 import csv
 import io
 import json
+from collections.abc import Callable, Iterator, Mapping, Sequence
 from datetime import date
+from itertools import islice
 from json.encoder import encode_basestring
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from fieldlog.engine.rows import collector_paused
 from fieldlog.lookahead.build import ActivityRow, Lookahead
@@ -78,55 +80,92 @@ def activity_json(row: ActivityRow) -> dict:
     }
 
 
-class ActivityLines:
-    """Writes one activity's line of the JSON: exactly ``_compact(activity_json(row))``.
+_LINE = (
+    '{"id": %s, "name": %s, "status": %s, "calendar": %s, "cells": %s, "reasons": %s, '
+    '"cell_reasons": %s, "late": %s, "total_float": %d, "free_float": %d, "critical": %s, '
+    '"remaining": %d, "early_start": %s, "early_finish": %s, "late_start": %s, '
+    '"late_finish": %s, "not_ready": %s, "crew": %s}'
+)
+"""One activity's line: the compact encoder's text of :func:`activity_json`, keys in order."""
+_TRUE_FALSE = {True: "true", False: "false"}
+
+
+def activity_lines(rows: Sequence[ActivityRow]) -> list[str]:
+    """Each row's line of the JSON: exactly ``_compact(activity_json(row))``, a column at a time.
 
     The general encoder costs ~30 us an activity (a dict, an enum lookup per cell, the
-    encoder's own walk); this writes the line from its parts. Strings go through the
-    encoder's own string escaper, so names and reasons come out byte for byte the same. The
-    cells and their reason indexes belong to a pattern shared by many activities
-    (:class:`fieldlog.lookahead.classify.PatternCache`), so their text is made once per
-    pattern, keyed by the tuple's identity (the tuple is kept with its text, so the identity
-    cannot be reused while the cache lives).
+    encoder's own walk); here every column is turned into its JSON text by one C-level
+    ``map`` (strings through the encoder's own escaper, so names and reasons come out byte
+    for byte the same), each distinct value once where values repeat (dates, statuses,
+    calendars, the cells and reason indexes of a pattern shared by many activities, crews),
+    and a line is one ``%`` of :data:`_LINE`. Should a number or flag column hold anything
+    but plain ``int`` or ``bool`` (never expected), every line goes through the encoder.
     """
-
-    def __init__(self) -> None:
-        self._cells: dict[int, tuple[tuple, str]] = {}
-        self._why: dict[int, tuple[tuple, str]] = {}
-        self._status: dict[object, str] = {}
-
-    def __call__(self, row: ActivityRow) -> str:
-        esc = encode_basestring
-        cells = self._cells.get(id(row.cells))
-        if cells is None or cells[0] is not row.cells:
-            cells = (row.cells, _compact([c.value for c in row.cells]))
-            self._cells[id(row.cells)] = cells
-        why = self._why.get(id(row.why))
-        if why is None or why[0] is not row.why:
-            why = (row.why, _compact(list(row.why)))
-            self._why[id(row.why)] = why
-        status = self._status.get(row.status)
-        if status is None:
-            status = self._status[row.status] = esc(row.status.value)
-        tf = row.total_float
-        crew = row.crew
-        crew_text = (
-            "{" + ", ".join(f"{esc(k)}: {_int(v)}" for k, v in crew.items()) + "}" if crew else "{}"
+    if not rows:
+        return []
+    columns = zip(*rows, strict=True)  # ActivityRow's fields, in order
+    ids, names, status, calendar, remaining, es, ef, ls, lf, tf, ff, critical = islice(columns, 12)
+    cells, reasons, why, not_ready, crew = columns
+    if not (_only(int, remaining, tf, ff) and _only(bool, critical)):
+        return [_compact(activity_json(row)) for row in rows]
+    esc = encode_basestring
+    day = {d: _date(d) for d in {*es, *ef, *ls, *lf}}
+    return list(
+        map(
+            _LINE.__mod__,
+            zip(
+                map(esc, ids),
+                map(esc, names),
+                _each(status, lambda s: esc(s.value)),
+                _each(calendar, esc),
+                _by_identity(cells, lambda c: _compact([cell.value for cell in c])),
+                map(_strings, reasons),
+                _by_identity(why, lambda w: _compact(list(w))),
+                ["true" if t < 0 else "false" for t in tf],
+                tf,
+                ff,
+                map(_TRUE_FALSE.__getitem__, critical),
+                remaining,
+                map(day.__getitem__, es),
+                map(day.__getitem__, ef),
+                map(day.__getitem__, ls),
+                map(day.__getitem__, lf),
+                _each(not_ready, _strings),
+                _by_identity(crew, _crew),
+                strict=True,
+            ),
         )
-        return (
-            f'{{"id": {esc(row.id)}, "name": {esc(row.name)}, "status": {status}, '
-            f'"calendar": {esc(row.calendar)}, "cells": {cells[1]}, '
-            f'"reasons": {_strings(row.reasons)}, "cell_reasons": {why[1]}, '
-            f'"late": {"true" if tf < 0 else "false"}, "total_float": {_int(tf)}, '
-            f'"free_float": {_int(row.free_float)}, '
-            f'"critical": {_bool(row.critical)}, '
-            f'"remaining": {_int(row.remaining)}, '
-            f'"early_start": {_date(row.early_start)}, '
-            f'"early_finish": {_date(row.early_finish)}, '
-            f'"late_start": {_date(row.late_start)}, '
-            f'"late_finish": {_date(row.late_finish)}, '
-            f'"not_ready": {_strings(row.not_ready)}, "crew": {crew_text}}}'
-        )
+    )
+
+
+def _only(kind: type, *columns: tuple) -> bool:
+    """Every value of every column is of exactly type ``kind`` (bool is not int here)."""
+    return all(set(map(type, column)) <= {kind} for column in columns)
+
+
+def _each(values: tuple, text: Callable[[Any], str]) -> Iterator[str]:
+    """``text`` of each value, worked out once per distinct (hashable) value."""
+    done = {v: text(v) for v in set(values)}
+    return map(done.__getitem__, values)
+
+
+def _by_identity(values: tuple, text: Callable[[Any], str]) -> Iterator[str]:
+    """``text`` of each value, worked out once per distinct object: for values shared by many
+    rows (a pattern's tuples, a crew mapping) that hash slowly (a tuple of enums) or not at
+    all (a mapping). Every object stays referenced by ``values`` meanwhile, so no identity
+    is reused."""
+    done: dict[int, str] = {}
+    for v in values:
+        if id(v) not in done:
+            done[id(v)] = text(v)
+    return map(done.__getitem__, map(id, values))
+
+
+def _crew(crew: Mapping[str, int]) -> str:
+    """A crew mapping as the compact encoder writes it."""
+    if not crew:
+        return "{}"
+    return "{" + ", ".join(f"{encode_basestring(k)}: {_int(v)}" for k, v in crew.items()) + "}"
 
 
 def _strings(values: tuple[str, ...]) -> str:
@@ -291,7 +330,7 @@ def render_json(la: Lookahead) -> str:
     """JSON text ending in a newline: one top-level key per line, one activity per line.
 
     A line per activity keeps a 10,000-activity file quick to write and still easy to read
-    and to diff. The activity lines are written by :class:`ActivityLines`, byte for byte what
+    and to diff. The activity lines are written by :func:`activity_lines`, byte for byte what
     the compact encoder makes of :func:`activity_json` (a test holds the two equal) in a
     fraction of the time; everything else goes through the encoder.
     """
@@ -300,16 +339,15 @@ def render_json(la: Lookahead) -> str:
     for key, value in doc.items():
         name = json.dumps(key)
         if key == "activities":
-            line = ActivityLines()
             with collector_paused():  # strings only: nothing for the collector to find
-                value = [line(row) for row in la.rows]
+                value = activity_lines(la.rows)
         elif isinstance(value, list) and value and isinstance(value[0], dict):
             value = [_compact(v) for v in value]
         else:
             parts.append(f"  {name}: {_compact(value)}")
             continue
         if value:
-            items = ",\n".join("    " + v for v in value)
+            items = "    " + ",\n    ".join(value)
             parts.append(f"  {name}: [\n{items}\n  ]")
         else:
             parts.append(f"  {name}: []")
