@@ -50,6 +50,8 @@ MAX_TEXT = 4000
 """Longest name, note or other text, in characters."""
 MAX_NESTING = 32
 """Deepest nesting of arrays, inline tables and dotted keys accepted in a TOML file."""
+SHEET_WIDTHS = (80, 132)
+"""The printed lookahead's page widths in columns (``--width``): a terminal and a wide page."""
 
 KIB, MIB = 1024, 1024 * 1024
 MAX_TABLE_KEYS = 64

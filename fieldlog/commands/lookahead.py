@@ -11,13 +11,11 @@ import argparse
 import sys
 from pathlib import Path
 
+from fieldlog.bounds import SHEET_WIDTHS
 from fieldlog.commands.arguments import EXIT_BAD_INPUT, iso_date
 from fieldlog.commands.log_warnings import warn_log_problems
 from fieldlog.errors import FieldlogError
 from fieldlog.lookahead.build import LOOKAHEAD_DAYS, Lookahead, build_lookahead
-from fieldlog.reports.lookahead_data import render_csv, render_json
-from fieldlog.reports.lookahead_ics import crew_calendars, render_ics
-from fieldlog.reports.lookahead_text import WIDTHS, layout_for, render_text
 from fieldlog.workspace import SiteState, load_state
 
 FORMATS = ("text", "json", "csv", "ics")
@@ -58,7 +56,7 @@ def add_parser(sub: argparse._SubParsersAction) -> None:
     p.add_argument(
         "--width",
         type=int,
-        choices=WIDTHS,
+        choices=SHEET_WIDTHS,
         default=80,
         help="columns of the printed sheet (default 80)",
     )
@@ -89,6 +87,8 @@ def run(args: argparse.Namespace) -> int:
         print(f"fieldlog: --days must be 1 to {MAX_DAYS}, got {args.days}", file=sys.stderr)
         return EXIT_BAD_INPUT
     if args.format == "text":
+        from fieldlog.reports.lookahead_text import layout_for
+
         try:
             layout_for(args.width, args.days)
         except ValueError as exc:
@@ -109,17 +109,11 @@ def run(args: argparse.Namespace) -> int:
         return EXIT_BAD_INPUT
     la = build_lookahead(state.schedule, state.replay.readiness, args.start, args.days)
     if args.per_crew:
+        from fieldlog.reports.lookahead_ics import crew_calendars
+
         _write_crew_files(args.out, crew_calendars(la))
         return _report(la, state, args.site)
-    if args.format == "ics":
-        data = render_ics(la, args.crew)
-    elif args.format == "json":
-        data = render_json(la).encode("utf-8")
-    elif args.format == "csv":
-        data = render_csv(la).encode("utf-8")
-    else:
-        text = render_text(la, args.width, ascii_only=args.ascii)
-        data = text.encode("ascii" if args.ascii else "utf-8")
+    data = _rendered(la, args)
     if args.out is not None:
         _write(args.out, data)
     else:
@@ -127,6 +121,27 @@ def run(args: argparse.Namespace) -> int:
         sys.stdout.buffer.write(data)
         sys.stdout.buffer.flush()
     return _report(la, state, args.site)
+
+
+def _rendered(la: Lookahead, args: argparse.Namespace) -> bytes:
+    """The lookahead in the format asked for; only that format's writer is imported (the
+    others cost start-up time and are not needed)."""
+    if args.format == "ics":
+        from fieldlog.reports.lookahead_ics import render_ics
+
+        return render_ics(la, args.crew)
+    if args.format == "json":
+        from fieldlog.reports.lookahead_data import render_json
+
+        return render_json(la).encode("utf-8")
+    if args.format == "csv":
+        from fieldlog.reports.lookahead_data import render_csv
+
+        return render_csv(la).encode("utf-8")
+    from fieldlog.reports.lookahead_text import render_text
+
+    text = render_text(la, args.width, ascii_only=args.ascii)
+    return text.encode("ascii" if args.ascii else "utf-8")
 
 
 def _report(la: Lookahead, state: SiteState, site: str) -> int:

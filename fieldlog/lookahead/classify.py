@@ -36,6 +36,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from datetime import date
 from enum import IntEnum, StrEnum
+from typing import NamedTuple
 
 
 class Cell(StrEnum):
@@ -66,8 +67,7 @@ class Why(IntEnum):
     """A MUST day of an activity with negative float."""
 
 
-@dataclass(frozen=True)
-class Window:
+class Window(NamedTuple):
     """The days of the lookahead as date ordinals, and where the data date falls."""
 
     first: int

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
+from typing import NamedTuple
 
 from fieldlog.lookahead.classify import Cell
 from fieldlog.site.model import Crew
@@ -47,8 +48,7 @@ class CrewLoad:
         return any(v > self.available for v in self.must)
 
 
-@dataclass(frozen=True)
-class CrewWork:
+class CrewWork(NamedTuple):
     """What crew load needs of one activity row."""
 
     crew: Mapping[str, int]
