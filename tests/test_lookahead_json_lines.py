@@ -159,3 +159,15 @@ def test_a_lookahead_with_no_open_work_writes_an_empty_list() -> None:
     assert la.rows == ()
     assert '  "activities": [],\n' in render_json(la)
     _check(la)
+
+
+def test_a_number_or_flag_of_another_type_goes_through_the_encoder() -> None:
+    """Never expected from the engine: a remaining count given as a bool, a float flag given
+    as an int. The lines then come from the encoder itself, still its bytes exactly."""
+    start = date(2026, 3, 2)
+    site = make_site([act("A-1", 5, "First"), act("B-2", 3, "Second")], [Link("A-1", "B-2")])
+    la = build_lookahead(compute_schedule(site, start))
+    odd = (la.rows[0]._replace(remaining=True), la.rows[1]._replace(critical=1))
+    for row in odd:
+        assert activity_lines([row]) == [_reference_line(row)]
+    assert activity_lines(odd) == [_reference_line(row) for row in odd]

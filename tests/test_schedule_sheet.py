@@ -178,3 +178,21 @@ def test_the_cases_cover_what_the_columns_treat_apart() -> None:
     assert any(r.late for r in rows)
     assert any("," in r.name or '"' in r.name or "\n" in r.name for r in rows)
     assert any(not _case(seed).activities for seed in range(40))
+
+
+@pytest.mark.parametrize("count", [1, 2])
+def test_a_site_of_one_or_two_activities_prints_the_per_row_sheet(count: int) -> None:
+    """The columns are put in order by ``itemgetter`` from two activities on; one activity
+    takes the plain way. Both print the per-row sheet."""
+    for seed in range(40):
+        result = _case(seed)
+        if len(result.site.activities) >= count:
+            break
+    acts = result.site.activities[:count]
+    kept = {a.id for a in acts}
+    links = tuple(lk for lk in result.site.links if lk.pred in kept and lk.succ in kept)
+    site = dataclasses.replace(result.site, activities=acts, links=links)
+    small = compute_schedule(site, result.as_of)
+    assert len(small.activities) == count
+    for fmt, reference in REFERENCES.items():
+        assert render_schedule(small, fmt) == reference(small), fmt
