@@ -368,6 +368,7 @@ def render_csv(la: Lookahead) -> str:
     days = [d.isoformat() for d in la.days]  # ISO dates are never quoted
     moved = {m.activity: m.start.isoformat() for m in la.fewest.moves} if la.fewest else {}
     lines = [",".join(map(csv_field, CSV_COLUMNS)) + "\n"]
+    patterns: dict[tuple[int, int], tuple[list, tuple[int, ...]]] = {}
     with collector_paused():  # strings only
         for row in la.rows:
             head = f"{csv_field(row.id)},{csv_field(row.name)}"
@@ -381,12 +382,32 @@ def render_csv(la: Lookahead) -> str:
                     moved.get(row.id, ""),
                 )
             )
-            reasons = [csv_field(r) for r in row.reasons]
-            lines.extend(
-                f"{day},{head},{cell.value},{reasons[k] if k is not None else ''},{tail}\n"
-                for day, cell, k in zip(days, row.cells, row.why, strict=True)
-            )
+            # A line is its day and the rest, and the rest repeats across a row's days: it
+            # is made once per distinct (class, reason) of the row's pattern.
+            kinds, slots = _day_kinds(row, patterns)
+            rest = [
+                f",{head},{value},{csv_field(row.reasons[k]) if k is not None else ''},{tail}\n"
+                for value, k in kinds
+            ]
+            lines.extend(map(str.__add__, days, map(rest.__getitem__, slots)))
     return "".join(lines)
+
+
+def _day_kinds(
+    row: ActivityRow, patterns: dict[tuple[int, int], tuple[list, tuple[int, ...]]]
+) -> tuple[list[tuple[str, int | None]], tuple[int, ...]]:
+    """The distinct (class, reason index) pairs of a row's days, and each day's pair as a
+    position in them; worked out once per pattern (rows share their cells and reason index
+    tuples, :class:`fieldlog.lookahead.classify.PatternCache`), kept by the tuples' identity
+    while the rows, which hold the tuples, are alive."""
+    key = (id(row.cells), id(row.why))
+    found = patterns.get(key)
+    if found is None:
+        pairs = [(cell.value, k) for cell, k in zip(row.cells, row.why, strict=True)]
+        kinds = list(dict.fromkeys(pairs))
+        at = {pair: n for n, pair in enumerate(kinds)}
+        found = patterns[key] = (kinds, tuple(at[pair] for pair in pairs))
+    return found
 
 
 def csv_field(text: str) -> str:
