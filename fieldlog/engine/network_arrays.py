@@ -18,7 +18,7 @@ compiled again.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from datetime import date
 from functools import cached_property
@@ -46,6 +46,15 @@ _PRED, _SUCC, _LAG, _TYPE = (attrgetter(a) for a in ("pred", "succ", "lag", "typ
 def _ordinal(day: date | None) -> int:
     """A date's ordinal, 0 for none (no real date has ordinal 0)."""
     return day.toordinal() if day else 0
+
+
+def _ordinals(days: Iterable[date | None], n: int) -> np.ndarray:
+    """The ordinals of ``n`` dates or Nones (see :func:`_ordinal`); most activities have no
+    date constraint, and a column of Nones is all zeros without a call per activity."""
+    column = list(days)
+    if not any(column):
+        return np.zeros(n, dtype=np.int64)
+    return np.fromiter(map(_ordinal, column), np.int64, n)
 
 
 @dataclass(frozen=True, eq=False)
@@ -116,14 +125,13 @@ def build_network(site: Site, ends: LinkEnds | None = None) -> NetworkArrays:
     worked out here."""
     acts, links = site.activities, site.links
     ids = tuple(map(_ID, acts))
-    index = {aid: k for k, aid in enumerate(ids)}
     n = len(ids)
+    index = dict(zip(ids, range(n), strict=True))
     calendar_names = tuple(site.calendars)
     number = {name: k for k, name in enumerate(calendar_names)}
     calendar = np.fromiter(map(number.__getitem__, map(_CALENDAR, acts)), np.int64, n)
     duration = np.fromiter(map(_DURATION, acts), np.int64, n)
-    snb = np.fromiter(map(_ordinal, map(_SNB, acts)), np.int64, n)
-    fna = np.fromiter(map(_ordinal, map(_FNA, acts)), np.int64, n)
+    snb, fna = _ordinals(map(_SNB, acts), n), _ordinals(map(_FNA, acts), n)
 
     m = len(links)
     ends = ends or link_ends(index, links)
