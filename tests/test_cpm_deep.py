@@ -39,23 +39,24 @@ from tests.test_cpm_differential import assert_same, both, random_case
 _TYPES = (LinkType.FS,) * 6 + (LinkType.SS, LinkType.FF, LinkType.SF)
 
 
-def deep_case(seed: int) -> tuple[Site, date, dict, dict, dict]:
+def deep_case(seed: int, *, chain: bool = False) -> tuple[Site, date, dict, dict, dict]:
     """A band network ``width`` wide and 40 to 400 levels deep, on the calendars, settings and
-    status of :func:`random_case`; some cases run years past the first calendar range."""
+    status of :func:`random_case`; some cases run years past the first calendar range.
+    ``chain``: one chain (width 1) on the site's own calendar, milestones now and then."""
     site, status, _, lost, _ = random_case(seed)
     rng = random.Random(seed + 10_007)
-    width = rng.choice((1, 1, 2, 3, 5, 8))
+    width = 1 if chain else rng.choice((1, 1, 2, 3, 5, 8))
     n = width * rng.randint(40, 400 // width + 40)
     plain = rng.random() < 0.3  # finish-to-start, no leads, no milestones: years of work
     longest = 30 if plain else rng.choice((3, 8, 30))
     types = (LinkType.FS,) if plain else _TYPES
-    cals = list(site.calendars)
+    cals = [site.calendar] if chain else list(site.calendars)
     ids = [f"D{k:04d}" for k in range(n)]
     acts = [
         Activity(
             aid,
             f"Step {k}",
-            0 if rng.random() < 0.1 and not plain else rng.randint(1, longest),
+            0 if rng.random() < (0.01 if chain else 0.1) and not plain else rng.randint(1, longest),
             rng.choice(cals),
             start_not_before=site.start + timedelta(days=rng.randint(0, 400))
             if rng.random() < 0.02
@@ -99,6 +100,33 @@ def level_mode(request: pytest.FixtureRequest, monkeypatch: pytest.MonkeyPatch) 
 @pytest.mark.parametrize("seed", range(60))
 def test_deep_networks_match_the_reference(seed: int, level_mode: str) -> None:
     assert_same(*both(*deep_case(seed)))
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_chains_on_one_calendar_match_the_reference(seed: int, level_mode: str) -> None:
+    """One chain on one calendar: its thin runs are solved at once (a running maximum going
+    forward, a running minimum going back) instead of one link at a time."""
+    assert_same(*both(*deep_case(seed, chain=True)))
+
+
+def test_the_chain_cases_take_the_running_maximum_and_minimum(monkeypatch) -> None:
+    """The chain cases above do reach the solved-at-once way, both ways, and not always
+    (a milestone, a link over several steps or a progress floor sends a run to the loop)."""
+    taken: dict[str, list[bool]] = {"forward": [], "backward": []}
+    for name, attr in (("forward", "_forward_chain"), ("backward", "_backward_chain")):
+        real = getattr(thin_levels, attr)
+
+        def spy(*args, real=real, name=name):
+            done = real(*args)
+            taken[name].append(done)
+            return done
+
+        monkeypatch.setattr(thin_levels, attr, spy)
+    for seed in range(40):
+        site, status, progress, lost, holds = deep_case(seed, chain=True)
+        compute_schedule(site, status, progress, lost_days=lost, holds=holds)
+    for name, seen in taken.items():
+        assert any(seen) and not all(seen), (name, seen.count(True), len(seen))
 
 
 @pytest.mark.parametrize("seed", range(0, 700, 5))

@@ -156,6 +156,8 @@ def forward_run(
     A link's bound is compared as is; the first link in order that reaches the maximum wins
     (strictly greater replaces), which is what the packed maximum of ``passes`` picks.
     """
+    if _forward_chain(f, run, points, best):
+        return
     a, s0, s1, c0, c1 = run.a, run.s0, run.s1, run.c0, run.c1
     lk = f.links
     n = points.shape[1]
@@ -212,6 +214,8 @@ class BackwardInputs(NamedTuple):
 
 def backward_run(f: BackwardInputs, run: Run, late: np.ndarray, tables: CalendarTables) -> None:
     """Late points of the run's activities, in place; levels taken from the last."""
+    if _backward_chain(f, run, late):
+        return
     s0, s1, c0, c1 = run.s0, run.s1, run.c0, run.c1
     lk = f.links
     n = late.shape[1]
@@ -243,3 +247,87 @@ def backward_run(f: BackwardInputs, run: Run, late: np.ndarray, tables: Calendar
     lf_arr = np.array(lf_out, dtype=np.int64)
     late[1, who] = lf_arr
     late[0, who] = lf_arr - lk.t_dur[s0:s1]
+
+
+# -- a run that is one chain ------------------------------------------------------------------
+#
+# A long sequence of work, each step waiting on the one before (one trade after another), is
+# a run whose every activity has one link, from the activity before it, on one calendar. Its
+# points then follow a max-plus recurrence that numpy solves at once: going forward,
+# ``es[k] = max(es[k-1] + c[k], floor[k])`` (``c[k]``: the link's addition, plus the step
+# before's duration when the link reads its finish), so with ``C`` the running sum of ``c``,
+# ``es[k] = C[k] + max(es[0], max(floor[j] - C[j] for 1 <= j <= k))``: one
+# ``maximum.accumulate``. Going back it is the same with min. The one-at-a-time loop stays for
+# anything else, and for milestones (their reading flags follow the link that drives them).
+
+
+def _chain_links(lk: Links, run: Run) -> tuple[np.ndarray, np.ndarray] | None:
+    """The run's activities and their links' sources when every activity of the run has
+    exactly one link, its own, in order, and no link crosses calendars; else None."""
+    a, b, s0, s1 = run.a, run.b, run.s0, run.s1
+    if run.c1 > run.c0 or b - a != s1 - s0 or b - a < 2:
+        return None
+    if not np.array_equal(lk.first[s0:s1], np.arange(a, b)):
+        return None
+    return lk.targets[s0:s1], lk.source[a:b]
+
+
+def _forward_chain(f: ForwardInputs, run: Run, points: np.ndarray, best: np.ndarray) -> bool:
+    """The run's early points and packed bests when it is one chain of work (see above);
+    False, with nothing written, when it is not."""
+    lk = f.links
+    found = _chain_links(lk, run)
+    if found is None:
+        return False
+    who, src = found
+    dur = lk.t_dur[run.s0 : run.s1]
+    if not dur.all():
+        return False  # a milestone: the loop sets its reading flags
+    n = points.shape[1]
+    prev = who[:-1]
+    reads_finish = src[1:] == prev + n
+    if not (reads_finish | (src[1:] == prev)).all():
+        return False  # some link comes from elsewhere than the step before
+    add = lk.add[run.a : run.b]
+    c = add[1:] + np.where(reads_finish, dur[:-1], 0)
+    total = np.concatenate((np.zeros(1, dtype=np.int64), np.cumsum(c)))
+    floor = f.t_floor[run.s0 : run.s1]
+    first_top = int(points.reshape(-1)[src[0]] + add[0])  # from an earlier level: final
+    lowest = floor - total
+    lowest[0] = max(first_top, int(floor[0]))
+    es = np.maximum.accumulate(lowest) + total
+    top = np.empty_like(es)
+    top[0] = first_top
+    top[1:] = es[:-1] + c
+    points[0, who] = es
+    points[1, who] = es + dur
+    shift = f.shift  # packed as in the loop: the bound, then the link's position
+    best[who] = (top << shift) | ((1 << shift) - 1 - np.arange(run.a, run.b, dtype=np.int64))
+    return True
+
+
+def _backward_chain(f: BackwardInputs, run: Run, late: np.ndarray) -> bool:
+    """The run's late points when it is one chain (see above); False, with nothing written,
+    when it is not. Going back each activity's one link comes from the step after it."""
+    lk = f.links
+    found = _chain_links(lk, run)
+    if found is None:
+        return False
+    who, src = found
+    n = late.shape[1]
+    after = who[1:]
+    reads_start = src[:-1] == after
+    if not (reads_start | (src[:-1] == after + n)).all():
+        return False
+    dur = lk.t_dur[run.s0 : run.s1]
+    add = lk.add[run.a : run.b]
+    latest = f.t_latest[run.s0 : run.s1]
+    # lf[k] = min(lf[k+1] + e[k], latest[k]), taken from the last activity of the run back
+    e = (add[:-1] - np.where(reads_start, dur[1:], 0))[::-1]
+    total = np.concatenate((np.zeros(1, dtype=np.int64), np.cumsum(e)))
+    highest = latest[::-1] - total
+    highest[0] = min(int(late.reshape(-1)[src[-1]] + add[-1]), int(latest[-1]))
+    lf = (np.minimum.accumulate(highest) + total)[::-1]
+    late[1, who] = lf
+    late[0, who] = lf - dur
+    return True
