@@ -179,13 +179,6 @@ def _int(value: int) -> str:
     return int.__repr__(value) if type(value) is int else _compact(value)
 
 
-def _bool(value: bool) -> str:
-    """True or False as the encoder writes them (anything else: the encoder's own text)."""
-    if value is True:
-        return "true"
-    return "false" if value is False else _compact(value)
-
-
 def _date(value: date | None) -> str:
     """A date (or None) as :func:`activity_json` gives it to the encoder."""
     return f'"{value.isoformat()}"' if value else "null"
