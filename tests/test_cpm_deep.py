@@ -42,7 +42,7 @@ _TYPES = (LinkType.FS,) * 6 + (LinkType.SS, LinkType.FF, LinkType.SF)
 def deep_case(seed: int, *, chain: bool = False) -> tuple[Site, date, dict, dict, dict]:
     """A band network ``width`` wide and 40 to 400 levels deep, on the calendars, settings and
     status of :func:`random_case`; some cases run years past the first calendar range.
-    ``chain``: one chain (width 1) on the site's own calendar, milestones now and then."""
+    ``chain``: one chain (width 1) on the site's own calendar."""
     site, status, _, lost, _ = random_case(seed)
     rng = random.Random(seed + 10_007)
     width = 1 if chain else rng.choice((1, 1, 2, 3, 5, 8))
@@ -56,7 +56,7 @@ def deep_case(seed: int, *, chain: bool = False) -> tuple[Site, date, dict, dict
         Activity(
             aid,
             f"Step {k}",
-            0 if rng.random() < (0.01 if chain else 0.1) and not plain else rng.randint(1, longest),
+            0 if rng.random() < 0.1 and not plain else rng.randint(1, longest),
             rng.choice(cals),
             start_not_before=site.start + timedelta(days=rng.randint(0, 400))
             if rng.random() < 0.02
@@ -111,7 +111,7 @@ def test_chains_on_one_calendar_match_the_reference(seed: int, level_mode: str) 
 
 def test_the_chain_cases_take_the_running_maximum_and_minimum(monkeypatch) -> None:
     """The chain cases above do reach the solved-at-once way, both ways, and not always
-    (a milestone, a link over several steps or a progress floor sends a run to the loop)."""
+    (a link over several steps sends a run to the loop)."""
     taken: dict[str, list[bool]] = {"forward": [], "backward": []}
     for name, attr in (("forward", "_forward_chain"), ("backward", "_backward_chain")):
         real = getattr(thin_levels, attr)

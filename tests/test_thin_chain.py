@@ -6,8 +6,9 @@ of the loop. The reference here is that loop itself, the way every other run is 
 itself checked against the frozen reference engine in tests/test_cpm_deep.py): random chains
 with every kind of source point (start or finish of the step before), leads and lags, and
 floors and latest points drawn close to the computed values so that ties between a link and
-a date are common. Every array the run writes must be equal, the packed bests included (they
-decide whether a link or a date drives an activity). All data is invented.
+a date are common, milestones alone and in rows. Every array the run writes must be equal,
+the packed bests (they decide whether a link or a date drives an activity) and the
+milestones' reading flags included. All data is invented.
 """
 
 from __future__ import annotations
@@ -32,7 +33,8 @@ def chains(draw: st.DrawFn) -> dict:
         "m": m,
         "reads_end": draw(st.lists(st.booleans(), min_size=m, max_size=m)),
         "add": draw(st.lists(ints(-4, 6), min_size=m, max_size=m)),
-        "dur": draw(st.lists(ints(1, 5), min_size=m, max_size=m)),
+        "dur": draw(st.lists(st.sampled_from((0, 0, 1, 2, 5)), min_size=m, max_size=m)),
+        "flags": draw(st.lists(st.booleans(), min_size=2, max_size=2)),
         "bound": draw(st.lists(ints(0, 60), min_size=m, max_size=m)),
         "outside": draw(st.tuples(ints(0, 20), ints(20, 200))),
     }
@@ -71,11 +73,13 @@ def test_forward_chain_equals_the_loop(c: dict) -> None:
         points = np.zeros((2, n), dtype=np.int64)
         points[:, 0] = c["outside"]
         flags = np.zeros((2, n), dtype=bool)
+        flags[:, 0] = c["flags"]  # how the activity before the run is read
+        flags[1, 1:] = True  # work is read "after" its finish (milestones get theirs here)
         best = np.full(n, -1, dtype=np.int64)
         return points, flags, best
 
     fast = arrays()
-    assert thin_levels._forward_chain(inputs, run, fast[0], fast[2])
+    assert thin_levels._forward_chain(inputs, run, *fast)
     slow = arrays()
     with pytest.MonkeyPatch.context() as patched:
         patched.setattr(thin_levels, "_forward_chain", lambda *args: False)
@@ -104,15 +108,15 @@ def test_backward_chain_equals_the_loop(c: dict) -> None:
 
 
 def test_a_run_that_is_not_one_chain_is_left_to_the_loop() -> None:
-    """A milestone, a link from two steps back, a cross-calendar link: nothing is written."""
+    """A link from two steps back, a cross-calendar link: nothing is written."""
     c = {"m": 4, "reads_end": [True] * 4, "add": [0] * 4, "dur": [1, 0, 1, 1],
          "bound": [0] * 4, "outside": (0, 1)}  # fmt: skip
     links, run, n = _links(c, backward=False)
     points, best = np.zeros((2, n), dtype=np.int64), np.full(n, -1, dtype=np.int64)
+    flags = np.zeros((2, n), dtype=bool)
     inputs = ForwardInputs(links, 20, np.zeros(4, dtype=np.int64), _NONE)
-    assert not thin_levels._forward_chain(inputs, run, points, best)
-    skip = links._replace(t_dur=np.ones(4, dtype=np.int64), source=links.source.copy())
+    skip = links._replace(source=links.source.copy())
     skip.source[3] = 1  # the fourth step waits on the first, not the third
-    assert not thin_levels._forward_chain(inputs._replace(links=skip), run, points, best)
-    assert not thin_levels._forward_chain(inputs, run._replace(c1=1), points, best)
-    assert not points.any() and (best == -1).all()
+    assert not thin_levels._forward_chain(inputs._replace(links=skip), run, points, flags, best)
+    assert not thin_levels._forward_chain(inputs, run._replace(c1=1), points, flags, best)
+    assert not points.any() and not flags.any() and (best == -1).all()

@@ -156,7 +156,7 @@ def forward_run(
     A link's bound is compared as is; the first link in order that reaches the maximum wins
     (strictly greater replaces), which is what the packed maximum of ``passes`` picks.
     """
-    if _forward_chain(f, run, points, best):
+    if _forward_chain(f, run, points, flags, best):
         return
     a, s0, s1, c0, c1 = run.a, run.s0, run.s1, run.c0, run.c1
     lk = f.links
@@ -257,8 +257,9 @@ def backward_run(f: BackwardInputs, run: Run, late: np.ndarray, tables: Calendar
 # ``es[k] = max(es[k-1] + c[k], floor[k])`` (``c[k]``: the link's addition, plus the step
 # before's duration when the link reads its finish), so with ``C`` the running sum of ``c``,
 # ``es[k] = C[k] + max(es[0], max(floor[j] - C[j] for 1 <= j <= k))``: one
-# ``maximum.accumulate``. Going back it is the same with min. The one-at-a-time loop stays for
-# anything else, and for milestones (their reading flags follow the link that drives them).
+# ``maximum.accumulate``. Going back it is the same with min. A milestone's reading flag
+# follows the link that drives it, along a row of milestones too (:func:`_milestone_flags`).
+# The one-at-a-time loop stays for anything else.
 
 
 def _chain_links(lk: Links, run: Run) -> tuple[np.ndarray, np.ndarray] | None:
@@ -272,17 +273,17 @@ def _chain_links(lk: Links, run: Run) -> tuple[np.ndarray, np.ndarray] | None:
     return lk.targets[s0:s1], lk.source[a:b]
 
 
-def _forward_chain(f: ForwardInputs, run: Run, points: np.ndarray, best: np.ndarray) -> bool:
-    """The run's early points and packed bests when it is one chain of work (see above);
-    False, with nothing written, when it is not."""
+def _forward_chain(
+    f: ForwardInputs, run: Run, points: np.ndarray, flags: np.ndarray, best: np.ndarray
+) -> bool:
+    """The run's early points, packed bests and milestone flags when it is one chain (see
+    above); False, with nothing written, when it is not."""
     lk = f.links
     found = _chain_links(lk, run)
     if found is None:
         return False
     who, src = found
     dur = lk.t_dur[run.s0 : run.s1]
-    if not dur.all():
-        return False  # a milestone: the loop sets its reading flags
     n = points.shape[1]
     prev = who[:-1]
     reads_finish = src[1:] == prev + n
@@ -303,7 +304,30 @@ def _forward_chain(f: ForwardInputs, run: Run, points: np.ndarray, best: np.ndar
     points[1, who] = es + dur
     shift = f.shift  # packed as in the loop: the bound, then the link's position
     best[who] = (top << shift) | ((1 << shift) - 1 - np.arange(run.a, run.b, dtype=np.int64))
+    milestone = dur == 0
+    if milestone.any():
+        after = _milestone_flags(flags.reshape(-1)[src], top > floor, milestone)
+        flags[0, who[milestone]] = after
+        flags[1, who[milestone]] = after
     return True
+
+
+def _milestone_flags(read: np.ndarray, above: np.ndarray, milestone: np.ndarray) -> np.ndarray:
+    """Each milestone's reading flag, as the loop sets it: the flag of the point its link
+    reads, and its link's bound above its floor. A milestone right after another reads that
+    one's new flag, so along a row of milestones the flag is the first one's read flag and
+    every bound above its floor since: a running "since when" over the row.
+
+    ``read``: the flag each link reads as it was before the run (final for work and for
+    anything outside the run); ``above``: bound > floor, per activity.
+    """
+    k = np.arange(milestone.size)
+    follows = np.zeros_like(milestone)
+    follows[1:] = milestone[:-1]  # the step before is a milestone too
+    row_start = np.maximum.accumulate(np.where(milestone & ~follows, k, -1))
+    last_below = np.maximum.accumulate(np.where(milestone & ~above, k, -1))
+    flag = read[row_start] & (last_below < row_start)
+    return flag[milestone]
 
 
 def _backward_chain(f: BackwardInputs, run: Run, late: np.ndarray) -> bool:
