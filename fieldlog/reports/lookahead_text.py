@@ -20,7 +20,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from fieldlog.bounds import SHEET_WIDTHS
 from fieldlog.engine.progress import Status
 from fieldlog.lookahead import fewest_text
 from fieldlog.lookahead.build import ActivityRow, Lookahead
@@ -29,7 +28,6 @@ from fieldlog.lookahead.reasons import MONTHS, WEEKDAYS, date_text, working_days
 from fieldlog.reports.text_fit import abbreviate, fit, right, to_ascii, width, wrap
 from fieldlog.reports.words import against_required, count, days
 
-WIDTHS = SHEET_WIDTHS
 PAGE_LINES = 60
 MIN_NAME = 10
 
