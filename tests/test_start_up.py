@@ -208,15 +208,7 @@ def test_the_command_asks_numpy_for_one_blas_thread_unless_the_user_set_it(given
     assert done.stdout.strip() == seen
 
 
-_FORMAT_PROBE = """\
-import sys
-from fieldlog.cli import main
-code = main(["lookahead", sys.argv[1], "--format", sys.argv[2]])
-sys.stdout.flush()
-found = sorted(m for m in sys.modules if m.startswith("fieldlog.reports.lookahead_"))
-print("IMPORTED:" + ",".join(found), file=sys.stderr)
-sys.exit(code)
-"""
+WRITERS = tuple(f"fieldlog.reports.lookahead_{w}" for w in ("data", "text", "ics"))
 
 
 @pytest.mark.parametrize(
@@ -224,5 +216,8 @@ sys.exit(code)
     [("json", "lookahead_data"), ("csv", "lookahead_data"), ("text", "lookahead_text")],
 )
 def test_the_lookahead_imports_only_the_writer_of_its_format(sample_site, tmp_path, fmt, writer):
-    found = probe_imports([_FORMAT_PROBE, str(sample_site), fmt], tmp_path / "home")
+    probe = _PROBE.replace(
+        'main(["schedule", sys.argv[1]])', f'main(["lookahead", sys.argv[1], "--format", "{fmt}"])'
+    )
+    found = probe_imports([probe, str(sample_site), *WRITERS], tmp_path / "home")
     assert found == {f"fieldlog.reports.{writer}"}
